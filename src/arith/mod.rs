@@ -1,0 +1,12 @@
+//! Integer arithmetic: primes, valuations, residue symbols, square roots
+//! modulo primes, factorisation and Hilbert symbols.
+//!
+//! Word-sized kernels (`u64`, `i64`, with `u128` intermediates) sit beside
+//! functions on malachite [`Integer`](malachite::Integer)s; the big-integer
+//! functions dispatch to the word kernels when the value fits.
+
+mod word;
+mod symbols;
+
+pub use word::{mul_mod, pow_mod, is_prime_u64, primes_up_to, gcd_u64, inv_mod};
+pub use symbols::{jacobi_u64, kronecker_i64, jacobi, kronecker, valuation, valuation_u64, sqrt_mod_prime, is_square};

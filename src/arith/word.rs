@@ -1,0 +1,199 @@
+//! Machine-word kernels: modular multiplication, powers, primality and a
+//! bit sieve of Eratosthenes.
+
+/// `a * b mod m` for `m > 0`, through a 128-bit product.
+///
+/// ```
+/// assert_eq!(twofold::arith::mul_mod(u64::MAX - 1, u64::MAX - 1, u64::MAX), 1);
+/// ```
+#[inline]
+pub fn mul_mod(a: u64, b: u64, m: u64) -> u64 {
+    ((a as u128 * b as u128) % m as u128) as u64
+}
+
+/// `b^e mod m` for `m > 0` by square and multiply.
+///
+/// ```
+/// assert_eq!(twofold::arith::pow_mod(3, 4, 7), 81 % 7);
+/// assert_eq!(twofold::arith::pow_mod(2, 1_000_000_006, 1_000_000_007), 1); // Fermat
+/// ```
+pub fn pow_mod(mut b: u64, mut e: u64, m: u64) -> u64 {
+    if m == 1 {
+        return 0;
+    }
+    let mut r = 1u64;
+    b %= m;
+    while e > 0 {
+        if e & 1 == 1 {
+            r = mul_mod(r, b, m);
+        }
+        b = mul_mod(b, b, m);
+        e >>= 1;
+    }
+    r
+}
+
+/// Greatest common divisor of two words (binary algorithm).
+///
+/// ```
+/// assert_eq!(twofold::arith::gcd_u64(12, 18), 6);
+/// assert_eq!(twofold::arith::gcd_u64(0, 7), 7);
+/// ```
+pub fn gcd_u64(mut a: u64, mut b: u64) -> u64 {
+    if a == 0 {
+        return b;
+    }
+    if b == 0 {
+        return a;
+    }
+    let shift = (a | b).trailing_zeros();
+    a >>= a.trailing_zeros();
+    loop {
+        b >>= b.trailing_zeros();
+        if a > b {
+            std::mem::swap(&mut a, &mut b);
+        }
+        b -= a;
+        if b == 0 {
+            return a << shift;
+        }
+    }
+}
+
+/// The inverse of `a` modulo `m`, if `gcd(a, m) = 1` (extended Euclid).
+///
+/// ```
+/// assert_eq!(twofold::arith::inv_mod(3, 7), Some(5));
+/// assert_eq!(twofold::arith::inv_mod(2, 4), None);
+/// ```
+pub fn inv_mod(a: u64, m: u64) -> Option<u64> {
+    if m == 0 {
+        return None;
+    }
+    let (mut r0, mut r1) = (m as i128, (a % m) as i128);
+    let (mut t0, mut t1) = (0i128, 1i128);
+    while r1 != 0 {
+        let q = r0 / r1;
+        (r0, r1) = (r1, r0 - q * r1);
+        (t0, t1) = (t1, t0 - q * t1);
+    }
+    if r0 != 1 {
+        return if m == 1 { Some(0) } else { None };
+    }
+    Some(t0.rem_euclid(m as i128) as u64)
+}
+
+/// Deterministic primality test for every `u64`: trial division by small
+/// primes, then the strong probable-prime test to the seven bases of
+/// Jaeschke/Sinclair, which has no composite pseudoprime below 2^64.
+///
+/// ```
+/// use twofold::arith::is_prime_u64;
+/// assert!(is_prime_u64(2) && is_prime_u64(18446744073709551557));
+/// assert!(!is_prime_u64(1) && !is_prime_u64(3215031751)); // strong pseudoprime to 2,3,5,7
+/// ```
+pub fn is_prime_u64(n: u64) -> bool {
+    if n < 2 {
+        return false;
+    }
+    for p in [2u64, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37] {
+        if n % p == 0 {
+            return n == p;
+        }
+    }
+    if n < 41 * 41 {
+        return true;
+    }
+    let d = (n - 1) >> (n - 1).trailing_zeros();
+    let s = (n - 1).trailing_zeros();
+    'witness: for a in [2u64, 325, 9375, 28178, 450775, 9780504, 1795265022] {
+        let a = a % n;
+        if a == 0 {
+            continue;
+        }
+        let mut x = pow_mod(a, d, n);
+        if x == 1 || x == n - 1 {
+            continue;
+        }
+        for _ in 1..s {
+            x = mul_mod(x, x, n);
+            if x == n - 1 {
+                continue 'witness;
+            }
+        }
+        return false;
+    }
+    true
+}
+
+/// All primes `p <= n`, by a sieve of Eratosthenes over odd numbers kept as
+/// bits in `u64` words.
+///
+/// ```
+/// assert_eq!(twofold::arith::primes_up_to(20), vec![2, 3, 5, 7, 11, 13, 17, 19]);
+/// ```
+pub fn primes_up_to(n: u64) -> Vec<u64> {
+    let mut out = Vec::new();
+    if n < 2 {
+        return out;
+    }
+    out.push(2);
+    // bit i stands for 2i+1
+    let len = ((n - 1) / 2 + 1) as usize;
+    let mut bits = vec![u64::MAX; len.div_ceil(64)];
+    bits[0] &= !1; // 1 is not prime
+    let mut i = 1usize;
+    while (2 * i + 1) * (2 * i + 1) <= n as usize {
+        if bits[i / 64] >> (i % 64) & 1 == 1 {
+            let p = 2 * i + 1;
+            let mut j = (p * p) / 2;
+            while j < len {
+                bits[j / 64] &= !(1u64 << (j % 64));
+                j += p;
+            }
+        }
+        i += 1;
+    }
+    for (w, &word) in bits.iter().enumerate() {
+        let mut word = word;
+        while word != 0 {
+            let b = word.trailing_zeros() as usize;
+            let idx = w * 64 + b;
+            if idx >= len {
+                break;
+            }
+            out.push(2 * idx as u64 + 1);
+            word &= word - 1;
+        }
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn naive_prime(n: u64) -> bool {
+        n >= 2 && (2..).take_while(|d| d * d <= n).all(|d| n % d != 0)
+    }
+
+    #[test]
+    fn primality_agrees_with_trial_division() {
+        for n in 0..20_000u64 {
+            assert_eq!(is_prime_u64(n), naive_prime(n), "n = {n}");
+        }
+        // Known strong pseudoprimes to several small bases (from memory:
+        // 3215031751 = 151*751*28351 is spsp(2,3,5,7)).
+        assert!(!is_prime_u64(3215031751));
+        assert!(!is_prime_u64(3825123056546413051)); // spsp to bases 2..23 (from memory)
+        assert!(is_prime_u64(1_000_000_007));
+    }
+
+    #[test]
+    fn sieve_agrees_with_primality() {
+        let ps = primes_up_to(100_000);
+        let want: Vec<u64> = (0..=100_000).filter(|&n| is_prime_u64(n)).collect();
+        assert_eq!(ps, want);
+        assert_eq!(primes_up_to(1_000_000).len(), 78_498); // pi(10^6), a classical value
+    }
+}
