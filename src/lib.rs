@@ -3,7 +3,8 @@
 
 pub mod arith;
 pub mod curve;
+pub mod torsion;
 mod error;
 
-pub use curve::{Curve, ModelChange};
+pub use curve::{Curve, ModelChange, Point};
 pub use error::{Error, ErrorKind};

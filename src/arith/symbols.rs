@@ -176,17 +176,8 @@ pub fn is_square(n: &Integer) -> bool {
     if *n < Integer::ZERO {
         return false;
     }
-    n.unsigned_abs_ref().checked_sqrt().is_some()
-}
-
-trait AbsRef {
-    fn unsigned_abs_ref(&self) -> Natural;
-}
-impl AbsRef for Integer {
-    fn unsigned_abs_ref(&self) -> Natural {
-        use malachite::base::num::arithmetic::traits::UnsignedAbs;
-        self.unsigned_abs()
-    }
+    use malachite::base::num::arithmetic::traits::UnsignedAbs;
+    n.clone().unsigned_abs().checked_sqrt().is_some()
 }
 
 #[cfg(test)]

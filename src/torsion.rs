@@ -1,0 +1,233 @@
+//! The torsion subgroup E(Q)_tors, found rigorously.
+//!
+//! Method (Silverman-Tate, Rational Points on Elliptic Curves, II.4-II.5;
+//! Silverman, AEC VII.3): on the integral short model
+//! `Y^2 = X^3 - 27 c4 X - 54 c6` every torsion point has integer coordinates
+//! with `Y = 0` or `Y^2 | 4A^3 + 27B^2 = -2^8 3^12 Delta` (Nagell-Lutz). We
+//! first bound the order by `gcd #E(F_p)` over good odd primes (reduction is
+//! injective on torsion there, AEC VII.3.1), then try every admissible `Y`,
+//! find the integer roots `X` of the cubic exactly, keep the points of finite
+//! order (at most 12 by Mazur's theorem) and map them back to the input model.
+
+use crate::arith::{is_prime_u64, valuation};
+use crate::curve::{Curve, Point};
+use malachite::base::num::arithmetic::traits::{Abs, Sign};
+use malachite::base::num::basic::traits::{One, Zero};
+use malachite::{Integer, Natural, Rational};
+use std::cmp::Ordering;
+
+/// The torsion subgroup: its points, structure and generators.
+///
+/// ```
+/// use twofold::{Curve, torsion::TorsionGroup};
+/// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap(); // 11a1: Z/5 (Cremona's table)
+/// let t = TorsionGroup::compute(&e, &[11u32.into()]);
+/// assert_eq!(t.order(), 5);
+/// assert_eq!(t.invariants(), vec![5]);
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct TorsionGroup {
+    points: Vec<Point>,
+    invariants: Vec<u32>,
+    generators: Vec<Point>,
+    orders: Vec<u32>,
+}
+
+impl TorsionGroup {
+    /// Computes E(Q)_tors. `bad_primes` must contain every prime dividing
+    /// the discriminant of `curve` (it is used to enumerate the square
+    /// divisors in the Nagell-Lutz theorem); primes 2 and 3 are added here.
+    pub fn compute(curve: &Curve, bad_primes: &[Natural]) -> TorsionGroup {
+        let bound = order_bound(curve);
+        let mut points = vec![Point::Infinity];
+        if bound > 1 {
+            for p in nagell_lutz_points(curve, bad_primes) {
+                if let Some(n) = curve.torsion_order_of(&p) {
+                    if bound % n as u64 == 0 && !points.contains(&p) {
+                        points.push(p);
+                    }
+                }
+            }
+        }
+        let (invariants, generators) = structure(curve, &points);
+        let orders = points.iter().map(|p| curve.torsion_order_of(p).unwrap_or(0)).collect();
+        TorsionGroup { points, invariants, generators, orders }
+    }
+
+    /// The order of the group.
+    pub fn order(&self) -> usize {
+        self.points.len()
+    }
+    /// All torsion points, the identity first.
+    pub fn points(&self) -> &[Point] {
+        &self.points
+    }
+    /// The invariant factors `[n]` (cyclic) or `[2, 2m]`; empty for the trivial group.
+    pub fn invariants(&self) -> Vec<u32> {
+        self.invariants.clone()
+    }
+    /// Generators matching [`TorsionGroup::invariants`].
+    pub fn generators(&self) -> &[Point] {
+        &self.generators
+    }
+    /// The points of order 2 (zero, one or three of them).
+    pub fn two_torsion(&self) -> Vec<Point> {
+        self.points
+            .iter()
+            .zip(&self.orders)
+            .filter(|(_, &o)| o == 2)
+            .map(|(p, _)| p.clone())
+            .collect()
+    }
+    /// The orders of the points, in the order of [`TorsionGroup::points`].
+    pub fn orders(&self) -> &[u32] {
+        &self.orders
+    }
+}
+
+/// `gcd` of `#E(F_p)` over the first good primes `p >= 3`, which the torsion
+/// order divides (AEC VII.3.1). Uses up to 30 primes.
+pub fn order_bound(curve: &Curve) -> u64 {
+    let mut g = 0u64;
+    let mut used = 0;
+    let disc = curve.discriminant();
+    let mut p = 3u64;
+    while used < 30 && p < 2000 {
+        if is_prime_u64(p) && valuation(disc, &Natural::from(p)) == Some(0) {
+            g = crate::arith::gcd_u64(g, curve.count_points_mod(p));
+            used += 1;
+            if g == 1 {
+                break;
+            }
+        }
+        p += 2;
+    }
+    g
+}
+
+fn nagell_lutz_points(curve: &Curve, bad_primes: &[Natural]) -> Vec<Point> {
+    let a = Integer::from(-27) * curve.c4();
+    let b = Integer::from(-54) * curve.c6();
+    let d = Integer::from(4) * &a * &a * &a + Integer::from(27) * &b * &b;
+    // exponents of d at its primes
+    let mut primes: Vec<Natural> = bad_primes.to_vec();
+    for q in [2u32, 3] {
+        if !primes.contains(&Natural::from(q)) {
+            primes.push(Natural::from(q));
+        }
+    }
+    let mut rest = d.clone().abs();
+    let mut ys: Vec<Integer> = vec![Integer::ONE];
+    for p in &primes {
+        let v = valuation(&d, p).unwrap_or(0);
+        let pi = Integer::from(p.clone());
+        for _ in 0..v {
+            rest /= &pi;
+        }
+        let mut next = Vec::new();
+        for y in &ys {
+            let mut f = y.clone();
+            for _ in 0..=v / 2 {
+                next.push(f.clone());
+                f *= &pi;
+            }
+        }
+        ys = next;
+    }
+    assert!(rest == Integer::ONE, "bad_primes must contain every prime dividing the discriminant");
+    ys.push(Integer::ZERO);
+    let [a1, _, a3, _, _] = curve.ainvs();
+    let b2 = &curve.binvs()[0];
+    let mut out = Vec::new();
+    for y in ys {
+        let c = &b - &y * &y;
+        for x in integer_roots_depressed_cubic(&a, &c) {
+            for yy in if y == 0 { vec![y.clone()] } else { vec![y.clone(), -y.clone()] } {
+                // back to the input model: X = 36x + 3 b2, Y = 108 (2y + a1 x + a3)
+                let xq = Rational::from_integers(&x - Integer::from(3) * b2, Integer::from(36));
+                let eta = Rational::from_integers(yy.clone(), Integer::from(108));
+                let yq = (eta - Rational::from(a1.clone()) * &xq - Rational::from(a3.clone())) / Rational::from(2);
+                let pt = Point::Affine(xq, yq);
+                if curve.contains(&pt) {
+                    out.push(pt);
+                }
+            }
+        }
+    }
+    out
+}
+
+fn cubic(x: &Integer, a: &Integer, c: &Integer) -> Integer {
+    x * x * x + a * x + c
+}
+
+/// All integer roots of `x^3 + a x + c`, exactly (bisection on the monotone
+/// pieces between the critical points).
+pub(crate) fn integer_roots_depressed_cubic(a: &Integer, c: &Integer) -> Vec<Integer> {
+    let bound = Integer::ONE + a.clone().abs() + c.clone().abs();
+    let mut cuts = vec![-bound.clone()];
+    if *a < 0 {
+        // critical points at +-sqrt(-a/3); integer neighbours suffice as cut points
+        let s = Integer::from(malachite::base::num::arithmetic::traits::FloorSqrt::floor_sqrt(
+            Natural::try_from(-a.clone() / Integer::from(3)).unwrap(),
+        ));
+        cuts.push(-(&s) - Integer::ONE);
+        cuts.push(-(&s));
+        cuts.push(s.clone());
+        cuts.push(s + Integer::ONE);
+    }
+    cuts.push(bound);
+    cuts.sort();
+    cuts.dedup();
+    let mut roots = Vec::new();
+    for w in cuts.windows(2) {
+        let (lo, hi) = (&w[0], &w[1]);
+        for end in [lo, hi] {
+            if cubic(end, a, c) == 0 && !roots.contains(end) {
+                roots.push(end.clone());
+            }
+        }
+        let (flo, fhi) = (cubic(lo, a, c).sign(), cubic(hi, a, c).sign());
+        if flo == Ordering::Equal || fhi == Ordering::Equal || flo == fhi {
+            continue;
+        }
+        // f is monotone on [lo, hi] except possibly within one unit of a cut
+        let (mut l, mut h) = (lo.clone(), hi.clone());
+        while &h - &l > 1 {
+            let m: Integer = (&l + &h) >> 1u32;
+            let fm = cubic(&m, a, c).sign();
+            if fm == Ordering::Equal {
+                l = m.clone();
+                h = m;
+                break;
+            }
+            if fm == flo { l = m } else { h = m }
+        }
+        for cand in [l, h] {
+            if cubic(&cand, a, c) == 0 && !roots.contains(&cand) {
+                roots.push(cand);
+            }
+        }
+    }
+    roots.sort();
+    roots
+}
+
+fn structure(curve: &Curve, points: &[Point]) -> (Vec<u32>, Vec<Point>) {
+    let n = points.len() as u32;
+    if n == 1 {
+        return (vec![], vec![]);
+    }
+    let order = |p: &Point| curve.torsion_order_of(p).unwrap_or(0);
+    let twos: Vec<&Point> = points.iter().filter(|p| order(p) == 2).collect();
+    let best = points.iter().max_by_key(|p| order(p)).unwrap().clone();
+    if twos.len() == 3 {
+        let m = order(&best);
+        // a 2-torsion point outside <best>
+        let span: Vec<Point> = (0..m as i64).map(|k| curve.multiple(&best, k)).collect();
+        let other = twos.iter().find(|t| !span.contains(t)).map(|t| (*t).clone()).unwrap();
+        (vec![2, m], vec![other, best])
+    } else {
+        (vec![n], vec![best])
+    }
+}
