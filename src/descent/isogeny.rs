@@ -1,0 +1,531 @@
+//! Descent via a rational 2-isogeny (Silverman, AEC X.4 and X.6;
+//! Silverman-Tate, Rational Points on Elliptic Curves, III.5-III.6;
+//! Cremona, Algorithms for Modular Elliptic Curves, 3.2-3.4).
+//!
+//! With a rational point T of order 2 moved to (0,0) on an integral model
+//! `E: y^2 = x(x^2 + a x + b)`, the isogenous curve is
+//! `E': y^2 = x(x^2 - 2a x + a^2 - 4b)`, with `phi: E -> E'` of kernel {O, T}
+//! and dual `phi': E' -> E`. The connecting map
+//! `alpha: E(Q) -> Q*/Q*^2`, `(x, y) -> x`, `T -> b`, `O -> 1`, has kernel
+//! `phi'(E'(Q))` and image inside the square-free divisors `d` of `b`;
+//! `d` is in the image iff the quartic `N^2 = d M^4 + a M^2 e^2 + (b/d) e^4`
+//! has a rational point, and in the Selmer group iff it has points
+//! everywhere locally. Likewise `alpha'` on E'. Then
+//! `rank E(Q) = (dim alpha(E(Q)) - dim alpha(E(Q)_tors)) + (dim alpha'(E'(Q)) - dim alpha'(E'(Q)_tors))`.
+
+use super::f2::{kernel, F2Span, SquareClasses};
+use crate::arith::{jacobi, valuation};
+use crate::budget::{Budget, RankOptions, Stage};
+use crate::curve::{Curve, Point};
+use crate::error::{Error, ErrorKind};
+use crate::search::{search_curve, search_quartic, SearchLimits};
+use crate::solubility::{local_witness, LocalWitness, Place};
+use crate::torsion::TorsionGroup;
+use malachite::base::num::arithmetic::traits::{DivisibleBy, Mod};
+use malachite::base::num::basic::traits::{One, Zero};
+use malachite::{Integer, Natural, Rational};
+
+/// One side of a 2-isogeny descent: the curve `y^2 = x(x^2 + a x + b)` and
+/// the Selmer group of square-free divisors `d` of `b` whose coverings
+/// `N^2 = d M^4 + a M^2 e^2 + (b/d) e^4` are everywhere locally soluble.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct IsogenySide {
+    /// `a` of the model `y^2 = x(x^2 + a x + b)`.
+    pub a: Integer,
+    /// `b` of the model.
+    pub b: Integer,
+    /// A basis of the Selmer group, as square-free integers.
+    pub selmer_basis: Vec<Integer>,
+    /// Dimension of the Selmer group over F2.
+    pub selmer_dim: usize,
+    /// Dimension of the image of the torsion subgroup.
+    pub torsion_dim: usize,
+    /// Dimension of the image of the torsion and of the points found.
+    pub found_dim: usize,
+    /// Points of infinite order found on this side, on this side's model,
+    /// with their images `d` (independent modulo the torsion image).
+    pub points: Vec<(Integer, Point)>,
+    /// Selmer classes (a basis of a complement of the found image) whose
+    /// coverings are everywhere locally soluble but where the search found no point.
+    pub unexplained: Vec<Integer>,
+    /// For every place tested, the local image (classes of `Q_v*/Q_v*^2`,
+    /// as integer representatives) with a witness for each soluble class.
+    pub local_images: Vec<LocalImage>,
+}
+
+/// The local image at one place: the classes of `Q_v*/Q_v*^2` (given by
+/// integer representatives) whose covering is soluble over `Q_v`, each with
+/// a witness point.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct LocalImage {
+    /// The place.
+    pub place: Place,
+    /// Soluble classes with their witnesses.
+    pub soluble: Vec<(Integer, LocalWitness)>,
+    /// Classes whose covering has no point over `Q_v`.
+    pub insoluble: Vec<Integer>,
+}
+
+/// The result of descent through one 2-isogeny.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct IsogenyDescent {
+    /// The kernel point T, on the curve's own model.
+    pub kernel_point: Point,
+    /// The side of E (images of alpha, divisors of b).
+    pub side_e: IsogenySide,
+    /// The side of E' (images of alpha', divisors of b').
+    pub side_e_prime: IsogenySide,
+    /// Lower bound for the rank.
+    pub lower: usize,
+    /// Upper bound for the rank; `None` if the budget ran out before the
+    /// Selmer groups were complete.
+    pub upper: Option<usize>,
+    /// Points of infinite order on the curve's own model, independent
+    /// modulo torsion (their number is `lower`).
+    pub points: Vec<Point>,
+    /// Whether the search was cut short by the budget.
+    pub search_complete: bool,
+}
+
+/// The change between the curve's own model and `y^2 = x(x^2 + a x + b)`:
+/// `X = 36 x + 3 b2 = u^2 x'' + x0`, `Y = 108 (2 y + a1 x + a3) = u^3 y''`.
+#[derive(Clone, Debug)]
+struct TwoTorsionModel {
+    a: Integer,
+    b: Integer,
+    x0: Integer,
+    u: Integer,
+}
+
+impl TwoTorsionModel {
+    fn new(curve: &Curve, t: &Point) -> Option<TwoTorsionModel> {
+        let Point::Affine(x, _) = t else { return None };
+        let b2 = &curve.binvs()[0];
+        let big_x = Rational::from(36) * x + Rational::from(3 * b2.clone());
+        let (n, d) = big_x.to_numerator_and_denominator();
+        if d != Natural::ONE {
+            return None;
+        }
+        let x0 = if big_x < 0 { -Integer::from(n) } else { Integer::from(n) };
+        let mut a = Integer::from(3) * &x0;
+        let mut b = Integer::from(3) * &x0 * &x0 - Integer::from(27) * curve.c4();
+        let mut u = Integer::ONE;
+        for p in [2i32, 3] {
+            let p = Integer::from(p);
+            let (p2, p4) = (&p * &p, &p * &p * &p * &p);
+            while (&a).divisible_by(&p2) && (&b).divisible_by(&p4) {
+                a /= &p2;
+                b /= &p4;
+                u *= &p;
+            }
+        }
+        Some(TwoTorsionModel { a, b, x0, u })
+    }
+
+    fn to_user(&self, curve: &Curve, p: &Point) -> Point {
+        match p {
+            Point::Infinity => Point::Infinity,
+            Point::Affine(x2, y2) => {
+                let [a1, _, a3, _, _] = curve.ainvs();
+                let u = Rational::from(self.u.clone());
+                let big_x = &u * &u * x2 + Rational::from(self.x0.clone());
+                let big_y = &u * &u * &u * y2;
+                let x = (big_x - Rational::from(Integer::from(3) * &curve.binvs()[0])) / Rational::from(36);
+                let y = (big_y / Rational::from(108) - Rational::from(a1.clone()) * &x - Rational::from(a3.clone()))
+                    / Rational::from(2);
+                Point::Affine(x, y)
+            }
+        }
+    }
+
+    fn from_user(&self, curve: &Curve, p: &Point) -> Point {
+        match p {
+            Point::Infinity => Point::Infinity,
+            Point::Affine(x, y) => {
+                let [a1, _, a3, _, _] = curve.ainvs();
+                let big_x = Rational::from(36) * x + Rational::from(Integer::from(3) * &curve.binvs()[0]);
+                let big_y = Rational::from(108)
+                    * (Rational::from(2) * y + Rational::from(a1.clone()) * x + Rational::from(a3.clone()));
+                let u = Rational::from(self.u.clone());
+                Point::Affine((big_x - Rational::from(self.x0.clone())) / (&u * &u), big_y / (&u * &u * &u))
+            }
+        }
+    }
+}
+
+fn side_curve(a: &Integer, b: &Integer) -> Curve {
+    Curve::new([Integer::ZERO, a.clone(), Integer::ZERO, b.clone(), Integer::ZERO]).expect("isogenous model is non-singular")
+}
+
+/// alpha on the side model y^2 = x(x^2 + a x + b).
+fn alpha(p: &Point, b: &Integer) -> Rational {
+    match p {
+        Point::Infinity => Rational::ONE,
+        Point::Affine(x, _) if *x == Rational::ZERO => Rational::from(b.clone()),
+        Point::Affine(x, _) => x.clone(),
+    }
+}
+
+/// phi': E' -> E for E' = (a', b'): (x, y) -> (y^2 / 4x^2, y (b' - x^2) / 8x^2).
+fn dual_map(p: &Point, b_prime: &Integer) -> Point {
+    match p {
+        Point::Affine(x, y) if *x != Rational::ZERO => {
+            let x2 = x * x;
+            Point::Affine(
+                y * y / (Rational::from(4) * &x2),
+                y * (Rational::from(b_prime.clone()) - &x2) / (Rational::from(8) * &x2),
+            )
+        }
+        _ => Point::Infinity,
+    }
+}
+
+/// Representatives of Q_v*/Q_v*^2 and the coordinates of a square-free integer there.
+fn local_reps(place: &Place) -> Vec<Integer> {
+    match place {
+        Place::Real => vec![Integer::ONE, Integer::from(-1)],
+        Place::Prime(p) if *p == 2u32 => [1, 5, -1, -5, 2, 10, -2, -10].iter().map(|&c| Integer::from(c)).collect(),
+        Place::Prime(p) => {
+            let pi = Integer::from(p.clone());
+            let mut n = Integer::from(2);
+            while jacobi(&n, &pi) != -1 {
+                n += Integer::ONE;
+            }
+            vec![Integer::ONE, n.clone(), pi.clone(), n * pi]
+        }
+    }
+}
+
+/// Coordinates of a non-zero integer in Q_v*/Q_v*^2 (1 bit at R, 2 at odd p, 3 at 2).
+fn local_coords(d: &Integer, place: &Place) -> u8 {
+    match place {
+        Place::Real => (*d < 0) as u8,
+        Place::Prime(p) => {
+            let v = valuation(d, p).unwrap_or(0);
+            let mut u = d.clone();
+            let pi = Integer::from(p.clone());
+            for _ in 0..v {
+                u /= &pi;
+            }
+            if *p == 2u32 {
+                let r = u64::try_from(&(&u).mod_op(Integer::from(8))).unwrap();
+                let minus = (r % 4 == 3) as u8;
+                let five = (r == 3 || r == 5) as u8;
+                ((v % 2) as u8) | minus << 1 | five << 2
+            } else {
+                ((v % 2) as u8) | ((jacobi(&u, &pi) == -1) as u8) << 1
+            }
+        }
+    }
+}
+
+/// The covering quartic for the class `c` at a place: `c^2 (c M^4 + a M^2 e^2 + (b/c) e^4)`.
+fn local_quartic(c: &Integer, a: &Integer, b: &Integer) -> [Integer; 5] {
+    [c * c * c, Integer::ZERO, a * c * c, Integer::ZERO, b * c]
+}
+
+/// The global covering quartic `d M^4 + a M^2 e^2 + (b/d) e^4` for `d | b`.
+pub(crate) fn covering_quartic(d: &Integer, a: &Integer, b: &Integer) -> [Integer; 5] {
+    [d.clone(), Integer::ZERO, a.clone(), Integer::ZERO, b / d]
+}
+
+struct SideWork {
+    a: Integer,
+    b: Integer,
+    classes: SquareClasses,
+    selmer: F2Span,
+    torsion: F2Span,
+    found: F2Span,
+    points: Vec<(Integer, Point)>,
+    local_images: Vec<LocalImage>,
+}
+
+fn internal(msg: &str) -> Error {
+    Error::new(ErrorKind::InvalidValue, format!("internal consistency check failed: {msg}"))
+}
+
+/// Computes the Selmer group of one side by local images at R, 2 and the
+/// odd primes of `b b'`. Returns `Ok(false)` if the budget ran out.
+/// `primes` lists 2 and every prime dividing `b b'`; elsewhere the local
+/// condition holds automatically (good reduction at an odd prime, with `d`
+/// a unit there).
+fn selmer_of_side(w: &mut SideWork, primes: &[Natural], budget: &Budget) -> Result<bool, Error> {
+    let mut places = vec![Place::Real];
+    places.extend(primes.iter().cloned().map(Place::Prime));
+    let mut basis: Vec<u64> = (0..w.classes.dim()).map(|i| 1u64 << i).collect();
+    for place in places {
+        if budget.exhausted() {
+            return Ok(false);
+        }
+        let mut soluble = Vec::new();
+        let mut insoluble = Vec::new();
+        let mut local_span: Vec<u8> = Vec::new();
+        for c in local_reps(&place) {
+            let g = local_quartic(&c, &w.a, &w.b);
+            match local_witness(&g, &place) {
+                Some(wit) => {
+                    local_span.push(local_coords(&c, &place));
+                    soluble.push((c, wit));
+                }
+                None => insoluble.push(c),
+            }
+        }
+        // the soluble classes must form a subgroup (they are the image of a homomorphism)
+        for &x in &local_span {
+            for &y in &local_span {
+                if !local_span.contains(&(x ^ y)) {
+                    return Err(internal("local image is not a subgroup"));
+                }
+            }
+        }
+        let nbits = match &place {
+            Place::Real => 1,
+            Place::Prime(p) if *p == 2u32 => 3,
+            _ => 2,
+        };
+        let annihilators: Vec<u8> = (1u8..(1 << nbits))
+            .filter(|f| local_span.iter().all(|&s| (f & s).count_ones() % 2 == 0))
+            .collect();
+        if !annihilators.is_empty() {
+            let images: Vec<u128> = basis
+                .iter()
+                .map(|&v| {
+                    let c = local_coords(&w.classes.integer_of(v), &place);
+                    annihilators
+                        .iter()
+                        .enumerate()
+                        .fold(0u128, |acc, (k, f)| acc | (((f & c).count_ones() % 2) as u128) << k)
+                })
+                .collect();
+            let ker = kernel(&images);
+            basis = ker
+                .iter()
+                .map(|combo| {
+                    (0..basis.len()).filter(|i| combo >> i & 1 == 1).fold(0u64, |acc, i| acc ^ basis[i])
+                })
+                .collect();
+        }
+        w.local_images.push(LocalImage { place, soluble, insoluble });
+    }
+    for v in basis {
+        w.selmer.insert(v);
+    }
+    Ok(true)
+}
+
+/// Runs the descent via the 2-isogeny with kernel {O, t}, where `t` is a
+/// rational point of order 2 on `curve`. `bad_primes` must contain every
+/// prime dividing the discriminant of `curve`.
+pub(crate) fn descend_via_isogeny(
+    curve: &Curve,
+    t: &Point,
+    torsion: &TorsionGroup,
+    bad_primes: &[Natural],
+    options: &RankOptions,
+    budget: &Budget,
+) -> Result<IsogenyDescent, Error> {
+    let model = TwoTorsionModel::new(curve, t).ok_or_else(|| internal("2-torsion point is not integral on the short model"))?;
+    let (a, b) = (model.a.clone(), model.b.clone());
+    let (a1, b1) = (Integer::from(-2) * &a, &a * &a - Integer::from(4) * &b);
+    let mut all_primes: Vec<Natural> = bad_primes.to_vec();
+    for q in [2u32, 3] {
+        if !all_primes.contains(&Natural::from(q)) {
+            all_primes.push(Natural::from(q));
+        }
+    }
+    all_primes.sort();
+    let primes_dividing = |n: &Integer| -> Vec<Natural> {
+        all_primes.iter().filter(|p| n.divisible_by(&Integer::from((*p).clone()))).cloned().collect()
+    };
+    // the primes of b b' are among those of 6 * disc(curve): disc(y^2=x(x^2+ax+b)) = 16 b^2 (a^2 - 4b)
+    let side_primes_e = primes_dividing(&b);
+    let side_primes_e1 = primes_dividing(&b1);
+    let both: Vec<Natural> = {
+        let mut v = primes_dividing(&(&b * &b1));
+        if !v.contains(&Natural::from(2u32)) {
+            v.insert(0, Natural::from(2u32));
+        }
+        v
+    };
+    let e_model = side_curve(&a, &b);
+    let e1_model = side_curve(&a1, &b1);
+    if options.progress.is_some() {
+        (options.progress.as_ref().unwrap())(Stage::Solubility, "2-isogeny Selmer groups");
+    }
+    let mut sides = [
+        SideWork {
+            a: a.clone(),
+            b: b.clone(),
+            classes: SquareClasses::new(side_primes_e),
+            selmer: F2Span::new(),
+            torsion: F2Span::new(),
+            found: F2Span::new(),
+            points: vec![],
+            local_images: vec![],
+        },
+        SideWork {
+            a: a1.clone(),
+            b: b1.clone(),
+            classes: SquareClasses::new(side_primes_e1),
+            selmer: F2Span::new(),
+            torsion: F2Span::new(),
+            found: F2Span::new(),
+            points: vec![],
+            local_images: vec![],
+        },
+    ];
+    let mut complete_selmer = true;
+    for w in sides.iter_mut() {
+        complete_selmer &= selmer_of_side(w, &both, budget)?;
+    }
+    // torsion images
+    let tors_e1 = TorsionGroup::compute(&e1_model, &both);
+    for p in torsion.points() {
+        let q = model.from_user(curve, p);
+        let v = sides[0].classes.vector_of(&alpha(&q, &b)).ok_or_else(|| internal("torsion image outside S"))?;
+        sides[0].torsion.insert(v);
+    }
+    for p in tors_e1.points() {
+        let v = sides[1].classes.vector_of(&alpha(p, &b1)).ok_or_else(|| internal("torsion image outside S"))?;
+        sides[1].torsion.insert(v);
+    }
+    for w in sides.iter_mut() {
+        w.found = w.torsion.clone();
+        if complete_selmer {
+            for &v in w.torsion.basis() {
+                if !w.selmer.contains(v) {
+                    return Err(internal("torsion image outside the Selmer group"));
+                }
+            }
+        }
+    }
+    // search on the curves themselves
+    if let Some(f) = &options.progress {
+        f(Stage::Search, "2-isogeny point search");
+    }
+    let mut search_complete = true;
+    let curve_limits = SearchLimits {
+        height: options.curve_search_height,
+        first_only: false,
+        deadline: budget.deadline,
+        cancel: budget.cancel.clone(),
+    };
+    for (k, model_curve) in [(0usize, &e_model), (1, &e1_model)] {
+        let out = search_curve(model_curve, &curve_limits);
+        search_complete &= out.complete;
+        let bb = sides[k].b.clone();
+        for (x, y) in out.points {
+            let pt = Point::Affine(x, y);
+            let Some(v) = sides[k].classes.vector_of(&alpha(&pt, &bb)) else { continue };
+            if sides[k].found.insert(v) {
+                let d = sides[k].classes.integer_of(v);
+                sides[k].points.push((d, pt));
+            }
+        }
+    }
+    // search on the coverings of Selmer classes not yet explained
+    for k in 0..2 {
+        let sel_elems = if sides[k].selmer.dim() <= 16 { sides[k].selmer.elements() } else { sides[k].selmer.basis().to_vec() };
+        let mut order: Vec<(Integer, u64)> = sel_elems.into_iter().map(|v| (sides[k].classes.integer_of(v), v)).collect();
+        order.sort_by_key(|(d, _)| {
+            use malachite::base::num::arithmetic::traits::UnsignedAbs;
+            d.unsigned_abs()
+        });
+        for (d, v) in order {
+            if sides[k].found.contains(v) {
+                continue;
+            }
+            if budget.exhausted() {
+                search_complete = false;
+                break;
+            }
+            let g = covering_quartic(&d, &sides[k].a, &sides[k].b);
+            let limits = SearchLimits {
+                height: options.search_height,
+                first_only: true,
+                deadline: budget.deadline,
+                cancel: budget.cancel.clone(),
+            };
+            let out = search_quartic(&g, &limits);
+            search_complete &= out.complete;
+            for qp in out.points {
+                if qp.z == 0 {
+                    continue;
+                }
+                // (M, e, N) -> (d M^2 / e^2, d M N / e^3)
+                let m = Rational::from(qp.x.clone());
+                let e = Rational::from(qp.z.clone());
+                let n = Rational::from(qp.y.clone());
+                let dq = Rational::from(d.clone());
+                let pt = Point::Affine(&dq * &m * &m / (&e * &e), &dq * &m * &n / (&e * &e * &e));
+                let side_curve = if k == 0 { &e_model } else { &e1_model };
+                if !side_curve.contains(&pt) {
+                    return Err(internal("covering point does not map onto the curve"));
+                }
+                let Some(vv) = sides[k].classes.vector_of(&alpha(&pt, &sides[k].b)) else { continue };
+                if sides[k].found.insert(vv) {
+                    sides[k].points.push((d.clone(), pt));
+                }
+                break;
+            }
+        }
+    }
+    // bounds and points
+    let lower = sides.iter().map(|w| w.found.dim() - w.torsion.dim()).sum();
+    let upper = if complete_selmer { Some(sides.iter().map(|w| w.selmer.dim() - w.torsion.dim()).sum()) } else { None };
+    if let Some(u) = upper {
+        if u < lower {
+            return Err(internal("lower bound exceeds the Selmer bound"));
+        }
+    }
+    let mut points = Vec::new();
+    for (d, p) in &sides[0].points {
+        let _ = d;
+        let q = model.to_user(curve, p);
+        if !curve.contains(&q) {
+            return Err(internal("point does not lie on the input model"));
+        }
+        points.push(q);
+    }
+    for (_, p) in &sides[1].points {
+        let on_e = dual_map(p, &b1);
+        if !e_model.contains(&on_e) {
+            return Err(internal("dual isogeny image not on the curve"));
+        }
+        let q = model.to_user(curve, &on_e);
+        if !curve.contains(&q) {
+            return Err(internal("point does not lie on the input model"));
+        }
+        points.push(q);
+    }
+    let finish = |w: &SideWork| -> IsogenySide {
+        let mut complement = w.found.clone();
+        let mut unexplained = Vec::new();
+        for &v in w.selmer.basis() {
+            if complement.insert(v) {
+                unexplained.push(w.classes.integer_of(v));
+            }
+        }
+        IsogenySide {
+            a: w.a.clone(),
+            b: w.b.clone(),
+            selmer_basis: w.selmer.basis().iter().map(|&v| w.classes.integer_of(v)).collect(),
+            selmer_dim: w.selmer.dim(),
+            torsion_dim: w.torsion.dim(),
+            found_dim: w.found.dim(),
+            points: w.points.clone(),
+            unexplained: if complete_selmer { unexplained } else { vec![] },
+            local_images: w.local_images.clone(),
+        }
+    };
+    Ok(IsogenyDescent {
+        kernel_point: t.clone(),
+        side_e: finish(&sides[0]),
+        side_e_prime: finish(&sides[1]),
+        lower,
+        upper,
+        points,
+        search_complete,
+    })
+}
+

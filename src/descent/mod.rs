@@ -1,0 +1,5 @@
+//! The descents: through a rational 2-isogeny and (later) through quartic
+//! 2-coverings, with the F2 bookkeeping of Selmer groups.
+
+pub mod f2;
+pub mod isogeny;

@@ -1,0 +1,125 @@
+//! A small JSON writer (no dependency) for reports: integers and rationals
+//! are written as decimal strings so that no precision is lost.
+
+use super::RankReport;
+use crate::curve::Point;
+
+/// Builds one JSON object field by field.
+///
+/// ```
+/// use twofold::report::JsonWriter;
+/// let mut w = JsonWriter::new();
+/// w.string("input", "say \"hi\"");
+/// w.raw("n", "3");
+/// assert_eq!(w.finish(), r#"{"input":"say \"hi\"","n":3}"#);
+/// ```
+#[derive(Default)]
+pub struct JsonWriter {
+    out: String,
+}
+
+/// Escapes a string as a JSON string literal.
+pub(crate) fn quote(s: &str) -> String {
+    let mut o = String::with_capacity(s.len() + 2);
+    o.push('"');
+    for ch in s.chars() {
+        match ch {
+            '"' => o.push_str("\\\""),
+            '\\' => o.push_str("\\\\"),
+            '\n' => o.push_str("\\n"),
+            '\r' => o.push_str("\\r"),
+            '\t' => o.push_str("\\t"),
+            c if (c as u32) < 0x20 => o.push_str(&format!("\\u{:04x}", c as u32)),
+            c => o.push(c),
+        }
+    }
+    o.push('"');
+    o
+}
+
+impl JsonWriter {
+    /// An empty object.
+    pub fn new() -> Self {
+        JsonWriter { out: String::from("{") }
+    }
+    fn key(&mut self, k: &str) {
+        if self.out.len() > 1 {
+            self.out.push(',');
+        }
+        self.out.push_str(&quote(k));
+        self.out.push(':');
+    }
+    /// Adds a string field.
+    pub fn string(&mut self, k: &str, v: &str) {
+        self.key(k);
+        self.out.push_str(&quote(v));
+    }
+    /// Adds a field whose value is already JSON.
+    pub fn raw(&mut self, k: &str, v: &str) {
+        self.key(k);
+        self.out.push_str(v);
+    }
+    /// Closes the object.
+    pub fn finish(mut self) -> String {
+        if self.out.is_empty() {
+            self.out.push('{');
+        }
+        self.out.push('}');
+        self.out
+    }
+}
+
+fn list<T>(xs: &[T], f: impl Fn(&T) -> String) -> String {
+    format!("[{}]", xs.iter().map(f).collect::<Vec<_>>().join(","))
+}
+
+fn opt(x: Option<usize>) -> String {
+    x.map(|v| v.to_string()).unwrap_or_else(|| "null".into())
+}
+
+pub(crate) fn point_json(p: &Point) -> String {
+    match p {
+        Point::Infinity => "null".into(),
+        Point::Affine(x, y) => format!("[{},{}]", quote(&x.to_string()), quote(&y.to_string())),
+    }
+}
+
+pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
+    let mut w = JsonWriter::new();
+    w.string("input", input);
+    w.raw("ainvs", &list(r.minimal.ainvs(), |a| quote(&a.to_string())));
+    w.string("conductor", &r.conductor.to_string());
+    w.raw("torsion", &list(&r.torsion, |n| n.to_string()));
+    w.raw("rank_lower", &opt(r.rank_lower));
+    w.raw("rank_upper", &opt(r.rank_upper));
+    w.raw("rank", &opt(r.rank()));
+    w.string("method", r.route.name());
+    w.raw(
+        "isogeny_selmer",
+        &r.isogeny_selmer.map(|(a, b)| format!("[{a},{b}]")).unwrap_or_else(|| "null".into()),
+    );
+    w.raw("points", &list(&r.points, point_json));
+    w.raw(
+        "sha_suspects",
+        &list(&r.sha_suspects, |s| {
+            let mut o = JsonWriter::new();
+            o.string("origin", &s.origin);
+            o.raw("quartic", &list(&s.quartic, |c| quote(&c.to_string())));
+            o.raw("class", &s.class.as_ref().map(|c| quote(&c.to_string())).unwrap_or_else(|| "null".into()));
+            o.raw("everywhere_locally_soluble", "true");
+            o.raw("searched_height", &s.searched_height.to_string());
+            o.finish()
+        }),
+    );
+    w.raw("budget_exhausted", if r.budget_exhausted { "true" } else { "false" });
+    w.raw("elapsed_ms", &r.elapsed.as_millis().to_string());
+    w.finish()
+}
+
+/// The JSON line for an input that could not be analysed: `{"input": ..., "error": ...}`.
+pub fn error_json(input: &str, err: &crate::Error) -> String {
+    let mut w = JsonWriter::new();
+    w.string("input", input);
+    w.string("error", &err.to_string());
+    w.finish()
+}

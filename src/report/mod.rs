@@ -1,0 +1,175 @@
+//! The rank report: bounds, proven rank, points, Selmer data, Sha suspects,
+//! local data, with a readable `Display` and a JSON rendering.
+
+mod json;
+mod analyse;
+
+pub use analyse::analyse;
+pub use json::{error_json, JsonWriter};
+
+use crate::curve::{Curve, Point};
+use crate::local::LocalData;
+use malachite::Integer;
+use std::fmt;
+use std::time::Duration;
+
+/// Which descent routes ran.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[non_exhaustive]
+pub enum Route {
+    /// Descent through a rational 2-isogeny only.
+    Isogeny,
+    /// Full 2-descent through quartic 2-coverings only.
+    Quartic,
+    /// Both routes, tightest bounds kept.
+    IsogenyAndQuartic,
+    /// No descent ran (for instance no rational 2-torsion before the quartic route exists).
+    None,
+}
+
+impl Route {
+    /// The short name used in reports.
+    pub fn name(&self) -> &'static str {
+        match self {
+            Route::Isogeny => "2-isogeny",
+            Route::Quartic => "quartic",
+            Route::IsogenyAndQuartic => "2-isogeny+quartic",
+            Route::None => "none",
+        }
+    }
+}
+
+/// An everywhere locally soluble 2-covering with no rational point found:
+/// a place where a non-trivial element of Sha could hide.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ShaSuspect {
+    /// Which route and which side produced it, e.g. `"2-isogeny T=(0, 0), E'"`.
+    pub origin: String,
+    /// The quartic `g` of the covering `y^2 = g(x, z)`, coefficients of
+    /// `x^4, x^3 z, x^2 z^2, x z^3, z^4`.
+    pub quartic: [Integer; 5],
+    /// The Selmer class, as a square-free integer `d` (isogeny route).
+    pub class: Option<Integer>,
+    /// The search height that found no point.
+    pub searched_height: u64,
+}
+
+/// Everything twofold proved about one curve.
+///
+/// ```
+/// use twofold::{analyse, Curve, RankOptions};
+/// // y^2 = x^3 - 25x: n = 5 is a congruent number, rank 1 (OEIS A003273)
+/// let e = Curve::from_ainvs([0, 0, 0, -25, 0]).unwrap();
+/// let r = analyse(&e, &RankOptions::default()).unwrap();
+/// assert_eq!(r.rank(), Some(1));
+/// for p in &r.points { assert!(e.contains(p)); }
+/// ```
+#[derive(Clone, Debug)]
+pub struct RankReport {
+    /// The curve as given.
+    pub input: Curve,
+    /// The global minimal model in reduced form.
+    pub minimal: Curve,
+    /// The conductor.
+    pub conductor: Integer,
+    /// Local data at every bad prime.
+    pub local: Vec<LocalData>,
+    /// Invariant factors of E(Q)_tors (empty for the trivial group).
+    pub torsion: Vec<u32>,
+    /// Torsion points on the input model.
+    pub torsion_points: Vec<Point>,
+    /// Proven lower bound for the rank.
+    pub rank_lower: Option<usize>,
+    /// Proven upper bound for the rank.
+    pub rank_upper: Option<usize>,
+    /// Routes that ran.
+    pub route: Route,
+    /// Selmer dimensions (dim over E of divisors of b, dim over E' of divisors of b') of
+    /// the isogeny route that gave the best upper bound.
+    pub isogeny_selmer: Option<(usize, usize)>,
+    /// Points of infinite order on the input model, independent modulo torsion.
+    pub points: Vec<Point>,
+    /// Why the points are independent.
+    pub independence: String,
+    /// Coverings where Sha could hide.
+    pub sha_suspects: Vec<ShaSuspect>,
+    /// Whether the budget ran out before the computation finished.
+    pub budget_exhausted: bool,
+    /// Wall-clock time spent.
+    pub elapsed: Duration,
+}
+
+impl RankReport {
+    /// The rank, when the bounds meet.
+    pub fn rank(&self) -> Option<usize> {
+        match (self.rank_lower, self.rank_upper) {
+            (Some(l), Some(u)) if l == u => Some(l),
+            _ => None,
+        }
+    }
+
+    /// Renders the report as one line of JSON (see README.md for the fields).
+    pub fn to_json(&self, input_text: &str) -> String {
+        json::report_json(self, input_text)
+    }
+}
+
+fn ainvs_text(c: &Curve) -> String {
+    let a: Vec<String> = c.ainvs().iter().map(|x| x.to_string()).collect();
+    format!("[{}]", a.join(","))
+}
+
+impl fmt::Display for RankReport {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        writeln!(f, "curve        {}", ainvs_text(&self.input))?;
+        writeln!(f, "minimal      {}", ainvs_text(&self.minimal))?;
+        writeln!(f, "conductor    {}", self.conductor)?;
+        for l in &self.local {
+            writeln!(
+                f,
+                "  p = {:<6} {:<6} f = {}  c_p = {}  {:?}",
+                l.prime, l.kodaira.to_string(), l.conductor_exponent, l.tamagawa, l.reduction
+            )?;
+        }
+        let tors = if self.torsion.is_empty() {
+            "trivial".to_string()
+        } else {
+            self.torsion.iter().map(|n| format!("Z/{n}")).collect::<Vec<_>>().join(" x ")
+        };
+        writeln!(f, "torsion      {tors}")?;
+        let show = |b: Option<usize>| b.map(|x| x.to_string()).unwrap_or_else(|| "?".into());
+        match self.rank() {
+            Some(r) => writeln!(f, "rank         {r} (proven: lower and upper bounds meet; route {})", self.route.name())?,
+            None => writeln!(
+                f,
+                "rank         between {} and {} (not proven; route {})",
+                show(self.rank_lower),
+                show(self.rank_upper),
+                self.route.name()
+            )?,
+        }
+        if let Some((s, t)) = self.isogeny_selmer {
+            writeln!(f, "isogeny Selmer dimensions {s} and {t}")?;
+        }
+        for p in &self.points {
+            writeln!(f, "  point      {p}")?;
+        }
+        if !self.points.is_empty() {
+            writeln!(f, "  independent: {}", self.independence)?;
+        }
+        for s in &self.sha_suspects {
+            let q: Vec<String> = s.quartic.iter().map(|c| c.to_string()).collect();
+            writeln!(
+                f,
+                "  Sha could hide in: y^2 = g(x,z) with g = [{}] ({}), everywhere locally soluble, no point with height <= {}",
+                q.join(","),
+                s.origin,
+                s.searched_height
+            )?;
+        }
+        if self.budget_exhausted {
+            writeln!(f, "  budget exhausted: the bounds above are what was proven before it ran out")?;
+        }
+        write!(f, "time         {} ms", self.elapsed.as_millis())
+    }
+}
