@@ -3,6 +3,7 @@
 
 pub mod arith;
 pub mod curve;
+pub mod local;
 mod error;
 
 pub use curve::{Curve, ModelChange};
