@@ -492,3 +492,60 @@ proptest! {
         prop_assert_eq!(f.reduced_form().0, e);
     }
 }
+
+/// The primes below 1000 dividing `n`, and what is left of |n| after them.
+fn partial_primes_of(n: &Integer) -> (Vec<Natural>, Natural) {
+    let mut m = n.unsigned_abs();
+    let mut out = vec![];
+    for p in primes_up_to(1000) {
+        let pn = Natural::from(p);
+        if &m % &pn == 0u32 {
+            out.push(pn.clone());
+            while &m % &pn == 0u32 {
+                m /= &pn;
+            }
+        }
+    }
+    (out, m)
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(128))]
+
+    // Random curves (not from the tables) under random changes of model:
+    // local data at small primes is invariant, the p-minimal model found is
+    // minimal with the stated discriminant valuation, Ogg's formula holds,
+    // and at p >= 5 the type agrees with the valuations of c4, c6, Delta.
+    #[test]
+    fn random_curves_local_data_invariant(
+        a in proptest::array::uniform5(-60i64..60),
+        u in prop_oneof![Just(1i64), Just(2), Just(3), Just(4), Just(5), Just(6), Just(9), Just(12), Just(25)],
+        r in -20i64..20, s in -20i64..20, t in -20i64..20,
+    ) {
+        prop_assume!(Curve::from_ainvs(a).is_ok());
+        let e = curve(a);
+        let c = ModelChange::new(Rational::from_signeds(1, u), Rational::from(r), Rational::from(s), Rational::from(t)).unwrap();
+        let f = e.apply_change(&c).unwrap();
+        for p in [2u64, 3, 5, 7, 11, 13] {
+            let de = local_data(&e, &n(p)).unwrap();
+            let df = local_data(&f, &n(p)).unwrap();
+            prop_assert_eq!(&de, &df);
+            prop_assert_eq!(de.conductor_exponent + de.kodaira.components(), de.minimal_valuation_disc + 1);
+            let (g, cg) = f.minimal_model_at(&n(p)).unwrap();
+            prop_assert_eq!(&f.apply_change(&cg).unwrap(), &g);
+            prop_assert_eq!(valuation(g.discriminant(), p), de.minimal_valuation_disc);
+            if p >= 5 {
+                prop_assert_eq!(de.kodaira, kodaira_from_valuations(&f, p));
+                if let Some(cp) = tamagawa_short_model(&f, p, de.kodaira) {
+                    prop_assert_eq!(de.tamagawa, cp);
+                }
+            }
+        }
+        // global minimal models agree when the small primes are enough
+        let (pe, _) = partial_primes_of(e.discriminant());
+        let (pf, _) = partial_primes_of(f.discriminant());
+        if let (Ok((me, _)), Ok((mf, _))) = (e.minimal_model(&pe), f.minimal_model(&pf)) {
+            prop_assert_eq!(me, mf);
+        }
+    }
+}

@@ -265,7 +265,7 @@ mod tests {
         #[test]
         fn quadratic_matches_search(pi in 0usize..6, a in 1i64..50, b in -200i64..200, c in -200i64..200) {
             let p = [2u64, 3, 5, 7, 13, 101][pi];
-            prop_assume!(a % p as i64 != 0);
+            let a = if a % p as i64 == 0 { a + 1 } else { a };
             let f = Fp::new(&Natural::from(p));
             let ev = |x: i64| (a * x * x + b * x + c).rem_euclid(p as i64);
             let dv = |x: i64| (2 * a * x + b).rem_euclid(p as i64);
