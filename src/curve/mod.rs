@@ -1,9 +1,10 @@
 //! Weierstrass curves over Q, their invariants, changes of model and points.
 
+pub(crate) mod change;
 mod model;
 mod parse;
 mod point;
+mod reduction;
 pub use model::{Curve, ModelChange};
 pub use parse::{parse_ainvs, parse_rational, MAX_INPUT_LEN};
 pub use point::Point;
-mod reduction;
