@@ -101,7 +101,7 @@ impl TwoTorsionModel {
     fn new(curve: &Curve, t: &Point) -> Option<TwoTorsionModel> {
         let Point::Affine(x, _) = t else { return None };
         let b2 = &curve.binvs()[0];
-        let big_x = Rational::from(36) * x + Rational::from(3 * b2.clone());
+        let big_x = Rational::from(36) * x + Rational::from(Integer::from(3) * b2);
         let (n, d) = big_x.to_numerator_and_denominator();
         if d != Natural::ONE {
             return None;

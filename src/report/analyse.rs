@@ -38,21 +38,21 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
     let limits = FactorLimits { deadline: budget.deadline, cancel: budget.cancel.clone() };
     let fac = factor(curve.discriminant(), &limits)?;
     let primes: Vec<Natural> = fac.primes().cloned().collect();
-    let (minimal, change) = curve.minimal_model(&primes);
+    let (minimal, change) = curve.minimal_model(&primes)?;
     let min_primes: Vec<Natural> = primes
         .iter()
         .filter(|p| crate::arith::valuation(minimal.discriminant(), p).unwrap_or(0) > 0)
         .cloned()
         .collect();
-    let local: Vec<_> = min_primes.iter().map(|p| local_data(&minimal, p)).collect();
-    let cond = conductor(&minimal, &min_primes);
+    let local: Vec<_> = min_primes.iter().map(|p| local_data(&minimal, p)).collect::<Result<_, _>>()?;
+    let cond = conductor(&minimal, &min_primes)?;
     progress(Stage::Torsion, "torsion subgroup");
     let torsion = TorsionGroup::compute(&minimal, &min_primes);
     let to_input = |p: &Point| -> Point {
         match p {
             Point::Infinity => Point::Infinity,
             Point::Affine(x, y) => {
-                let (x, y) = change.unmap_point(x, y);
+                let (x, y) = change.unmap_point(&(x.clone(), y.clone()));
                 Point::Affine(x, y)
             }
         }

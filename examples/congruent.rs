@@ -1,0 +1,132 @@
+//! `congruent`: decides for each square-free n in a range whether n is a
+//! congruent number (the area of a right triangle with rational sides),
+//! i.e. whether y^2 = x^3 - n^2 x has positive rank, and prints the proof.
+//!
+//! Usage: congruent [FROM] [TO]      (default 1 to 60)
+//!
+//! For each n it prints one of
+//! - a point of infinite order and the rational right triangle of area n it gives;
+//! - the Selmer bound that shows rank 0;
+//! - the open gap with the coverings where Sha could hide.
+//! Beside each verdict it prints Tunnell's criterion (Tunnell 1983) as an
+//! independent check: if the counts differ, n is not congruent (a theorem,
+//! using Coates-Wiles 1977); if they agree, n is congruent provided the
+//! Birch and Swinnerton-Dyer conjecture holds for the curve (conditional).
+
+use malachite::Rational;
+use twofold::{analyse, Curve, Point, RankOptions};
+
+fn squarefree(n: u64) -> bool {
+    let mut d = 2;
+    while d * d <= n {
+        if n % (d * d) == 0 {
+            return false;
+        }
+        d += 1;
+    }
+    n > 0
+}
+
+/// Number of integer solutions of x^2 + a y^2 + b z^2 = m.
+fn ternary_count(m: i64, a: i64, b: i64) -> u64 {
+    let mut count = 0;
+    let r = (m as f64).sqrt() as i64 + 1;
+    for z in -r..=r {
+        let rz = m - b * z * z;
+        if rz < 0 {
+            continue;
+        }
+        for y in -r..=r {
+            let ry = rz - a * y * y;
+            if ry < 0 {
+                continue;
+            }
+            let x = (ry as f64).sqrt() as i64;
+            for xx in [x - 1, x, x + 1] {
+                if xx >= 0 && xx * xx == ry {
+                    count += if xx == 0 { 1 } else { 2 };
+                }
+            }
+        }
+    }
+    count
+}
+
+/// Tunnell's counts (A, B) with the criterion "congruent implies 2A = B".
+fn tunnell(n: u64) -> (u64, u64) {
+    let n = n as i64;
+    if n % 2 == 1 {
+        (ternary_count(n, 2, 8), ternary_count(n, 2, 32))
+    } else {
+        (ternary_count(n / 2, 4, 8), ternary_count(n / 2, 4, 32))
+    }
+}
+
+fn triangle(p: &Point, n: u64) -> Option<(Rational, Rational, Rational)> {
+    let Point::Affine(x, y) = p else { return None };
+    if *y == 0 {
+        return None;
+    }
+    let nn = Rational::from(n);
+    let abs = |r: Rational| if r < 0 { -r } else { r };
+    let a = abs((x * x - &nn * &nn) / y);
+    let b = abs(Rational::from(2) * &nn * x / y);
+    let c = abs((x * x + &nn * &nn) / y);
+    // verify: a^2 + b^2 = c^2 and ab/2 = n
+    assert!(&a * &a + &b * &b == &c * &c);
+    assert!(&a * &b / Rational::from(2) == nn);
+    Some((a, b, c))
+}
+
+fn main() {
+    let args: Vec<u64> = std::env::args().skip(1).filter_map(|a| a.parse().ok()).collect();
+    let (from, to) = match args.as_slice() {
+        [a, b] => (*a, *b),
+        [b] => (1, *b),
+        _ => (1, 60),
+    };
+    let options = RankOptions::default();
+    for n in from..=to {
+        if !squarefree(n) {
+            continue;
+        }
+        let n2 = (n * n) as i64;
+        let curve = Curve::from_ainvs([0, 0, 0, -n2, 0]).expect("non-singular for n > 0");
+        let (ta, tb) = tunnell(n);
+        let tunnell_says = if 2 * ta == tb {
+            "Tunnell: 2A = B, congruent if BSD holds (conditional)"
+        } else {
+            "Tunnell: 2A != B, not congruent (theorem: Tunnell 1983 with Coates-Wiles 1977)"
+        };
+        let report = match analyse(&curve, &options) {
+            Ok(r) => r,
+            Err(e) => {
+                println!("n = {n}: error {e}");
+                continue;
+            }
+        };
+        let verdict = match (report.rank_lower, report.rank_upper) {
+            (Some(l), _) if l > 0 => {
+                let p = &report.points[0];
+                let (a, b, c) = triangle(p, n).expect("a point of infinite order has y != 0");
+                format!("congruent (proven): point {p} gives the triangle {a}, {b}, {c} of area {n}")
+            }
+            (_, Some(0)) => {
+                let (s, t) = report.isogeny_selmer.unwrap_or((0, 0));
+                format!("not congruent (proven): 2-isogeny Selmer dimensions {s} and {t} bound the rank by 0")
+            }
+            (l, u) => format!(
+                "open: rank between {} and {}; Sha could hide in {} covering(s), e.g. {}",
+                l.map_or("?".into(), |v| v.to_string()),
+                u.map_or("?".into(), |v| v.to_string()),
+                report.sha_suspects.len(),
+                report
+                    .sha_suspects
+                    .first()
+                    .map(|s| format!("y^2 = {}x^4 + {}x^2z^2 + {}z^4", s.quartic[0], s.quartic[2], s.quartic[4]))
+                    .unwrap_or_default()
+            ),
+        };
+        println!("n = {n:>4}: {verdict}\n          A = {ta}, B = {tb}; {tunnell_says}");
+    }
+}
