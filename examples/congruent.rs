@@ -52,7 +52,7 @@ fn ternary_count(m: i64, a: i64, b: i64) -> u64 {
     count
 }
 
-/// Tunnell's counts (A, B) with the criterion "congruent implies 2A = B".
+/// Tunnell's counts (A, B) with the criterion "congruent implies A = 2B".
 fn tunnell(n: u64) -> (u64, u64) {
     let n = n as i64;
     if n % 2 == 1 {
@@ -93,10 +93,10 @@ fn main() {
         let n2 = (n * n) as i64;
         let curve = Curve::from_ainvs([0, 0, 0, -n2, 0]).expect("non-singular for n > 0");
         let (ta, tb) = tunnell(n);
-        let tunnell_says = if 2 * ta == tb {
-            "Tunnell: 2A = B, congruent if BSD holds (conditional)"
+        let tunnell_says = if ta == 2 * tb {
+            "Tunnell: A = 2B, congruent if BSD holds (conditional)"
         } else {
-            "Tunnell: 2A != B, not congruent (theorem: Tunnell 1983 with Coates-Wiles 1977)"
+            "Tunnell: A != 2B, not congruent (theorem: Tunnell 1983 with Coates-Wiles 1977)"
         };
         let report = match analyse(&curve, &options) {
             Ok(r) => r,
