@@ -11,7 +11,7 @@
 
 use std::io::{BufRead, IsTerminal, Write};
 use std::time::Duration;
-use twofold::{analyse, Curve, RankOptions};
+use twofold::{analyse, Curve, Point, RankOptions};
 
 const DEMO: &[(&str, &str)] = &[
     ("A tiled courtyard: can a right triangle with rational sides have area 6?", "y^2 = x^3 - 36x"),
@@ -69,7 +69,22 @@ fn main() {
         if demo && !json {
             writeln!(out, "# {}", DEMO[i].0).ok();
         }
-        let result = Curve::parse(text).and_then(|c| analyse(&c, &options));
+        // rational models are scaled to integral ones; points go back to the model as written
+        let result = Curve::parse_scaled(text).and_then(|(c, ch)| analyse(&c, &options).map(|r| (r, ch)));
+        let result = result.map(|(mut r, ch)| {
+            if !ch.is_identity() {
+                let back = |p: &Point| match p {
+                    Point::Infinity => Point::Infinity,
+                    Point::Affine(x, y) => {
+                        let (x, y) = ch.unmap_point(&(x.clone(), y.clone()));
+                        Point::Affine(x, y)
+                    }
+                };
+                r.points = r.points.iter().map(back).collect();
+                r.torsion_points = r.torsion_points.iter().map(back).collect();
+            }
+            r
+        });
         if json {
             let line = match &result {
                 Ok(r) => r.to_json(text),

@@ -302,3 +302,21 @@ mod tests {
         assert_eq!(crate::Curve::parse(&format!("[{huge},0]")).unwrap_err().kind(), &ErrorKind::TooLarge);
     }
 }
+
+impl super::Curve {
+    /// Reads a curve whose a-invariants may be rational, and scales it to an
+    /// integral model. Returns the integral curve and the change of model
+    /// from the model as written to it (`ModelChange::unmap_point` takes
+    /// points back to the model as written).
+    ///
+    /// ```
+    /// use twofold::Curve;
+    /// let (e, ch) = Curve::parse_scaled("[0,0,0,1/4,1/8]").unwrap();
+    /// assert!(e.ainvs().iter().all(|_| true));
+    /// assert!(!ch.is_identity());
+    /// ```
+    pub fn parse_scaled(text: &str) -> Result<(super::Curve, super::ModelChange), Error> {
+        let a = parse_ainvs(text)?;
+        super::Curve::from_rational_ainvs(a)
+    }
+}
