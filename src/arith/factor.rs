@@ -1252,6 +1252,26 @@ mod tests {
         }
     }
 
+    /// Slow sweep (run with `--ignored`): the sieve backend against rho/ECM
+    /// on 120 semiprimes and 3-factor products of 20 to 44 digits.
+    #[test]
+    #[ignore]
+    fn siqs_backend_sweep() {
+        let mut g = Gen(0x5eed);
+        for i in 0..120u32 {
+            let dp = 8 + i % 15;
+            let dq = 12 + (i * 5) % 11;
+            let mut n = g.prime(dp) * g.prime(dq);
+            if i % 4 == 0 {
+                n *= g.prime(6 + i % 7);
+            }
+            let n = Integer::from(n);
+            let a = factor_with(&n, &lim(), Plan::SieveFirst).unwrap();
+            let b = factor_with(&n, &lim(), Plan::NoSieve).unwrap();
+            assert_eq!(a, b, "n = {n}");
+        }
+    }
+
     #[test]
     fn balanced_semiprimes_and_mixed_products() {
         let mut g = Gen(5);
