@@ -1252,6 +1252,51 @@ mod tests {
         }
     }
 
+    /// Slow sweep (run with `--ignored`): the sieve backend against rho/ECM
+    /// on 120 semiprimes and 3-factor products of 20 to 44 digits.
+    #[test]
+    #[ignore]
+    fn siqs_backend_sweep() {
+        let mut g = Gen(0x5eed);
+        for i in 0..120u32 {
+            let dp = 8 + i % 15;
+            let dq = 12 + (i * 5) % 11;
+            let mut n = g.prime(dp) * g.prime(dq);
+            if i % 4 == 0 {
+                n *= g.prime(6 + i % 7);
+            }
+            let n = Integer::from(n);
+            let a = factor_with(&n, &lim(), Plan::SieveFirst).unwrap();
+            let b = factor_with(&n, &lim(), Plan::NoSieve).unwrap();
+            assert_eq!(a, b, "n = {n}");
+        }
+    }
+
+    /// Timing probe (run with `--ignored --nocapture`): the pre-sieve rho/ECM
+    /// work against the sieve alone on balanced 60-digit semiprimes.
+    #[test]
+    #[ignore]
+    fn timing_balanced_60_digits() {
+        let mut g = Gen(60);
+        for _ in 0..3 {
+            let n = Integer::from(g.prime(30) * g.prime(30));
+            let t = Instant::now();
+            let a = factor_with(&n, &lim(), Plan::SieveFirst).unwrap();
+            let t_sieve = t.elapsed();
+            let t = Instant::now();
+            let m = (&n).unsigned_abs();
+            let limits = lim();
+            let budget = Budget { limits: &limits };
+            let _ = Rho { iterations: 1 << 15 }.split(&m, &budget);
+            let t_rho = t.elapsed();
+            let t = Instant::now();
+            let _ = Ecm::level(0).split(&m, &budget);
+            let t_ecm = t.elapsed();
+            eprintln!("sieve {t_sieve:?} rho {t_rho:?} ecm15 {t_ecm:?}");
+            assert_eq!(a.product(), n);
+        }
+    }
+
     #[test]
     fn balanced_semiprimes_and_mixed_products() {
         let mut g = Gen(5);
