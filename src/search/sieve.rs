@@ -22,8 +22,9 @@ use malachite::{Integer, Natural};
 use std::sync::atomic::Ordering;
 use std::time::Instant;
 
-/// Moduli tried for the sieve; each must be at most 128 (the offset update
-/// works in bytes). Prime powers stand in for their primes.
+/// Moduli tried for the sieve, with their primes; each must be at most 64
+/// (the offset update works in bytes and the table build in small words).
+/// Prime powers stand in for their primes.
 const MODULI: [(u32, u32); 18] = [
     (64, 2),
     (27, 3),
@@ -45,6 +46,9 @@ const MODULI: [(u32, u32); 18] = [
     (61, 61),
 ];
 
+/// Highest degree of either variable in a term of a sieved form.
+pub(crate) const MAX_DEGREE: usize = 7;
+
 /// Lanes of the per-word offset state (at least `MODULI.len()`).
 const LANES: usize = 32;
 
@@ -65,7 +69,11 @@ pub(crate) struct Form {
 
 impl Form {
     /// The form with the given terms (zero coefficients are dropped).
+    ///
+    /// Panics (internal precondition) if a variable has degree above
+    /// [`MAX_DEGREE`] in some term.
     pub(crate) fn new(terms: Vec<(Integer, u32, u32)>) -> Form {
+        assert!(terms.iter().all(|t| t.1 as usize <= MAX_DEGREE && t.2 as usize <= MAX_DEGREE));
         Form { terms: terms.into_iter().filter(|t| t.0 != Integer::ZERO).collect() }
     }
 
@@ -95,21 +103,22 @@ impl Form {
         v.unsigned_abs().checked_sqrt()
     }
 
-    /// The value modulo `q` at residues `x`, `z` (all below `q <= 128`),
-    /// with the coefficients already reduced in `cq`.
-    fn value_mod(&self, cq: &[u64], x: u64, z: u64, q: u64) -> u64 {
+    /// The value modulo `q` at residues `x`, `z` below `q <= 64`, with the
+    /// coefficients reduced in `cq` and `pw[t][i] = t^i mod q`; every product
+    /// `cq * pw * pw` is below `2^18`, so one reduction at the end suffices.
+    fn value_mod(&self, cq: &[u64], pw: &[[u64; MAX_DEGREE + 1]], x: u64, z: u64, q: u64) -> u64 {
         let mut v = 0u64;
-        for (k, (_, i, j)) in self.terms.iter().enumerate() {
-            let mut t = cq[k];
-            for _ in 0..*i {
-                t = t * x % q;
-            }
-            for _ in 0..*j {
-                t = t * z % q;
-            }
-            v = (v + t) % q;
+        for (k, &(_, i, j)) in self.terms.iter().enumerate() {
+            v += cq[k] * pw[x as usize][i as usize] * pw[z as usize][j as usize];
         }
-        v
+        v % q
+    }
+
+    /// The weighted degree `D` with `F(l^w x, l z) = l^D F(x, z)`, if the form
+    /// is weighted homogeneous for the weight `w`.
+    fn weighted_degree(&self, w: u32) -> Option<u32> {
+        let d = self.terms.first().map(|t| t.1 * w + t.2)?;
+        self.terms.iter().all(|t| t.1 * w + t.2 == d).then_some(d)
     }
 }
 
@@ -234,37 +243,75 @@ impl Sieve {
         let mut table = Vec::new();
         let mut found: Vec<(f64, Modulus)> = Vec::new();
         let mut ok = Vec::new();
+        let mut ok1 = Vec::new();
+        // F(x, r) = r^D F(x r^-w, 1) for a unit r, and r^D is a square when D
+        // is even: then the row of a unit r is the row of 1, permuted.
+        let homogeneous = form.weighted_degree(weight).is_some_and(|d| d % 2 == 0);
         for &(q, p) in MODULI.iter() {
+            let (qu, pu) = (q as u64, p as u64);
             let qn = Integer::from(q);
             let cq: Vec<u64> = form
                 .terms
                 .iter()
                 .map(|(c, _, _)| u64::try_from(&c.mod_op(&qn)).expect("residue below q"))
                 .collect();
+            let pw: Vec<[u64; MAX_DEGREE + 1]> = (0..qu)
+                .map(|t| {
+                    let mut row = [1u64; MAX_DEGREE + 1];
+                    for i in 1..=MAX_DEGREE {
+                        row[i] = row[i - 1] * t % qu;
+                    }
+                    row
+                })
+                .collect();
             let mut is_sq = vec![false; q as usize];
-            for y in 0..q as u64 {
-                is_sq[(y * y % q as u64) as usize] = true;
+            for y in 0..qu {
+                is_sq[(y * y % qu) as usize] = true;
             }
+            let direct = |r: u64, t: u64| -> bool {
+                !(r % pu == 0 && t % pu == 0) && is_sq[form.value_mod(&cq, &pw, t, r, qu) as usize]
+            };
+            ok1.clear();
+            ok1.extend((0..qu).map(|t| direct(1 % qu, t)));
             let base = table.len();
             let mut ones = 0u64;
-            for r in 0..q as u64 {
+            for r in 0..qu {
                 ok.clear();
-                for t in 0..q as u64 {
-                    let coprime_ok = !(r % p as u64 == 0 && t % p as u64 == 0);
-                    let good = coprime_ok && is_sq[form.value_mod(&cq, t, r, q as u64) as usize];
-                    ones += good as u64;
-                    ok.push(good);
+                if homogeneous && r % pu != 0 {
+                    // ok_r[t] = ok_1[t * r^-w]
+                    let inv = crate::arith::inv_mod(r, qu).expect("unit");
+                    let step = pw[inv as usize][weight as usize];
+                    let mut u = 0u64;
+                    for _ in 0..qu {
+                        ok.push(ok1[u as usize]);
+                        u += step;
+                        if u >= qu {
+                            u -= qu;
+                        }
+                    }
+                } else {
+                    ok.extend((0..qu).map(|t| direct(r, t)));
                 }
-                // Word for offset 0, then rotate one bit at a time.
+                ones += ok.iter().filter(|&&b| b).count() as u64;
+                // Word for offset 0, then rotate one bit at a time: the bit
+                // entering at the top of the word for offset s + 1 is the
+                // residue s + 64.
                 let mut w = 0u64;
+                let mut idx = 0usize;
                 for j in 0..64usize {
-                    if ok[j % q as usize] {
-                        w |= 1 << j;
+                    w |= (ok[idx] as u64) << j;
+                    idx += 1;
+                    if idx == q as usize {
+                        idx = 0;
                     }
                 }
-                for s in 0..q as usize {
+                for _ in 0..q as usize {
                     table.push(w);
-                    w = (w >> 1) | ((ok[(s + 64) % q as usize] as u64) << 63);
+                    w = (w >> 1) | ((ok[idx] as u64) << 63);
+                    idx += 1;
+                    if idx == q as usize {
+                        idx = 0;
+                    }
                 }
             }
             let density = ones as f64 / (q as f64 * q as f64);
@@ -455,11 +502,10 @@ mod tests {
         Form::new(c.iter().enumerate().map(|(k, &v)| (Integer::from(v), 4 - k as u32, k as u32)).collect())
     }
 
-    #[test]
-    fn table_words_match_direct_residues() {
-        // Every table bit is checked against a direct evaluation mod q.
-        let form = quartic_form([3, -2, 5, 7, -11]);
-        let sv = Sieve::new(form.clone(), 1);
+    /// Every table bit against a direct evaluation mod q.
+    fn check_table(form: &Form, weight: u32) {
+        let sv = Sieve::new(form.clone(), weight);
+        assert!(!sv.moduli.is_empty());
         for m in &sv.moduli {
             let q = m.q as u64;
             let p = MODULI.iter().find(|e| e.0 == m.q).unwrap().1 as u64;
@@ -477,6 +523,19 @@ mod tests {
                 }
             }
         }
+    }
+
+    #[test]
+    fn table_words_match_direct_residues() {
+        check_table(&quartic_form([3, -2, 5, 7, -11]), 1);
+        check_table(&quartic_form([-34, 0, 0, 0, 2]), 1);
+        // The form of y^2 + y = x^3 - x: 4 m^3 - 4 m k^4 + k^6 (weight 2).
+        let curve = Form::new(vec![(Integer::from(4), 3, 0), (Integer::from(-4), 1, 4), (Integer::from(1), 0, 6)]);
+        check_table(&curve, 2);
+        // Not weighted homogeneous: every row computed directly.
+        let mixed = Form::new(vec![(Integer::from(1), 3, 0), (Integer::from(5), 1, 1), (Integer::from(-7), 0, 0)]);
+        assert!(mixed.weighted_degree(1).is_none());
+        check_table(&mixed, 1);
     }
 
     #[test]
