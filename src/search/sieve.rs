@@ -174,6 +174,18 @@ impl FastForm {
     }
 }
 
+/// A modulus being considered: its density of admissible pairs and the
+/// patterns of the rows not derived from others (the rest are zero).
+struct Candidate {
+    q: u32,
+    p: u32,
+    density: f64,
+    rows: Vec<u64>,
+}
+
+/// Moduli kept whatever the height.
+const MIN_MODULI: usize = 6;
+
 /// One sieve modulus: `q`, the step `64 mod q` and where its rows start.
 #[derive(Clone, Copy, Debug)]
 struct Modulus {
@@ -238,15 +250,19 @@ pub(crate) struct Sieve {
 }
 
 impl Sieve {
-    /// Build the tables for `form`, whose rows `z` have height `z^weight`.
-    pub(crate) fn new(form: Form, weight: u32) -> Sieve {
-        let mut table = Vec::new();
-        let mut found: Vec<(f64, Modulus)> = Vec::new();
-        let mut ok = Vec::new();
-        let mut ok1 = Vec::new();
-        // F(x, r) = r^D F(x r^-w, 1) for a unit r, and r^D is a square when D
-        // is even: then the row of a unit r is the row of 1, permuted.
+    /// Build the tables for `form`, whose rows `z` have height `z^weight`,
+    /// for a search up to `height` (which decides how many moduli pay for
+    /// their tables).
+    pub(crate) fn new(form: Form, weight: u32, height: u64) -> Sieve {
+        // Phase 1: for each modulus, the admissible residues of the rows that
+        // are not derived from others, and the density. The form is weighted
+        // homogeneous, F(u^w x, u z) = u^D F(x, z); when D is even, u^D is a
+        // square and for r = p^a u with u a unit mod q the row of r is the
+        // row of p^a permuted: ok_r[u^w t] = ok_{p^a}[t]. Then only the rows
+        // 0 and p^a need evaluating.
         let homogeneous = form.weighted_degree(weight).is_some_and(|d| d % 2 == 0);
+        let max_deg = form.terms.iter().map(|t| t.1.max(t.2) as usize).max().unwrap_or(0);
+        let mut found: Vec<Candidate> = Vec::with_capacity(MODULI.len());
         for &(q, p) in MODULI.iter() {
             let (qu, pu) = (q as u64, p as u64);
             let qn = Integer::from(q);
@@ -255,74 +271,106 @@ impl Sieve {
                 .iter()
                 .map(|(c, _, _)| u64::try_from(&c.mod_op(&qn)).expect("residue below q"))
                 .collect();
-            let pw: Vec<[u64; MAX_DEGREE + 1]> = (0..qu)
-                .map(|t| {
-                    let mut row = [1u64; MAX_DEGREE + 1];
-                    for i in 1..=MAX_DEGREE {
-                        row[i] = row[i - 1] * t % qu;
-                    }
-                    row
-                })
-                .collect();
-            let mut is_sq = vec![false; q as usize];
+            let mut pw = [[1u64; MAX_DEGREE + 1]; 64];
+            for (t, row) in pw.iter_mut().enumerate().take(q as usize) {
+                for i in 1..=max_deg {
+                    row[i] = row[i - 1] * t as u64 % qu;
+                }
+            }
+            let mut is_sq = 0u64;
+            let mut mult_p = 0u64;
             for y in 0..qu {
-                is_sq[(y * y % qu) as usize] = true;
+                is_sq |= 1 << (y * y % qu);
+                mult_p |= ((y % pu == 0) as u64) << y;
             }
-            let direct = |r: u64, t: u64| -> bool {
-                !(r % pu == 0 && t % pu == 0) && is_sq[form.value_mod(&cq, &pw, t, r, qu) as usize]
+            let row_pattern = |r: u64| -> u64 {
+                let mut pat = 0u64;
+                let r_mult = (mult_p >> r) & 1 == 1;
+                for t in 0..qu {
+                    let coprime = !(r_mult && (mult_p >> t) & 1 == 1);
+                    let ok = coprime && (is_sq >> form.value_mod(&cq, &pw, t, r, qu)) & 1 == 1;
+                    pat |= (ok as u64) << t;
+                }
+                pat
             };
-            ok1.clear();
-            ok1.extend((0..qu).map(|t| direct(1 % qu, t)));
-            let base = table.len();
+            let mut rows = vec![0u64; q as usize];
             let mut ones = 0u64;
-            for r in 0..qu {
-                ok.clear();
-                if homogeneous && r % pu != 0 {
-                    // ok_r[t] = ok_1[t * r^-w]
-                    let inv = crate::arith::inv_mod(r, qu).expect("unit");
-                    let step = pw[inv as usize][weight as usize];
-                    let mut u = 0u64;
-                    for _ in 0..qu {
-                        ok.push(ok1[u as usize]);
-                        u += step;
-                        if u >= qu {
-                            u -= qu;
-                        }
-                    }
-                } else {
-                    ok.extend((0..qu).map(|t| direct(r, t)));
+            if homogeneous {
+                // rows 1, p, p^2, ... below q, and 0
+                let mut pa = 1u64;
+                while pa < qu {
+                    rows[pa as usize] = row_pattern(pa);
+                    let count = (qu / pa) - (qu / pa / pu); // r < q with v_p(r) = a
+                    ones += count * rows[pa as usize].count_ones() as u64;
+                    pa *= pu;
                 }
-                ones += ok.iter().filter(|&&b| b).count() as u64;
-                // Word for offset 0, then rotate one bit at a time: the bit
-                // entering at the top of the word for offset s + 1 is the
-                // residue s + 64.
-                let mut w = 0u64;
-                let mut idx = 0usize;
-                for j in 0..64usize {
-                    w |= (ok[idx] as u64) << j;
-                    idx += 1;
-                    if idx == q as usize {
-                        idx = 0;
-                    }
-                }
-                for _ in 0..q as usize {
-                    table.push(w);
-                    w = (w >> 1) | ((ok[idx] as u64) << 63);
-                    idx += 1;
-                    if idx == q as usize {
-                        idx = 0;
-                    }
+                rows[0] = row_pattern(0);
+                ones += rows[0].count_ones() as u64;
+            } else {
+                for r in 0..qu {
+                    rows[r as usize] = row_pattern(r);
+                    ones += rows[r as usize].count_ones() as u64;
                 }
             }
-            let density = ones as f64 / (q as f64 * q as f64);
-            if density > 0.999 {
-                table.truncate(base);
-            } else {
-                found.push((density, Modulus { q, base }));
+            let density = ones as f64 / (qu * qu) as f64;
+            if density <= 0.999 {
+                found.push(Candidate { q, p, density, rows });
             }
         }
-        found.sort_by(|a, b| a.0.partial_cmp(&b.0).expect("densities are finite"));
-        let moduli: Vec<Modulus> = found.into_iter().map(|(_, m)| m).collect();
+        found.sort_by(|a, b| a.density.partial_cmp(&b.density).expect("densities are finite"));
+
+        // Phase 2: build the rotated words for the most selective moduli,
+        // while the exact tests a modulus saves outweigh its table.
+        let rows_searched = if weight == 1 { height } else { height.isqrt() };
+        let mut survivors = (rows_searched as f64) * (2 * height + 1) as f64;
+        let exact_cost = if FastForm::new(&form, height, rows_searched).is_some() { 30.0 } else { 300.0 };
+        let mut table = Vec::new();
+        let mut moduli = Vec::new();
+        for c in found {
+            let q = c.q as u64;
+            let gain = survivors * (1.0 - c.density) * exact_cost;
+            if moduli.len() >= MIN_MODULI && gain < (q * q) as f64 {
+                break;
+            }
+            survivors *= c.density;
+            let base = table.len();
+            table.reserve(q as usize * q as usize);
+            for r in 0..q {
+                let mut pat = if !homogeneous || r == 0 {
+                    c.rows[r as usize] as u128
+                } else {
+                    // r = p^a u: scatter the row of p^a by u^w.
+                    let (mut pa, mut u) = (1u64, r);
+                    while u % c.p as u64 == 0 {
+                        pa *= c.p as u64;
+                        u /= c.p as u64;
+                    }
+                    let mut step = 1u64;
+                    for _ in 0..weight {
+                        step = step * u % q;
+                    }
+                    let (mut pat, mut idx, mut bits) = (0u64, 0u64, c.rows[pa as usize]);
+                    for _ in 0..q {
+                        pat |= (bits & 1) << idx;
+                        bits >>= 1;
+                        idx += step;
+                        if idx >= q {
+                            idx -= q;
+                        }
+                    }
+                    pat as u128
+                };
+                // Repeat the period up to 128 bits; the word for offset s is
+                // then bits s .. s + 64.
+                let mut len = q;
+                while len < 128 {
+                    pat |= pat << len;
+                    len *= 2;
+                }
+                table.extend((0..q).map(|s| (pat >> s) as u64));
+            }
+            moduli.push(Modulus { q: c.q, base });
+        }
         let mut lane_q = [1u8; LANES];
         let mut lane_step = [0u8; LANES];
         for (i, m) in moduli.iter().enumerate() {
@@ -504,7 +552,7 @@ mod tests {
 
     /// Every table bit against a direct evaluation mod q.
     fn check_table(form: &Form, weight: u32) {
-        let sv = Sieve::new(form.clone(), weight);
+        let sv = Sieve::new(form.clone(), weight, 1 << 20);
         assert!(!sv.moduli.is_empty());
         for m in &sv.moduli {
             let q = m.q as u64;
@@ -542,10 +590,10 @@ mod tests {
     fn moduli_sorted_and_useless_ones_dropped() {
         // x^2 z^2 is a square everywhere, so only the coprimality rule removes
         // residues: density 1 - 1/p^2, above 0.999 exactly for p >= 37.
-        let sv = Sieve::new(quartic_form([0, 0, 1, 0, 0]), 1);
+        let sv = Sieve::new(quartic_form([0, 0, 1, 0, 0]), 1, 1 << 20);
         assert_eq!(sv.moduli(), vec![64, 27, 25, 49, 11, 13, 17, 19, 23, 29, 31]);
         // In general the densities come out non-decreasing.
-        let sv = Sieve::new(quartic_form([2, 0, 0, 0, -34]), 1);
+        let sv = Sieve::new(quartic_form([2, 0, 0, 0, -34]), 1, 1 << 20);
         let dens: Vec<f64> = sv
             .moduli
             .iter()
@@ -571,5 +619,38 @@ mod tests {
         }
         // Too large for the word path.
         assert!(FastForm::new(&quartic_form([1 << 62, 0, 0, 0, 1]), 1 << 20, 1 << 20).is_none());
+    }
+}
+
+#[cfg(test)]
+mod timing {
+    use super::*;
+    #[test]
+    #[ignore]
+    fn time_parts() {
+        let form = Form::new(vec![(Integer::from(-34), 4, 0), (Integer::from(2), 0, 4)]);
+        let t = Instant::now();
+        for _ in 0..100 {
+            std::hint::black_box(Sieve::new(form.clone(), 1, 100));
+        }
+        eprintln!("build 100: {:?} {:?}", t.elapsed() / 100, Sieve::new(form.clone(), 1, 100).moduli());
+        let t = Instant::now();
+        for _ in 0..100 {
+            std::hint::black_box(Sieve::new(form.clone(), 1, 100000));
+        }
+        eprintln!("build 1e5: {:?} {:?}", t.elapsed() / 100, Sieve::new(form.clone(), 1, 100000).moduli());
+        let sv = Sieve::new(form.clone(), 1, 100);
+        let lim = SearchLimits::new(100);
+        let t = Instant::now();
+        for _ in 0..100 {
+            let mut clock = Clock::new(&lim);
+            std::hint::black_box(sv.run(100, &mut clock, &mut |_, _, _| false));
+        }
+        eprintln!("run 100: {:?}", t.elapsed() / 100);
+        let t = Instant::now();
+        for _ in 0..100 {
+            std::hint::black_box(FastForm::new(&form, 100, 100));
+        }
+        eprintln!("fast: {:?}", t.elapsed() / 100);
     }
 }
