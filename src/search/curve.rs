@@ -91,7 +91,7 @@ pub fn search_curve(curve: &Curve, limits: &SearchLimits) -> SearchOutcome<(Rati
     };
     let [c0, c1, c2, c3] = c;
     let form = Form::new(vec![(c0, 3, 0), (c1, 2, 2), (c2, 1, 4), (c3, 0, 6)]);
-    let sieve = Sieve::new(form, 2);
+    let sieve = Sieve::new(form, 2, height);
     let mut clock = Clock::new(limits);
     let mut points = Vec::new();
     let report = sieve.run(height, &mut clock, &mut |m, k, r| {

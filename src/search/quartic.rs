@@ -76,7 +76,7 @@ pub fn search_quartic(g: &[Integer; 5], limits: &SearchLimits) -> SearchOutcome<
         }
     }
     let form = Form::new((0..5).map(|k| (g[k].clone(), 4 - k as u32, k as u32)).collect());
-    let sieve = Sieve::new(form, 1);
+    let sieve = Sieve::new(form, 1, height);
     let mut clock = Clock::new(limits);
     let report = sieve.run(height, &mut clock, &mut |x, z, r| {
         if let Some(p) = checked_point(g, x, z, Integer::from(r)) {

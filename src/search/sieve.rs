@@ -22,8 +22,9 @@ use malachite::{Integer, Natural};
 use std::sync::atomic::Ordering;
 use std::time::Instant;
 
-/// Moduli tried for the sieve; each must be at most 128 (the offset update
-/// works in bytes). Prime powers stand in for their primes.
+/// Moduli tried for the sieve, with their primes; each must be at most 64
+/// (the offset update works in bytes and the table build in small words).
+/// Prime powers stand in for their primes.
 const MODULI: [(u32, u32); 18] = [
     (64, 2),
     (27, 3),
@@ -45,6 +46,9 @@ const MODULI: [(u32, u32); 18] = [
     (61, 61),
 ];
 
+/// Highest degree of either variable in a term of a sieved form.
+pub(crate) const MAX_DEGREE: usize = 7;
+
 /// Lanes of the per-word offset state (at least `MODULI.len()`).
 const LANES: usize = 32;
 
@@ -65,7 +69,11 @@ pub(crate) struct Form {
 
 impl Form {
     /// The form with the given terms (zero coefficients are dropped).
+    ///
+    /// Panics (internal precondition) if a variable has degree above
+    /// [`MAX_DEGREE`] in some term.
     pub(crate) fn new(terms: Vec<(Integer, u32, u32)>) -> Form {
+        assert!(terms.iter().all(|t| t.1 as usize <= MAX_DEGREE && t.2 as usize <= MAX_DEGREE));
         Form { terms: terms.into_iter().filter(|t| t.0 != Integer::ZERO).collect() }
     }
 
@@ -95,21 +103,22 @@ impl Form {
         v.unsigned_abs().checked_sqrt()
     }
 
-    /// The value modulo `q` at residues `x`, `z` (all below `q <= 128`),
-    /// with the coefficients already reduced in `cq`.
-    fn value_mod(&self, cq: &[u64], x: u64, z: u64, q: u64) -> u64 {
+    /// The value modulo `q` at residues `x`, `z` below `q <= 64`, with the
+    /// coefficients reduced in `cq` and `pw[t][i] = t^i mod q`; every product
+    /// `cq * pw * pw` is below `2^18`, so one reduction at the end suffices.
+    fn value_mod(&self, cq: &[u64], pw: &[[u64; MAX_DEGREE + 1]], x: u64, z: u64, q: u64) -> u64 {
         let mut v = 0u64;
-        for (k, (_, i, j)) in self.terms.iter().enumerate() {
-            let mut t = cq[k];
-            for _ in 0..*i {
-                t = t * x % q;
-            }
-            for _ in 0..*j {
-                t = t * z % q;
-            }
-            v = (v + t) % q;
+        for (k, &(_, i, j)) in self.terms.iter().enumerate() {
+            v += cq[k] * pw[x as usize][i as usize] * pw[z as usize][j as usize];
         }
-        v
+        v % q
+    }
+
+    /// The weighted degree `D` with `F(l^w x, l z) = l^D F(x, z)`, if the form
+    /// is weighted homogeneous for the weight `w`.
+    fn weighted_degree(&self, w: u32) -> Option<u32> {
+        let d = self.terms.first().map(|t| t.1 * w + t.2)?;
+        self.terms.iter().all(|t| t.1 * w + t.2 == d).then_some(d)
     }
 }
 
@@ -164,6 +173,18 @@ impl FastForm {
         (r * r == v as u128).then(|| Natural::from(r))
     }
 }
+
+/// A modulus being considered: its density of admissible pairs and the
+/// patterns of the rows not derived from others (the rest are zero).
+struct Candidate {
+    q: u32,
+    p: u32,
+    density: f64,
+    rows: Vec<u64>,
+}
+
+/// Moduli kept whatever the height.
+const MIN_MODULI: usize = 6;
 
 /// One sieve modulus: `q`, the step `64 mod q` and where its rows start.
 #[derive(Clone, Copy, Debug)]
@@ -229,53 +250,127 @@ pub(crate) struct Sieve {
 }
 
 impl Sieve {
-    /// Build the tables for `form`, whose rows `z` have height `z^weight`.
-    pub(crate) fn new(form: Form, weight: u32) -> Sieve {
-        let mut table = Vec::new();
-        let mut found: Vec<(f64, Modulus)> = Vec::new();
-        let mut ok = Vec::new();
+    /// Build the tables for `form`, whose rows `z` have height `z^weight`,
+    /// for a search up to `height` (which decides how many moduli pay for
+    /// their tables).
+    pub(crate) fn new(form: Form, weight: u32, height: u64) -> Sieve {
+        // Phase 1: for each modulus, the admissible residues of the rows that
+        // are not derived from others, and the density. The form is weighted
+        // homogeneous, F(u^w x, u z) = u^D F(x, z); when D is even, u^D is a
+        // square and for r = p^a u with u a unit mod q the row of r is the
+        // row of p^a permuted: ok_r[u^w t] = ok_{p^a}[t]. Then only the rows
+        // 0 and p^a need evaluating.
+        let homogeneous = form.weighted_degree(weight).is_some_and(|d| d % 2 == 0);
+        let max_deg = form.terms.iter().map(|t| t.1.max(t.2) as usize).max().unwrap_or(0);
+        let mut found: Vec<Candidate> = Vec::with_capacity(MODULI.len());
         for &(q, p) in MODULI.iter() {
+            let (qu, pu) = (q as u64, p as u64);
             let qn = Integer::from(q);
             let cq: Vec<u64> = form
                 .terms
                 .iter()
                 .map(|(c, _, _)| u64::try_from(&c.mod_op(&qn)).expect("residue below q"))
                 .collect();
-            let mut is_sq = vec![false; q as usize];
-            for y in 0..q as u64 {
-                is_sq[(y * y % q as u64) as usize] = true;
+            let mut pw = [[1u64; MAX_DEGREE + 1]; 64];
+            for (t, row) in pw.iter_mut().enumerate().take(q as usize) {
+                for i in 1..=max_deg {
+                    row[i] = row[i - 1] * t as u64 % qu;
+                }
             }
-            let base = table.len();
+            let mut is_sq = 0u64;
+            let mut mult_p = 0u64;
+            for y in 0..qu {
+                is_sq |= 1 << (y * y % qu);
+                mult_p |= ((y % pu == 0) as u64) << y;
+            }
+            let row_pattern = |r: u64| -> u64 {
+                let mut pat = 0u64;
+                let r_mult = (mult_p >> r) & 1 == 1;
+                for t in 0..qu {
+                    let coprime = !(r_mult && (mult_p >> t) & 1 == 1);
+                    let ok = coprime && (is_sq >> form.value_mod(&cq, &pw, t, r, qu)) & 1 == 1;
+                    pat |= (ok as u64) << t;
+                }
+                pat
+            };
+            let mut rows = vec![0u64; q as usize];
             let mut ones = 0u64;
-            for r in 0..q as u64 {
-                ok.clear();
-                for t in 0..q as u64 {
-                    let coprime_ok = !(r % p as u64 == 0 && t % p as u64 == 0);
-                    let good = coprime_ok && is_sq[form.value_mod(&cq, t, r, q as u64) as usize];
-                    ones += good as u64;
-                    ok.push(good);
+            if homogeneous {
+                // rows 1, p, p^2, ... below q, and 0
+                let mut pa = 1u64;
+                while pa < qu {
+                    rows[pa as usize] = row_pattern(pa);
+                    let count = (qu / pa) - (qu / pa / pu); // r < q with v_p(r) = a
+                    ones += count * rows[pa as usize].count_ones() as u64;
+                    pa *= pu;
                 }
-                // Word for offset 0, then rotate one bit at a time.
-                let mut w = 0u64;
-                for j in 0..64usize {
-                    if ok[j % q as usize] {
-                        w |= 1 << j;
-                    }
-                }
-                for s in 0..q as usize {
-                    table.push(w);
-                    w = (w >> 1) | ((ok[(s + 64) % q as usize] as u64) << 63);
+                rows[0] = row_pattern(0);
+                ones += rows[0].count_ones() as u64;
+            } else {
+                for r in 0..qu {
+                    rows[r as usize] = row_pattern(r);
+                    ones += rows[r as usize].count_ones() as u64;
                 }
             }
-            let density = ones as f64 / (q as f64 * q as f64);
-            if density > 0.999 {
-                table.truncate(base);
-            } else {
-                found.push((density, Modulus { q, base }));
+            let density = ones as f64 / (qu * qu) as f64;
+            if density <= 0.999 {
+                found.push(Candidate { q, p, density, rows });
             }
         }
-        found.sort_by(|a, b| a.0.partial_cmp(&b.0).expect("densities are finite"));
-        let moduli: Vec<Modulus> = found.into_iter().map(|(_, m)| m).collect();
+        found.sort_by(|a, b| a.density.partial_cmp(&b.density).expect("densities are finite"));
+
+        // Phase 2: build the rotated words for the most selective moduli,
+        // while the exact tests a modulus saves outweigh its table.
+        let rows_searched = if weight == 1 { height } else { height.isqrt() };
+        let mut survivors = (rows_searched as f64) * (2 * height + 1) as f64;
+        let exact_cost = if FastForm::new(&form, height, rows_searched).is_some() { 30.0 } else { 300.0 };
+        let mut table = Vec::new();
+        let mut moduli = Vec::new();
+        for c in found {
+            let q = c.q as u64;
+            let gain = survivors * (1.0 - c.density) * exact_cost;
+            if moduli.len() >= MIN_MODULI && gain < (q * q) as f64 {
+                break;
+            }
+            survivors *= c.density;
+            let base = table.len();
+            table.reserve(q as usize * q as usize);
+            for r in 0..q {
+                let mut pat = if !homogeneous || r == 0 {
+                    c.rows[r as usize] as u128
+                } else {
+                    // r = p^a u: scatter the row of p^a by u^w.
+                    let (mut pa, mut u) = (1u64, r);
+                    while u % c.p as u64 == 0 {
+                        pa *= c.p as u64;
+                        u /= c.p as u64;
+                    }
+                    let mut step = 1u64;
+                    for _ in 0..weight {
+                        step = step * u % q;
+                    }
+                    let (mut pat, mut idx, mut bits) = (0u64, 0u64, c.rows[pa as usize]);
+                    for _ in 0..q {
+                        pat |= (bits & 1) << idx;
+                        bits >>= 1;
+                        idx += step;
+                        if idx >= q {
+                            idx -= q;
+                        }
+                    }
+                    pat as u128
+                };
+                // Repeat the period up to 128 bits; the word for offset s is
+                // then bits s .. s + 64.
+                let mut len = q;
+                while len < 128 {
+                    pat |= pat << len;
+                    len *= 2;
+                }
+                table.extend((0..q).map(|s| (pat >> s) as u64));
+            }
+            moduli.push(Modulus { q: c.q, base });
+        }
         let mut lane_q = [1u8; LANES];
         let mut lane_step = [0u8; LANES];
         for (i, m) in moduli.iter().enumerate() {
@@ -455,11 +550,10 @@ mod tests {
         Form::new(c.iter().enumerate().map(|(k, &v)| (Integer::from(v), 4 - k as u32, k as u32)).collect())
     }
 
-    #[test]
-    fn table_words_match_direct_residues() {
-        // Every table bit is checked against a direct evaluation mod q.
-        let form = quartic_form([3, -2, 5, 7, -11]);
-        let sv = Sieve::new(form.clone(), 1);
+    /// Every table bit against a direct evaluation mod q.
+    fn check_table(form: &Form, weight: u32) {
+        let sv = Sieve::new(form.clone(), weight, 1 << 20);
+        assert!(!sv.moduli.is_empty());
         for m in &sv.moduli {
             let q = m.q as u64;
             let p = MODULI.iter().find(|e| e.0 == m.q).unwrap().1 as u64;
@@ -480,13 +574,26 @@ mod tests {
     }
 
     #[test]
+    fn table_words_match_direct_residues() {
+        check_table(&quartic_form([3, -2, 5, 7, -11]), 1);
+        check_table(&quartic_form([-34, 0, 0, 0, 2]), 1);
+        // The form of y^2 + y = x^3 - x: 4 m^3 - 4 m k^4 + k^6 (weight 2).
+        let curve = Form::new(vec![(Integer::from(4), 3, 0), (Integer::from(-4), 1, 4), (Integer::from(1), 0, 6)]);
+        check_table(&curve, 2);
+        // Not weighted homogeneous: every row computed directly.
+        let mixed = Form::new(vec![(Integer::from(1), 3, 0), (Integer::from(5), 1, 1), (Integer::from(-7), 0, 0)]);
+        assert!(mixed.weighted_degree(1).is_none());
+        check_table(&mixed, 1);
+    }
+
+    #[test]
     fn moduli_sorted_and_useless_ones_dropped() {
         // x^2 z^2 is a square everywhere, so only the coprimality rule removes
         // residues: density 1 - 1/p^2, above 0.999 exactly for p >= 37.
-        let sv = Sieve::new(quartic_form([0, 0, 1, 0, 0]), 1);
+        let sv = Sieve::new(quartic_form([0, 0, 1, 0, 0]), 1, 1 << 20);
         assert_eq!(sv.moduli(), vec![64, 27, 25, 49, 11, 13, 17, 19, 23, 29, 31]);
         // In general the densities come out non-decreasing.
-        let sv = Sieve::new(quartic_form([2, 0, 0, 0, -34]), 1);
+        let sv = Sieve::new(quartic_form([2, 0, 0, 0, -34]), 1, 1 << 20);
         let dens: Vec<f64> = sv
             .moduli
             .iter()
@@ -512,5 +619,38 @@ mod tests {
         }
         // Too large for the word path.
         assert!(FastForm::new(&quartic_form([1 << 62, 0, 0, 0, 1]), 1 << 20, 1 << 20).is_none());
+    }
+}
+
+#[cfg(test)]
+mod timing {
+    use super::*;
+    #[test]
+    #[ignore]
+    fn time_parts() {
+        let form = Form::new(vec![(Integer::from(-34), 4, 0), (Integer::from(2), 0, 4)]);
+        let t = Instant::now();
+        for _ in 0..100 {
+            std::hint::black_box(Sieve::new(form.clone(), 1, 100));
+        }
+        eprintln!("build 100: {:?} {:?}", t.elapsed() / 100, Sieve::new(form.clone(), 1, 100).moduli());
+        let t = Instant::now();
+        for _ in 0..100 {
+            std::hint::black_box(Sieve::new(form.clone(), 1, 100000));
+        }
+        eprintln!("build 1e5: {:?} {:?}", t.elapsed() / 100, Sieve::new(form.clone(), 1, 100000).moduli());
+        let sv = Sieve::new(form.clone(), 1, 100);
+        let lim = SearchLimits::new(100);
+        let t = Instant::now();
+        for _ in 0..100 {
+            let mut clock = Clock::new(&lim);
+            std::hint::black_box(sv.run(100, &mut clock, &mut |_, _, _| false));
+        }
+        eprintln!("run 100: {:?}", t.elapsed() / 100);
+        let t = Instant::now();
+        for _ in 0..100 {
+            std::hint::black_box(FastForm::new(&form, 100, 100));
+        }
+        eprintln!("fast: {:?}", t.elapsed() / 100);
     }
 }
