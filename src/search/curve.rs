@@ -74,7 +74,7 @@ fn sort_points(points: &mut [(Rational, Rational)]) {
 /// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
 /// let out = search_curve(&e, &SearchLimits::new(4));
 /// let xs: Vec<String> = out.points.iter().map(|p| p.0.to_string()).collect();
-/// assert_eq!(xs, ["0", "0", "-1", "-1", "1", "1", "2", "2", "1/4", "1/4"]);
+/// assert_eq!(xs, ["-1", "-1", "0", "0", "1", "1", "2", "2", "1/4", "1/4"]);
 /// ```
 pub fn search_curve(curve: &Curve, limits: &SearchLimits) -> SearchOutcome<(Rational, Rational)> {
     let (height, clamped) = clamp_height(limits.height);
