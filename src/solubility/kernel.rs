@@ -27,6 +27,12 @@ fn discriminant_word(g: &[Integer; 5]) -> Option<i128> {
         w[k] = i128::try_from(x).ok()?;
     }
     let [a, b, c, d, e] = w;
+    if w.iter().all(|x| x.unsigned_abs() < 1 << 18) {
+        // |I| < 16 * 2^36 = 2^40 and |J| < 137 * 2^54 < 2^62: no overflow
+        let i = 12 * a * e - 3 * b * d + c * c;
+        let j = 72 * a * c * e + 9 * b * c * d - 27 * a * d * d - 27 * e * b * b - 2 * c * c * c;
+        return Some((4 * i * i * i - j * j) / 27);
+    }
     let m = |x: i128, y: i128| x.checked_mul(y);
     let i = m(m(12, a)?, e)?.checked_sub(m(m(3, b)?, d)?)?.checked_add(m(c, c)?)?;
     let j = m(m(m(72, a)?, c)?, e)?

@@ -18,6 +18,36 @@ pub(crate) fn form_value(c: &[Integer], x: &Integer, z: &Integer) -> Integer {
     v
 }
 
+/// Whether `form(x, z) > 0`, in checked `i128` arithmetic when the words
+/// `cw` of the coefficients are given and nothing overflows, exactly over
+/// `Integer` otherwise.
+fn positive_at(c: &[Integer], cw: Option<&[i128]>, x: i64, z: i64) -> bool {
+    if let Some(cw) = cw {
+        let word = || -> Option<i128> {
+            let (x, z) = (x as i128, z as i128);
+            let mut v = 0i128;
+            let mut zp = 1i128;
+            for ci in cw {
+                v = v.checked_mul(x)?.checked_add(ci.checked_mul(zp)?)?;
+                zp = zp.checked_mul(z)?;
+            }
+            Some(v)
+        };
+        if let Some(v) = word() {
+            return v > 0;
+        }
+    }
+    form_value(c, &Integer::from(x), &Integer::from(z)) > 0u32
+}
+
+fn words(c: &[Integer]) -> Option<[i128; 5]> {
+    let mut w = [0i128; 5];
+    for (k, ci) in c.iter().enumerate() {
+        w[k] = i128::try_from(ci).ok()?;
+    }
+    Some(w)
+}
+
 fn poly_eval(f: &[Rational], t: &Rational) -> Rational {
     let mut v = Rational::ZERO;
     for c in f.iter().rev() {
@@ -99,7 +129,17 @@ fn lead_sign(p: &[Rational], at_minus_infinity: bool) -> Ordering {
 /// A primitive `(x, z)` with `form(x, z) > 0`, or `None` if the form is
 /// nowhere positive. `c` is squarefree of even degree `n` (any leading
 /// coefficient, zero included).
-pub(crate) fn real_positive_point(c: &[Integer]) -> Option<(Integer, Integer)> {
+///
+/// `disc_sign`, when given, is the sign of the discriminant of a quartic
+/// (`n = 4`), used for two shortcuts with a negative leading coefficient:
+/// the sign of the discriminant of a real polynomial with distinct roots is
+/// `(-1)^s` for `s` pairs of complex conjugate roots (each pair contributes
+/// `(2 i Im)^2 < 0`, the other factors come in conjugate pairs), so a
+/// negative discriminant means two real roots; and four real roots force
+/// `f''` to have two distinct real roots (Rolle), i.e.
+/// `disc(f'') = -12 (8ac - 3b^2) > 0`, so a positive discriminant with
+/// `8ac - 3b^2 >= 0` means no real root.
+pub(crate) fn real_positive_point(c: &[Integer], disc_sign: Option<Ordering>) -> Option<(Integer, Integer)> {
     let n = c.len() - 1;
     let one = Integer::ONE;
     let zero = Integer::ZERO;
@@ -109,9 +149,11 @@ pub(crate) fn real_positive_point(c: &[Integer]) -> Option<(Integer, Integer)> {
     if c[n] > 0u32 {
         return Some((zero, one));
     }
-    for x in [Integer::ONE, Integer::from(-1)] {
-        if form_value(c, &x, &one) > 0u32 {
-            return Some((x, one));
+    let cw = words(c);
+    let cw = cw.as_ref().map(|w| &w[..=n]);
+    for x in [1i64, -1] {
+        if positive_at(c, cw, x, 1) {
+            return Some((Integer::from(x), one));
         }
     }
     if n == 0 {
@@ -131,6 +173,36 @@ pub(crate) fn real_positive_point(c: &[Integer]) -> Option<(Integer, Integer)> {
     // c[0] < 0: positive somewhere iff there is a real root (all roots are
     // simple, so the sign changes there); then f > 0 between the two
     // smallest roots r1 < r2.
+    let mut known_real_root = false;
+    if n == 4 {
+        match disc_sign {
+            Some(Ordering::Less) => known_real_root = true,
+            Some(Ordering::Greater) => {
+                let p = Integer::from(8) * &c[0] * &c[2] - Integer::from(3) * &c[1] * &c[1];
+                if p >= 0u32 {
+                    return None;
+                }
+            }
+            _ => {}
+        }
+    }
+    if let Some(cw) = cw {
+        if let Some(w) = float_guided_point(c, cw) {
+            return Some(w);
+        }
+    }
+    let found = sturm_point(c);
+    debug_assert!(found.is_some() || !known_real_root);
+    found
+}
+
+/// The exact search for `c[0] < 0`: Sturm count, then bisection for a point
+/// between the two smallest real roots.
+pub(crate) fn sturm_point(c: &[Integer]) -> Option<(Integer, Integer)> {
+    let n = c.len() - 1;
+    let f_int: Vec<Integer> = (0..=n).map(|j| c[n - j].clone()).collect();
+    let bound: Natural = f_int.iter().map(|a| a.unsigned_abs()).max().expect("non-empty") + Natural::from(2u32);
+    let bound = Integer::from(bound);
     let f: Vec<Rational> = f_int.iter().map(|a| Rational::from(a.clone())).collect();
     let chain = sturm_chain(&f);
     let v_minus = variations(chain.iter().map(|p| lead_sign(p, true)));
@@ -163,4 +235,79 @@ pub(crate) fn real_positive_point(c: &[Integer]) -> Option<(Integer, Integer)> {
             lo = mid;
         }
     }
+}
+
+/// Candidate points from floating-point critical points of `f(t) = form(t, 1)`
+/// (the maximum of `f` sits at one of them), rounded to dyadic rationals of
+/// increasing precision and **verified exactly**; `None` if none is positive
+/// (then the exact Sturm search decides).
+fn float_guided_point(c: &[Integer], cw: &[i128]) -> Option<(Integer, Integer)> {
+    let n = c.len() - 1;
+    let mut w = [0f64; 5];
+    for (k, ci) in cw.iter().enumerate() {
+        w[k] = *ci as f64;
+    }
+    let crit: Vec<f64> = match n {
+        2 => vec![-w[1] / (2.0 * w[0])],
+        4 => {
+            // f'(t) / (4a) = t^3 + p2 t^2 + p1 t + p0
+            let a4 = 4.0 * w[0];
+            let (p2, p1, p0) = (3.0 * w[1] / a4, 2.0 * w[2] / a4, w[3] / a4);
+            let mut r = cubic_real_roots(p2, p1, p0);
+            for t in r.iter_mut() {
+                for _ in 0..4 {
+                    let v = ((*t + p2) * *t + p1) * *t + p0;
+                    let d = (3.0 * *t + 2.0 * p2) * *t + p1;
+                    if d != 0.0 {
+                        *t -= v / d;
+                    }
+                }
+            }
+            r
+        }
+        _ => return None,
+    };
+    for t in crit {
+        if !t.is_finite() {
+            continue;
+        }
+        for k in [0u32, 1, 2, 3, 4, 6, 8, 12, 16, 20, 26, 32, 40, 48] {
+            let scaled = t * (1u64 << k) as f64;
+            if scaled.abs() > 4.0e18 {
+                break;
+            }
+            let (x, z) = (scaled.round() as i64, 1i64 << k);
+            if positive_at(c, Some(cw), x, z) {
+                // reduce: z is a power of two
+                let sh = x.trailing_zeros().min(k);
+                let (x, z) = if x == 0 { (0, 1) } else { (x >> sh, z >> sh) };
+                return Some((Integer::from(x), Integer::from(z)));
+            }
+        }
+    }
+    None
+}
+
+/// Real roots of `t^3 + a t^2 + b t + c` in floating point (trigonometric
+/// form for three real roots, Cardano for one).
+fn cubic_real_roots(a: f64, b: f64, c: f64) -> Vec<f64> {
+    let p = b - a * a / 3.0;
+    let q = 2.0 * a * a * a / 27.0 - a * b / 3.0 + c;
+    let shift = -a / 3.0;
+    let disc = q * q / 4.0 + p * p * p / 27.0;
+    if disc < 0.0 {
+        let m = 2.0 * (-p / 3.0).sqrt();
+        let arg = (3.0 * q / (p * m)).clamp(-1.0, 1.0);
+        let theta = arg.acos() / 3.0;
+        (0..3).map(|k| m * (theta - 2.0 * std::f64::consts::PI * k as f64 / 3.0).cos() + shift).collect()
+    } else {
+        let s = disc.sqrt();
+        vec![(-q / 2.0 + s).cbrt() + (-q / 2.0 - s).cbrt() + shift]
+    }
+}
+
+#[cfg(test)]
+pub(crate) fn float_guided_point_for_tests(c: &[Integer]) -> Option<(Integer, Integer)> {
+    let cw = words(c)?;
+    float_guided_point(c, &cw[..c.len()])
 }
