@@ -1,9 +1,9 @@
 //! The real place: a point where a squarefree binary form of even degree is
 //! positive, found with exact sign evaluations and a Sturm sequence.
 
-use malachite::base::num::arithmetic::traits::{Sign, UnsignedAbs};
+use malachite::base::num::arithmetic::traits::{Gcd, Sign, UnsignedAbs};
 use malachite::base::num::basic::traits::{One, Zero};
-use malachite::{Integer, Natural, Rational};
+use malachite::{Integer, Natural};
 use std::cmp::Ordering;
 
 /// Value of the binary form (coefficient `c[i]` of `x^(n-i) z^i`) at `(x, z)`.
@@ -48,30 +48,29 @@ fn words(c: &[Integer]) -> Option<[i128; 5]> {
     Some(w)
 }
 
-fn poly_eval(f: &[Rational], t: &Rational) -> Rational {
-    let mut v = Rational::ZERO;
-    for c in f.iter().rev() {
-        v = v * t + c;
-    }
-    v
-}
-
-fn trim(f: &mut Vec<Rational>) {
+fn trim(f: &mut Vec<Integer>) {
     while f.last().is_some_and(|c| *c == 0u32) {
         f.pop();
     }
 }
 
-/// Remainder of `a` by non-zero `b` over Q.
-fn poly_rem(a: &[Rational], b: &[Rational]) -> Vec<Rational> {
+/// A positive multiple of the remainder of `a` by non-zero `b` (integer
+/// coefficients, lowest first): each elimination step multiplies by
+/// `|lc(b)| > 0` and subtracts `sign(lc(b)) lead(r) x^k b`.
+fn positive_prem(a: &[Integer], b: &[Integer]) -> Vec<Integer> {
     let mut r = a.to_vec();
     trim(&mut r);
     let db = b.len() - 1;
+    let lb = &b[db];
+    let (abs_lb, neg) = (Integer::from(lb.unsigned_abs()), *lb < 0u32);
     while r.len() > db {
         let k = r.len() - 1;
-        let q = &r[k] / &b[db];
+        let lr = if neg { -r[k].clone() } else { r[k].clone() };
+        for x in r.iter_mut() {
+            *x *= &abs_lb;
+        }
         for j in 0..=db {
-            let t = &q * &b[j];
+            let t = &lr * &b[j];
             r[k - db + j] -= t;
         }
         r.pop();
@@ -80,10 +79,27 @@ fn poly_rem(a: &[Rational], b: &[Rational]) -> Vec<Rational> {
     r
 }
 
-/// The Sturm sequence `f, f', -rem(f, f'), ...` of a squarefree `f`.
-fn sturm_chain(f: &[Rational]) -> Vec<Vec<Rational>> {
-    let d: Vec<Rational> = (1..f.len()).map(|i| Rational::from(i as u64) * &f[i]).collect();
-    let mut chain = vec![f.to_vec(), d];
+/// Divide by the (positive) content.
+fn primitive(mut f: Vec<Integer>) -> Vec<Integer> {
+    let mut g = Natural::ZERO;
+    for c in &f {
+        g = g.gcd(c.unsigned_abs());
+    }
+    if g > 1u32 {
+        let g = Integer::from(g);
+        for c in f.iter_mut() {
+            *c /= &g;
+        }
+    }
+    f
+}
+
+/// A Sturm sequence of a squarefree `f`: `f, f'` and then the negated
+/// remainders, each scaled by a positive constant (which changes no sign).
+fn sturm_chain(f: &[Integer]) -> Vec<Vec<Integer>> {
+    let mut d: Vec<Integer> = (1..f.len()).map(|i| Integer::from(i as u64) * &f[i]).collect();
+    trim(&mut d);
+    let mut chain = vec![f.to_vec(), primitive(d)];
     loop {
         let k = chain.len();
         if chain[k - 1].is_empty() {
@@ -93,13 +109,25 @@ fn sturm_chain(f: &[Rational]) -> Vec<Vec<Rational>> {
         if chain[k - 1].len() == 1 {
             break;
         }
-        let r: Vec<Rational> = poly_rem(&chain[k - 2], &chain[k - 1]).into_iter().map(|c| -c).collect();
+        let r: Vec<Integer> = positive_prem(&chain[k - 2], &chain[k - 1]).into_iter().map(|c| -c).collect();
         if r.is_empty() {
             break;
         }
-        chain.push(r);
+        chain.push(primitive(r));
     }
     chain
+}
+
+/// Sign of `P(u / z)` for `z > 0`: the sign of `sum P_j u^j z^(d-j)`.
+fn sign_at(p: &[Integer], u: &Integer, z: &Integer) -> Ordering {
+    let d = p.len() - 1;
+    let mut v = p[d].clone();
+    let mut zp = Integer::ONE;
+    for j in (0..d).rev() {
+        zp *= z;
+        v = v * u + &p[j] * &zp;
+    }
+    v.sign()
 }
 
 fn variations(signs: impl Iterator<Item = Ordering>) -> usize {
@@ -117,7 +145,7 @@ fn variations(signs: impl Iterator<Item = Ordering>) -> usize {
     count
 }
 
-fn lead_sign(p: &[Rational], at_minus_infinity: bool) -> Ordering {
+fn lead_sign(p: &[Integer], at_minus_infinity: bool) -> Ordering {
     let s = p.last().expect("non-zero").sign();
     if at_minus_infinity && (p.len() - 1) % 2 == 1 {
         s.reverse()
@@ -203,35 +231,38 @@ pub(crate) fn sturm_point(c: &[Integer]) -> Option<(Integer, Integer)> {
     let f_int: Vec<Integer> = (0..=n).map(|j| c[n - j].clone()).collect();
     let bound: Natural = f_int.iter().map(|a| a.unsigned_abs()).max().expect("non-empty") + Natural::from(2u32);
     let bound = Integer::from(bound);
-    let f: Vec<Rational> = f_int.iter().map(|a| Rational::from(a.clone())).collect();
-    let chain = sturm_chain(&f);
+    let chain = sturm_chain(&f_int);
     let v_minus = variations(chain.iter().map(|p| lead_sign(p, true)));
     let v_plus = variations(chain.iter().map(|p| lead_sign(p, false)));
     if v_minus <= v_plus {
         return None;
     }
-    // roots_upto(m) = #{real roots <= m} = V(-inf) - V(m) (Sturm's theorem;
-    // for squarefree f the count is right-continuous at a root)
-    let roots_upto = |m: &Rational| -> usize {
-        v_minus.saturating_sub(variations(chain.iter().map(|p| poly_eval(p, m).sign())))
+    // roots_upto(u / z) = #{real roots <= u / z} = V(-inf) - V(u / z)
+    // (Sturm's theorem; for squarefree f the count is right-continuous at a
+    // root, since f' does not vanish there)
+    let roots_upto = |u: &Integer, z: &Integer| -> usize {
+        v_minus.saturating_sub(variations(chain.iter().map(|p| sign_at(p, u, z))))
     };
-    let mut lo = Rational::from(-bound.clone());
-    let mut hi = Rational::from(bound);
+    // bisection on dyadic points lo / z < hi / z
+    let mut lo = -bound.clone();
+    let mut hi = bound;
+    let mut z = Integer::ONE;
     loop {
-        let mid: Rational = (&lo + &hi) / Rational::from(2u32);
-        let k = roots_upto(&mid);
+        lo <<= 1u32;
+        hi <<= 1u32;
+        z <<= 1u32;
+        let mid: Integer = (&lo + &hi) >> 1u32;
+        let k = roots_upto(&mid, &z);
         if k >= 2 {
             hi = mid;
         } else if k == 0 {
             lo = mid;
         } else {
-            if poly_eval(&f, &mid) > 0u32 {
-                let negative = mid < 0u32;
-                let (num, den) = mid.into_numerator_and_denominator();
-                let num = if negative { -Integer::from(num) } else { Integer::from(num) };
-                return Some((num, Integer::from(den)));
+            if sign_at(&f_int, &mid, &z) == Ordering::Greater {
+                let g = Integer::from((&mid).unsigned_abs().gcd((&z).unsigned_abs()));
+                return Some((mid / &g, z / g));
             }
-            // mid is the smallest root itself
+            // mid / z is the smallest root itself
             lo = mid;
         }
     }
