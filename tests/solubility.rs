@@ -312,6 +312,9 @@ fn hand_checked_insoluble_examples() {
     // y^2 = 2x^4 + 3z^4 at 3: if 3 does not divide x, g = 2x^4 = 2 (mod 3),
     // a non-square unit; if 3 | x, then z is a unit and v_3(g) = 1.
     assert!(!is_locally_soluble(&q([2, 0, 0, 0, 3]), &prime(3)));
+    // and at 2: x odd, z even: g = 2 (mod 32) has valuation 1; x, z odd:
+    // g = 2 + 3 = 5 (mod 16); x even, z odd: g = 3 (mod 32).
+    assert!(!is_locally_soluble(&q([2, 0, 0, 0, 3]), &prime(2)));
     // y^2 = 2x^4 + 5z^4 at 5: x a unit gives g = 2 x^4 = 2 (mod 5), and 2
     // is not a square mod 5; 5 | x gives v_5(g) = 1.
     assert!(!is_locally_soluble(&q([2, 0, 0, 0, 5]), &prime(5)));

@@ -96,6 +96,9 @@ impl Coeff for i128 {
     #[inline]
     fn mul_mod(&self, o: &Self, p: &Self) -> Self {
         // the word path is only used for p < 2^62, so the product fits
+        if *p < 1 << 32 {
+            return ((*self as u64 * *o as u64) % *p as u64) as i128;
+        }
         (self * o).rem_euclid(*p)
     }
     fn inv_mod(&self, p: &Self) -> Self {

@@ -50,7 +50,23 @@ fn discriminant_word(g: &[Integer; 5]) -> Option<i128> {
 /// prime bases", Math. Comp. 86 (2017)) and never rejects a prime.
 pub(crate) fn is_prime(p: &Natural) -> bool {
     if let Ok(w) = u64::try_from(p) {
-        return crate::arith::is_prime_u64(w);
+        if w < 41 * 41 {
+            // trial division inside is_prime_u64 settles these quickly
+            return crate::arith::is_prime_u64(w);
+        }
+        return RECENT_PRIMES.with(|cache| {
+            let mut c = cache.get();
+            if c.contains(&w) {
+                return true;
+            }
+            let ok = crate::arith::is_prime_u64(w);
+            if ok {
+                c.rotate_right(1);
+                c[0] = w;
+                cache.set(c);
+            }
+            ok
+        });
     }
     let one = Natural::ONE;
     let pm1 = p - &one;
@@ -78,6 +94,12 @@ pub(crate) fn is_prime(p: &Natural) -> bool {
         }
     }
     true
+}
+
+thread_local! {
+    /// Word primes verified recently on this thread (0 = empty slot); the
+    /// same few places are asked about for millions of quartics.
+    static RECENT_PRIMES: std::cell::Cell<[u64; 8]> = const { std::cell::Cell::new([0; 8]) };
 }
 
 // ---- polynomials over Q, lowest degree first, no trailing zeros ----

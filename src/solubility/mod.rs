@@ -275,9 +275,11 @@ pub fn is_locally_soluble(g: &[Integer; 5], place: &Place) -> bool {
 /// let g = [2, 0, 0, 0, -34].map(Integer::from);
 /// let ws = everywhere_locally_soluble(&g, &[Natural::from(2u32), Natural::from(17u32)]).unwrap();
 /// assert_eq!(ws.len(), 3);
+/// // 2x^4 + 3z^4 fails at 3 (values 2 mod 3 or of valuation 1) and at 2
+/// // (values 2 * odd, 5 mod 8 or 3 mod 8); the first failure is reported
 /// let h = [2, 0, 0, 0, 3].map(Integer::from);
 /// assert_eq!(
-///     everywhere_locally_soluble(&h, &[Natural::from(2u32), Natural::from(3u32)]),
+///     everywhere_locally_soluble(&h, &[Natural::from(3u32), Natural::from(2u32)]),
 ///     Err(Place::Prime(Natural::from(3u32)))
 /// );
 /// ```

@@ -320,6 +320,14 @@ impl<C: Coeff> Search<'_, C> {
         let mut hb: Vec<C> = h.iter().map(|c| c.rem(p)).collect();
         fp::trim(&mut hb);
         if !odd {
+            // a few direct tries first: any non-zero square value will do
+            for s in 0..4u64 {
+                let sc = C::from_u64(s);
+                let v = fp::eval(&hb, &sc, p);
+                if !v.is_zero() && v.legendre(p) == 1 {
+                    return LargeClass::Witness(sc);
+                }
+            }
             match fp::square_shape(&hb, p) {
                 None => {
                     let mut s = 0u64;
