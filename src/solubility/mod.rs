@@ -121,7 +121,7 @@ fn p_adic_square_prime(n: &Integer, p: &Natural) -> bool {
     if *p == 2u32 {
         let tz = (&u).unsigned_abs().trailing_zeros().expect("non-zero");
         u >>= tz;
-        return tz % 2 == 0 && (&u).mod_op(Integer::from(8)) == 1u32;
+        return tz.is_multiple_of(2) && (&u).mod_op(Integer::from(8)) == 1u32;
     }
     let mut v = 0u64;
     loop {
@@ -135,7 +135,7 @@ fn p_adic_square_prime(n: &Integer, p: &Natural) -> bool {
         u = q;
         v += 1;
     }
-    v % 2 == 0 && (&u).mod_op(&pi).jacobi_symbol(&pi) == 1
+    v.is_multiple_of(2) && (&u).mod_op(&pi).jacobi_symbol(&pi) == 1
 }
 
 /// The independent exact check of a witness: `(x, z)` is primitive and

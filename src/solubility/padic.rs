@@ -72,6 +72,8 @@ struct Search<'a, C: Coeff> {
     acc: Integer,
     /// On success: the level of the last digit.
     last_level: u32,
+    /// The deepest level visited (for the termination test).
+    deepest: u32,
 }
 
 #[inline]
@@ -108,9 +110,19 @@ pub(crate) fn padic_hit_with<C: Coeff>(
     p_nat: &Natural,
     exhaustive_below: u64,
 ) -> Result<Option<PadicHit>, Overflow> {
+    search_with_depth(form, p, p_nat, exhaustive_below).map(|r| r.0)
+}
+
+/// [`padic_hit_with`], also returning the deepest level of `p^k` visited.
+pub(crate) fn search_with_depth<C: Coeff>(
+    form: &[C],
+    p: C,
+    p_nat: &Natural,
+    exhaustive_below: u64,
+) -> Result<(Option<PadicHit>, u32), Overflow> {
     debug_assert!(exhaustive_below >= 17);
     let n = form.len() - 1;
-    debug_assert!(n <= 4 && n % 2 == 0);
+    debug_assert!(n <= 4 && n.is_multiple_of(2));
     let mut pw: [Option<C>; 5] = [Some(C::from_u64(1)), Some(p.clone()), None, None, None];
     for i in 2..5 {
         pw[i] = pw[i - 1].as_ref().and_then(|q| q.mul(&p));
@@ -132,6 +144,7 @@ pub(crate) fn padic_hit_with<C: Coeff>(
         qr_mask,
         acc: Integer::from(0),
         last_level: 0,
+        deepest: 0,
     };
 
     // divide out the content
@@ -152,19 +165,19 @@ pub(crate) fn padic_hit_with<C: Coeff>(
         xs[j] = c[n - j].clone();
     }
     if search.explore(&xs, m0 % 2 == 1, 0)? {
-        return Ok(Some(search.hit(true)));
+        let d = search.deepest;
+        return Ok((Some(search.hit(true)), d));
     }
 
     // z-chart: f(t) = form(1, t) with t = p s
     let mut zs: [C; 5] = [C::zero(), C::zero(), C::zero(), C::zero(), C::zero()];
-    for i in 0..=n {
-        zs[i] = c[i].clone();
-    }
+    zs[..=n].clone_from_slice(c);
     let (zh, delta) = search.scale_normalise(zs)?;
     if search.explore(&zh, (m0 + delta) % 2 == 1, 1)? {
-        return Ok(Some(search.hit(false)));
+        let d = search.deepest;
+        return Ok((Some(search.hit(false)), d));
     }
-    Ok(None)
+    Ok((None, search.deepest))
 }
 
 impl<C: Coeff> Search<'_, C> {
@@ -243,6 +256,7 @@ impl<C: Coeff> Search<'_, C> {
     /// the power of `p` in front of it. On success the digits of the witness
     /// are accumulated in `self.acc`.
     fn explore(&mut self, h: &[C; 5], odd: bool, level: u32) -> Result<bool, Overflow> {
+        self.deepest = self.deepest.max(level);
         let mut roots: [Option<C>; 4] = [None, None, None, None];
         let mut simple = [false; 4];
         let mut nroots = 0usize;

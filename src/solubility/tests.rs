@@ -204,3 +204,21 @@ fn sturm_finds_windows_floats_cannot() {
     let h = [-k.clone(), Integer::from(0), Integer::from(4) * &k, Integer::from(0), Integer::from(-1) - Integer::from(4) * &k];
     assert!(local_witness(&h, &Place::Real).is_none());
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(500))]
+
+    /// The termination argument of the padic module: the search never goes
+    /// deeper than v_p(disc) / 2 + 3 levels.
+    #[test]
+    fn search_depth_is_bounded_by_the_discriminant(c in proptest::array::uniform5(-30i64..30), e in proptest::array::uniform5(0u32..4), pi in 0usize..5) {
+        let p = [2u64, 3, 5, 7, 67][pi];
+        let g: [Integer; 5] = std::array::from_fn(|i| Integer::from(c[i]) * Integer::from(p).pow(u64::from(e[i])));
+        let d = kernel::discriminant(&g);
+        prop_assume!(d != 0u32);
+        let pn = Natural::from(p);
+        let v = crate::arith::valuation(&d, &pn).unwrap();
+        let (_, depth) = padic::search_with_depth(&g, Integer::from(p), &pn, 64).unwrap();
+        prop_assert!(depth <= v / 2 + 3, "{:?}: depth {} with v_p(disc) = {}", c, depth, v);
+    }
+}
