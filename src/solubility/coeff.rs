@@ -59,23 +59,46 @@ impl Coeff for i128 {
     }
     #[inline]
     fn rem(&self, m: &Self) -> Self {
-        self.rem_euclid(*m)
+        // 64-bit division when both fit (the 128-bit one is a slow libcall)
+        match (i64::try_from(*self), i64::try_from(*m)) {
+            (Ok(a), Ok(b)) => a.rem_euclid(b) as i128,
+            _ => self.rem_euclid(*m),
+        }
     }
     #[inline]
     fn rem_u64(&self, m: u64) -> u64 {
-        self.rem_euclid(m as i128) as u64
+        if m.is_power_of_two() {
+            // two's complement: the low bits are the non-negative remainder
+            return (*self as u64) & (m - 1);
+        }
+        match i64::try_from(*self) {
+            Ok(a) if m <= i64::MAX as u64 => a.rem_euclid(m as i64) as u64,
+            _ => self.rem_euclid(m as i128) as u64,
+        }
     }
     #[inline]
     fn div_exact(&self, m: &Self) -> Self {
-        self / m
+        match (i64::try_from(*self), i64::try_from(*m)) {
+            (Ok(a), Ok(b)) => (a / b) as i128,
+            _ => self / m,
+        }
     }
     #[inline]
     fn divisible_by(&self, m: &Self) -> bool {
-        self % m == 0
+        if *m == 2 {
+            return *self & 1 == 0;
+        }
+        match (i64::try_from(*self), i64::try_from(*m)) {
+            (Ok(a), Ok(b)) => a % b == 0,
+            _ => self % m == 0,
+        }
     }
     #[inline]
     fn mul_mod(&self, o: &Self, p: &Self) -> Self {
         // the word path is only used for p < 2^62, so the product fits
+        if *p < 1 << 32 {
+            return ((*self as u64 * *o as u64) % *p as u64) as i128;
+        }
         (self * o).rem_euclid(*p)
     }
     fn inv_mod(&self, p: &Self) -> Self {

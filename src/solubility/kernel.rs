@@ -27,6 +27,12 @@ fn discriminant_word(g: &[Integer; 5]) -> Option<i128> {
         w[k] = i128::try_from(x).ok()?;
     }
     let [a, b, c, d, e] = w;
+    if w.iter().all(|x| x.unsigned_abs() < 1 << 18) {
+        // |I| < 16 * 2^36 = 2^40 and |J| < 137 * 2^54 < 2^62: no overflow
+        let i = 12 * a * e - 3 * b * d + c * c;
+        let j = 72 * a * c * e + 9 * b * c * d - 27 * a * d * d - 27 * e * b * b - 2 * c * c * c;
+        return Some((4 * i * i * i - j * j) / 27);
+    }
     let m = |x: i128, y: i128| x.checked_mul(y);
     let i = m(m(12, a)?, e)?.checked_sub(m(m(3, b)?, d)?)?.checked_add(m(c, c)?)?;
     let j = m(m(m(72, a)?, c)?, e)?
@@ -44,7 +50,23 @@ fn discriminant_word(g: &[Integer; 5]) -> Option<i128> {
 /// prime bases", Math. Comp. 86 (2017)) and never rejects a prime.
 pub(crate) fn is_prime(p: &Natural) -> bool {
     if let Ok(w) = u64::try_from(p) {
-        return crate::arith::is_prime_u64(w);
+        if w < 41 * 41 {
+            // trial division inside is_prime_u64 settles these quickly
+            return crate::arith::is_prime_u64(w);
+        }
+        return RECENT_PRIMES.with(|cache| {
+            let mut c = cache.get();
+            if c.contains(&w) {
+                return true;
+            }
+            let ok = crate::arith::is_prime_u64(w);
+            if ok {
+                c.rotate_right(1);
+                c[0] = w;
+                cache.set(c);
+            }
+            ok
+        });
     }
     let one = Natural::ONE;
     let pm1 = p - &one;
@@ -72,6 +94,12 @@ pub(crate) fn is_prime(p: &Natural) -> bool {
         }
     }
     true
+}
+
+thread_local! {
+    /// Word primes verified recently on this thread (0 = empty slot); the
+    /// same few places are asked about for millions of quartics.
+    static RECENT_PRIMES: std::cell::Cell<[u64; 8]> = const { std::cell::Cell::new([0; 8]) };
 }
 
 // ---- polynomials over Q, lowest degree first, no trailing zeros ----

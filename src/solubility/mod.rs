@@ -32,7 +32,7 @@ mod padic;
 mod real;
 
 use crate::{Error, ErrorKind};
-use malachite::base::num::arithmetic::traits::{Gcd, JacobiSymbol, Mod, Pow, UnsignedAbs};
+use malachite::base::num::arithmetic::traits::{Gcd, JacobiSymbol, Mod, Pow, Sign, UnsignedAbs};
 use malachite::base::num::basic::traits::One;
 use malachite::{Integer, Natural};
 
@@ -121,7 +121,7 @@ fn p_adic_square_prime(n: &Integer, p: &Natural) -> bool {
     if *p == 2u32 {
         let tz = (&u).unsigned_abs().trailing_zeros().expect("non-zero");
         u >>= tz;
-        return tz % 2 == 0 && (&u).mod_op(Integer::from(8)) == 1u32;
+        return tz.is_multiple_of(2) && (&u).mod_op(Integer::from(8)) == 1u32;
     }
     let mut v = 0u64;
     loop {
@@ -135,7 +135,7 @@ fn p_adic_square_prime(n: &Integer, p: &Natural) -> bool {
         u = q;
         v += 1;
     }
-    v % 2 == 0 && (&u).mod_op(&pi).jacobi_symbol(&pi) == 1
+    v.is_multiple_of(2) && (&u).mod_op(&pi).jacobi_symbol(&pi) == 1
 }
 
 /// The independent exact check of a witness: `(x, z)` is primitive and
@@ -188,6 +188,10 @@ pub fn check_witness(g: &[Integer; 5], place: &Place, w: &LocalWitness) -> bool 
 /// assert!(local_witness(&h, &Place::Prime(Natural::from(3u32))).is_none());
 /// ```
 pub fn local_witness(g: &[Integer; 5], place: &Place) -> Option<LocalWitness> {
+    witness_given_disc(g, place, &kernel::discriminant(g))
+}
+
+fn witness_given_disc(g: &[Integer; 5], place: &Place, disc: &Integer) -> Option<LocalWitness> {
     if g.iter().all(|c| *c == 0u32) {
         return None;
     }
@@ -196,8 +200,8 @@ pub fn local_witness(g: &[Integer; 5], place: &Place) -> Option<LocalWitness> {
             return None;
         }
     }
-    if kernel::discriminant(g) != 0u32 {
-        let w = squarefree_witness(g, place)?;
+    if *disc != 0u32 {
+        let w = squarefree_witness(g, place, disc.sign())?;
         debug_assert!(check_witness(g, place, &w), "witness {w:?} fails for {g:?} at {place:?}");
         return Some(w);
     }
@@ -271,17 +275,20 @@ pub fn is_locally_soluble(g: &[Integer; 5], place: &Place) -> bool {
 /// let g = [2, 0, 0, 0, -34].map(Integer::from);
 /// let ws = everywhere_locally_soluble(&g, &[Natural::from(2u32), Natural::from(17u32)]).unwrap();
 /// assert_eq!(ws.len(), 3);
+/// // 2x^4 + 3z^4 fails at 3 (values 2 mod 3 or of valuation 1) and at 2
+/// // (values 2 * odd, 5 mod 8 or 3 mod 8); the first failure is reported
 /// let h = [2, 0, 0, 0, 3].map(Integer::from);
 /// assert_eq!(
-///     everywhere_locally_soluble(&h, &[Natural::from(2u32), Natural::from(3u32)]),
+///     everywhere_locally_soluble(&h, &[Natural::from(3u32), Natural::from(2u32)]),
 ///     Err(Place::Prime(Natural::from(3u32)))
 /// );
 /// ```
 pub fn everywhere_locally_soluble(g: &[Integer; 5], primes: &[Natural]) -> Result<Vec<(Place, LocalWitness)>, Place> {
+    let disc = kernel::discriminant(g);
     let mut out = Vec::with_capacity(primes.len() + 1);
     let places = std::iter::once(Place::Real).chain(primes.iter().map(|p| Place::Prime(p.clone())));
     for place in places {
-        match local_witness(g, &place) {
+        match witness_given_disc(g, &place, &disc) {
             Some(w) => out.push((place, w)),
             None => return Err(place),
         }
@@ -306,15 +313,22 @@ fn hit_point(h: &padic::PadicHit, t: &Integer) -> LocalWitness {
 
 /// Search on a squarefree form of even degree (`form[i]` the coefficient of
 /// `x^(n-i) z^i`).
-fn form_hit(form: &[Integer], place: &Place) -> Option<Hit> {
+fn form_hit(form: &[Integer], place: &Place, disc_sign: Option<std::cmp::Ordering>) -> Option<Hit> {
     match place {
-        Place::Real => real::real_positive_point(form).map(|(x, z)| Hit::Real(x, z)),
+        Place::Real => real::real_positive_point(form, disc_sign).map(|(x, z)| Hit::Real(x, z)),
         Place::Prime(p) => {
             if *p < (1u64 << 62) {
-                let words: Option<Vec<i128>> = form.iter().map(|c| i128::try_from(c).ok()).collect();
-                if let Some(words) = words {
+                let mut words = [0i128; 5];
+                let mut fits = true;
+                for (w, c) in words.iter_mut().zip(form) {
+                    match i128::try_from(c) {
+                        Ok(v) => *w = v,
+                        Err(_) => fits = false,
+                    }
+                }
+                if fits {
                     let pw = i128::from(u64::try_from(p).expect("below 2^62"));
-                    if let Ok(hit) = padic::padic_hit(&words, pw, p) {
+                    if let Ok(hit) = padic::padic_hit(&words[..form.len()], pw, p) {
                         return hit.map(Hit::Padic);
                     }
                 }
@@ -328,8 +342,8 @@ fn form_hit(form: &[Integer], place: &Place) -> Option<Hit> {
     }
 }
 
-fn squarefree_witness(g: &[Integer; 5], place: &Place) -> Option<LocalWitness> {
-    match form_hit(g, place)? {
+fn squarefree_witness(g: &[Integer; 5], place: &Place, disc_sign: std::cmp::Ordering) -> Option<LocalWitness> {
+    match form_hit(g, place, Some(disc_sign))? {
         Hit::Real(x, z) => Some(LocalWitness { x, z }),
         Hit::Padic(h) => Some(hit_point(&h, &h.t)),
     }
@@ -340,7 +354,7 @@ fn squarefree_witness(g: &[Integer; 5], place: &Place) -> Option<LocalWitness> {
 fn degenerate_witness(g: &[Integer; 5], place: &Place) -> Option<LocalWitness> {
     let r = kernel::odd_part(g);
     let nonzero = |w: &LocalWitness| real::form_value(g, &w.x, &w.z) != 0u32;
-    match form_hit(&r, place)? {
+    match form_hit(&r, place, None)? {
         Hit::Padic(h) => {
             let Place::Prime(p) = place else { unreachable!("p-adic hit at a prime") };
             let step = Integer::from(p.clone()).pow(u64::from(h.radius));

@@ -30,6 +30,7 @@
 //! most `v_p(disc) / 2 + 3`.
 
 use super::coeff::Coeff;
+use malachite::base::num::arithmetic::traits::Pow;
 use malachite::base::num::logic::traits::BitIterable;
 use malachite::{Integer, Natural};
 
@@ -67,7 +68,12 @@ struct Search<'a, C: Coeff> {
     two: bool,
     /// Bit `v` set iff `v` is a non-zero square modulo the small prime.
     qr_mask: u64,
-    digits: Vec<C>,
+    /// On success: the witness parameter, accumulated while unwinding.
+    acc: Integer,
+    /// On success: the level of the last digit.
+    last_level: u32,
+    /// The deepest level visited (for the termination test).
+    deepest: u32,
 }
 
 #[inline]
@@ -104,9 +110,19 @@ pub(crate) fn padic_hit_with<C: Coeff>(
     p_nat: &Natural,
     exhaustive_below: u64,
 ) -> Result<Option<PadicHit>, Overflow> {
+    search_with_depth(form, p, p_nat, exhaustive_below).map(|r| r.0)
+}
+
+/// [`padic_hit_with`], also returning the deepest level of `p^k` visited.
+pub(crate) fn search_with_depth<C: Coeff>(
+    form: &[C],
+    p: C,
+    p_nat: &Natural,
+    exhaustive_below: u64,
+) -> Result<(Option<PadicHit>, u32), Overflow> {
     debug_assert!(exhaustive_below >= 17);
     let n = form.len() - 1;
-    debug_assert!(n <= 4 && n % 2 == 0);
+    debug_assert!(n <= 4 && n.is_multiple_of(2));
     let mut pw: [Option<C>; 5] = [Some(C::from_u64(1)), Some(p.clone()), None, None, None];
     for i in 2..5 {
         pw[i] = pw[i - 1].as_ref().and_then(|q| q.mul(&p));
@@ -126,11 +142,15 @@ pub(crate) fn padic_hit_with<C: Coeff>(
         small: if two { None } else { small_val.filter(|&q| q < 64) },
         two,
         qr_mask,
-        digits: Vec::with_capacity(16),
+        acc: Integer::from(0),
+        last_level: 0,
+        deepest: 0,
     };
 
     // divide out the content
-    let mut c: Vec<C> = form.to_vec();
+    let mut c: [C; 5] = [C::zero(), C::zero(), C::zero(), C::zero(), C::zero()];
+    c[..=n].clone_from_slice(form);
+    let c = &mut c[..=n];
     let mut m0 = 0u32;
     while c.iter().all(|x| x.divisible_by(&p)) {
         for x in c.iter_mut() {
@@ -144,39 +164,42 @@ pub(crate) fn padic_hit_with<C: Coeff>(
     for j in 0..=n {
         xs[j] = c[n - j].clone();
     }
-    if search.explore(&xs, m0 % 2 == 1)? {
-        let last = search.digits.len() as u32 - 1;
-        return Ok(Some(search.hit(true, 0, last)));
+    if search.explore(&xs, m0 % 2 == 1, 0)? {
+        let d = search.deepest;
+        return Ok((Some(search.hit(true)), d));
     }
 
     // z-chart: f(t) = form(1, t) with t = p s
     let mut zs: [C; 5] = [C::zero(), C::zero(), C::zero(), C::zero(), C::zero()];
-    for i in 0..=n {
-        zs[i] = c[i].clone();
-    }
-    search.digits.clear();
+    zs[..=n].clone_from_slice(c);
     let (zh, delta) = search.scale_normalise(zs)?;
-    if search.explore(&zh, (m0 + delta) % 2 == 1)? {
-        let last = search.digits.len() as u32;
-        return Ok(Some(search.hit(false, 1, last)));
+    if search.explore(&zh, (m0 + delta) % 2 == 1, 1)? {
+        let d = search.deepest;
+        return Ok((Some(search.hit(false)), d));
     }
-    Ok(None)
+    Ok((None, search.deepest))
 }
 
 impl<C: Coeff> Search<'_, C> {
-    fn hit(&self, x_chart: bool, first_level: u32, last_level: u32) -> PadicHit {
-        let p = Integer::from(self.p_nat.clone());
-        let mut t = Integer::from(0);
-        let mut w = Integer::from(1);
-        for _ in 0..first_level {
-            w *= &p;
+    fn hit(&mut self, x_chart: bool) -> PadicHit {
+        let radius = if self.two { self.last_level + 3 } else { self.last_level + 1 };
+        PadicHit { x_chart, t: std::mem::take(&mut self.acc), radius }
+    }
+
+    /// Record digit `s` at `level` while unwinding a successful search.
+    fn add_digit(&mut self, s: &C, level: u32) {
+        if !s.is_zero() {
+            let p = Integer::from(self.p_nat.clone());
+            self.acc += s.to_integer() * p.pow(u64::from(level));
         }
-        for d in &self.digits {
-            t += d.to_integer() * &w;
-            w *= &p;
-        }
-        let radius = if self.two { last_level + 3 } else { last_level + 1 };
-        PadicHit { x_chart, t, radius }
+    }
+
+    /// Success at a leaf: `s` is the last digit.
+    fn leaf(&mut self, s: &C, level: u32) -> Result<bool, Overflow> {
+        self.acc = Integer::from(0);
+        self.last_level = level;
+        self.add_digit(s, level);
+        Ok(true)
     }
 
     /// Given `t(r) = sum t_i r^i` primitive, return the primitive part of
@@ -231,8 +254,9 @@ impl<C: Coeff> Search<'_, C> {
 
     /// Search the class described by `h` (primitive) and the parity `odd` of
     /// the power of `p` in front of it. On success the digits of the witness
-    /// are left in `self.digits`.
-    fn explore(&mut self, h: &[C; 5], odd: bool) -> Result<bool, Overflow> {
+    /// are accumulated in `self.acc`.
+    fn explore(&mut self, h: &[C; 5], odd: bool, level: u32) -> Result<bool, Overflow> {
+        self.deepest = self.deepest.max(level);
         let mut roots: [Option<C>; 4] = [None, None, None, None];
         let mut simple = [false; 4];
         let mut nroots = 0usize;
@@ -241,8 +265,7 @@ impl<C: Coeff> Search<'_, C> {
             if !odd {
                 for s in 0..8u64 {
                     if eval_mod(&r, s, 8) == 1 {
-                        self.digits.push(C::from_u64(s));
-                        return Ok(true);
+                        return self.leaf(&C::from_u64(s), level);
                     }
                 }
             }
@@ -264,16 +287,12 @@ impl<C: Coeff> Search<'_, C> {
                     simple[nroots] = deriv_mod(&r, s, p) != 0;
                     nroots += 1;
                 } else if !odd && (self.qr_mask >> v) & 1 == 1 {
-                    self.digits.push(C::from_u64(s));
-                    return Ok(true);
+                    return self.leaf(&C::from_u64(s), level);
                 }
             }
         } else {
             match self.class_large(h, odd) {
-                LargeClass::Witness(s) => {
-                    self.digits.push(s);
-                    return Ok(true);
-                }
+                LargeClass::Witness(s) => return self.leaf(&s, level),
                 LargeClass::Roots(list) => {
                     let hb: Vec<C> = h.iter().map(|c| c.rem(&self.p)).collect();
                     let dh = fp::derivative(&hb, &self.p);
@@ -293,11 +312,10 @@ impl<C: Coeff> Search<'_, C> {
                 }
                 let s = roots[i].clone().expect("root slot filled");
                 let (next, delta) = self.descend(h, &s)?;
-                self.digits.push(s);
-                if self.explore(&next, odd ^ (delta % 2 == 1))? {
+                if self.explore(&next, odd ^ (delta % 2 == 1), level + 1)? {
+                    self.add_digit(&s, level);
                     return Ok(true);
                 }
-                self.digits.pop();
             }
         }
         Ok(false)
@@ -316,6 +334,14 @@ impl<C: Coeff> Search<'_, C> {
         let mut hb: Vec<C> = h.iter().map(|c| c.rem(p)).collect();
         fp::trim(&mut hb);
         if !odd {
+            // a few direct tries first: any non-zero square value will do
+            for s in 0..4u64 {
+                let sc = C::from_u64(s);
+                let v = fp::eval(&hb, &sc, p);
+                if !v.is_zero() && v.legendre(p) == 1 {
+                    return LargeClass::Witness(sc);
+                }
+            }
             match fp::square_shape(&hb, p) {
                 None => {
                     let mut s = 0u64;

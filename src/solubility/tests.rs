@@ -164,3 +164,61 @@ fn coeff_word_and_big_residue_ops_agree() {
         assert_eq!((-a).rem(&p), i128::try_from(&(-ai.clone()).rem(&pi)).unwrap());
     }
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(400))]
+
+    /// The exact Sturm search, the float-guided probes and the discriminant
+    /// shortcuts reach the same verdict at the real place.
+    #[test]
+    fn real_paths_agree(c in proptest::array::uniform5(-500i64..500)) {
+        let mut c = c;
+        c[0] = -(c[0].abs() + 1);
+        let g: [Integer; 5] = c.map(Integer::from);
+        let d = kernel::discriminant(&g);
+        prop_assume!(d != 0u32);
+        use malachite::base::num::arithmetic::traits::Sign;
+        let fast = real::real_positive_point(&g, Some(d.sign()));
+        let slow = real::sturm_point(&g);
+        prop_assert_eq!(fast.is_some(), slow.is_some(), "{:?}", c);
+        for (x, z) in [fast, slow].into_iter().flatten() {
+            prop_assert!(real::form_value(&g, &x, &z) > 0u32);
+        }
+    }
+}
+
+#[test]
+fn sturm_finds_windows_floats_cannot() {
+    // 1 - K (t^2 - 2)^2 with K = 10^36 is positive only within about
+    // 3.5e-19 of +-sqrt(2), far below the dyadic probes' resolution
+    let k = Integer::from(10u32).pow(36);
+    let g = [-k.clone(), Integer::from(0), Integer::from(4) * &k, Integer::from(0), Integer::from(1) - Integer::from(4) * &k];
+    assert!(real::float_guided_point_for_tests(&g).is_none());
+    let w = local_witness(&g, &Place::Real).unwrap();
+    assert!(check_witness(&g, &Place::Real, &w));
+    // coefficients beyond i128: no float guide at all
+    let k = Integer::from(10u32).pow(45);
+    let g = [-k.clone(), Integer::from(0), Integer::from(4) * &k, Integer::from(0), Integer::from(1) - Integer::from(4) * &k];
+    let w = local_witness(&g, &Place::Real).unwrap();
+    assert!(check_witness(&g, &Place::Real, &w));
+    let h = [-k.clone(), Integer::from(0), Integer::from(4) * &k, Integer::from(0), Integer::from(-1) - Integer::from(4) * &k];
+    assert!(local_witness(&h, &Place::Real).is_none());
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(500))]
+
+    /// The termination argument of the padic module: the search never goes
+    /// deeper than v_p(disc) / 2 + 3 levels.
+    #[test]
+    fn search_depth_is_bounded_by_the_discriminant(c in proptest::array::uniform5(-30i64..30), e in proptest::array::uniform5(0u32..4), pi in 0usize..5) {
+        let p = [2u64, 3, 5, 7, 67][pi];
+        let g: [Integer; 5] = std::array::from_fn(|i| Integer::from(c[i]) * Integer::from(p).pow(u64::from(e[i])));
+        let d = kernel::discriminant(&g);
+        prop_assume!(d != 0u32);
+        let pn = Natural::from(p);
+        let v = crate::arith::valuation(&d, &pn).unwrap();
+        let (_, depth) = padic::search_with_depth(&g, Integer::from(p), &pn, 64).unwrap();
+        prop_assert!(depth <= v / 2 + 3, "{:?}: depth {} with v_p(disc) = {}", c, depth, v);
+    }
+}
