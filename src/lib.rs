@@ -3,6 +3,7 @@
 
 pub mod arith;
 pub mod curve;
+pub mod quartic;
 mod error;
 
 pub use curve::{Curve, ModelChange};

@@ -1,0 +1,33 @@
+//! Binary quartic forms and 2-coverings of elliptic curves.
+//!
+//! A binary quartic `g(x,z) = a x^4 + b x^3 z + c x^2 z^2 + d x z^3 + e z^4`
+//! with invariants `I`, `J` defines the curve `y^2 = g(x,z)`, a 2-covering of
+//! the elliptic curve `E_{I,J}: Y^2 = X^3 - 27 I X - 27 J` (Birch and
+//! Swinnerton-Dyer, *Notes on elliptic curves I*, J. reine angew. Math. 212
+//! (1963); Cremona, *Algorithms for Modular Elliptic Curves*, 2nd ed., 3.5;
+//! Cremona, *Classical invariants and 2-descent on elliptic curves*,
+//! J. Symbolic Comput. 31 (2001)).
+//!
+//! This module provides
+//! * the [`Quartic`] type with its invariants, seminvariants, covariants
+//!   (Hessian `g_H` and sextic `g_6`) and the `GL2` action;
+//! * the covering map from a point on `y^2 = g(x,z)` to `E_{I,J}` and to the
+//!   user's Weierstrass model ([`Quartic::image_on_jacobian`],
+//!   [`Quartic::image_on_curve`]);
+//! * reduction and `GL2(Z)`-equivalence ([`reduce`], [`gl2z_equivalent`]);
+//! * the enumeration of all `GL2(Z)`-classes with given invariants
+//!   ([`quartics_with_invariants`]);
+//! * the invariants to enumerate for a curve ([`covering_invariants`]);
+//! * the class of a quartic in `(Q[φ]/F(φ))^* / squares` and the
+//!   `GL2(Q)`-equivalence test ([`covering_class`], [`same_covering`]).
+
+mod core;
+mod reduction;
+mod enumerate;
+mod classes;
+mod numeric;
+
+pub use self::core::{Matrix, Quartic, RootType};
+pub use self::reduction::{gl2z_equivalent, gl2z_equivalence, reduce};
+pub use self::enumerate::{covering_invariants, covering_invariants_conservative, quartics_with_invariants, SearchOptions};
+pub use self::classes::{covering_class, same_covering, CoveringClass};
