@@ -44,7 +44,7 @@
 //! `φ_k` only set the box, which is widened by a safety margin.
 
 use super::core::{Quartic, RootType};
-use super::numeric::{resolvent_roots, sqrt_if_square_u128, to_f64, CubicRoots};
+use super::numeric::{resolvent_roots, sqrt_if_square_u128, sqrt_if_square_u64, to_f64, CubicRoots};
 use super::reduction::{near_reduced_set, size_key};
 use crate::curve::Curve;
 use crate::error::{Error, ErrorKind};
@@ -100,6 +100,10 @@ impl Search<'_> {
         let (ii, jj) = self.i128s.unwrap_or((i128::MAX, i128::MAX));
         let est = hmax.powi(3) + 48.0 * (ii as f64).abs() * af * af * hmax + 64.0 * (jj as f64).abs() * af.powi(3);
         let fast = self.i128s.is_some() && est < 2f64.powi(120);
+        // i64 arithmetic is safe when every intermediate stays below 2^62
+        let small = fast && est < 2f64.powi(58) && (ii as f64).abs() < 2f64.powi(40);
+        let work = (hhi - hlo) / 4.0;
+        let filt = fast.then(|| if work > 20000.0 { ResidueFilter::new(&Integer::from(a), self.i, self.j) } else { ResidueFilter::trivial() });
         for b in 0..=2 * a.abs() {
             let b2 = 3.0 * (b as f64) * (b as f64);
             let (lo, hi) = if a > 0 {
@@ -113,7 +117,7 @@ impl Search<'_> {
             let (clo, chi) = (lo as i128, hi as i128);
             self.tick((chi - clo + 1) as u64)?;
             if fast {
-                self.scan_fast(a as i128, b as i128, clo, chi, ii, jj);
+                self.scan_fast(a as i128, b as i128, clo, chi, ii, jj, small, filt.as_ref().unwrap());
             } else {
                 for c in clo..=chi {
                     self.candidate_big(&Integer::from(a), &Integer::from(b), &Integer::from(c));
@@ -123,34 +127,19 @@ impl Search<'_> {
         Ok(())
     }
 
-    fn scan_fast(&mut self, a: i128, b: i128, clo: i128, chi: i128, ii: i128, jj: i128) {
-        let a2 = a * a;
-        let t1 = 48 * ii * a2; // 48 I a^2
-        let t0 = 64 * jj * a2 * a; // 64 J a^3
-        let b3 = b * b * b;
-        let m8a2 = 8 * a2;
-        for c in clo..=chi {
-            let h = 8 * a * c - 3 * b * b;
-            let n = -h * h * h + t1 * h - t0;
-            if n < 0 || n % 27 != 0 {
-                continue;
+    #[allow(clippy::too_many_arguments)]
+    fn scan_fast(&mut self, a: i128, b: i128, clo: i128, chi: i128, ii: i128, jj: i128, small: bool, filt: &ResidueFilter) {
+        if small {
+            let mut hits: Vec<[i64; 5]> = Vec::new();
+            scan_i64(a as i64, b as i64, clo as i64, chi as i64, ii as i64, jj as i64, filt, &mut hits);
+            for h in hits {
+                self.push_checked(Quartic::from_coeffs(h.map(Integer::from)));
             }
-            let Some(r) = sqrt_if_square_u128((n / 27) as u128) else { continue };
-            let r = r as i128;
-            let base = 4 * a * b * c - b3;
-            let cands = [r, -r];
-            let count = if r == 0 { 1 } else { 2 };
-            for &rr in &cands[..count] {
-                let dn = rr + base;
-                if dn % m8a2 != 0 {
-                    continue;
-                }
-                let d = dn / m8a2;
-                let en = ii + 3 * b * d - c * c;
-                if en % (12 * a) == 0 {
-                    let e = en / (12 * a);
-                    self.push_checked(Quartic::from_coeffs([a, b, c, d, e].map(Integer::from)));
-                }
+        } else {
+            let mut hits: Vec<[i128; 5]> = Vec::new();
+            scan_i128(a, b, clo, chi, ii, jj, filt, &mut hits);
+            for h in hits {
+                self.push_checked(Quartic::from_coeffs(h.map(Integer::from)));
             }
         }
     }
@@ -217,6 +206,133 @@ impl Search<'_> {
         }
     }
 }
+
+/// The inner loop over `c` for fixed `a ≠ 0`, `b`, in one integer width:
+/// `H = 8ac - 3b^2`, `27 R^2 = -H^3 + 48 I a^2 H - 64 J a^3`,
+/// `d = (R - b^3 + 4abc)/(8a^2)`, `e = (I + 3bd - c^2)/(12a)`.
+macro_rules! scanner {
+    ($name:ident, $t:ty, $ut:ty, $sqrt:path) => {
+        fn $name(a: $t, b: $t, clo: $t, chi: $t, ii: $t, jj: $t, filt: &ResidueFilter, hits: &mut Vec<[$t; 5]>) {
+            let a2 = a * a;
+            let t1 = 48 * ii * a2;
+            let t0 = 64 * jj * a2 * a;
+            let b3 = b * b * b;
+            let m8a2 = 8 * a2;
+            let a12 = 12 * a;
+            let step = 8 * a;
+            let mut h = 8 * a * clo - 3 * b * b;
+            let mut base = 4 * a * b * clo - b3;
+            let dbase = 4 * a * b;
+            let mut c = clo;
+            let mut res = filt.start(h as i128);
+            while c <= chi {
+                let pass = filt.pass(&res);
+                filt.advance(&mut res);
+                if pass {
+                let n = (t1 - h * h) * h - t0;
+                if n >= 0 {
+                    let m = n / 27;
+                    if m * 27 == n {
+                        if let Some(r) = $sqrt(m as $ut) {
+                            let r = r as $t;
+                            let cands = [r, -r];
+                            let count = if r == 0 { 1 } else { 2 };
+                            for &rr in &cands[..count] {
+                                let dn = rr + base;
+                                if dn % m8a2 != 0 {
+                                    continue;
+                                }
+                                let d = dn / m8a2;
+                                let en = ii + 3 * b * d - c * c;
+                                if en % a12 == 0 {
+                                    hits.push([a, b, c, d, en / a12]);
+                                }
+                            }
+                        }
+                    }
+                }
+                }
+                h += step;
+                base += dbase;
+                c += 1;
+            }
+        }
+    };
+}
+
+/// Residue tables: for the moduli `27 m` with `m = 64, 35, 143`, whether
+/// `N(H) ≡ 0 (mod 27)` and `N(H)/27` is a square modulo `m`, indexed by
+/// `H mod 27m` (for a fixed `a`, `N` is a polynomial in `H`).
+pub(crate) struct ResidueFilter {
+    tables: [Vec<bool>; 3],
+    moduli: [u64; 3],
+    steps: [u64; 3],
+}
+
+impl ResidueFilter {
+    fn new(a: &Integer, i: &Integer, j: &Integer) -> ResidueFilter {
+        let ms = [64u64, 35, 143];
+        let tables = ms.map(|m| {
+            let modulus = 27 * m;
+            let mi = Integer::from(modulus);
+            let red = |x: Integer| -> u64 {
+                let r = x % &mi;
+                let r = if r < 0 { r + &mi } else { r };
+                u64::try_from(&r).unwrap()
+            };
+            let t1 = red(Integer::from(48) * i * a * a);
+            let t0 = red(Integer::from(64) * j * a * a * a);
+            let mut sq = vec![false; m as usize];
+            for k in 0..m {
+                sq[((k * k) % m) as usize] = true;
+            }
+            (0..modulus)
+                .map(|h| {
+                    let md = modulus;
+                    let h3 = h * h % md * h % md;
+                    let n = ((t1 * h) % md + 2 * md - h3 - t0) % md;
+                    n % 27 == 0 && sq[(n / 27) as usize]
+                })
+                .collect::<Vec<bool>>()
+        });
+        let steps = ms.map(|m| {
+            let modulus = Integer::from(27 * m);
+            let r = (Integer::from(8) * a) % &modulus;
+            let r = if r < 0 { r + modulus } else { r };
+            u64::try_from(&r).unwrap()
+        });
+        ResidueFilter { tables, moduli: ms.map(|m| 27 * m), steps }
+    }
+
+    /// A filter that passes everything (for short ranges, where building the
+    /// tables would cost more than it saves).
+    fn trivial() -> ResidueFilter {
+        ResidueFilter { tables: [vec![true], vec![true], vec![true]], moduli: [1; 3], steps: [0; 3] }
+    }
+
+    #[inline]
+    fn start(&self, h: i128) -> [u64; 3] {
+        self.moduli.map(|m| h.rem_euclid(m as i128) as u64)
+    }
+
+    #[inline]
+    fn pass(&self, r: &[u64; 3]) -> bool {
+        self.tables[0][r[0] as usize] && self.tables[1][r[1] as usize] && self.tables[2][r[2] as usize]
+    }
+
+    #[inline]
+    fn advance(&self, r: &mut [u64; 3]) {
+        for k in 0..3 {
+            r[k] += self.steps[k];
+            if r[k] >= self.moduli[k] {
+                r[k] -= self.moduli[k];
+            }
+        }
+    }
+}
+
+scanner!(scan_i64, i64, u64, sqrt_if_square_u64);
+scanner!(scan_i128, i128, u128, sqrt_if_square_u128);
 
 fn int_range(lo: f64, hi: f64, scale: f64) -> (i64, i64) {
     let tol = 1e-7 * (1.0 + scale);
@@ -519,5 +635,29 @@ mod tests {
     fn budget_is_respected() {
         let r = quartics_with_invariants(&Integer::from(480000), &Integer::from(-4320000), &SearchOptions { max_candidates: Some(10), ..Default::default() });
         assert_eq!(r.unwrap_err().kind(), &ErrorKind::Budget);
+    }
+
+    /// Timing probe over a few curves from Cremona's tables (run with --ignored --nocapture).
+    #[test]
+    #[ignore]
+    fn timing_probe() {
+        let curves: [(&str, [i64; 5]); 7] = [
+            ("37a1", [0, 0, 1, -1, 0]),
+            ("389a1", [0, 1, 1, -2, 0]),
+            ("5077a1", [0, 0, 1, -7, 6]),
+            ("11a1", [0, -1, 1, -10, -20]),
+            ("571a1", [0, -1, 1, -929, -10595]),
+            ("mid", [0, 0, 0, -3000, 1000]),
+            ("big", [1, 0, 0, -100000, 10000000]),
+        ];
+        let opts = SearchOptions { include_negative_definite: false, ..Default::default() };
+        for (name, ai) in curves {
+            let e = Curve::from_ainvs(ai).unwrap();
+            let i = e.c4().clone();
+            let j = Integer::from(2) * e.c6();
+            let t = std::time::Instant::now();
+            let l = quartics_with_invariants(&i, &j, &opts).unwrap();
+            eprintln!("{name}: I={i} J={j} classes={} time={:?}", l.len(), t.elapsed());
+        }
     }
 }

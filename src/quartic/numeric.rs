@@ -131,6 +131,26 @@ pub(crate) fn sqrt_if_square_u128(n: u128) -> Option<u128> {
     (s * s == n).then_some(s)
 }
 
+/// The square root of `n` when `n` is a perfect square (`n < 2^62`).
+#[inline]
+pub(crate) fn sqrt_if_square_u64(n: u64) -> Option<u64> {
+    if !SQ64[(n & 63) as usize] {
+        return None;
+    }
+    let r = (n % (63 * 65 * 11)) as usize;
+    if !SQ63[r % 63] || !SQ65[r % 65] || !SQ11[r % 11] {
+        return None;
+    }
+    let mut s = (n as f64).sqrt() as u64;
+    while s * s > n {
+        s -= 1;
+    }
+    while (s + 1) * (s + 1) <= n {
+        s += 1;
+    }
+    (s * s == n).then_some(s)
+}
+
 /// The square root of a non-negative integer when it is a perfect square.
 pub(crate) fn isqrt_exact(n: &Integer) -> Option<Integer> {
     if *n < 0 {
@@ -150,10 +170,15 @@ mod tests {
             let s = isqrt_u128(n);
             assert!(s * s <= n && (s + 1) * (s + 1) > n);
             assert_eq!(sqrt_if_square_u128(n).is_some(), s * s == n);
+            assert_eq!(sqrt_if_square_u64(n as u64).is_some(), s * s == n);
         }
         for k in [1u128 << 60, (1u128 << 63) - 1, 3_037_000_499, 1u128 << 62] {
             assert_eq!(sqrt_if_square_u128(k * k), Some(k));
             assert_eq!(sqrt_if_square_u128(k * k + 1), None);
+            if k < (1 << 31) {
+                assert_eq!(sqrt_if_square_u64((k * k) as u64), Some(k as u64));
+                assert_eq!(sqrt_if_square_u64((k * k - 1) as u64), None);
+            }
         }
     }
 
