@@ -617,6 +617,45 @@ mod tests {
         assert!(by_type.iter().all(|&n| n > 0), "{by_type:?}");
     }
 
+    proptest::proptest! {
+        #![proptest_config(proptest::prelude::ProptestConfig::with_cases(40))]
+        /// A random quartic is equivalent to exactly one listed representative of its invariants.
+        #[test]
+        fn random_form_is_listed_once(g in proptest::array::uniform5(-15i64..15)) {
+            let g = Quartic::from_coeffs(g);
+            proptest::prop_assume!(g.discriminant() != 0);
+            let list = quartics_with_invariants(&g.invariant_i(), &g.invariant_j(), &Default::default()).unwrap();
+            let hits = list.iter().filter(|h| gl2z_equivalent(h, &g)).count();
+            proptest::prop_assert_eq!(hits, 1);
+        }
+    }
+
+    /// Larger brute-force sweep (box 6, 300 invariant pairs); run with --ignored.
+    #[test]
+    #[ignore]
+    fn enumeration_complete_on_bigger_box() {
+        let bx = all_box(6);
+        let mut keys: Vec<(i64, i64)> = bx.keys().copied().collect();
+        keys.sort();
+        let step = (keys.len() / 300).max(1);
+        let mut by_count = keys.clone();
+        by_count.sort_by_key(|k| std::cmp::Reverse(bx[k].len()));
+        for key in keys.iter().step_by(step).chain(by_count.iter().take(200)) {
+            let (i, j) = (Integer::from(key.0), Integer::from(key.1));
+            let list = quartics_with_invariants(&i, &j, &Default::default()).unwrap();
+            for (x, g) in list.iter().enumerate() {
+                for h in &list[x + 1..] {
+                    assert!(!gl2z_equivalent(g, h), "duplicate classes {g:?} {h:?}");
+                }
+            }
+            for f in &bx[key] {
+                let f = Quartic::from_coeffs(*f);
+                let hits = list.iter().filter(|g| gl2z_equivalent(g, &f)).count();
+                assert_eq!(hits, 1, "form {f:?} (I,J)={key:?} matched {hits} of {list:?}");
+            }
+        }
+    }
+
     #[test]
     fn known_small_lists() {
         // x^4 - z^4 type: (I, J) = (-12, 0). Classes found must all have these invariants.
