@@ -488,8 +488,9 @@ pub(crate) fn distinct_classes(forms: Vec<Quartic>) -> Result<Vec<Quartic>, Erro
         let id = parent.len();
         parent.push(id);
         members.push(Vec::new());
-        let mut forms_here: Vec<Quartic> = set.into_iter().map(|x| x.0).collect();
-        forms_here.push(g);
+        let forms_here: Vec<Quartic> = set.into_iter().map(|x| x.0).collect();
+        // the found form itself is recorded (to skip repeats) but is not a candidate representative
+        class_of.entry(g).or_insert(id);
         for f in forms_here {
             if let Some(&k) = class_of.get(&f) {
                 let (ra, rb) = (find(&mut parent, k), find(&mut parent, id));

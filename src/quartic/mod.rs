@@ -20,6 +20,22 @@
 //! * the invariants to enumerate for a curve ([`covering_invariants`]);
 //! * the class of a quartic in `(Q[φ]/F(φ))^* / squares` and the
 //!   `GL2(Q)`-equivalence test ([`covering_class`], [`same_covering`]).
+//!
+//! # Limits
+//!
+//! * The search box grows like `max(|I|^{1/2}, |J|^{1/3})^3`: about a
+//!   millisecond for `|I|` in the hundreds, a tenth of a second for
+//!   `I ≈ 4.5·10^4`, seconds for `I ≈ 5·10^6`. Use
+//!   [`SearchOptions::max_candidates`] to bound it.
+//! * Reduction and the `GL2(Z)` test compute the covariant point `τ` in `f64`
+//!   and confirm every equivalence exactly; forms are reduced by exact
+//!   integer moves first, so `τ` is always computed from a reduced form, and
+//!   the near-reduced sets use a margin of `1e-6`. A failure of the floating
+//!   point evaluation is reported as an error, never as a wrong answer, except
+//!   that an error in `τ` larger than the margin could make two equivalent forms
+//!   look inequivalent (not observed in the brute-force tests).
+//! * Local solubility is not decided here: the enumeration returns all
+//!   classes (negative definite ones optionally), ELS or not.
 
 mod core;
 mod reduction;
