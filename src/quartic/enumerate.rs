@@ -1,0 +1,703 @@
+//! Enumeration of the `GL2(Z)`-classes of integral binary quartics with
+//! given invariants `I`, `J` (the method of Birch and Swinnerton-Dyer, 1963,
+//! with bounds derived below; cf. Cremona, *Algorithms for Modular Elliptic
+//! Curves*, 2nd ed., 3.5, and Cremona, *Reduction of binary cubic and quartic
+//! forms*, LMS J. Comput. Math. 2 (1999)).
+//!
+//! # The bounds
+//!
+//! Write `φ_k` for the roots of `F(φ) = φ^3 - 3Iφ + J` and `α_1..α_4` for the
+//! roots of `g(x, 1)`. For the three pairings `{α_i α_j | α_k α_l}` of the
+//! roots put `s = α_i + α_j - α_k - α_l`; then, for the matching root `φ`,
+//!
+//! ```text
+//!   4aφ - H = 3 a^2 s^2 = 3 q_φ(1,0)^2,      4φ g - g_H = 3 q_φ^2,
+//!   disc q_φ = (4/9) F'(φ),                    g = 3 (q_φ^2 - q_ψ^2) / (4(φ - ψ)).
+//! ```
+//!
+//! Let `Q` be the positive definite covariant of the reduction module and
+//! assume `Q = (A, B, C)` is Gauss-reduced, so `3A^2 ≤ |disc Q|`. For an
+//! indefinite covariant `q` apolar to `Q` one has `|q(v)| ≤ sqrt(disc q / |disc Q|) Q(v)`.
+//! Evaluating the identities above at `(1, 0)` gives, for a reduced form
+//! (`φ_1 < φ_2 < φ_3` when all are real):
+//!
+//! * **four real roots** (`Q = q_{φ_2}`): `-(φ_2 - φ_1)/9 ≤ a ≤ (φ_3 - φ_2)/9` and
+//!   `4aφ_2 - (4/9)|F'(φ_2)| ≤ H ≤ min(4aφ_1, 4aφ_3)`;
+//! * **positive definite** (`Q = q_{φ_1}/i`): `0 < a ≤ (φ_3 - φ_1)/9` and
+//!   `4aφ_2 ≤ H ≤ min(4aφ_3, 4aφ_1 + (4/9)F'(φ_1))`; negative definite forms are
+//!   the negatives of the positive definite forms with invariants `(I, -J)`;
+//! * **two real roots** (`Q = Re q_φ'`, `φ` the real root, `φ' = -φ/2 + iκ`):
+//!   `(3φ - 2 sqrt(F'(φ)))/9 ≤ a ≤ (3φ + 2 sqrt(F'(φ)))/9` and
+//!   `9a^2 - 2aφ - (4/9)κ^2 ≤ H ≤ 4aφ`.
+//!
+//! When `a = 0` the same identities give `3b^2 = -H ≤ (4/9)|F'(φ_2)|` (four real
+//! roots) or `≤ (4/9)κ^2` (two real roots).
+//!
+//! `a`, `H` are invariant under `x ↦ x + kz` and `x ↦ -x`, which change `b` by
+//! multiples of `4a` and flip its sign; so every class has a form with the
+//! bounds above and `0 ≤ b ≤ 2|a|` (for `a = 0`: `b > 0`, `0 ≤ c < 3b`). Given
+//! `a, b` and `H = 8ac - 3b^2`, the seminvariant `R` is determined up to sign by
+//! the syzygy `27R^2 = -H^3 + 48Ia^2H - 64Ja^3`, then `d = (R - b^3 + 4abc)/(8a^2)`
+//! and `e = (I + 3bd - c^2)/(12a)`. The search visits every integer point of
+//! this box, so it is complete; duplicates are removed with the exact
+//! equivalence test of the reduction module. Floating-point values of the
+//! `φ_k` only set the box, which is widened by a safety margin.
+
+use super::core::{Quartic, RootType};
+use super::numeric::{resolvent_roots, sqrt_if_square_u128, sqrt_if_square_u64, to_f64, CubicRoots};
+use super::reduction::{near_reduced_set, size_key};
+use crate::curve::Curve;
+use crate::error::{Error, ErrorKind};
+use malachite::Integer;
+use std::collections::HashMap;
+
+/// Options for [`quartics_with_invariants`].
+///
+/// ```
+/// use twofold::quartic::SearchOptions;
+/// let opts = SearchOptions { include_negative_definite: false, ..Default::default() };
+/// assert!(opts.max_candidates.is_none());
+/// ```
+#[derive(Clone, Debug)]
+pub struct SearchOptions {
+    /// Also return negative definite quartics (never soluble over R). Default `true`.
+    pub include_negative_definite: bool,
+    /// Stop with an error of kind [`ErrorKind::Budget`] after this many
+    /// candidate `(a, b, c)` triples. Default: no limit.
+    pub max_candidates: Option<u64>,
+}
+
+impl Default for SearchOptions {
+    fn default() -> Self {
+        SearchOptions { include_negative_definite: true, max_candidates: None }
+    }
+}
+
+struct Search<'a> {
+    i: &'a Integer,
+    j: &'a Integer,
+    i128s: Option<(i128, i128)>,
+    found: Vec<Quartic>,
+    steps: u64,
+    limit: Option<u64>,
+}
+
+impl Search<'_> {
+    fn tick(&mut self, n: u64) -> Result<(), Error> {
+        self.steps += n;
+        if let Some(l) = self.limit {
+            if self.steps > l {
+                return Err(Error::new(ErrorKind::Budget, format!("quartic search exceeded {l} candidates")));
+            }
+        }
+        Ok(())
+    }
+
+    /// All forms with this `a ≠ 0`, `0 ≤ b ≤ 2|a|` and `H` in `[hlo, hhi]`.
+    fn fixed_a(&mut self, a: i64, hlo: f64, hhi: f64) -> Result<(), Error> {
+        let hmax = hlo.abs().max(hhi.abs()) + 8.0 * (a.abs() as f64) + 1.0;
+        let af = a.abs() as f64;
+        let (ii, jj) = self.i128s.unwrap_or((i128::MAX, i128::MAX));
+        let est = hmax.powi(3) + 48.0 * (ii as f64).abs() * af * af * hmax + 64.0 * (jj as f64).abs() * af.powi(3);
+        let fast = self.i128s.is_some() && est < 2f64.powi(120);
+        // i64 arithmetic is safe when every intermediate stays below 2^62
+        let small = fast && est < 2f64.powi(58) && (ii as f64).abs() < 2f64.powi(40);
+        let work = (hhi - hlo) / 4.0;
+        let filt = fast.then(|| if work > 20000.0 { ResidueFilter::new(&Integer::from(a), self.i, self.j) } else { ResidueFilter::trivial() });
+        for b in 0..=2 * a.abs() {
+            let b2 = 3.0 * (b as f64) * (b as f64);
+            let (lo, hi) = if a > 0 {
+                (((hlo + b2) / (8.0 * a as f64)).ceil(), ((hhi + b2) / (8.0 * a as f64)).floor())
+            } else {
+                (((hhi + b2) / (8.0 * a as f64)).ceil(), ((hlo + b2) / (8.0 * a as f64)).floor())
+            };
+            if !(lo <= hi) {
+                continue;
+            }
+            let (clo, chi) = (lo as i128, hi as i128);
+            self.tick((chi - clo + 1) as u64)?;
+            if fast {
+                self.scan_fast(a as i128, b as i128, clo, chi, ii, jj, small, filt.as_ref().unwrap());
+            } else {
+                for c in clo..=chi {
+                    self.candidate_big(&Integer::from(a), &Integer::from(b), &Integer::from(c));
+                }
+            }
+        }
+        Ok(())
+    }
+
+    #[allow(clippy::too_many_arguments)]
+    fn scan_fast(&mut self, a: i128, b: i128, clo: i128, chi: i128, ii: i128, jj: i128, small: bool, filt: &ResidueFilter) {
+        if small {
+            let mut hits: Vec<[i64; 5]> = Vec::new();
+            scan_i64(a as i64, b as i64, clo as i64, chi as i64, ii as i64, jj as i64, filt, &mut hits);
+            for h in hits {
+                self.push_checked(Quartic::from_coeffs(h.map(Integer::from)));
+            }
+        } else {
+            let mut hits: Vec<[i128; 5]> = Vec::new();
+            scan_i128(a, b, clo, chi, ii, jj, filt, &mut hits);
+            for h in hits {
+                self.push_checked(Quartic::from_coeffs(h.map(Integer::from)));
+            }
+        }
+    }
+
+    fn candidate_big(&mut self, a: &Integer, b: &Integer, c: &Integer) {
+        let i = self.i;
+        let j = self.j;
+        let h = Integer::from(8) * a * c - Integer::from(3) * b * b;
+        let n = -(&h * &h * &h) + Integer::from(48) * i * a * a * &h - Integer::from(64) * j * a * a * a;
+        if n < 0 || (&n % Integer::from(27)) != 0 {
+            return;
+        }
+        let Some(r) = super::numeric::isqrt_exact(&(n / Integer::from(27))) else { return };
+        let m8a2 = Integer::from(8) * a * a;
+        let base = Integer::from(4) * a * b * c - b * b * b;
+        let signs: Vec<Integer> = if r == 0 { vec![r.clone()] } else { vec![r.clone(), -r.clone()] };
+        for rr in signs {
+            let dn = rr + &base;
+            if (&dn % &m8a2) != 0 {
+                continue;
+            }
+            let d = dn / &m8a2;
+            let en = i + Integer::from(3) * b * &d - c * c;
+            let a12 = Integer::from(12) * a;
+            if (&en % &a12) == 0 {
+                let e = en / a12;
+                self.push_checked(Quartic::new([a.clone(), b.clone(), c.clone(), d, e]));
+            }
+        }
+    }
+
+    /// Forms with `a = 0`: `b > 0`, `0 ≤ c < 3b`, `3 b^2 ≤ hbound`.
+    fn zero_a(&mut self, hbound: f64) -> Result<(), Error> {
+        let bmax = ((hbound.max(0.0) / 3.0).sqrt() * (1.0 + 1e-9) + 1e-6).floor() as i64;
+        for b in 1..=bmax {
+            self.tick(3 * b as u64)?;
+            let bi = Integer::from(b);
+            for c in 0..3 * b {
+                let ci = Integer::from(c);
+                let dn = &ci * &ci - self.i;
+                let b3 = Integer::from(3 * b);
+                if (&dn % &b3) != 0 {
+                    continue;
+                }
+                let d = dn / b3;
+                // J = 9bcd - 27 e b^2 - 2c^3
+                let en = Integer::from(9) * &bi * &ci * &d - Integer::from(2) * &ci * &ci * &ci - self.j;
+                let den = Integer::from(27 * b * b);
+                if (&en % &den) != 0 {
+                    continue;
+                }
+                let e = en / den;
+                self.push_checked(Quartic::new([Integer::from(0), bi.clone(), ci, d, e]));
+            }
+        }
+        Ok(())
+    }
+
+    fn push_checked(&mut self, g: Quartic) {
+        if g.invariant_i() == *self.i && g.invariant_j() == *self.j {
+            self.found.push(g);
+        } else {
+            debug_assert!(false, "syzygy violated for {g:?}");
+        }
+    }
+}
+
+/// The inner loop over `c` for fixed `a ≠ 0`, `b`, in one integer width:
+/// `H = 8ac - 3b^2`, `27 R^2 = -H^3 + 48 I a^2 H - 64 J a^3`,
+/// `d = (R - b^3 + 4abc)/(8a^2)`, `e = (I + 3bd - c^2)/(12a)`.
+macro_rules! scanner {
+    ($name:ident, $t:ty, $ut:ty, $sqrt:path) => {
+        fn $name(a: $t, b: $t, clo: $t, chi: $t, ii: $t, jj: $t, filt: &ResidueFilter, hits: &mut Vec<[$t; 5]>) {
+            let a2 = a * a;
+            let t1 = 48 * ii * a2;
+            let t0 = 64 * jj * a2 * a;
+            let b3 = b * b * b;
+            let m8a2 = 8 * a2;
+            let a12 = 12 * a;
+            let step = 8 * a;
+            let mut h = 8 * a * clo - 3 * b * b;
+            let mut base = 4 * a * b * clo - b3;
+            let dbase = 4 * a * b;
+            let mut c = clo;
+            let mut res = filt.start(h as i128);
+            while c <= chi {
+                let pass = filt.pass(&res);
+                filt.advance(&mut res);
+                if pass {
+                let n = (t1 - h * h) * h - t0;
+                if n >= 0 {
+                    let m = n / 27;
+                    if m * 27 == n {
+                        if let Some(r) = $sqrt(m as $ut) {
+                            let r = r as $t;
+                            let cands = [r, -r];
+                            let count = if r == 0 { 1 } else { 2 };
+                            for &rr in &cands[..count] {
+                                let dn = rr + base;
+                                if dn % m8a2 != 0 {
+                                    continue;
+                                }
+                                let d = dn / m8a2;
+                                let en = ii + 3 * b * d - c * c;
+                                if en % a12 == 0 {
+                                    hits.push([a, b, c, d, en / a12]);
+                                }
+                            }
+                        }
+                    }
+                }
+                }
+                h += step;
+                base += dbase;
+                c += 1;
+            }
+        }
+    };
+}
+
+/// Residue tables: for the moduli `27 m` with `m = 64, 35, 143`, whether
+/// `N(H) ≡ 0 (mod 27)` and `N(H)/27` is a square modulo `m`, indexed by
+/// `H mod 27m` (for a fixed `a`, `N` is a polynomial in `H`).
+pub(crate) struct ResidueFilter {
+    tables: [Vec<bool>; 3],
+    moduli: [u64; 3],
+    steps: [u64; 3],
+}
+
+impl ResidueFilter {
+    fn new(a: &Integer, i: &Integer, j: &Integer) -> ResidueFilter {
+        let ms = [64u64, 35, 143];
+        let tables = ms.map(|m| {
+            let modulus = 27 * m;
+            let mi = Integer::from(modulus);
+            let red = |x: Integer| -> u64 {
+                let r = x % &mi;
+                let r = if r < 0 { r + &mi } else { r };
+                u64::try_from(&r).unwrap()
+            };
+            let t1 = red(Integer::from(48) * i * a * a);
+            let t0 = red(Integer::from(64) * j * a * a * a);
+            let mut sq = vec![false; m as usize];
+            for k in 0..m {
+                sq[((k * k) % m) as usize] = true;
+            }
+            (0..modulus)
+                .map(|h| {
+                    let md = modulus;
+                    let h3 = h * h % md * h % md;
+                    let n = ((t1 * h) % md + 2 * md - h3 - t0) % md;
+                    n % 27 == 0 && sq[(n / 27) as usize]
+                })
+                .collect::<Vec<bool>>()
+        });
+        let steps = ms.map(|m| {
+            let modulus = Integer::from(27 * m);
+            let r = (Integer::from(8) * a) % &modulus;
+            let r = if r < 0 { r + modulus } else { r };
+            u64::try_from(&r).unwrap()
+        });
+        ResidueFilter { tables, moduli: ms.map(|m| 27 * m), steps }
+    }
+
+    /// A filter that passes everything (for short ranges, where building the
+    /// tables would cost more than it saves).
+    fn trivial() -> ResidueFilter {
+        ResidueFilter { tables: [vec![true], vec![true], vec![true]], moduli: [1; 3], steps: [0; 3] }
+    }
+
+    #[inline]
+    fn start(&self, h: i128) -> [u64; 3] {
+        self.moduli.map(|m| h.rem_euclid(m as i128) as u64)
+    }
+
+    #[inline]
+    fn pass(&self, r: &[u64; 3]) -> bool {
+        self.tables[0][r[0] as usize] && self.tables[1][r[1] as usize] && self.tables[2][r[2] as usize]
+    }
+
+    #[inline]
+    fn advance(&self, r: &mut [u64; 3]) {
+        for k in 0..3 {
+            r[k] += self.steps[k];
+            if r[k] >= self.moduli[k] {
+                r[k] -= self.moduli[k];
+            }
+        }
+    }
+}
+
+scanner!(scan_i64, i64, u64, sqrt_if_square_u64);
+scanner!(scan_i128, i128, u128, sqrt_if_square_u128);
+
+fn int_range(lo: f64, hi: f64, scale: f64) -> (i64, i64) {
+    let tol = 1e-7 * (1.0 + scale);
+    ((lo - tol).ceil() as i64, (hi + tol).floor() as i64)
+}
+
+fn widen(lo: f64, hi: f64, scale: f64) -> (f64, f64) {
+    let tol = 1e-7 * (1.0 + lo.abs() + hi.abs() + scale) + 1e-6;
+    (lo - tol, hi + tol)
+}
+
+fn search_three_real(s: &mut Search<'_>, r: [f64; 3], i: f64, positive_definite_only: bool) -> Result<(), Error> {
+    let [p1, p2, p3] = r;
+    let scale = p1.abs().max(p3.abs()).max(i.abs().sqrt());
+    let sc2 = scale * scale;
+    if !positive_definite_only {
+        // four real roots
+        let fp2 = (p2 - p1) * (p3 - p2); // |F'(φ_2)|
+        let (alo, ahi) = int_range(-(p2 - p1) / 9.0, (p3 - p2) / 9.0, scale);
+        for a in alo..=ahi {
+            let af = a as f64;
+            if a == 0 {
+                s.zero_a(4.0 / 9.0 * fp2 * (1.0 + 1e-9) + 1e-6)?;
+                continue;
+            }
+            let (hlo, hhi) = widen(4.0 * af * p2 - 4.0 / 9.0 * fp2, (4.0 * af * p1).min(4.0 * af * p3), sc2);
+            s.fixed_a(a, hlo, hhi)?;
+        }
+    }
+    // positive definite
+    let fp1 = (p2 - p1) * (p3 - p1);
+    let (_, ahi) = int_range(0.0, (p3 - p1) / 9.0, scale);
+    for a in 1..=ahi {
+        let af = a as f64;
+        let (hlo, hhi) = widen(4.0 * af * p2, (4.0 * af * p3).min(4.0 * af * p1 + 4.0 / 9.0 * fp1), sc2);
+        s.fixed_a(a, hlo, hhi)?;
+    }
+    Ok(())
+}
+
+fn search_two_real(s: &mut Search<'_>, phi: f64, kappa: f64, i: f64) -> Result<(), Error> {
+    let scale = phi.abs().max(kappa).max(i.abs().sqrt());
+    let sc2 = scale * scale;
+    let fp = 2.25 * phi * phi + kappa * kappa; // F'(φ) = |φ - φ'|^2
+    let k2 = 4.0 / 9.0 * kappa * kappa;
+    let sq = fp.sqrt();
+    let (alo, ahi) = int_range((3.0 * phi - 2.0 * sq) / 9.0, (3.0 * phi + 2.0 * sq) / 9.0, scale);
+    for a in alo..=ahi {
+        let af = a as f64;
+        if a == 0 {
+            s.zero_a(k2 * (1.0 + 1e-9) + 1e-6)?;
+            continue;
+        }
+        let (hlo, hhi) = widen(9.0 * af * af - 2.0 * af * phi - k2, 4.0 * af * phi, sc2);
+        s.fixed_a(a, hlo, hhi)?;
+    }
+    Ok(())
+}
+
+/// Raw search (with duplicates) for `(i, j)`; positive definite forms only
+/// from the definite part when `positive_definite_only`.
+fn raw_search(i: &Integer, j: &Integer, positive_definite_only: bool, steps: &mut u64, limit: Option<u64>) -> Result<Vec<Quartic>, Error> {
+    let delta = Integer::from(4) * i * i * i - j * j;
+    let fi = to_f64(i);
+    let fj = to_f64(j);
+    if !fi.is_finite() || !fj.is_finite() || fi.abs() > 1e60 || fj.abs() > 1e90 {
+        return Err(Error::new(ErrorKind::TooLarge, "invariants too large for the quartic search"));
+    }
+    let i128s = match (i128::try_from(i), i128::try_from(j)) {
+        (Ok(a), Ok(b)) if a.unsigned_abs() < (1u128 << 100) && b.unsigned_abs() < (1u128 << 120) => Some((a, b)),
+        _ => None,
+    };
+    let mut s = Search { i, j, i128s, found: Vec::new(), steps: *steps, limit };
+    if delta > 0 {
+        match resolvent_roots(fi, fj, true) {
+            CubicRoots::Three(r) => search_three_real(&mut s, r, fi, positive_definite_only)?,
+            _ => unreachable!(),
+        }
+    } else if !positive_definite_only {
+        match resolvent_roots(fi, fj, false) {
+            CubicRoots::One { real, complex } => search_two_real(&mut s, real, complex.1, fi)?,
+            _ => unreachable!(),
+        }
+    }
+    *steps = s.steps;
+    Ok(s.found)
+}
+
+/// One representative of every `GL2(Z)`-class of integral binary quartics
+/// with invariants exactly `(i, j)`; `4i^3 - j^2` must be non-zero.
+///
+/// The representatives are reduced (see [`reduce`](super::reduce)) and sorted
+/// by coefficient size. The search box and its proof of completeness are
+/// described in the module documentation (BSD 1963; Cremona's book 3.5;
+/// Cremona, LMS JCM 2 (1999)). Errors: [`ErrorKind::InvalidValue`] for zero
+/// discriminant, [`ErrorKind::TooLarge`] for invariants beyond the
+/// floating-point range used for the box, [`ErrorKind::Budget`] when
+/// `opts.max_candidates` is exceeded.
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::quartic::quartics_with_invariants;
+/// // 37a1 (Cremona's tables): c4 = 48, c6 = -216, so (I, J) = (48, -432).
+/// let list = quartics_with_invariants(&Integer::from(48), &Integer::from(-432), &Default::default()).unwrap();
+/// assert!(list.iter().all(|g| g.invariant_i() == 48 && g.invariant_j() == -432));
+/// assert!(!list.is_empty());
+/// ```
+pub fn quartics_with_invariants(i: &Integer, j: &Integer, opts: &SearchOptions) -> Result<Vec<Quartic>, Error> {
+    let delta = Integer::from(4) * i * i * i - j * j;
+    if delta == 0 {
+        return Err(Error::new(ErrorKind::InvalidValue, format!("4I^3 - J^2 = 0 for (I, J) = ({i}, {j})")));
+    }
+    if (&delta % Integer::from(27)) != 0 {
+        return Ok(Vec::new());
+    }
+    let mut steps = 0u64;
+    let mut found = raw_search(i, j, false, &mut steps, opts.max_candidates)?;
+    if opts.include_negative_definite && delta > 0 {
+        let nj = -j.clone();
+        let neg = raw_search(i, &nj, true, &mut steps, opts.max_candidates)?;
+        for g in neg {
+            let h = Quartic::new(g.coeffs().map(|c| -c));
+            if h.root_type() == Some(RootType::NegativeDefinite) {
+                found.push(h);
+            }
+        }
+    }
+    if !opts.include_negative_definite {
+        found.retain(|g| g.root_type() != Some(RootType::NegativeDefinite));
+    }
+    distinct_classes(found)
+}
+
+/// Group forms (all with the same invariants) into `GL2(Z)`-classes and
+/// return the smallest reduced form of each class.
+pub(crate) fn distinct_classes(forms: Vec<Quartic>) -> Result<Vec<Quartic>, Error> {
+    let mut class_of: HashMap<Quartic, usize> = HashMap::new();
+    let mut parent: Vec<usize> = Vec::new();
+    fn find(p: &mut Vec<usize>, mut x: usize) -> usize {
+        while p[x] != x {
+            p[x] = p[p[x]];
+            x = p[x];
+        }
+        x
+    }
+    let mut members: Vec<Vec<Quartic>> = Vec::new();
+    for g in forms {
+        if class_of.contains_key(&g) {
+            continue;
+        }
+        let set = near_reduced_set(&g)
+            .ok_or_else(|| Error::new(ErrorKind::TooLarge, format!("floating-point reduction failed for {g:?}")))?;
+        let id = parent.len();
+        parent.push(id);
+        members.push(Vec::new());
+        let forms_here: Vec<Quartic> = set.into_iter().map(|x| x.0).collect();
+        // the found form itself is recorded (to skip repeats) but is not a candidate representative
+        class_of.entry(g).or_insert(id);
+        for f in forms_here {
+            if let Some(&k) = class_of.get(&f) {
+                let (ra, rb) = (find(&mut parent, k), find(&mut parent, id));
+                if ra != rb {
+                    parent[ra] = rb;
+                }
+            } else {
+                class_of.insert(f.clone(), id);
+            }
+            members[id].push(f);
+        }
+    }
+    let mut best: HashMap<usize, Quartic> = HashMap::new();
+    for id in 0..parent.len() {
+        let root = find(&mut parent, id);
+        for f in &members[id] {
+            // representatives are taken among the near-reduced forms only
+            let entry = best.entry(root).or_insert_with(|| f.clone());
+            if size_key(f) < size_key(entry) {
+                *entry = f.clone();
+            }
+        }
+    }
+    let mut out: Vec<Quartic> = best.into_values().collect();
+    out.sort_by_key(size_key);
+    Ok(out)
+}
+
+/// The invariant pairs `(I, J)` whose quartics cover every everywhere
+/// locally soluble 2-covering of `curve`.
+///
+/// For a model with invariants `c4`, `c6` the Jacobian of a quartic with
+/// invariants `(c4, 2c6)` is `Y^2 = X^3 - 27c4 X - 54c6`, isomorphic to the
+/// curve. Cremona, Fisher and Stoll (*Minimisation and reduction of 2-, 3- and
+/// 4-coverings of elliptic curves*, Algebra & Number Theory 4 (2010)) show that
+/// a 2-covering that is soluble over `Q_p` has a `Z_p`-integral model
+/// `y^2 + P(x,z) y = Q(x,z)` of level 0 when the model of `E` is minimal at
+/// `p`; the integral binary quartic `P^2 + 4Q` then has invariants exactly
+/// `(c4, 2c6)`, and since `Z` is a principal ideal domain these local models
+/// glue to a global one. The older bound of Birch and Swinnerton-Dyer (1963)
+/// (also used in Cremona's book, 3.5) allowed the 2-adic scaling
+/// `(2^4 c4, 2^6 · 2c6)` as well; [`covering_invariants_conservative`] returns
+/// both pairs (the second search is about 64 times longer). The model passed
+/// must be minimal (at least at the primes where it matters); this function
+/// does not check that.
+///
+/// ```
+/// use twofold::{Curve, quartic::covering_invariants};
+/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let v = covering_invariants(&e);
+/// assert_eq!(v[0], (48.into(), (-432).into()));
+/// ```
+pub fn covering_invariants(curve: &Curve) -> Vec<(Integer, Integer)> {
+    vec![(curve.c4().clone(), Integer::from(2) * curve.c6())]
+}
+
+/// The pairs `(c4, 2c6)` and `(16 c4, 128 c6)`: the invariants allowed by the
+/// bound of Birch and Swinnerton-Dyer (1963) (see [`covering_invariants`]).
+///
+/// ```
+/// use twofold::{Curve, quartic::covering_invariants_conservative};
+/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// assert_eq!(covering_invariants_conservative(&e)[1], (768.into(), (-27648).into()));
+/// ```
+pub fn covering_invariants_conservative(curve: &Curve) -> Vec<(Integer, Integer)> {
+    vec![
+        (curve.c4().clone(), Integer::from(2) * curve.c6()),
+        (Integer::from(16) * curve.c4(), Integer::from(128) * curve.c6()),
+    ]
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::quartic::gl2z_equivalent;
+
+    fn all_box(bound: i64) -> HashMap<(i64, i64), Vec<[i64; 5]>> {
+        let mut m: HashMap<(i64, i64), Vec<[i64; 5]>> = HashMap::new();
+        let r = -bound..=bound;
+        for a in r.clone() {
+            for b in r.clone() {
+                for c in r.clone() {
+                    for d in r.clone() {
+                        for e in r.clone() {
+                            let i = 12 * a * e - 3 * b * d + c * c;
+                            let j = 72 * a * c * e + 9 * b * c * d - 27 * a * d * d - 27 * e * b * b - 2 * c * c * c;
+                            if 4 * i * i * i != j * j {
+                                m.entry((i, j)).or_default().push([a, b, c, d, e]);
+                            }
+                        }
+                    }
+                }
+            }
+        }
+        m
+    }
+
+    /// Brute-force completeness: every quartic with coefficients in a box is
+    /// equivalent to exactly one listed representative, and the list is
+    /// pairwise inequivalent.
+    #[test]
+    fn enumeration_complete_on_box() {
+        let bx = all_box(4);
+        let mut keys: Vec<(i64, i64)> = bx.keys().copied().collect();
+        keys.sort_by_key(|k| std::cmp::Reverse(bx[k].len()));
+        let mut tested = 0;
+        let mut by_type = [0usize; 4];
+        for key in keys.iter().take(60).chain(keys.iter().skip(500).step_by(97).take(40)) {
+            let (i, j) = (Integer::from(key.0), Integer::from(key.1));
+            let list = quartics_with_invariants(&i, &j, &Default::default()).unwrap();
+            for (x, g) in list.iter().enumerate() {
+                for h in &list[x + 1..] {
+                    assert!(!gl2z_equivalent(g, h), "duplicate classes {g:?} {h:?}");
+                }
+            }
+            for f in &bx[key] {
+                let f = Quartic::from_coeffs(*f);
+                let hits = list.iter().filter(|g| gl2z_equivalent(g, &f)).count();
+                assert_eq!(hits, 1, "form {f:?} (I,J)={key:?} matched {hits} of {list:?}");
+                by_type[f.root_type().unwrap() as usize] += 1;
+            }
+            tested += 1;
+        }
+        assert!(tested >= 90);
+        assert!(by_type.iter().all(|&n| n > 0), "{by_type:?}");
+    }
+
+    proptest::proptest! {
+        #![proptest_config(proptest::prelude::ProptestConfig::with_cases(40))]
+        /// A random quartic is equivalent to exactly one listed representative of its invariants.
+        #[test]
+        fn random_form_is_listed_once(g in proptest::array::uniform5(-15i64..15)) {
+            let g = Quartic::from_coeffs(g);
+            proptest::prop_assume!(g.discriminant() != 0);
+            let list = quartics_with_invariants(&g.invariant_i(), &g.invariant_j(), &Default::default()).unwrap();
+            let hits = list.iter().filter(|h| gl2z_equivalent(h, &g)).count();
+            proptest::prop_assert_eq!(hits, 1);
+        }
+    }
+
+    /// Larger brute-force sweep (box 6, 300 invariant pairs); run with --ignored.
+    #[test]
+    #[ignore]
+    fn enumeration_complete_on_bigger_box() {
+        let bx = all_box(6);
+        let mut keys: Vec<(i64, i64)> = bx.keys().copied().collect();
+        keys.sort();
+        let step = (keys.len() / 300).max(1);
+        let mut by_count = keys.clone();
+        by_count.sort_by_key(|k| std::cmp::Reverse(bx[k].len()));
+        for key in keys.iter().step_by(step).chain(by_count.iter().take(200)) {
+            let (i, j) = (Integer::from(key.0), Integer::from(key.1));
+            let list = quartics_with_invariants(&i, &j, &Default::default()).unwrap();
+            for (x, g) in list.iter().enumerate() {
+                for h in &list[x + 1..] {
+                    assert!(!gl2z_equivalent(g, h), "duplicate classes {g:?} {h:?}");
+                }
+            }
+            for f in &bx[key] {
+                let f = Quartic::from_coeffs(*f);
+                let hits = list.iter().filter(|g| gl2z_equivalent(g, &f)).count();
+                assert_eq!(hits, 1, "form {f:?} (I,J)={key:?} matched {hits} of {list:?}");
+            }
+        }
+    }
+
+    #[test]
+    fn known_small_lists() {
+        // x^4 - z^4 type: (I, J) = (-12, 0). Classes found must all have these invariants.
+        let l = quartics_with_invariants(&Integer::from(-12), &Integer::from(0), &Default::default()).unwrap();
+        assert!(l.iter().any(|g| gl2z_equivalent(g, &Quartic::from_coeffs([1, 0, 0, 0, -1]))));
+        // negative definite excluded on request
+        let l2 = quartics_with_invariants(&Integer::from(12), &Integer::from(0), &SearchOptions { include_negative_definite: false, ..Default::default() }).unwrap();
+        assert!(l2.iter().all(|g| g.root_type() != Some(RootType::NegativeDefinite)));
+        let l3 = quartics_with_invariants(&Integer::from(12), &Integer::from(0), &Default::default()).unwrap();
+        assert!(l3.len() > l2.len());
+        // zero discriminant is an error
+        assert!(quartics_with_invariants(&Integer::from(1), &Integer::from(2), &Default::default()).is_err());
+    }
+
+    #[test]
+    fn budget_is_respected() {
+        let r = quartics_with_invariants(&Integer::from(480000), &Integer::from(-4320000), &SearchOptions { max_candidates: Some(10), ..Default::default() });
+        assert_eq!(r.unwrap_err().kind(), &ErrorKind::Budget);
+    }
+
+    /// Timing probe over a few curves from Cremona's tables (run with --ignored --nocapture).
+    #[test]
+    #[ignore]
+    fn timing_probe() {
+        let curves: [(&str, [i64; 5]); 7] = [
+            ("37a1", [0, 0, 1, -1, 0]),
+            ("389a1", [0, 1, 1, -2, 0]),
+            ("5077a1", [0, 0, 1, -7, 6]),
+            ("11a1", [0, -1, 1, -10, -20]),
+            ("571a1", [0, -1, 1, -929, -10595]),
+            ("mid", [0, 0, 0, -3000, 1000]),
+            ("big", [1, 0, 0, -100000, 10000000]),
+        ];
+        let opts = SearchOptions { include_negative_definite: false, ..Default::default() };
+        for (name, ai) in curves {
+            let e = Curve::from_ainvs(ai).unwrap();
+            let i = e.c4().clone();
+            let j = Integer::from(2) * e.c6();
+            let t = std::time::Instant::now();
+            let l = quartics_with_invariants(&i, &j, &opts).unwrap();
+            eprintln!("{name}: I={i} J={j} classes={} time={:?}", l.len(), t.elapsed());
+        }
+    }
+}

@@ -1,0 +1,52 @@
+//! Binary quartic forms and 2-coverings of elliptic curves.
+//!
+//! A binary quartic `g(x,z) = a x^4 + b x^3 z + c x^2 z^2 + d x z^3 + e z^4`
+//! with invariants `I`, `J` defines the curve `y^2 = g(x,z)`, a 2-covering of
+//! the elliptic curve `E_{I,J}: Y^2 = X^3 - 27 I X - 27 J` (Birch and
+//! Swinnerton-Dyer, *Notes on elliptic curves I*, J. reine angew. Math. 212
+//! (1963); Cremona, *Algorithms for Modular Elliptic Curves*, 2nd ed., 3.5;
+//! Cremona, *Classical invariants and 2-descent on elliptic curves*,
+//! J. Symbolic Comput. 31 (2001)).
+//!
+//! This module provides
+//! * the [`Quartic`] type with its invariants, seminvariants, covariants
+//!   (Hessian `g_H` and sextic `g_6`) and the `GL2` action;
+//! * the covering map from a point on `y^2 = g(x,z)` to `E_{I,J}` and to the
+//!   user's Weierstrass model ([`Quartic::image_on_jacobian`],
+//!   [`Quartic::image_on_curve`]);
+//! * reduction and `GL2(Z)`-equivalence ([`reduce`], [`gl2z_equivalent`]);
+//! * the enumeration of all `GL2(Z)`-classes with given invariants
+//!   ([`quartics_with_invariants`]);
+//! * the invariants to enumerate for a curve ([`covering_invariants`]);
+//! * the class of a quartic in `(Q[φ]/F(φ))^* / squares` and the
+//!   `GL2(Q)`-equivalence test ([`covering_class`], [`same_covering`]).
+//!
+//! # Limits
+//!
+//! * The search box grows like `max(|I|^{1/2}, |J|^{1/3})^3`: about a
+//!   millisecond for `|I|` in the hundreds, a tenth of a second for
+//!   `I ≈ 4.5·10^4`, seconds for `I ≈ 5·10^6`. Use
+//!   [`SearchOptions::max_candidates`] to bound it.
+//! * Reduction and the `GL2(Z)` test compute the covariant point `τ` in `f64`
+//!   and confirm every equivalence exactly; forms are reduced by exact
+//!   integer moves first, so `τ` is always computed from a reduced form, and
+//!   the near-reduced sets use a margin of `1e-6`. A failure of the floating
+//!   point evaluation is reported as an error, never as a wrong answer, except
+//!   that an error in `τ` larger than the margin could make two equivalent forms
+//!   look inequivalent (not observed in the brute-force tests).
+//! * Local solubility is not decided here: the enumeration returns all
+//!   classes (negative definite ones optionally), ELS or not.
+
+// NaN-aware float comparisons (`!(x > 0.0)`) are intended; the scanners take many scalars.
+#![allow(clippy::neg_cmp_op_on_partial_ord, clippy::too_many_arguments, clippy::needless_range_loop)]
+
+mod core;
+mod reduction;
+mod enumerate;
+mod classes;
+mod numeric;
+
+pub use self::core::{Matrix, Quartic, RootType};
+pub use self::reduction::{gl2z_equivalent, gl2z_equivalence, reduce};
+pub use self::enumerate::{covering_invariants, covering_invariants_conservative, quartics_with_invariants, SearchOptions};
+pub use self::classes::{covering_class, same_covering, CoveringClass};
