@@ -46,11 +46,21 @@ pub struct RankOptions {
     pub cancel: Option<Arc<AtomicBool>>,
     /// Called at the start of each stage.
     pub progress: Option<ProgressFn>,
+    /// Cap on the candidate triples the quartic enumeration may examine;
+    /// beyond it the full descent gives no upper bound (reported as such).
+    pub max_quartic_candidates: u64,
 }
 
 impl Default for RankOptions {
     fn default() -> Self {
-        RankOptions { search_height: 300, curve_search_height: 1000, time_limit: None, cancel: None, progress: None }
+        RankOptions {
+            search_height: 300,
+            curve_search_height: 1000,
+            time_limit: None,
+            cancel: None,
+            progress: None,
+            max_quartic_candidates: 50_000_000,
+        }
     }
 }
 

@@ -2,4 +2,5 @@
 //! 2-coverings, with the F2 bookkeeping of Selmer groups.
 
 pub mod f2;
+pub mod full;
 pub mod isogeny;

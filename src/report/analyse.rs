@@ -4,6 +4,7 @@ use super::{RankReport, Route, ShaSuspect};
 use crate::arith::{factor, FactorLimits};
 use crate::budget::{Budget, RankOptions, Stage};
 use crate::curve::{Curve, Point};
+use crate::descent::full::{full_two_descent, FullDescent};
 use crate::descent::isogeny::{covering_quartic, descend_via_isogeny, IsogenyDescent};
 use crate::error::Error;
 use crate::local::{conductor, local_data};
@@ -71,6 +72,8 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
         points: vec![],
         independence: String::new(),
         sha_suspects: vec![],
+        selmer2_dim: None,
+        change: change.clone(),
         budget_exhausted: false,
         elapsed: budget.elapsed(),
     };
@@ -83,41 +86,124 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
         }
         runs.push(descend_via_isogeny(&minimal, t, &torsion, &min_primes, options, &budget)?);
     }
-    if !runs.is_empty() {
-        report.route = Route::Isogeny;
-        let best_lower = runs.iter().max_by_key(|r| r.lower).unwrap();
-        report.rank_lower = Some(best_lower.lower);
-        report.points = best_lower.points.iter().map(to_input).collect();
-        for p in &report.points {
-            if !curve.contains(p) {
-                return Err(Error::new(crate::ErrorKind::InvalidValue, "internal check failed: reported point not on the input curve"));
-            }
-        }
-        report.independence = format!(
-            "their images under the connecting maps of the 2-isogeny with kernel {} are independent modulo the images of torsion (Silverman-Tate III.6)",
-            best_lower.kernel_point
-        );
-        if let Some(best_upper) = runs.iter().filter(|r| r.upper.is_some()).min_by_key(|r| r.upper.unwrap()) {
-            report.rank_upper = best_upper.upper;
-            report.isogeny_selmer = Some((best_upper.side_e.selmer_dim, best_upper.side_e_prime.selmer_dim));
-            if report.rank_upper != report.rank_lower {
-                for (side, name) in [(&best_upper.side_e, "E"), (&best_upper.side_e_prime, "E'")] {
-                    for d in &side.unexplained {
-                        report.sha_suspects.push(ShaSuspect {
-                            origin: format!("2-isogeny with kernel {}, covering of {name}", best_upper.kernel_point),
-                            quartic: covering_quartic(d, &side.a, &side.b),
-                            class: Some(d.clone()),
-                            searched_height: options.search_height,
-                        });
-                    }
-                }
-            }
-        }
-        if runs.iter().any(|r| !r.search_complete) {
-            report.budget_exhausted = true;
+    // the full 2-descent runs on every curve
+    let full: Option<FullDescent> = if budget.exhausted() {
+        report.budget_exhausted = true;
+        None
+    } else {
+        Some(full_two_descent(&minimal, &torsion, &min_primes, options, &budget)?)
+    };
+    combine(&mut report, &runs, full.as_ref(), options)?;
+    for p in &report.points {
+        if !curve.contains(p) {
+            return Err(Error::new(crate::ErrorKind::InvalidValue, "internal check failed: reported point not on the input curve"));
         }
     }
     progress(Stage::Report, "done");
     report.elapsed = budget.elapsed();
     Ok(report)
+}
+
+/// Keeps the tightest bounds of the routes that ran, checks that they do not
+/// contradict each other, and takes points and Sha suspects from the routes
+/// that gave the bounds.
+fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullDescent>, options: &RankOptions) -> Result<(), Error> {
+    let to_input = |p: &Point| -> Point { map_to_input(report, p) };
+    let mut lower: Option<(usize, Vec<Point>, String)> = None;
+    let mut upper: Option<usize> = None;
+    let consider_lower = |l: usize, pts: Vec<Point>, why: String, lower: &mut Option<(usize, Vec<Point>, String)>| {
+        if lower.as_ref().is_none_or(|(b, _, _)| l > *b) {
+            *lower = Some((l, pts, why));
+        }
+    };
+    for r in runs {
+        consider_lower(
+            r.lower,
+            r.points.iter().map(to_input).collect(),
+            format!(
+                "their images under the connecting maps of the 2-isogeny with kernel {} are independent modulo the images of torsion (Silverman-Tate III.6)",
+                r.kernel_point
+            ),
+            &mut lower,
+        );
+        if let Some(u) = r.upper {
+            upper = Some(upper.map_or(u, |b: usize| b.min(u)));
+        }
+    }
+    if let Some(f) = full {
+        consider_lower(
+            f.lower,
+            f.points.iter().map(to_input).collect(),
+            "their images in Sel^2(E), in (Q[x]/F(x))*/squares, are independent modulo the image of E(Q)[2]".to_string(),
+            &mut lower,
+        );
+        if let Some(u) = f.upper {
+            upper = Some(upper.map_or(u, |b: usize| b.min(u)));
+        }
+        report.selmer2_dim = f.selmer_dim;
+        if !f.search_complete {
+            report.budget_exhausted = true;
+        }
+    }
+    // the routes must never contradict each other
+    let lows: Vec<usize> = runs.iter().map(|r| r.lower).chain(full.map(|f| f.lower)).collect();
+    let ups: Vec<usize> = runs.iter().filter_map(|r| r.upper).chain(full.and_then(|f| f.upper)).collect();
+    if let (Some(&l), Some(&u)) = (lows.iter().max(), ups.iter().min()) {
+        if l > u {
+            return Err(Error::new(crate::ErrorKind::InvalidValue, "internal check failed: the descent routes contradict each other"));
+        }
+    }
+    report.route = match (runs.is_empty(), full.is_some()) {
+        (false, true) => Route::IsogenyAndQuartic,
+        (false, false) => Route::Isogeny,
+        (true, true) => Route::Quartic,
+        (true, false) => Route::None,
+    };
+    if let Some((l, pts, why)) = lower {
+        report.rank_lower = Some(l);
+        report.points = pts;
+        report.independence = why;
+    }
+    report.rank_upper = upper;
+    if let Some(best) = runs.iter().filter(|r| r.upper.is_some()).min_by_key(|r| r.upper.unwrap()) {
+        report.isogeny_selmer = Some((best.side_e.selmer_dim, best.side_e_prime.selmer_dim));
+    }
+    if report.rank_upper.is_some() && report.rank_upper != report.rank_lower {
+        let u = report.rank_upper.unwrap();
+        if let Some(f) = full.filter(|f| f.upper == Some(u)) {
+            for q in &f.unexplained {
+                report.sha_suspects.push(ShaSuspect {
+                    origin: "quartic 2-covering of E (an element of Sel^2(E))".to_string(),
+                    quartic: q.coeffs(),
+                    class: None,
+                    searched_height: options.search_height,
+                });
+            }
+        } else if let Some(best) = runs.iter().find(|r| r.upper == Some(u)) {
+            for (side, name) in [(&best.side_e, "E"), (&best.side_e_prime, "E'")] {
+                for d in &side.unexplained {
+                    report.sha_suspects.push(ShaSuspect {
+                        origin: format!("2-isogeny with kernel {}, covering of {name}", best.kernel_point),
+                        quartic: covering_quartic(d, &side.a, &side.b),
+                        class: Some(d.clone()),
+                        searched_height: options.search_height,
+                    });
+                }
+            }
+        }
+    }
+    if runs.iter().any(|r| !r.search_complete) {
+        report.budget_exhausted = true;
+    }
+    Ok(())
+}
+
+fn map_to_input(report: &RankReport, p: &Point) -> Point {
+    match p {
+        Point::Infinity => Point::Infinity,
+        Point::Affine(x, y) => {
+            let (x, y) = report.change.unmap_point(&(x.clone(), y.clone()));
+            Point::Affine(x, y)
+        }
+    }
 }

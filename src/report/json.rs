@@ -98,6 +98,7 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
         "isogeny_selmer",
         &r.isogeny_selmer.map(|(a, b)| format!("[{a},{b}]")).unwrap_or_else(|| "null".into()),
     );
+    w.raw("selmer2_dim", &opt(r.selmer2_dim));
     w.raw("points", &list(&r.points, point_json));
     w.raw(
         "sha_suspects",

@@ -93,6 +93,10 @@ pub struct RankReport {
     pub independence: String,
     /// Coverings where Sha could hide.
     pub sha_suspects: Vec<ShaSuspect>,
+    /// dim Sel^2(E) over F2 (including the image of E(Q)[2]), from the full 2-descent.
+    pub selmer2_dim: Option<usize>,
+    /// The change of model from the input model to the minimal one.
+    pub change: crate::ModelChange,
     /// Whether the budget ran out before the computation finished.
     pub budget_exhausted: bool,
     /// Wall-clock time spent.
@@ -147,6 +151,9 @@ impl fmt::Display for RankReport {
                 show(self.rank_upper),
                 self.route.name()
             )?,
+        }
+        if let Some(s) = self.selmer2_dim {
+            writeln!(f, "2-Selmer dimension {s} (including E(Q)[2])")?;
         }
         if let Some((s, t)) = self.isogeny_selmer {
             writeln!(f, "isogeny Selmer dimensions {s} and {t}")?;
