@@ -49,6 +49,9 @@ pub struct RankOptions {
     /// Cap on the candidate triples the quartic enumeration may examine;
     /// beyond it the full descent gives no upper bound (reported as such).
     pub max_quartic_candidates: u64,
+    /// Run the full 2-descent even when the 2-isogeny route has already
+    /// proven the rank, as a cross-check of the two routes (slower).
+    pub cross_check_routes: bool,
 }
 
 impl Default for RankOptions {
@@ -60,6 +63,7 @@ impl Default for RankOptions {
             cancel: None,
             progress: None,
             max_quartic_candidates: 50_000_000,
+            cross_check_routes: false,
         }
     }
 }

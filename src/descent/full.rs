@@ -277,3 +277,28 @@ pub(crate) fn full_two_descent(
     out.classes = distinct.into_iter().map(|(_, s)| s).collect();
     Ok(out)
 }
+
+/// The full 2-descent of `curve` on its own (without the isogeny route):
+/// minimal model, torsion, the quartic classes of Sel^2(E) with their local
+/// witnesses, points found and the classes left unexplained. Points are on
+/// the global minimal model.
+///
+/// ```
+/// use twofold::{Curve, RankOptions};
+/// use twofold::descent::full::full_descent;
+/// // y^2 + y = x^3 + x^2 - 2x: rank 2 (Cremona's tables, 389a1; from memory)
+/// let e = Curve::from_ainvs([0, 1, 1, -2, 0]).unwrap();
+/// let d = full_descent(&e, &RankOptions::default()).unwrap();
+/// assert_eq!(d.selmer_dim, Some(2));
+/// assert_eq!((d.lower, d.upper), (2, Some(2)));
+/// ```
+pub fn full_descent(curve: &Curve, options: &RankOptions) -> Result<FullDescent, Error> {
+    let budget = Budget::from_options(options);
+    let limits = crate::arith::FactorLimits { deadline: budget.deadline, cancel: budget.cancel.clone() };
+    let primes: Vec<Natural> = crate::arith::factor(curve.discriminant(), &limits)?.primes().cloned().collect();
+    let (minimal, _) = curve.minimal_model(&primes)?;
+    let primes: Vec<Natural> =
+        primes.into_iter().filter(|p| crate::arith::valuation(minimal.discriminant(), p).unwrap_or(0) > 0).collect();
+    let torsion = TorsionGroup::compute(&minimal, &primes);
+    full_two_descent(&minimal, &torsion, &primes, options, &budget)
+}

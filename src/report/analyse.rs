@@ -86,9 +86,15 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
         }
         runs.push(descend_via_isogeny(&minimal, t, &torsion, &min_primes, options, &budget)?);
     }
-    // the full 2-descent runs on every curve
+    // the full 2-descent runs on every curve, except where the isogeny
+    // route has already proven the rank (unless a cross-check is asked for)
+    let settled = runs.iter().any(|r| r.upper == Some(r.lower))
+        || (runs.iter().filter_map(|r| r.upper).min() == runs.iter().map(|r| r.lower).max());
+    let settled = settled && !runs.is_empty();
     let full: Option<FullDescent> = if budget.exhausted() {
         report.budget_exhausted = true;
+        None
+    } else if settled && !options.cross_check_routes {
         None
     } else {
         Some(full_two_descent(&minimal, &torsion, &min_primes, options, &budget)?)

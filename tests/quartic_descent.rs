@@ -1,0 +1,108 @@
+//! The full 2-descent against outside references.
+
+mod common;
+
+use twofold::descent::full::full_descent;
+use twofold::solubility::check_witness;
+use twofold::{analyse, Curve, RankOptions};
+
+/// Both published tables (Cremona, Algorithms for Modular Elliptic Curves,
+/// Table 1; the list of curves with non-trivial Sha, see tests/data/README.md).
+/// Wherever the enumeration completes:
+/// - the rank lies in the bounds and every local witness checks exactly;
+/// - dim Sel^2 - dim E(Q)[2] = rank + dim Sha[2], and dim Sha[2] is even
+///   (Sha is finite for these curves, Kolyvagin; the Cassels-Tate pairing
+///   makes its order a square), so the parity matches the rank;
+/// - for Sha order 1, 9 or 25 (Sha[2] = 0) the upper bound is the rank;
+/// - for Sha order 4 (Sha[2] of dimension 2) it exceeds the rank by exactly 2,
+///   and the Sha suspects span the gap.
+#[test]
+fn published_tables() {
+    let mut rows = common::read_table("curves-small-conductor.tsv");
+    rows.extend(common::read_table("curves-with-sha.tsv"));
+    let mut complete = 0;
+    for r in &rows {
+        let e = Curve::from_ainvs(r.ainvs).unwrap();
+        let d = full_descent(&e, &RankOptions::default()).unwrap();
+        assert!(d.lower <= r.rank, "{:?}", r.ainvs);
+        for c in &d.classes {
+            for (place, w) in &c.witnesses {
+                assert!(check_witness(&c.quartic.coeffs(), place, w), "{:?}: witness at {place:?}", r.ainvs);
+            }
+        }
+        let Some(s) = d.selmer_dim else { continue };
+        complete += 1;
+        let sha2 = s - d.two_torsion_dim - r.rank;
+        assert!(s >= d.two_torsion_dim + r.rank, "{:?}: Selmer too small", r.ainvs);
+        assert_eq!(sha2 % 2, 0, "{:?}: parity", r.ainvs);
+        match r.sha_order {
+            None | Some(9) | Some(25) => assert_eq!(sha2, 0, "{:?}: Sha[2] should be trivial", r.ainvs),
+            Some(4) => assert_eq!(sha2, 2, "{:?}: Sha[2] should have dimension 2", r.ainvs),
+            Some(_) => {}
+        }
+        if d.upper != Some(d.lower) {
+            assert_eq!(d.unexplained.len(), d.upper.unwrap() - d.lower, "{:?}", r.ainvs);
+        }
+    }
+    eprintln!("enumeration complete on {complete} of {} curves", rows.len());
+    assert!(complete * 10 >= rows.len() * 9);
+}
+
+/// Curves known from memory: y^2 + y = x^3 + x^2 - 2x has rank 2 and
+/// y^2 + y = x^3 - 7x + 6 has rank 3 (the conductor 389 and 5077 curves of
+/// Cremona's tables; from memory). The search finds that many independent points.
+#[test]
+fn ranks_two_and_three() {
+    for (a, rank) in [([0, 1, 1, -2, 0], 2usize), ([0, 0, 1, -7, 6], 3)] {
+        let e = Curve::from_ainvs(a).unwrap();
+        let r = analyse(&e, &RankOptions::default()).unwrap();
+        assert_eq!(r.rank(), Some(rank));
+        assert_eq!(r.points.len(), rank);
+        for p in &r.points {
+            assert!(e.contains(p));
+        }
+    }
+}
+
+/// On curves with rational 2-torsion both routes run; the combined report
+/// exists only when they do not contradict each other, and the quartic
+/// route's Selmer bound is at least as good as the isogeny route's.
+#[test]
+fn routes_agree_on_two_torsion_curves() {
+    let rows = common::read_table("curves-small-conductor.tsv");
+    for r in rows.iter().filter(|r| r.torsion_order % 2 == 0).take(150) {
+        let e = Curve::from_ainvs(r.ainvs).unwrap();
+        let o = RankOptions { cross_check_routes: true, ..RankOptions::default() };
+        let rep = analyse(&e, &o).unwrap();
+        assert_eq!(rep.route.name(), "2-isogeny+quartic");
+        let d = full_descent(&e, &RankOptions::default()).unwrap();
+        if let (Some(u), Some(ru)) = (d.upper, rep.rank_upper) {
+            assert!(ru <= u);
+            assert!(rep.rank_lower.unwrap() <= u);
+        }
+    }
+}
+
+/// The quartic 2w^2 = 1 - 17u^4 (as y^2 = 2x^4 - 34z^4) is everywhere locally
+/// soluble but has no rational point (Lind 1940, Reichardt 1942).
+#[test]
+fn lind_reichardt() {
+    use malachite::{Integer, Natural};
+    use twofold::search::{search_quartic, SearchLimits};
+    use twofold::solubility::everywhere_locally_soluble;
+    let g = [2, 0, 0, 0, -34].map(Integer::from);
+    assert!(everywhere_locally_soluble(&g, &[Natural::from(2u32), Natural::from(17u32)]).is_ok());
+    assert!(search_quartic(&g, &SearchLimits::new(2000)).points.is_empty());
+}
+
+/// A zero budget gives a report that claims nothing it did not prove.
+#[test]
+fn zero_budget() {
+    let e = Curve::from_ainvs([0, 1, 1, -2, 0]).unwrap();
+    let r = analyse(&e, &RankOptions::default().with_time_limit(std::time::Duration::ZERO)).unwrap();
+    assert!(r.budget_exhausted);
+    assert!(r.rank_lower.unwrap_or(0) <= 2);
+    if let Some(u) = r.rank_upper {
+        assert!(u >= 2);
+    }
+}
