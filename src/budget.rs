@@ -52,6 +52,11 @@ pub struct RankOptions {
     /// Run the full 2-descent even when the 2-isogeny route has already
     /// proven the rank, as a cross-check of the two routes (slower).
     pub cross_check_routes: bool,
+    /// The primes dividing the discriminant, for curves whose discriminant
+    /// is too hard to factor: when given, twofold checks that each is a
+    /// (probable) prime and that they account for the whole discriminant,
+    /// instead of factoring it.
+    pub known_primes: Option<Vec<malachite::Natural>>,
 }
 
 impl Default for RankOptions {
@@ -64,6 +69,7 @@ impl Default for RankOptions {
             progress: None,
             max_quartic_candidates: 50_000_000,
             cross_check_routes: false,
+            known_primes: None,
         }
     }
 }

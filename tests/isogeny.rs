@@ -32,12 +32,14 @@ fn even_torsion_curves_of_the_table() {
             open.push((r.conductor, r.ainvs));
         }
     }
-    // No curve of conductor <= 162 has non-trivial Sha (the Sha list starts
-    // beyond it), but Sha of an isogenous curve (or Sha[phi]) can still keep
-    // an isogeny descent from being sharp; we record how many stay open.
-    let _ = sha;
+    // The rank is proven for all of them except where the published Sha list
+    // shows Sha[2] non-trivial (Sha order divisible by 4).
+    let sha2: Vec<(u64, [i64; 5])> =
+        sha.iter().filter(|r| r.sha_order.unwrap() % 4 == 0).map(|r| (r.conductor, r.ainvs)).collect();
+    for o in &open {
+        assert!(sha2.contains(o), "{o:?} is open but has trivial Sha[2]");
+    }
     eprintln!("even torsion: {proven}/{total} proven, open: {open:?}");
-    assert!(proven * 10 >= total * 9, "too few proven: {proven}/{total}");
 }
 
 /// Congruent number curves y^2 = x^3 - n^2 x: n = 5, 6, 7 are congruent
@@ -94,7 +96,9 @@ fn congruent_numbers_against_tunnell() {
             (ternary_count(n / 2, 4, 8), ternary_count(n / 2, 4, 32))
         };
         let e = Curve::from_ainvs([0, 0, 0, -n * n, 0]).unwrap();
-        let r = analyse(&e, &RankOptions::default().with_search_height(100)).unwrap();
+        // the isogeny route decides these; keep the quartic enumeration short
+        let o = RankOptions { max_quartic_candidates: 200_000, ..RankOptions::default().with_search_height(100) };
+        let r = analyse(&e, &o).unwrap();
         if a != 2 * b {
             assert_eq!(r.rank_lower, Some(0), "n = {n}: Tunnell says rank 0");
             let up = r.rank_upper.unwrap();

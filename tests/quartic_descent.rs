@@ -106,3 +106,16 @@ fn zero_budget() {
         assert!(u >= 2);
     }
 }
+
+/// Caller-supplied primes replace the factorisation; wrong ones are refused.
+#[test]
+fn known_primes() {
+    use malachite::Natural;
+    let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap(); // discriminant 37
+    let o = RankOptions { known_primes: Some(vec![Natural::from(37u32)]), ..RankOptions::default() };
+    assert_eq!(analyse(&e, &o).unwrap().rank(), Some(1));
+    let bad = RankOptions { known_primes: Some(vec![Natural::from(35u32)]), ..RankOptions::default() };
+    assert!(analyse(&e, &bad).is_err());
+    let short = RankOptions { known_primes: Some(vec![]), ..RankOptions::default() };
+    assert!(analyse(&e, &short).is_err());
+}

@@ -67,6 +67,19 @@ pub struct LocalImage {
 }
 
 /// The result of descent through one 2-isogeny.
+///
+/// ```
+/// use twofold::{analyse, Curve, RankOptions};
+/// // y^2 = x^3 - 82x has rank 3 (its Selmer groups are sharp; checked by the descent itself)
+/// let e = Curve::from_ainvs([0, 0, 0, -82, 0]).unwrap();
+/// let r = analyse(&e, &RankOptions::default()).unwrap();
+/// let run = &r.isogeny_runs[0];
+/// assert_eq!((run.lower, run.upper), (3, Some(3)));
+/// assert_eq!(run.side_e.selmer_dim + run.side_e_prime.selmer_dim - 2, 3);
+/// for img in &run.side_e.local_images {
+///     assert!(!img.soluble.is_empty()); // the trivial class is always soluble
+/// }
+/// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct IsogenyDescent {
     /// The kernel point T, on the curve's own model.

@@ -37,8 +37,10 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
     };
     progress(Stage::LocalData, "factoring the discriminant");
     let limits = FactorLimits { deadline: budget.deadline, cancel: budget.cancel.clone() };
-    let fac = factor(curve.discriminant(), &limits)?;
-    let primes: Vec<Natural> = fac.primes().cloned().collect();
+    let primes: Vec<Natural> = match &options.known_primes {
+        Some(ps) => check_known_primes(curve, ps)?,
+        None => factor(curve.discriminant(), &limits)?.primes().cloned().collect(),
+    };
     let (minimal, change) = curve.minimal_model(&primes)?;
     let min_primes: Vec<Natural> = primes
         .iter()
@@ -73,6 +75,8 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
         independence: String::new(),
         sha_suspects: vec![],
         selmer2_dim: None,
+        isogeny_runs: vec![],
+        full_descent: None,
         change: change.clone(),
         budget_exhausted: false,
         elapsed: budget.elapsed(),
@@ -100,6 +104,8 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
         Some(full_two_descent(&minimal, &torsion, &min_primes, options, &budget)?)
     };
     combine(&mut report, &runs, full.as_ref(), options)?;
+    report.isogeny_runs = runs;
+    report.full_descent = full;
     for p in &report.points {
         if !curve.contains(p) {
             return Err(Error::new(crate::ErrorKind::InvalidValue, "internal check failed: reported point not on the input curve"));
@@ -212,4 +218,33 @@ fn map_to_input(report: &RankReport, p: &Point) -> Point {
             Point::Affine(x, y)
         }
     }
+}
+
+/// Checks caller-supplied primes: each a probable prime (BPSW), and together
+/// accounting for the whole discriminant.
+fn check_known_primes(curve: &Curve, ps: &[Natural]) -> Result<Vec<Natural>, Error> {
+    use malachite::base::num::arithmetic::traits::{Abs, DivisibleBy};
+    use malachite::Integer;
+    let mut rest = curve.discriminant().clone().abs();
+    let mut out = Vec::new();
+    for p in ps {
+        if !crate::arith::is_probable_prime(p) {
+            return Err(Error::new(crate::ErrorKind::InvalidValue, format!("{p} is not prime")));
+        }
+        let pi = Integer::from(p.clone());
+        while (&rest).divisible_by(&pi) {
+            rest /= &pi;
+        }
+        if !out.contains(p) {
+            out.push(p.clone());
+        }
+    }
+    if rest != 1 {
+        return Err(Error::new(
+            crate::ErrorKind::InvalidValue,
+            format!("the given primes do not account for the discriminant: cofactor {rest} remains"),
+        ));
+    }
+    out.sort();
+    Ok(out)
 }

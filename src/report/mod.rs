@@ -95,6 +95,11 @@ pub struct RankReport {
     pub sha_suspects: Vec<ShaSuspect>,
     /// dim Sel^2(E) over F2 (including the image of E(Q)[2]), from the full 2-descent.
     pub selmer2_dim: Option<usize>,
+    /// Every 2-isogeny descent that ran (one per rational 2-torsion point),
+    /// with its Selmer groups, local images and witnesses.
+    pub isogeny_runs: Vec<crate::descent::isogeny::IsogenyDescent>,
+    /// The full 2-descent, when it ran.
+    pub full_descent: Option<crate::descent::full::FullDescent>,
     /// The change of model from the input model to the minimal one.
     pub change: crate::ModelChange,
     /// Whether the budget ran out before the computation finished.

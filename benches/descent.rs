@@ -1,0 +1,62 @@
+//! Whole rank computations over the published table (Cremona, Algorithms for
+//! Modular Elliptic Curves, Table 1, in tests/data/), and Tate's algorithm
+//! over every bad prime of every curve of the table.
+
+use criterion::{criterion_group, criterion_main, Criterion, SamplingMode};
+use malachite::Natural;
+use std::time::Duration;
+use twofold::arith::{factor, FactorLimits};
+use twofold::local::local_data;
+use twofold::{analyse, Curve, RankOptions};
+
+fn table() -> Vec<(Curve, usize)> {
+    let text = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/tests/data/curves-small-conductor.tsv")).unwrap();
+    text.lines()
+        .filter(|l| !l.starts_with('#') && !l.trim().is_empty())
+        .map(|l| {
+            let f: Vec<&str> = l.split('\t').collect();
+            let a: Vec<i64> = f[2..7].iter().map(|s| s.parse().unwrap()).collect();
+            (Curve::from_ainvs([a[0], a[1], a[2], a[3], a[4]]).unwrap(), f[8].parse().unwrap())
+        })
+        .collect()
+}
+
+fn bench(c: &mut Criterion) {
+    let curves = table();
+    let even: Vec<&Curve> = curves.iter().filter(|(_, t)| t % 2 == 0).map(|(c, _)| c).collect();
+    let all: Vec<&Curve> = curves.iter().map(|(c, _)| c).collect();
+    let with_primes: Vec<(Curve, Vec<Natural>)> = curves
+        .iter()
+        .map(|(c, _)| (c.clone(), factor(c.discriminant(), &FactorLimits::default()).unwrap().primes().cloned().collect()))
+        .collect();
+    let mut g = c.benchmark_group("table");
+    g.sampling_mode(SamplingMode::Flat).sample_size(10).measurement_time(Duration::from_secs(20));
+    g.bench_function("tate_all_bad_primes_572_curves", |b| {
+        b.iter(|| {
+            for (c, ps) in &with_primes {
+                for p in ps {
+                    std::hint::black_box(local_data(c, p).unwrap());
+                }
+            }
+        })
+    });
+    let opts = RankOptions::default();
+    g.bench_function("analyse_even_torsion_408_curves", |b| {
+        b.iter(|| {
+            for c in &even {
+                std::hint::black_box(analyse(c, &opts).unwrap());
+            }
+        })
+    });
+    g.bench_function("analyse_all_572_curves", |b| {
+        b.iter(|| {
+            for c in &all {
+                std::hint::black_box(analyse(c, &opts).unwrap());
+            }
+        })
+    });
+    g.finish();
+}
+
+criterion_group!(benches, bench);
+criterion_main!(benches);
