@@ -19,7 +19,14 @@ use twofold::{analyse, Curve, RankOptions};
 #[test]
 fn published_tables() {
     let mut rows = common::read_table("curves-small-conductor.tsv");
-    rows.extend(common::read_table("curves-with-sha.tsv"));
+    let sha = common::read_table("curves-with-sha.tsv");
+    // a curve of the small table that is also in the Sha list takes its Sha order from there
+    for r in rows.iter_mut() {
+        if let Some(s) = sha.iter().find(|s| s.ainvs == r.ainvs) {
+            r.sha_order = s.sha_order;
+        }
+    }
+    rows.extend(sha);
     let mut complete = 0;
     for r in &rows {
         let e = Curve::from_ainvs(r.ainvs).unwrap();
@@ -99,7 +106,14 @@ fn lind_reichardt() {
 #[test]
 fn zero_budget() {
     let e = Curve::from_ainvs([0, 1, 1, -2, 0]).unwrap();
-    let r = analyse(&e, &RankOptions::default().with_time_limit(std::time::Duration::ZERO)).unwrap();
+    let r = match analyse(&e, &RankOptions::default().with_time_limit(std::time::Duration::ZERO)) {
+        Ok(r) => r,
+        // the budget may already be gone while factoring the discriminant
+        Err(err) => {
+            assert_eq!(err.kind(), &twofold::ErrorKind::FactorBudget);
+            return;
+        }
+    };
     assert!(r.budget_exhausted);
     assert!(r.rank_lower.unwrap_or(0) <= 2);
     if let Some(u) = r.rank_upper {
