@@ -51,15 +51,7 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
     let cond = conductor(&minimal, &min_primes)?;
     progress(Stage::Torsion, "torsion subgroup");
     let torsion = TorsionGroup::compute(&minimal, &min_primes);
-    let to_input = |p: &Point| -> Point {
-        match p {
-            Point::Infinity => Point::Infinity,
-            Point::Affine(x, y) => {
-                let (x, y) = change.unmap_point(&(x.clone(), y.clone()));
-                Point::Affine(x, y)
-            }
-        }
-    };
+    let to_input = |p: &Point| unmap(&change, p);
     let mut report = RankReport {
         input: curve.clone(),
         minimal: minimal.clone(),
@@ -120,7 +112,7 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
 /// contradict each other, and takes points and Sha suspects from the routes
 /// that gave the bounds.
 fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullDescent>, options: &RankOptions) -> Result<(), Error> {
-    let to_input = |p: &Point| -> Point { map_to_input(report, p) };
+    let to_input = |p: &Point| unmap(&report.change, p);
     let mut lower: Option<(usize, Vec<Point>, String)> = None;
     let mut upper: Option<usize> = None;
     let consider_lower = |l: usize, pts: Vec<Point>, why: String, lower: &mut Option<(usize, Vec<Point>, String)>| {
@@ -210,11 +202,12 @@ fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullD
     Ok(())
 }
 
-fn map_to_input(report: &RankReport, p: &Point) -> Point {
+/// A point on the minimal model, taken back to the input model.
+fn unmap(change: &crate::ModelChange, p: &Point) -> Point {
     match p {
         Point::Infinity => Point::Infinity,
         Point::Affine(x, y) => {
-            let (x, y) = report.change.unmap_point(&(x.clone(), y.clone()));
+            let (x, y) = change.unmap_point(&(x.clone(), y.clone()));
             Point::Affine(x, y)
         }
     }
