@@ -22,9 +22,22 @@
 //!   case decided locally is a ramified quadratic twist of a curve with good
 //!   reduction at `p`: if `E^d` has good reduction, `ρ_E = ρ_{E^d} ⊗ χ_d`
 //!   with `ρ_{E^d}` unramified of trivial (unitary) determinant, so
-//!   `w_p = ε(χ_d)^2 = χ_d(-1) = (-1, d)_p`. The published tables of
-//!   Halberstadt for the remaining (wildly ramified) cases at 2 and 3 are
-//!   not reproduced; there [`local_root_number`] answers `None`.
+//!   `w_p = ε(χ_d)^2 = χ_d(-1) = (-1, d)_p`. The other tamely ramified
+//!   case (conductor exponent 2, so no Swan conductor) is also decided: the
+//!   inertia image is then cyclic of order prime to `p` and not `{±1}`, so
+//!   of order 3 at `p = 2` and 4 at `p = 3`. Frobenius acts on its
+//!   characters by `θ ↦ θ^p = θ^{-1}`, so `ρ_E = Ind_K θ` from the
+//!   unramified quadratic extension `K`, with `θ` restricted to `Q_p^*`
+//!   the unramified quadratic character (the determinant is trivial). As
+//!   `λ(K/Q_p) = 1` for unramified `K`, `w_p = w(θ) = θ(p) g / p = -g / p`
+//!   with `g` the Gauss sum of a character of order 3 on `F_4` (`g = 2`) or
+//!   of order 4 on `F_9` (`g = -3`) (Stickelberger's theorem; Berndt, Evans
+//!   and Williams, *Gauss and Jacobi Sums*, Thm. 11.6.3). So `w_2 = -1` and
+//!   `w_3 = +1` there, the values `(-3/2)` and `(-2/3)` of Rohrlich's
+//!   formulas for `e = 3` and `e = 4`. The published tables of Halberstadt
+//!   ("Signes locaux des courbes elliptiques en 2 et 3", C. R. Acad. Sci.
+//!   Paris 326, 1998) for the remaining, wildly ramified, cases at 2 and 3
+//!   are not reproduced; there [`local_root_number`] answers `None`.
 //!
 //! * **The functional equation, numerically** ([`root_number_numerical`]):
 //!   with the weight-2 newform `f = Σ a_n q^n` of level `N` (the conductor)
@@ -120,10 +133,11 @@ pub struct RootNumber {
 
 /// The local root number `w_p(E)` at a prime `p`, from local formulas (see
 /// the module documentation): `Some(1)` or `Some(-1)`, or `None` at `p = 2`
-/// or `3` when the reduction is additive and potentially good and no
-/// ramified quadratic twist has good reduction (the wildly ramified cases
-/// of Halberstadt's tables). Any integral model will do. An error of kind
-/// [`ErrorKind::InvalidValue`] when `p` is not prime.
+/// or `3` when the reduction is additive, potentially good and wildly
+/// ramified (conductor exponent above 2) and no ramified quadratic twist
+/// has good reduction (cases of Halberstadt's tables not reproduced here).
+/// Any integral model will do. An error of kind [`ErrorKind::InvalidValue`]
+/// when `p` is not prime.
 ///
 /// ```
 /// use malachite::Natural;
@@ -337,6 +351,13 @@ pub(crate) fn local_sign(model: &Curve, data: &LocalData) -> Result<Option<i8>, 
         if twist_has_good_reduction(c4, c6, d, p) {
             return Ok(Some(hilbert_symbol_integers(&Integer::from(-1), &Integer::from(d), &place)?));
         }
+    }
+    // Tame potentially good reduction (conductor exponent 2, i.e. no Swan
+    // conductor) without a quadratic twist of good reduction: the inertia
+    // image has order prime to p and is not {±1}, so it is cyclic of order 3
+    // at p = 2 and of order 4 at p = 3.
+    if data.conductor_exponent == 2 {
+        return Ok(Some(if *p == 2u32 { -1 } else { 1 }));
     }
     Ok(None)
 }
