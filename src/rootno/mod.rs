@@ -208,7 +208,7 @@ pub fn root_number_with_limits(curve: &Curve, limits: &FactorLimits) -> Result<R
     let n = &setup.conductor;
     if unknown.is_empty() {
         let global = -product;
-        let method = if *n <= Natural::from(NUMERIC_CHECK_CONDUCTOR) {
+        let method = if *n <= NUMERIC_CHECK_CONDUCTOR {
             match numeric::decide(&setup)? {
                 numeric::Verdict::Sign(s) if s == global => RootNumberMethod::LocalAndNumerical,
                 numeric::Verdict::Sign(s) => {
@@ -223,7 +223,7 @@ pub fn root_number_with_limits(curve: &Curve, limits: &FactorLimits) -> Result<R
         };
         return Ok(RootNumber { global, local, joint: vec![], method, conductor: n.clone() });
     }
-    if *n > Natural::from(NUMERIC_MAX_CONDUCTOR) {
+    if *n > NUMERIC_MAX_CONDUCTOR {
         return Err(Error::new(
             ErrorKind::TooLarge,
             format!(
@@ -271,7 +271,7 @@ pub fn root_number_with_limits(curve: &Curve, limits: &FactorLimits) -> Result<R
 /// ```
 pub fn root_number_numerical(curve: &Curve) -> Option<i8> {
     let setup = Setup::new(curve, &FactorLimits::default()).ok()?;
-    if setup.conductor > Natural::from(NUMERIC_MAX_CONDUCTOR) {
+    if setup.conductor > NUMERIC_MAX_CONDUCTOR {
         return None;
     }
     match numeric::decide(&setup).ok()? {
