@@ -105,10 +105,11 @@ pub enum RootNumberMethod {
 ///
 /// ```
 /// use twofold::{Curve, rootno::root_number};
-/// // 37a1 (Cremona's Table 1; rank 1, so w = -1): split at 37
+/// // 37a1 (Cremona's Table 1; rank 1, so w = -1): non-split at 37, so
+/// // w_37 = +1 and w = -w_37
 /// let r = root_number(&Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap()).unwrap();
 /// assert_eq!(r.global, -1);
-/// assert_eq!(r.local, vec![(37u32.into(), -1)]);
+/// assert_eq!(r.local, vec![(37u32.into(), 1)]);
 /// assert_eq!(r.conductor, 37u32);
 /// assert!(r.joint.is_empty());
 /// ```
