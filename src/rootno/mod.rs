@@ -12,11 +12,12 @@
 //!   `Q_p(sqrt(-c6))` (Silverman, *Advanced Topics*, V.5.3), and the
 //!   twist of the Steinberg representation by a ramified quadratic
 //!   character `χ` has root number `χ(-1)` (D. Rohrlich, "Elliptic curves
-//!   and the Weil–Deligne group", CRM Proc. 4, 1994, §19); for `p ≥ 5` and
+//!   and the Weil–Deligne group", CRM Proc. 4, 1994; section from memory); for `p ≥ 5` and
 //!   potentially good reduction, with `e = 12 / gcd(12, v_p(Δ_min))`,
 //!   `w_p = (-1/p)` if `e = 2` or `6`, `(-3/p)` if `e = 3`, `(-2/p)` if
 //!   `e = 4` (D. Rohrlich, "Variation of the root number in families of
-//!   elliptic curves", Compositio Math. 87, 1993, Prop. 2; also his
+//!   elliptic curves", Compositio Math. 87, 1993 (statement from memory,
+//!   checked numerically in tests/rootno.rs); also his
 //!   "Galois theory, elliptic curves, and root numbers", Compositio 100,
 //!   1996). At `p = 2` and `3` with potentially good reduction the only
 //!   case decided locally is a ramified quadratic twist of a curve with good
