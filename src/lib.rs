@@ -8,6 +8,7 @@ pub mod descent;
 pub mod local;
 pub mod quartic;
 pub mod report;
+pub mod rootno;
 pub mod search;
 pub mod solubility;
 pub mod torsion;
