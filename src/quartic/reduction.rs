@@ -138,13 +138,207 @@ pub(crate) fn definite_covariant(g: &Quartic) -> Option<(f64, f64, f64)> {
 }
 
 /// The root `τ(g)` of `Q(g)` in the upper half plane, as `(Re τ, Im τ)`.
+///
+/// Computed in double precision first; when that fails, or when `τ` comes
+/// out within `1e-4` of the boundary of the fundamental domain (where the
+/// cancellation in `4φ g - g_H` and in `4AC - B^2` matters: forms whose
+/// resolvent roots nearly coincide lose many digits), it is recomputed with
+/// 256-bit floats (more for large coefficients), which brings the error far
+/// below the margins used by the reduction.
 pub(crate) fn tau(g: &Quartic) -> Option<(f64, f64)> {
-    let (a, b, c) = definite_covariant(g)?;
-    let d = 4.0 * a * c - b * b;
-    Some((-b / (2.0 * a), d.sqrt() / (2.0 * a)))
+    let quick = definite_covariant(g).and_then(|(a, b, c)| {
+        let d = 4.0 * a * c - b * b;
+        let t = (-b / (2.0 * a), d.sqrt() / (2.0 * a));
+        (t.0.is_finite() && t.1.is_finite() && t.1 > 0.0).then_some(t)
+    });
+    match quick {
+        Some(t) if !near_boundary(t) => Some(t),
+        _ => precise::tau(g).or(quick),
+    }
 }
 
-const TOL_LOOP: f64 = 1e-12;
+fn near_boundary(t: (f64, f64)) -> bool {
+    const W: f64 = 1e-4;
+    (t.0.abs() - 0.5).abs() < W || (t.0 * t.0 + t.1 * t.1 - 1.0).abs() < W
+}
+
+/// The covariant `Q(g)` and `τ(g)` in multiple precision (malachite `Float`).
+mod precise {
+    use super::super::core::{Quartic, RootType};
+    use super::super::numeric::{resolvent_roots, significant_bits, to_f64_scaled, CubicRoots};
+    use malachite::base::num::arithmetic::traits::{Sign, Sqrt};
+    use malachite::base::num::conversion::traits::RoundingFrom;
+    use malachite::base::rounding_modes::RoundingMode;
+    use malachite::{Float, Integer};
+    use std::cmp::Ordering;
+
+    #[derive(Clone)]
+    struct Cx {
+        re: Float,
+        im: Float,
+    }
+
+    fn fl(n: &Integer, prec: u64) -> Float {
+        Float::from_integer_prec(n.clone(), prec).0
+    }
+
+    fn ff(x: f64, prec: u64) -> Float {
+        Float::from_integer_prec(Integer::ZERO_, prec).0 + Float::from(x)
+    }
+
+    trait Zero_ {
+        const ZERO_: Self;
+    }
+    impl Zero_ for Integer {
+        const ZERO_: Integer = Integer::const_from_signed(0);
+    }
+
+    impl Cx {
+        fn real(re: Float, prec: u64) -> Cx {
+            Cx { re, im: ff(0.0, prec) }
+        }
+        fn sub(&self, o: &Cx) -> Cx {
+            Cx { re: &self.re - &o.re, im: &self.im - &o.im }
+        }
+        fn mul(&self, o: &Cx) -> Cx {
+            Cx { re: &self.re * &o.re - &self.im * &o.im, im: &self.re * &o.im + &self.im * &o.re }
+        }
+        fn scale(&self, s: &Float) -> Cx {
+            Cx { re: &self.re * s, im: &self.im * s }
+        }
+        fn div(&self, o: &Cx) -> Option<Cx> {
+            let n = &o.re * &o.re + &o.im * &o.im;
+            if n == 0u32 {
+                return None;
+            }
+            Some(Cx {
+                re: (&self.re * &o.re + &self.im * &o.im) / &n,
+                im: (&self.im * &o.re - &self.re * &o.im) / &n,
+            })
+        }
+        fn abs2(&self) -> Float {
+            &self.re * &self.re + &self.im * &self.im
+        }
+        fn sqrt(&self) -> Cx {
+            let r = self.abs2().sqrt();
+            let two = Float::from(2u32);
+            let mut re = (&r + &self.re) / &two;
+            let mut im = (&r - &self.re) / &two;
+            if re.sign() == Ordering::Less {
+                re = &re - &re;
+            }
+            if im.sign() == Ordering::Less {
+                im = &im - &im;
+            }
+            let re = Sqrt::sqrt(re);
+            let im = Sqrt::sqrt(im);
+            let im = if self.im.sign() == Ordering::Less { -im } else { im };
+            Cx { re, im }
+        }
+    }
+
+    fn to_f64(x: &Float) -> f64 {
+        f64::rounding_from(x, RoundingMode::Nearest).0
+    }
+
+    /// Newton's method for `φ^3 - 3Iφ + J` from a double-precision start.
+    fn polish(t0: f64, i: &Float, j: &Float, prec: u64) -> Float {
+        let three = Float::from(3u32);
+        let mut t = ff(t0, prec);
+        for _ in 0..12 {
+            let t2 = &t * &t;
+            let f = &(&t2 - &(&three * i)) * &t + j;
+            let d = &(&three * &t2) - &(&three * i);
+            if d == 0u32 {
+                break;
+            }
+            let step = &f / &d;
+            t = &t - &step;
+            if step == 0u32 {
+                break;
+            }
+        }
+        t
+    }
+
+    pub(super) fn tau(g: &Quartic) -> Option<(f64, f64)> {
+        let rt = g.root_type()?;
+        let coeffs = g.coeff_refs();
+        let maxbits = coeffs.iter().map(|c| significant_bits(c)).max().unwrap_or(0);
+        let prec = 256 + 4 * maxbits;
+        let i_exact = g.invariant_i();
+        let j_exact = g.invariant_j();
+        let shift = maxbits.saturating_sub(100);
+        let fi = to_f64_scaled(&i_exact, 2 * shift);
+        let fj = to_f64_scaled(&j_exact, 3 * shift);
+        let i = fl(&i_exact, prec);
+        let j = fl(&j_exact, prec);
+        let gh = g.hessian();
+        let hc = gh.coeff_refs();
+        let three = Float::from(3u32);
+        let four = Float::from(4u32);
+        let (phi, sign) = match (rt, resolvent_roots(fi, fj, rt != RootType::TwoReal)) {
+            (RootType::FourReal, CubicRoots::Three(r)) => (Cx::real(polish(r[1] * scale_f(shift), &i, &j, prec), prec), 1i32),
+            (RootType::PositiveDefinite, CubicRoots::Three(r)) => (Cx::real(polish(r[0] * scale_f(shift), &i, &j, prec), prec), -1),
+            (RootType::NegativeDefinite, CubicRoots::Three(r)) => (Cx::real(polish(r[2] * scale_f(shift), &i, &j, prec), prec), -1),
+            (RootType::TwoReal, CubicRoots::One { real, .. }) => {
+                let r = polish(real * scale_f(shift), &i, &j, prec);
+                // the complex roots: -r/2 ± iκ with κ^2 = 3r^2/4 - 3I
+                let k2 = &(&(&three * &(&r * &r)) / &four) - &(&three * &i);
+                if k2.sign() != Ordering::Greater {
+                    return None;
+                }
+                let re = -(&r / &Float::from(2u32));
+                (Cx { re, im: k2.sqrt() }, 1)
+            }
+            _ => return None,
+        };
+        let mut p: Vec<Cx> = Vec::with_capacity(5);
+        for k in 0..5 {
+            let gk = fl(coeffs[k], prec);
+            let hk = fl(hc[k], prec);
+            let v = phi.scale(&(&four * &gk)).sub(&Cx::real(hk, prec));
+            let v = v.scale(&(Float::from(sign) / &three));
+            p.push(v);
+        }
+        // q with q^2 = p
+        let two = Float::from(2u32);
+        let (qa, qb, qc) = if p[0].abs2() >= p[4].abs2() {
+            if p[0].abs2() == 0u32 {
+                return None;
+            }
+            let a = p[0].sqrt();
+            let b = p[1].div(&a.scale(&two))?;
+            let c = p[2].sub(&b.mul(&b)).div(&a.scale(&two))?;
+            (a, b, c)
+        } else {
+            let c = p[4].sqrt();
+            let b = p[3].div(&c.scale(&two))?;
+            let a = p[2].sub(&b.mul(&b)).div(&c.scale(&two))?;
+            (a, b, c)
+        };
+        let (mut a, mut b, mut c) = (qa.re, qb.re, qc.re);
+        if a.sign() == Ordering::Less {
+            a = -a;
+            b = -b;
+            c = -c;
+        }
+        let d = &(&four * &(&a * &c)) - &(&b * &b);
+        if d.sign() != Ordering::Greater || a.sign() != Ordering::Greater {
+            return None;
+        }
+        let re = -(&b / &(&two * &a));
+        let im = &d.sqrt() / &(&two * &a);
+        let t = (to_f64(&re), to_f64(&im));
+        (t.0.is_finite() && t.1.is_finite() && t.1 > 0.0).then_some(t)
+    }
+
+    fn scale_f(shift: u64) -> f64 {
+        (shift as f64).exp2()
+    }
+}
+
+const TOL_LOOP: f64 = 1e-8;
 const TOL_SET: f64 = 1e-6;
 
 fn in_domain(t: (f64, f64), eps: f64) -> bool {
@@ -156,8 +350,16 @@ fn in_domain(t: (f64, f64), eps: f64) -> bool {
 pub(crate) fn reduce_tau(g: &Quartic) -> Option<(Quartic, Matrix, (f64, f64))> {
     let mut h = g.clone();
     let mut m = mat_identity();
+    // the form two steps back: a form whose τ lies on the boundary of the
+    // domain can be sent back and forth by rounding noise; such a form is
+    // accepted once it lies in the domain enlarged by the set's margin
+    let mut back: [Option<Quartic>; 2] = [None, None];
     for _ in 0..2000 {
         let t = tau(&h)?;
+        if back[0].as_ref() == Some(&h) && in_domain(t, TOL_SET / 10.0) {
+            return Some((h, m, t));
+        }
+        back = [back[1].take(), Some(h.clone())];
         if t.0.abs() > 0.5 + TOL_LOOP {
             let n = Integer::rounding_from(t.0, RoundingMode::Nearest).0;
             let tm: Matrix = [[Integer::ONE, n], [Integer::ZERO, Integer::ONE]];
