@@ -69,6 +69,7 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
         selmer2_dim: None,
         isogeny_runs: vec![],
         full_descent: None,
+        quartic_model: None,
         change: change.clone(),
         budget_exhausted: false,
         elapsed: budget.elapsed(),
@@ -93,7 +94,7 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
     } else if settled && !options.cross_check_routes {
         None
     } else {
-        Some(full_two_descent(&minimal, &torsion, &min_primes, options, &budget)?)
+        Some(quartic_route(&minimal, &torsion, &min_primes, options, &budget, &mut report)?)
     };
     combine(&mut report, &runs, full.as_ref(), options)?;
     report.isogeny_runs = runs;
@@ -106,6 +107,50 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
     progress(Stage::Report, "done");
     report.elapsed = budget.elapsed();
     Ok(report)
+}
+
+/// Curves with `|c4|` below this run the quartic descent on themselves
+/// without looking for a smaller isogenous curve (the enumeration is then
+/// cheaper than the isogeny search).
+const ISOGENY_SHORTCUT_C4: u64 = 20_000;
+
+/// The full 2-descent, run on the member of the odd-degree isogeny class of
+/// `minimal` with the smallest `|c4|` (the enumeration costs about
+/// `|c4|^{3/2}`). An isogeny of odd degree carries `Sel^2`, `E(Q)[2]` and the
+/// rank over unchanged (see [`crate::isogeny`]); points found on the other
+/// curve are carried back along the isogenies, which keeps them independent.
+fn quartic_route(
+    minimal: &Curve,
+    torsion: &TorsionGroup,
+    primes: &[Natural],
+    options: &RankOptions,
+    budget: &Budget,
+    report: &mut RankReport,
+) -> Result<FullDescent, Error> {
+    use malachite::base::num::arithmetic::traits::UnsignedAbs;
+    if minimal.c4().unsigned_abs() < ISOGENY_SHORTCUT_C4 {
+        return full_two_descent(minimal, torsion, primes, options, budget);
+    }
+    let class = crate::isogeny::odd_isogeny_class(minimal, primes)?;
+    let best = class.smallest_c4();
+    if best == 0 || class.curves[best].c4().unsigned_abs() * Natural::from(2u32) > minimal.c4().unsigned_abs() {
+        return full_two_descent(minimal, torsion, primes, options, budget);
+    }
+    let other = &class.curves[best];
+    let degree = class.degree(0, best).unwrap_or(0);
+    let other_torsion = TorsionGroup::compute(other, primes);
+    let mut f = full_two_descent(other, &other_torsion, primes, options, budget)?;
+    let mut mapped = Vec::new();
+    for p in &f.points {
+        match class.map_point(best, 0, p) {
+            Some(q) if minimal.contains(&q) && !q.is_infinity() => mapped.push(q),
+            _ => break,
+        }
+    }
+    f.lower = mapped.len();
+    f.points = mapped;
+    report.quartic_model = Some((other.clone(), degree));
+    Ok(f)
 }
 
 /// Keeps the tightest bounds of the routes that ran, checks that they do not
@@ -175,9 +220,16 @@ fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullD
     if report.rank_upper.is_some() && report.rank_upper != report.rank_lower {
         let u = report.rank_upper.unwrap();
         if let Some(f) = full.filter(|f| f.upper == Some(u)) {
+            let origin = match &report.quartic_model {
+                None => "quartic 2-covering of E (an element of Sel^2(E))".to_string(),
+                Some((c, d)) => format!(
+                    "quartic 2-covering of the {d}-isogenous curve {} (an element of its Sel^2, isomorphic to Sel^2(E) since {d} is odd)",
+                    super::ainvs_text(c)
+                ),
+            };
             for q in &f.unexplained {
                 report.sha_suspects.push(ShaSuspect {
-                    origin: "quartic 2-covering of E (an element of Sel^2(E))".to_string(),
+                    origin: origin.clone(),
                     quartic: q.coeffs(),
                     class: None,
                     searched_height: options.search_height,

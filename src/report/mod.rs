@@ -98,8 +98,14 @@ pub struct RankReport {
     /// Every 2-isogeny descent that ran (one per rational 2-torsion point),
     /// with its Selmer groups, local images and witnesses.
     pub isogeny_runs: Vec<crate::descent::isogeny::IsogenyDescent>,
-    /// The full 2-descent, when it ran.
+    /// The full 2-descent, when it ran (on the curve of `quartic_model` when
+    /// that is set; its points are then already carried to the minimal model).
     pub full_descent: Option<crate::descent::full::FullDescent>,
+    /// When the quartic descent ran on a curve isogenous to this one by an
+    /// isogeny of odd degree (a smaller `c4` makes the enumeration cheaper):
+    /// that curve (minimal, reduced) and the degree. Sel^2, E(Q)[2] and the
+    /// rank are the same for both curves.
+    pub quartic_model: Option<(Curve, u64)>,
     /// The change of model from the input model to the minimal one.
     pub change: crate::ModelChange,
     /// Whether the budget ran out before the computation finished.
