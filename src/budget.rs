@@ -67,7 +67,7 @@ impl Default for RankOptions {
             time_limit: None,
             cancel: None,
             progress: None,
-            max_quartic_candidates: 50_000_000,
+            max_quartic_candidates: 400_000_000,
             cross_check_routes: false,
             known_primes: None,
         }

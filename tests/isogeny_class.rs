@@ -73,3 +73,30 @@ fn points_map_onto_the_image() {
         }
     }
 }
+
+/// An isogeny of odd degree induces Sel^2(E) ≅ Sel^2(E') (its dual composed
+/// with it is multiplication by an odd number): on every odd link of the table
+/// between curves small enough to enumerate directly, both full descents give
+/// the same Selmer dimension.
+#[test]
+fn selmer_dimension_is_constant_on_odd_links() {
+    use malachite::base::num::arithmetic::traits::UnsignedAbs;
+    use twofold::descent::full::full_descent;
+    let rows = common::read_table("curves-small-conductor.tsv");
+    let mut checked = 0;
+    for r in rows.iter().step_by(3) {
+        let e = Curve::from_ainvs(r.ainvs).unwrap();
+        let class = odd_isogeny_class(&e, &bad_primes(&e)).unwrap();
+        for (a, b, _) in &class.links {
+            let (ea, eb) = (&class.curves[*a], &class.curves[*b]);
+            if ea.c4().unsigned_abs() > 100_000u32 || eb.c4().unsigned_abs() > 100_000u32 {
+                continue;
+            }
+            let o = twofold::RankOptions::default();
+            let (sa, sb) = (full_descent(ea, &o).unwrap().selmer_dim, full_descent(eb, &o).unwrap().selmer_dim);
+            assert_eq!(sa, sb, "{:?} -> {:?}", ea.ainvs(), eb.ainvs());
+            checked += 1;
+        }
+    }
+    assert!(checked >= 20, "{checked}");
+}

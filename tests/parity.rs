@@ -8,13 +8,24 @@ mod common;
 use proptest::prelude::*;
 use twofold::descent::full::full_descent;
 use twofold::rootno::root_number;
-use twofold::{Curve, RankOptions};
+use twofold::{analyse, Curve, RankOptions};
 
 fn parity_holds(e: &Curve) -> Option<bool> {
     let d = full_descent(e, &RankOptions::default()).ok()?;
     let s = d.selmer_dim?;
     let w = root_number(e).ok()?.global;
     Some(((s - d.two_torsion_dim) % 2 == 1) == (w == -1))
+}
+
+/// The same through the whole pipeline, where the quartic descent may run on
+/// an odd-degree isogenous curve (same Sel^2 and E(Q)[2]).
+fn parity_holds_report(e: &Curve) -> Option<bool> {
+    let opts = RankOptions { cross_check_routes: true, ..RankOptions::default() };
+    let r = analyse(e, &opts).ok()?;
+    let s = r.selmer2_dim?;
+    let t = r.torsion.iter().filter(|n| *n % 2 == 0).count();
+    let w = root_number(e).ok()?.global;
+    Some(((s - t) % 2 == 1) == (w == -1))
 }
 
 /// Every curve of both published tables whose enumeration completes.
@@ -25,12 +36,13 @@ fn monsky_parity_on_the_tables() {
     let mut checked = 0;
     for r in &rows {
         let e = Curve::from_ainvs(r.ainvs).unwrap();
-        if let Some(ok) = parity_holds(&e) {
+        if let Some(ok) = parity_holds_report(&e) {
             assert!(ok, "{:?}: Monsky parity fails", r.ainvs);
             checked += 1;
         }
     }
-    assert!(checked * 10 >= rows.len() * 9, "only {checked} checked");
+    // all but the Sha-16 curves and one Sha-4 curve beyond the enumeration cap
+    assert!(checked + 3 >= rows.len(), "only {checked} of {} checked", rows.len());
 }
 
 proptest! {

@@ -7,15 +7,21 @@ use twofold::solubility::check_witness;
 use twofold::{analyse, Curve, RankOptions};
 
 /// Both published tables (Cremona, Algorithms for Modular Elliptic Curves,
-/// Table 1; the list of curves with non-trivial Sha, see tests/data/README.md).
-/// Wherever the enumeration completes:
+/// Table 1; the list of curves with non-trivial Sha, see tests/data/README.md),
+/// through the whole pipeline with both routes forced on curves with 2-torsion
+/// (the quartic descent may run on an odd-degree isogenous curve with smaller
+/// c4, which has the same Sel^2, E(Q)[2] and rank):
 /// - the rank lies in the bounds and every local witness checks exactly;
 /// - dim Sel^2 - dim E(Q)[2] = rank + dim Sha[2], and dim Sha[2] is even
 ///   (Sha is finite for these curves, Kolyvagin; the Cassels-Tate pairing
 ///   makes its order a square), so the parity matches the rank;
-/// - for Sha order 1, 9 or 25 (Sha[2] = 0) the upper bound is the rank;
-/// - for Sha order 4 (Sha[2] of dimension 2) it exceeds the rank by exactly 2,
-///   and the Sha suspects span the gap.
+/// - for Sha order 1, 9 or 25 (Sha[2] = 0) the rank is proven;
+/// - for Sha order 4 (Sha[2] of dimension 2) dim Sel^2 exceeds the rank plus
+///   dim E(Q)[2] by exactly 2, and the Sha suspects span the gap.
+/// The enumeration must complete on every curve but one: 330 [1,1,1,-1832906,
+/// -955821481] (Sha order 4, c4 about 4.4e7, no odd-degree isogeny to a
+/// smaller curve) is beyond the candidate cap; the two curves with Sha order
+/// 16 may also stay open (not required).
 #[test]
 fn published_tables() {
     let mut rows = common::read_table("curves-small-conductor.tsv");
@@ -27,18 +33,26 @@ fn published_tables() {
         }
     }
     rows.extend(sha);
-    let mut complete = 0;
+    let opts = RankOptions { cross_check_routes: true, ..RankOptions::default() };
+    let mut incomplete = Vec::new();
     for r in &rows {
         let e = Curve::from_ainvs(r.ainvs).unwrap();
-        let d = full_descent(&e, &RankOptions::default()).unwrap();
-        assert!(d.lower <= r.rank, "{:?}", r.ainvs);
+        let rep = analyse(&e, &opts).unwrap();
+        assert!(rep.rank_lower.unwrap() <= r.rank, "{:?}", r.ainvs);
+        if matches!(r.sha_order, None | Some(9) | Some(25)) {
+            assert_eq!(rep.rank(), Some(r.rank), "{:?}: Sha[2] is trivial, the rank must be proven", r.ainvs);
+        }
+        let d = rep.full_descent.as_ref().expect("the quartic route runs");
         for c in &d.classes {
             for (place, w) in &c.witnesses {
                 assert!(check_witness(&c.quartic.coeffs(), place, w), "{:?}: witness at {place:?}", r.ainvs);
             }
         }
-        let Some(s) = d.selmer_dim else { continue };
-        complete += 1;
+        let Some(s) = d.selmer_dim else {
+            incomplete.push((r.ainvs, r.sha_order));
+            continue;
+        };
+        assert_eq!(rep.selmer2_dim, Some(s));
         let sha2 = s - d.two_torsion_dim - r.rank;
         assert!(s >= d.two_torsion_dim + r.rank, "{:?}: Selmer too small", r.ainvs);
         assert_eq!(sha2 % 2, 0, "{:?}: parity", r.ainvs);
@@ -51,8 +65,10 @@ fn published_tables() {
             assert_eq!(d.unexplained.len(), d.upper.unwrap() - d.lower, "{:?}", r.ainvs);
         }
     }
-    eprintln!("enumeration complete on {complete} of {} curves", rows.len());
-    assert!(complete * 10 >= rows.len() * 9);
+    eprintln!("enumeration incomplete on {incomplete:?}");
+    for (a, sha) in &incomplete {
+        assert!(*a == [1, 1, 1, -1832906, -955821481] || *sha == Some(16), "{a:?}: enumeration did not complete");
+    }
 }
 
 /// Curves known from memory: y^2 + y = x^3 + x^2 - 2x has rank 2 and

@@ -145,7 +145,12 @@ pub(crate) fn full_two_descent(
     let enumeration = quartics_with_invariants(
         &i,
         &j,
-        &SearchOptions { include_negative_definite: false, max_candidates: Some(options.max_quartic_candidates) },
+        &SearchOptions {
+            include_negative_definite: false,
+            max_candidates: Some(options.max_quartic_candidates),
+            deadline: budget.deadline,
+            cancel: budget.cancel.clone(),
+        },
     );
     let mut torsion_span = ClassSpan { elements: vec![] };
     let mut span = ClassSpan { elements: vec![] };

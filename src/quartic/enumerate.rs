@@ -85,11 +85,17 @@ pub struct SearchOptions {
     /// `a = 0`, pairs `(b, c)`). The budget is charged before each `a` is
     /// scanned. Default: no limit.
     pub max_candidates: Option<u64>,
+    /// Stop with an error of kind [`ErrorKind::Budget`] once this instant
+    /// has passed (checked about every million candidates). Default: none.
+    pub deadline: Option<std::time::Instant>,
+    /// Stop with an error of kind [`ErrorKind::Budget`] once this flag is
+    /// set (checked as often as the deadline). Default: none.
+    pub cancel: Option<std::sync::Arc<std::sync::atomic::AtomicBool>>,
 }
 
 impl Default for SearchOptions {
     fn default() -> Self {
-        SearchOptions { include_negative_definite: true, max_candidates: None }
+        SearchOptions { include_negative_definite: true, max_candidates: None, deadline: None, cancel: None }
     }
 }
 
@@ -101,6 +107,9 @@ struct Search<'a> {
     steps: u64,
     limit: Option<u64>,
     count_only: bool,
+    deadline: Option<std::time::Instant>,
+    cancel: Option<std::sync::Arc<std::sync::atomic::AtomicBool>>,
+    next_check: u64,
 }
 
 impl Search<'_> {
@@ -109,6 +118,15 @@ impl Search<'_> {
         if let Some(l) = self.limit {
             if self.steps > l {
                 return Err(Error::new(ErrorKind::Budget, format!("quartic search exceeded {l} candidates")));
+            }
+        }
+        if self.steps >= self.next_check {
+            self.next_check = self.steps + (1 << 20);
+            if self.cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed)) {
+                return Err(Error::new(ErrorKind::Budget, "quartic search cancelled"));
+            }
+            if self.deadline.is_some_and(|d| std::time::Instant::now() >= d) {
+                return Err(Error::new(ErrorKind::Budget, "quartic search ran out of time"));
             }
         }
         Ok(())
@@ -544,7 +562,8 @@ thread_local! {
 
 /// Raw search (with duplicates) for `(i, j)`; positive definite forms only
 /// from the definite part when `positive_definite_only`.
-fn raw_search(i: &Integer, j: &Integer, positive_definite_only: bool, steps: &mut u64, limit: Option<u64>) -> Result<Vec<Quartic>, Error> {
+fn raw_search(i: &Integer, j: &Integer, positive_definite_only: bool, steps: &mut u64, opts: &SearchOptions) -> Result<Vec<Quartic>, Error> {
+    let limit = opts.max_candidates;
     let delta = Integer::from(4) * i * i * i - j * j;
     let fi = to_f64(i);
     let fj = to_f64(j);
@@ -555,7 +574,18 @@ fn raw_search(i: &Integer, j: &Integer, positive_definite_only: bool, steps: &mu
         (Ok(a), Ok(b)) if a.unsigned_abs() < (1u128 << 100) && b.unsigned_abs() < (1u128 << 120) => Some((a, b)),
         _ => None,
     };
-    let mut s = Search { i, j, i128s, found: Vec::new(), steps: *steps, limit, count_only: MODE.with(|c| c.get()).count_only };
+    let mut s = Search {
+        i,
+        j,
+        i128s,
+        found: Vec::new(),
+        steps: *steps,
+        limit,
+        count_only: MODE.with(|c| c.get()).count_only,
+        deadline: opts.deadline,
+        cancel: opts.cancel.clone(),
+        next_check: 0,
+    };
     if delta > 0 {
         match resolvent_roots(fi, fj, true) {
             CubicRoots::Three(r) => search_three_real(&mut s, r, fi, positive_definite_only)?,
@@ -599,10 +629,10 @@ pub fn quartics_with_invariants(i: &Integer, j: &Integer, opts: &SearchOptions) 
         return Ok(Vec::new());
     }
     let mut steps = 0u64;
-    let mut found = raw_search(i, j, false, &mut steps, opts.max_candidates)?;
+    let mut found = raw_search(i, j, false, &mut steps, opts)?;
     if opts.include_negative_definite && delta > 0 {
         let nj = -j.clone();
-        let neg = raw_search(i, &nj, true, &mut steps, opts.max_candidates)?;
+        let neg = raw_search(i, &nj, true, &mut steps, opts)?;
         for g in neg {
             let h = Quartic::new(g.coeffs().map(|c| -c));
             if h.root_type() == Some(RootType::NegativeDefinite) {
@@ -836,12 +866,12 @@ mod tests {
 
     /// Raw search (with duplicates) by the reference loop over `(a, b, c)`.
     fn raw_reference(i: &Integer, j: &Integer, pd: bool) -> Vec<Quartic> {
-        with_mode(Mode { count_only: false, reference: true }, || raw_search(i, j, pd, &mut 0, None).unwrap())
+        with_mode(Mode { count_only: false, reference: true }, || raw_search(i, j, pd, &mut 0, &SearchOptions::default()).unwrap())
     }
 
     fn assert_same_raw(i: &Integer, j: &Integer) {
         for pd in [false, true] {
-            let mut x = raw_search(i, j, pd, &mut 0, None).unwrap();
+            let mut x = raw_search(i, j, pd, &mut 0, &SearchOptions::default()).unwrap();
             let mut y = raw_reference(i, j, pd);
             x.sort_by_key(size_key);
             y.sort_by_key(size_key);
@@ -879,7 +909,7 @@ mod tests {
             let e = Curve::from_ainvs(ai).unwrap();
             let (i, j) = (e.c4().clone(), Integer::from(2) * e.c6());
             let mut cost = 0;
-            with_mode(Mode { count_only: true, reference: true }, || raw_search(&i, &j, false, &mut cost, None).unwrap());
+            with_mode(Mode { count_only: true, reference: true }, || raw_search(&i, &j, false, &mut cost, &SearchOptions::default()).unwrap());
             if cost > 300_000 {
                 continue;
             }
@@ -894,7 +924,7 @@ mod tests {
     #[test]
     #[ignore]
     fn table_timing() {
-        let opts = SearchOptions { include_negative_definite: false, max_candidates: Some(50_000_000) };
+        let opts = SearchOptions { include_negative_definite: false, max_candidates: Some(50_000_000), ..Default::default() };
         let t0 = std::time::Instant::now();
         let mut fails = 0;
         for ai in table_curves() {
@@ -905,7 +935,7 @@ mod tests {
             let el = t.elapsed();
             if r.is_err() || el.as_secs_f64() > 0.2 {
                 let mut c = 0;
-                with_mode(Mode { count_only: true, reference: false }, || raw_search(&i, &j, false, &mut c, None).unwrap());
+                with_mode(Mode { count_only: true, reference: false }, || raw_search(&i, &j, false, &mut c, &SearchOptions::default()).unwrap());
                 let refr = if c < 1_000_000 {
                     format!("{:?}", with_mode(Mode { count_only: false, reference: true }, || quartics_with_invariants(&i, &j, &opts)).map(|l| l.len()))
                 } else {
@@ -926,13 +956,13 @@ mod tests {
     #[test]
     #[ignore]
     fn five_curves_timing() {
-        let opts = SearchOptions { include_negative_definite: false, max_candidates: Some(50_000_000) };
+        let opts = SearchOptions { include_negative_definite: false, max_candidates: Some(50_000_000), ..Default::default() };
         for ai in [[0, -1, 1, -7820, -263580], [1, 1, 1, -3138, -68969], [0, -1, 1, -946260, 354609639], [1, 0, 0, -15663, -755809], [0, 1, 1, -195508, -33338481]] {
             let e = Curve::from_ainvs(ai).unwrap();
             let (i, j) = (e.c4().clone(), Integer::from(2) * e.c6());
             let (mut c, mut cr) = (0, 0);
-            with_mode(Mode { count_only: true, reference: false }, || raw_search(&i, &j, false, &mut c, None).unwrap());
-            with_mode(Mode { count_only: true, reference: true }, || raw_search(&i, &j, false, &mut cr, None).unwrap());
+            with_mode(Mode { count_only: true, reference: false }, || raw_search(&i, &j, false, &mut c, &SearchOptions::default()).unwrap());
+            with_mode(Mode { count_only: true, reference: true }, || raw_search(&i, &j, false, &mut cr, &SearchOptions::default()).unwrap());
             let t = std::time::Instant::now();
             let r = quartics_with_invariants(&i, &j, &opts);
             eprintln!("{ai:?} c4={i} candidates {c} (reference {cr}) result {:?} in {:?}", r.as_ref().map(|l| l.len()).map_err(|e| format!("{:?}", e.kind())), t.elapsed());
@@ -957,9 +987,9 @@ mod tests {
                 let j = Integer::from(2) * e.c6();
                 let mut steps = 0;
                 let mut st2 = 0;
-                let _ = raw_search(&i, &j, false, &mut steps, None);
+                let _ = raw_search(&i, &j, false, &mut steps, &SearchOptions::default());
                 MODE.with(|c| c.set(Mode { count_only: true, reference: true }));
-                let _ = raw_search(&i, &j, false, &mut st2, None);
+                let _ = raw_search(&i, &j, false, &mut st2, &SearchOptions::default());
                 MODE.with(|c| c.set(Mode { count_only: true, reference: false }));
                 eprintln!("{ai:?} new {steps} reference {st2}");
                 rows.push((steps, ai, i, e.discriminant().clone()));

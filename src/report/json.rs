@@ -99,6 +99,18 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
         &r.isogeny_selmer.map(|(a, b)| format!("[{a},{b}]")).unwrap_or_else(|| "null".into()),
     );
     w.raw("selmer2_dim", &opt(r.selmer2_dim));
+    w.raw(
+        "quartic_curve",
+        &r.quartic_model
+            .as_ref()
+            .map(|(c, d)| {
+                let mut o = JsonWriter::new();
+                o.raw("ainvs", &list(c.ainvs(), |a| quote(&a.to_string())));
+                o.raw("isogeny_degree", &d.to_string());
+                o.finish()
+            })
+            .unwrap_or_else(|| "null".into()),
+    );
     w.raw("points", &list(&r.points, point_json));
     w.raw(
         "sha_suspects",

@@ -165,6 +165,9 @@ impl fmt::Display for RankReport {
         }
         if let Some(s) = self.selmer2_dim {
             writeln!(f, "2-Selmer dimension {s} (including E(Q)[2])")?;
+            if let Some((c, d)) = &self.quartic_model {
+                writeln!(f, "  (quartic descent run on the {d}-isogenous curve {}, whose Sel^2 is isomorphic)", ainvs_text(c))?;
+            }
         }
         if let Some((s, t)) = self.isogeny_selmer {
             writeln!(f, "isogeny Selmer dimensions {s} and {t}")?;
