@@ -58,7 +58,7 @@ proptest! {
         }
     }
 
-    /// Torsion structure, j and the rank bounds do not depend on the model.
+    /// Torsion structure, j, dim Sel^2 and the rank bounds do not depend on the model.
     #[test]
     fn invariance_under_change_of_model(e in small_curve(), c in change()) {
         let Ok(e2) = e.apply_change(&c) else { return Ok(()) };
@@ -71,6 +71,8 @@ proptest! {
         let r2 = analyse(&e2, &o).unwrap();
         prop_assert_eq!(&r1.conductor, &r2.conductor);
         prop_assert_eq!(r1.rank_upper, r2.rank_upper);
+        // dim Sel^2(E) is an invariant of the curve, not of the model
+        prop_assert_eq!(r1.selmer2_dim, r2.selmer2_dim);
         if let (Some(a), Some(b)) = (r1.rank(), r2.rank()) {
             prop_assert_eq!(a, b);
         }
