@@ -1,6 +1,7 @@
 //! Whole rank computations over the published table (Cremona, Algorithms for
 //! Modular Elliptic Curves, Table 1, in tests/data/), and Tate's algorithm
-//! over every bad prime of every curve of the table.
+//! over every bad prime of every curve of the table, and the odd-degree
+//! isogeny class of every curve.
 
 use criterion::{criterion_group, criterion_main, Criterion, SamplingMode};
 use malachite::Natural;
@@ -37,6 +38,13 @@ fn bench(c: &mut Criterion) {
                 for p in ps {
                     std::hint::black_box(local_data(c, p).unwrap());
                 }
+            }
+        })
+    });
+    g.bench_function("odd_isogeny_class_572_curves", |b| {
+        b.iter(|| {
+            for (c, ps) in &with_primes {
+                std::hint::black_box(twofold::isogeny::odd_isogeny_class(c, ps).unwrap());
             }
         })
     });
