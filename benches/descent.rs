@@ -64,6 +64,19 @@ fn bench(c: &mut Criterion) {
         })
     });
     g.finish();
+    // curves of our own choosing with 36- and 37-digit discriminants and a
+    // rational 2-torsion point (the 2-isogeny route; the quartic enumeration
+    // is refused at once by its size estimate)
+    let big: Vec<Curve> = [[0i64, 1234567, 0, 98765432101, 0], [0, -3, 0, 314159265358, 0], [0, 7, 0, 271828182845, 0]]
+        .iter()
+        .map(|a| Curve::from_ainvs(*a).unwrap())
+        .collect();
+    let mut g = c.benchmark_group("large");
+    g.sample_size(10).measurement_time(Duration::from_secs(10));
+    for (k, e) in big.iter().enumerate() {
+        g.bench_function(format!("analyse_36_digit_discriminant_{k}"), |b| b.iter(|| std::hint::black_box(analyse(e, &opts).unwrap())));
+    }
+    g.finish();
 }
 
 criterion_group!(benches, bench);

@@ -83,7 +83,9 @@ pub struct SearchOptions {
     /// Stop with an error of kind [`ErrorKind::Budget`] after this many
     /// candidates: pairs `(a, H)` tested (see the module documentation; for
     /// `a = 0`, pairs `(b, c)`). The budget is charged before each `a` is
-    /// scanned. Default: no limit.
+    /// scanned. A search whose estimated size (from the same box, summed
+    /// over `a` before searching) exceeds the limit is refused at once with
+    /// the same error, so hopeless cases cost milliseconds. Default: no limit.
     pub max_candidates: Option<u64>,
     /// Stop with an error of kind [`ErrorKind::Budget`] once this instant
     /// has passed (checked about every million candidates). Default: none.
@@ -110,18 +112,63 @@ struct Search<'a> {
     deadline: Option<std::time::Instant>,
     cancel: Option<std::sync::Arc<std::sync::atomic::AtomicBool>>,
     next_check: u64,
+    /// Candidates plus set-up work (the residue tables of each `a`): paces
+    /// the deadline and cancellation checks, and is capped at four times the
+    /// candidate limit so that set-up work cannot run unbounded.
+    work: u64,
+    /// In estimation mode: running estimates of the candidates and of the
+    /// set-up work, accumulated instead of searching.
+    estimate: Option<(f64, f64)>,
 }
 
-impl Search<'_> {
+impl<'a> Search<'a> {
     fn tick(&mut self, n: u64) -> Result<(), Error> {
         self.steps += n;
+        self.work += n;
         if let Some(l) = self.limit {
             if self.steps > l {
                 return Err(Error::new(ErrorKind::Budget, format!("quartic search exceeded {l} candidates")));
             }
         }
-        if self.steps >= self.next_check {
-            self.next_check = self.steps + (1 << 20);
+        if self.work >= self.next_check {
+            self.next_check = self.work + (1 << 20);
+            if self.cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed)) {
+                return Err(Error::new(ErrorKind::Budget, "quartic search cancelled"));
+            }
+            if self.deadline.is_some_and(|d| std::time::Instant::now() >= d) {
+                return Err(Error::new(ErrorKind::Budget, "quartic search ran out of time"));
+            }
+        }
+        Ok(())
+    }
+
+    fn clone_settings(&self) -> Search<'a> {
+        Search {
+            i: self.i,
+            j: self.j,
+            i128s: self.i128s,
+            found: Vec::new(),
+            steps: 0,
+            limit: self.limit,
+            count_only: self.count_only,
+            deadline: self.deadline,
+            cancel: self.cancel.clone(),
+            next_check: 0,
+            work: 0,
+            estimate: None,
+        }
+    }
+
+    /// Charges set-up work that is not a candidate (see `work`).
+    fn setup_work(&mut self, n: u64) -> Result<(), Error> {
+        self.work += n;
+        if let Some(l) = self.limit {
+            if self.work > l.saturating_mul(4) {
+                return Err(Error::new(ErrorKind::Budget, format!("quartic search exceeded its work limit (4 x {l})")));
+            }
+        }
+        if self.work >= self.next_check {
+            self.next_check = self.work + (1 << 20);
             if self.cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed)) {
                 return Err(Error::new(ErrorKind::Budget, "quartic search cancelled"));
             }
@@ -134,6 +181,13 @@ impl Search<'_> {
 
     /// All forms with this `a ≠ 0`, `0 ≤ b ≤ 2|a|` and `H` in `[hlo, hhi]`.
     fn fixed_a(&mut self, a: i64, hlo: f64, hhi: f64) -> Result<(), Error> {
+        if let Some((steps, work)) = self.estimate.as_mut() {
+            // about half the residues -3b^2 mod 8|a| are distinct, each meeting
+            // the H-interval (hhi - hlo)/(8|a|) times
+            *steps += (hhi - hlo).max(0.0) / 16.0;
+            *work += 2.0 * (a.abs() as f64) + 1.0;
+            return Ok(());
+        }
         let hmax = hlo.abs().max(hhi.abs()) + 8.0 * (a.abs() as f64) + 1.0;
         let af = a.abs() as f64;
         let (ii, jj) = self.i128s.unwrap_or((i128::MAX, i128::MAX));
@@ -193,7 +247,13 @@ impl Search<'_> {
         let modulus = 8 * aa.abs();
         // residues -3b^2 mod 8|a| for 0 <= b <= 2|a|, grouped
         let mut pairs: Vec<(i128, i128)> = (0..=2 * aa.abs()).map(|b| ((-3 * b * b).rem_euclid(modulus), b)).collect();
-        pairs.sort_unstable();
+        self.setup_work(pairs.len() as u64)?;
+        // grouping equal residues saves repeated square tests only when a
+        // residue class meets the H-interval more than once; otherwise the
+        // unsorted list (runs of length one) does the same work without the sort
+        if hmax - hmin >= modulus {
+            pairs.sort_unstable();
+        }
         let count_in = |r: i128| -> u64 {
             let h0 = hmin + (r - hmin).rem_euclid(modulus);
             if h0 > hmax {
@@ -327,6 +387,11 @@ impl Search<'_> {
     /// Forms with `a = 0`: `b > 0`, `0 ≤ c < 3b`, `3 b^2 ≤ hbound`.
     fn zero_a(&mut self, hbound: f64) -> Result<(), Error> {
         let bmax = ((hbound.max(0.0) / 3.0).sqrt() * (1.0 + 1e-9) + 1e-6).floor() as i64;
+        if let Some((steps, _)) = self.estimate.as_mut() {
+            // the pairs (b, c) with 0 <= c < 3b
+            *steps += 1.5 * (bmax as f64) * (bmax as f64 + 1.0);
+            return Ok(());
+        }
         for b in 1..=bmax {
             self.tick(3 * b as u64)?;
             if self.count_only {
@@ -585,7 +650,34 @@ fn raw_search(i: &Integer, j: &Integer, positive_definite_only: bool, steps: &mu
         deadline: opts.deadline,
         cancel: opts.cancel.clone(),
         next_check: 0,
+        work: 0,
+        estimate: None,
     };
+    // refuse at once a search that would clearly exceed the limit
+    if let Some(l) = limit {
+        if !MODE.with(|m| m.get()).reference {
+            let mut e = Search { estimate: Some((0.0, 0.0)), limit: None, found: Vec::new(), cancel: None, deadline: None, ..s.clone_settings() };
+            if delta > 0 {
+                if let CubicRoots::Three(r) = resolvent_roots(fi, fj, true) {
+                    search_three_real(&mut e, r, fi, positive_definite_only)?;
+                }
+            } else if !positive_definite_only {
+                if let CubicRoots::One { real, complex } = resolvent_roots(fi, fj, false) {
+                    search_two_real(&mut e, real, complex.1, fi)?;
+                }
+            }
+            let (st, wk) = e.estimate.unwrap();
+            // the estimate runs about 1.5 times below the true count on the
+            // tables' large cases, so a search predicted beyond the limit
+            // would end at the limit anyway, after the whole budget
+            if 1.6 * st > l as f64 || st + wk > 4.0 * l as f64 {
+                return Err(Error::new(
+                    ErrorKind::Budget,
+                    format!("quartic search would take about {st:.2e} candidates, beyond the limit of {l}"),
+                ));
+            }
+        }
+    }
     if delta > 0 {
         match resolvent_roots(fi, fj, true) {
             CubicRoots::Three(r) => search_three_real(&mut s, r, fi, positive_definite_only)?,
