@@ -5,6 +5,7 @@ pub mod arith;
 pub mod budget;
 pub mod curve;
 pub mod descent;
+pub mod heights;
 pub mod local;
 pub mod quartic;
 pub mod report;
