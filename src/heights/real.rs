@@ -89,9 +89,6 @@ impl Cx {
             (&self.im * &o.re - &self.re * &o.im) / &n,
         )
     }
-    pub fn scale(&self, s: &Float) -> Cx {
-        Cx::new(&self.re * s, &self.im * s)
-    }
     /// The principal square root (real part >= 0).
     pub fn sqrt(&self, prec: u64) -> Cx {
         if self.im == 0u32 {
@@ -115,29 +112,6 @@ impl Cx {
             Cx::new(a, b)
         }
     }
-}
-
-/// The arithmetic-geometric mean of two complex numbers with the optimal
-/// choice of square root at each step (|a - b| <= |a + b|).
-pub(crate) fn agm_complex(a: &Cx, b: &Cx, prec: u64) -> Cx {
-    let mut a = a.clone();
-    let mut b = b.clone();
-    let half = Float::from(0.5f64);
-    for _ in 0..(4 * prec + 64) {
-        let diff = a.sub(&b);
-        let scale = a.abs(prec);
-        if diff.norm2() == 0u32 || to_f64(&diff.abs(prec)) <= to_f64(&scale) * 2f64.powi(-(prec as i32) + 2) {
-            break;
-        }
-        let na = a.add(&b).scale(&half);
-        let mut nb = a.mul(&b).sqrt(prec);
-        if na.sub(&nb).norm2() > na.add(&nb).norm2() {
-            nb = Cx::new(-nb.re, -nb.im);
-        }
-        a = na;
-        b = nb;
-    }
-    a
 }
 
 /// The three complex roots of the monic cubic `x^3 + c2 x^2 + c1 x + c0`
