@@ -9,7 +9,7 @@ mod common;
 use malachite::{Natural, Rational};
 use proptest::prelude::*;
 use twofold::heights::{
-    canonical_height, float_to_f64, height_difference_bound, lll_reduce, mordell_weil_basis, naive_height, regulator,
+    canonical_height, float_to_f64, height_difference_bound, is_p_saturated, local_height_bound, lll_reduce, mordell_weil_basis, naive_height, regulator,
     PeriodLattice, SaturationOptions,
 };
 use twofold::local::{bad_primes_data, LocalData};
@@ -214,10 +214,12 @@ fn height_difference_bound_holds_on_multiples() {
     // Silverman (1990): hhat(P) >= h(x(P)) - B (our normalisation).
     for (e, local, pts) in prepared() {
         let b = height_difference_bound(&e);
+        let b2 = local_height_bound(&e, &local);
         for n in 1..8 {
             let q = e.multiple(&pts[0], n);
             let hx = float_to_f64(&naive_height(q.x().unwrap(), 64));
             assert!(h(&e, &local, &q) >= hx - b, "{:?}", e.ainvs());
+            assert!(h(&e, &local, &q) >= hx - b2, "{:?}", e.ainvs());
         }
     }
 }
@@ -235,13 +237,20 @@ fn lll_removes_dependencies() {
     // Regulator of the span {3P+Q, 2P-Q} is 25 times Reg(389a1) (det [[3,1],[2,-1]] = -5).
     let reg = float_to_f64(&regulator(&e, &local, &out.points, 96).unwrap());
     assert!((reg - 25.0 * 0.152460177943).abs() < 1e-8, "{reg}");
-    // The transformation rows reproduce the points.
-    for (row, pt) in out.transformation.iter().zip(&out.points) {
+    // The transformation rows reproduce the points; the relation rows give torsion.
+    let inputs = [a.clone(), b.clone(), e.add(&a, &b)];
+    let comb = |row: &Vec<i64>| {
         let mut acc = Point::Infinity;
-        for (k, src) in row.iter().zip([&a, &b]) {
+        for (k, src) in row.iter().zip(&inputs) {
             acc = e.add(&acc, &e.multiple(src, *k));
         }
-        let _ = (acc, pt);
+        acc
+    };
+    for (row, pt) in out.transformation.iter().zip(&out.points) {
+        assert_eq!(&comb(row), pt);
+    }
+    for row in &out.relations {
+        assert!(comb(row).is_infinity());
     }
 }
 
@@ -284,6 +293,13 @@ fn table_check(rows: &[common::Row]) {
         let b = mordell_weil_basis(&rep.minimal, &pts, &local, 64, &SaturationOptions::default()).unwrap();
         assert_eq!(b.generators.len(), row.rank, "{:?}", row.ainvs);
         assert!(b.saturation.is_saturated(), "{:?}: {:?}", row.ainvs, b.saturation);
+        eprintln!("{:?} rank {} reg {:.6} bound {:?} divisions {}", row.ainvs, row.rank, b.regulator_f64(), b.saturation.index_bound, b.saturation.divisions);
+        // Heights of the generators against the naive heights and both difference bounds.
+        let bd = height_difference_bound(&rep.minimal).min(local_height_bound(&rep.minimal, &local));
+        for (g, hg) in b.generators.iter().zip(&b.heights) {
+            let hx = float_to_f64(&naive_height(g.x().unwrap(), 64));
+            assert!(float_to_f64(hg) >= hx - bd);
+        }
         for g in &b.generators {
             assert!(rep.minimal.contains(g));
         }
@@ -291,15 +307,65 @@ fn table_check(rows: &[common::Row]) {
 }
 
 #[test]
-fn saturation_rank_one_table_slice() {
-    // Cremona's Table 1 (tests/data): rank 1 curves, the first 20.
-    let rows: Vec<_> = common::read_table("curves-small-conductor.tsv").into_iter().filter(|r| r.rank == 1).take(20).collect();
+fn saturation_table_rank_at_least_one() {
+    // Cremona's Table 1 (tests/data/curves-small-conductor.tsv): every curve
+    // of positive rank; the points come from the rank pipeline. About 7 s.
+    let rows: Vec<_> = common::read_table("curves-small-conductor.tsv").into_iter().filter(|r| r.rank >= 1).collect();
+    assert!(rows.len() > 50);
     table_check(&rows);
 }
 
 #[test]
-#[ignore]
-fn saturation_rank_one_table_full() {
-    let rows: Vec<_> = common::read_table("curves-small-conductor.tsv").into_iter().filter(|r| r.rank >= 1).collect();
-    table_check(&rows);
+fn siksek_test_with_torsion() {
+    // 65a1 = [1,0,0,-1,0]: rank 1, torsion Z/2 (Cremona's table); T = (0,0)
+    // has order 2 and P = (1,0) has infinite order.
+    let (e, local) = curve([1, 0, 0, -1, 0], &[5, 13]);
+    let (p, t) = (Point::from_ints(1, 0), Point::from_ints(0, 0));
+    assert_eq!(e.torsion_order_of(&t), Some(2));
+    assert!(e.torsion_order_of(&p).is_none());
+    assert!(is_p_saturated(&e, &local, &[p.clone()], 2, 20_000).unwrap());
+    assert!(is_p_saturated(&e, &local, &[e.add(&p, &t)], 2, 20_000).unwrap());
+    let q = e.add(&e.multiple(&p, 2), &t);
+    assert!(!is_p_saturated(&e, &local, &[q.clone()], 2, 20_000).unwrap());
+    for ell in [3, 5, 7, 11] {
+        assert!(is_p_saturated(&e, &local, &[q.clone()], ell, 20_000).unwrap());
+    }
+    let b = mordell_weil_basis(&e, &[q], &local, 96, &SaturationOptions::default()).unwrap();
+    assert!(b.saturation.is_saturated());
+    let g = &b.generators[0];
+    assert!([p.clone(), e.negate(&p), e.add(&p, &t), e.negate(&e.add(&p, &t))].contains(g), "{g}");
+    // 91b = [0,1,1,-7,5]: rank 1, torsion Z/3 (Cremona's table).
+    let (e, local) = curve([0, 1, 1, -7, 5], &[7, 13]);
+    let pts: Vec<Point> = twofold::search::search_curve(&e, &twofold::search::SearchLimits::new(50))
+        .points
+        .into_iter()
+        .map(|(x, y)| Point::Affine(x, y))
+        .collect();
+    let p = pts.iter().find(|p| e.torsion_order_of(p).is_none()).unwrap().clone();
+    let t = pts.iter().find(|p| e.torsion_order_of(p) == Some(3)).unwrap().clone();
+    let b = mordell_weil_basis(&e, &[p.clone()], &local, 96, &SaturationOptions::default()).unwrap();
+    assert!(b.saturation.is_saturated());
+    let g0 = b.generators[0].clone();
+    let q = e.add(&e.multiple(&g0, 3), &t);
+    assert!(!is_p_saturated(&e, &local, &[q.clone()], 3, 20_000).unwrap());
+    assert!(is_p_saturated(&e, &local, &[q.clone()], 2, 20_000).unwrap());
+    let b = mordell_weil_basis(&e, &[q], &local, 96, &SaturationOptions::default()).unwrap();
+    assert!(b.saturation.is_saturated(), "{:?}", b.saturation);
+    assert!((b.regulator_f64() - float_to_f64(&canonical_height(&e, &local, &g0, 96).unwrap())).abs() < 1e-12);
+}
+
+#[test]
+fn rank_three_5077a1() {
+    // 5077a1 = [0,0,1,-7,6] has rank 3 with generators among (0,2), (1,0),
+    // (2,0); regulator 0.417143558758 (from memory).
+    let (e, local) = curve([0, 0, 1, -7, 6], &[5077]);
+    let pts = [Point::from_ints(0, 2), Point::from_ints(1, 0), Point::from_ints(2, 0)];
+    let b = mordell_weil_basis(&e, &pts, &local, 96, &SaturationOptions::default()).unwrap();
+    eprintln!("{:?} reg {}", b.saturation, b.regulator_f64());
+    assert_eq!(b.generators.len(), 3);
+    assert!(b.saturation.is_saturated(), "{:?}", b.saturation);
+    assert!((b.regulator_f64() - 0.417143558758).abs() < 1e-9, "{}", b.regulator_f64());
+    for p in [2, 3, 5, 7] {
+        assert!(is_p_saturated(&e, &local, &b.generators, p, 20_000).unwrap());
+    }
 }

@@ -137,6 +137,73 @@ pub fn height_difference_bound(curve: &Curve) -> f64 {
     hj / 4.0 + ld / 6.0 + 1.946
 }
 
+/// A bound `B` with `hhat(P) >= h(x(P)) - B` for every P on the globally
+/// minimal model `curve`, from the local decomposition of the canonical
+/// height: at each bad prime the largest correction `alpha_p log p` allowed
+/// by the Kodaira symbol and the Tamagawa number (0 when `c_p = 1`), which is
+/// exact; at infinity `log 2 - (1/3) log inf G` with
+/// `G(x) = max(|num(x)|, |F(x)|/2) / max(|x|, 3/2)^4` over the real locus,
+/// where each term of the series for the archimedean local height is at
+/// least `log G`. The infimum is taken on a dense grid in f64 and divided
+/// by 2 for safety (numerical with a margin, not a proof).
+pub fn local_height_bound(curve: &Curve, local: &[LocalData]) -> f64 {
+    use crate::local::{Kodaira, Reduction};
+    let mut b = 0f64;
+    for d in local {
+        if d.tamagawa <= 1 {
+            continue;
+        }
+        let alpha = match d.kodaira {
+            Kodaira::In(n) => {
+                let n = f64::from(n);
+                if d.reduction == Reduction::SplitMultiplicative {
+                    (n / 2.0).floor() * (n - (n / 2.0).floor()) / n
+                } else {
+                    n / 4.0
+                }
+            }
+            Kodaira::III => 0.5,
+            Kodaira::IV => 2.0 / 3.0,
+            Kodaira::I0Star => 1.0,
+            Kodaira::InStar(n) => (f64::from(n) + 4.0) / 4.0,
+            Kodaira::IVStar => 4.0 / 3.0,
+            Kodaira::IIIStar => 1.5,
+            _ => 0.0,
+        };
+        b += alpha * to_f64(&ln(&fz(&malachite::Integer::from(d.prime.clone()), 64), 64));
+    }
+    b + 2f64.ln() - archimedean_log_inf(curve) / 3.0
+}
+
+fn archimedean_log_inf(curve: &Curve) -> f64 {
+    let bv: Vec<f64> = curve.binvs().iter().map(|c| c.to_string().parse::<f64>().unwrap_or(f64::INFINITY)).collect();
+    let (b2, b4, b6, b8) = (bv[0], bv[1], bv[2], bv[3]);
+    if !bv.iter().all(|v| v.is_finite()) {
+        return f64::NEG_INFINITY;
+    }
+    let f = |x: f64| ((4.0 * x + b2) * x + 2.0 * b4) * x + b6;
+    let num = |x: f64| ((x * x - b4) * x - 2.0 * b6) * x - b8;
+    let g = |x: f64| {
+        let m = x.abs().max(1.5);
+        (num(x).abs().max(f(x).abs() / 2.0)).ln() - 4.0 * m.ln()
+    };
+    // Real locus: F(x) >= 0. Scan x = tan(theta) style over a wide range.
+    let scale = 1.0 + bv.iter().map(|v| v.abs()).fold(0f64, f64::max).sqrt();
+    let steps = 200_000;
+    let mut inf = 0f64; // the limit at infinity is log 1 = 0
+    for i in 0..=steps {
+        let th = -std::f64::consts::FRAC_PI_2 + std::f64::consts::PI * (i as f64 + 0.5) / (steps as f64 + 1.0);
+        let x = scale * th.tan();
+        if f(x) >= 0.0 {
+            let v = g(x);
+            if v < inf {
+                inf = v;
+            }
+        }
+    }
+    inf - 2f64.ln()
+}
+
 /// `gamma_r^r`, the r-th power of Hermite's constant, exactly for r <= 8
 /// (from memory: 1, 4/3, 2, 4, 8, 64/3, 64, 256) and Hermite's bound
 /// `(4/3)^(r(r-1)/2)` above.
@@ -192,7 +259,7 @@ pub fn mordell_weil_basis(
     let mut gens: Vec<Point> = points.to_vec();
     let mut divisions = 0usize;
     let mut dependencies_removed;
-    let bdiff = height_difference_bound(curve);
+    let bdiff = height_difference_bound(curve).min(local_height_bound(curve, local));
     let mut rounds = 0;
     loop {
         rounds += 1;
@@ -351,4 +418,44 @@ fn divide(
     }
     let _ = Rational::from(0);
     Ok(None)
+}
+
+/// Siksek's p-saturation test on its own: `Ok(true)` when the span of
+/// `points` and E(Q)_tors is proven p-saturated (exact), `Ok(false)` when
+/// the images in `E(F_q)/pE(F_q)` for the good primes `q <= max_aux_prime`
+/// tried stay dependent (then some combination is probably divisible by p;
+/// nothing is proven). `points` must be independent modulo torsion for a
+/// `true` answer to mean anything beyond their span: the test proves that
+/// no point outside the span has its p-th multiple inside.
+///
+/// ```
+/// use malachite::Natural;
+/// use twofold::{Curve, Point};
+/// use twofold::local::bad_primes_data;
+/// use twofold::heights::is_p_saturated;
+/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap(); // 37a1
+/// let local = bad_primes_data(&e, &[Natural::from(37u32)]).unwrap();
+/// let p = Point::from_ints(0, 0);
+/// assert!(is_p_saturated(&e, &local, &[p.clone()], 2, 10_000).unwrap());
+/// assert!(!is_p_saturated(&e, &local, &[e.multiple(&p, 2)], 2, 10_000).unwrap());
+/// ```
+pub fn is_p_saturated(curve: &Curve, local: &[LocalData], points: &[Point], p: u64, max_aux_prime: u64) -> Result<bool, Error> {
+    check_minimal(curve, local)?;
+    if !crate::arith::is_prime_u64(p) {
+        return Err(Error::new(ErrorKind::InvalidValue, format!("{p} is not prime")));
+    }
+    for pt in points {
+        if !curve.contains(pt) {
+            return Err(Error::new(ErrorKind::InvalidValue, format!("the point {pt} is not on the curve")));
+        }
+    }
+    let primes: Vec<Natural> = local.iter().map(|d| d.prime.clone()).collect();
+    let torsion = TorsionGroup::compute(curve, &primes);
+    let mut vecs = points.to_vec();
+    for g in torsion.generators() {
+        if u64::from(curve.torsion_order_of(g).unwrap_or(1)) % p == 0 {
+            vecs.push(g.clone());
+        }
+    }
+    Ok(matches!(siksek_test(curve, &vecs, p, max_aux_prime, None)?, SiksekOutcome::Saturated { .. }))
 }

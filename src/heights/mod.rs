@@ -9,7 +9,7 @@ mod saturation;
 
 pub use canonical::{canonical_height, naive_height};
 pub use real::PeriodLattice;
-pub use basis::{height_difference_bound, mordell_weil_basis, MordellWeilBasis, Saturation, SaturationOptions};
+pub use basis::{height_difference_bound, is_p_saturated, local_height_bound, mordell_weil_basis, MordellWeilBasis, Saturation, SaturationOptions};
 pub use lattice::{height_pairing_matrix, lll_reduce, regulator, LllReduction};
 
 /// A malachite Float rounded to the nearest f64.
