@@ -19,7 +19,7 @@
 //!   `v_p` of `psi_2`, `psi_3` and the discriminant), cross-checked against
 //!   the Kodaira symbol from [`crate::local`].
 
-use super::real::{fi, fq, fz, ln, ln_q, to_f64};
+use super::real::{fi, fq, fz, ln, ln_q, sqrt, to_f64};
 use crate::arith::valuation;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
@@ -158,8 +158,10 @@ pub(crate) fn archimedean(curve: &Curve, x: &Rational, prec: u64) -> Result<Floa
     let shift = |x: &Float| -> bool { x.clone().abs() < half };
     let mut s = shift(&xn);
     let xs0 = if s { &xn + &one } else { xn.clone() };
-    let mut total = ln(&xs0.abs(), wp);
-    let mut weight = fi(1, wp) / &four;
+    // lambda = log|xs0| + sum_n 4^-(n+1) log a_n with bounded a_n > 0.
+    // Nested fourth roots v_n = a_n v_{n+1}^(1/4) turn the sum into one
+    // logarithm: lambda = log(|xs0| v_0^(1/4)).
+    let mut ratios: Vec<Float> = Vec::with_capacity(terms as usize);
     for _ in 0..terms {
         let f = f_of(&xn);
         if f == 0u32 {
@@ -170,12 +172,17 @@ pub(crate) fn archimedean(curve: &Curve, x: &Rational, prec: u64) -> Result<Floa
         let snext = shift(&xnext);
         let top = if snext { &num + &f } else { num };
         let xs = if s { &xn + &one } else { xn.clone() };
-        let term = ln(&top.abs(), wp) - &four * ln(&xs.abs(), wp);
-        total += &weight * term;
-        weight /= &four;
+        // |top / xs^4|: a bounded ratio since |xs| >= 1/2.
+        let xs2 = &xs * &xs;
+        ratios.push((top / (&xs2 * &xs2)).abs());
         xn = xnext;
         s = snext;
     }
+    let mut v = fi(1, wp);
+    for a in ratios.iter().rev() {
+        v = a * sqrt(&sqrt(&v, wp), wp);
+    }
+    let total = ln(&(xs0.abs() * sqrt(&sqrt(&v, wp), wp)), wp);
     if !total.is_finite() {
         return Err(Error::new(ErrorKind::InvalidValue, "archimedean height did not converge"));
     }
@@ -218,7 +225,11 @@ pub(crate) fn height_unchecked(curve: &Curve, local: &[LocalData], point: &Point
         Point::Infinity => return Ok(Float::ZERO),
         Point::Affine(x, y) => (x, y),
     };
-    if curve.torsion_order_of(point).is_some() {
+    // On an integral model a torsion point has 4x integral (Silverman, AEC
+    // VIII.7.1 and its exercise for general Weierstrass equations), so the
+    // exact order search is needed only when the denominator divides 4.
+    let d = x.denominator_ref();
+    if (*d == 1u32 || *d == 2u32 || *d == 4u32) && curve.torsion_order_of(point).is_some() {
         return Ok(Float::ZERO);
     }
     let wp = prec + 16;
