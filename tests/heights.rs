@@ -369,3 +369,40 @@ fn rank_three_5077a1() {
         assert!(is_p_saturated(&e, &local, &b.generators, p, 20_000).unwrap());
     }
 }
+
+#[test]
+fn requested_precision_is_met() {
+    // Self-consistency: values at 128 and 320 bits agree to about 2^-120.
+    use malachite::Float;
+    let tiny = Float::from(2f64.powi(-118));
+    let close = |a: &Float, b: &Float| {
+        let d = a - b;
+        d < tiny && -d < tiny
+    };
+    for (e, local, pts) in prepared() {
+        for p in &pts {
+            let q = e.multiple(p, 3);
+            let a = canonical_height(&e, &local, &q, 128).unwrap();
+            let b = canonical_height(&e, &local, &q, 320).unwrap();
+            assert!(close(&a, &b), "{:?} {}", e.ainvs(), float_to_f64(&(&a - &b)));
+        }
+        let l1 = PeriodLattice::compute(&e, 128).unwrap();
+        let l2 = PeriodLattice::compute(&e, 320).unwrap();
+        assert!(close(&l1.omega1, &l2.omega1) && close(&l1.omega2_im, &l2.omega2_im));
+    }
+}
+
+#[test]
+fn bad_input_is_an_error() {
+    let (e, local) = curve([0, 0, 1, -1, 0], &[37]);
+    assert!(canonical_height(&e, &local, &Point::from_ints(1, 1), 64).is_err());
+    assert!(canonical_height(&e, &[], &Point::from_ints(0, 0), 64).is_err());
+    assert!(mordell_weil_basis(&e, &[Point::from_ints(2, 3)], &local, 64, &SaturationOptions::default()).is_err());
+    assert!(is_p_saturated(&e, &local, &[Point::from_ints(0, 0)], 4, 1000).is_err());
+    // A non-minimal model (u = 2 scaling of 37a1) is refused.
+    let c = ModelChange::new(Rational::from(1) / Rational::from(2), Rational::from(0), Rational::from(0), Rational::from(0)).unwrap();
+    let big = e.apply_change(&c).unwrap();
+    let ps: Vec<Natural> = [2u32, 37].iter().map(|&p| Natural::from(p)).collect();
+    let local_big = bad_primes_data(&big, &ps).unwrap();
+    assert!(canonical_height(&big, &local_big, &Point::Infinity, 64).is_err());
+}
