@@ -338,7 +338,10 @@ pub fn mordell_weil_basis(
                 }
             }
             match siksek_test(curve, &vecs, p, options.max_aux_prime, options.deadline)? {
-                SiksekOutcome::Saturated { .. } => proven.push(p),
+                SiksekOutcome::Saturated { primes_used } => {
+                    proven.push(p);
+                    note.push_str(&format!("p = {p}: proven with {primes_used} auxiliary primes; "));
+                }
                 SiksekOutcome::OutOfTime => {
                     unproven.push(p);
                     note.push_str(&format!("p = {p}: out of time; "));

@@ -46,6 +46,8 @@
 //! assert!(omega > 0.0);
 //! ```
 
+#![deny(missing_docs)]
+
 mod basis;
 mod canonical;
 mod lattice;
