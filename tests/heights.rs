@@ -406,3 +406,35 @@ fn bad_input_is_an_error() {
     let local_big = bad_primes_data(&big, &ps).unwrap();
     assert!(canonical_height(&big, &local_big, &Point::Infinity, 64).is_err());
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(16))]
+    /// Heights do not depend on the model: rational changes (u = +-1/2, +-1,
+    /// +-1/3 and rational r, s, t keeping the model integral) of the test
+    /// curves, through `canonical_height_on_model`.
+    #[test]
+    fn height_invariant_under_scaling(i in 0usize..6, k in 0usize..6, r in -3i64..4, s in -2i64..3, t in -3i64..4) {
+        let cs = prepared();
+        let (e, local, pts) = &cs[i % cs.len()];
+        let us = [(1, 2), (-1, 2), (1, 1), (-1, 1), (1, 3), (-1, 3)];
+        let u = Rational::from_signeds(us[k].0, us[k].1);
+        // With u = 1/m, x = u^2 x' + r: integral new a-invariants for integral r, s, t.
+        let c = ModelChange::new(u, Rational::from(r), Rational::from(s), Rational::from(t)).unwrap();
+        let e2 = e.apply_change(&c).unwrap();
+        let mut primes: Vec<Natural> = local.iter().map(|d| d.prime.clone()).collect();
+        for p in [2u32, 3] {
+            if !primes.contains(&Natural::from(p)) {
+                primes.push(Natural::from(p));
+            }
+        }
+        for p in pts {
+            let Point::Affine(x, y) = p else { continue };
+            let (x2, y2) = c.map_point(&(x.clone(), y.clone())).unwrap();
+            let p2 = Point::Affine(x2, y2);
+            prop_assert!(e2.contains(&p2));
+            let h1 = h(e, local, p);
+            let h2 = float_to_f64(&twofold::heights::canonical_height_on_model(&e2, &primes, &p2, 96).unwrap());
+            prop_assert!((h1 - h2).abs() < 1e-12 * (1.0 + h1), "{} {}", h1, h2);
+        }
+    }
+}

@@ -218,11 +218,70 @@ pub fn canonical_height(curve: &Curve, local: &[LocalData], point: &Point, prec:
 }
 
 pub(crate) fn height_unchecked(curve: &Curve, local: &[LocalData], point: &Point, prec: u64) -> Result<Float, Error> {
+    Ok(local_parts(curve, local, point, prec)?.total(prec))
+}
+
+/// The decomposition of a canonical height into local heights (see the
+/// module documentation for the normalisation).
+///
+/// ```
+/// use malachite::Natural;
+/// use twofold::{Curve, Point};
+/// use twofold::local::bad_primes_data;
+/// use twofold::heights::{local_heights, float_to_f64};
+/// // 37a1: (0,0) is integral with good reduction everywhere but 37, where it
+/// // lies on E_0 (type I1), so all of its height is archimedean.
+/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let local = bad_primes_data(&e, &[Natural::from(37u32)]).unwrap();
+/// let l = local_heights(&e, &local, &Point::from_ints(0, 0), 64).unwrap();
+/// assert!(l.bad_primes.iter().all(|(_, c)| *c == 0u32));
+/// assert_eq!(l.good_denominator, 1u32);
+/// assert!((float_to_f64(&l.archimedean) - 0.0511114082).abs() < 1e-9);
+/// ```
+#[derive(Clone, Debug)]
+pub struct LocalHeights {
+    /// The archimedean local height (numerical).
+    pub archimedean: Float,
+    /// For each bad prime p of the local data, the exact rational `c` with
+    /// `lambda_p = c log p`.
+    pub bad_primes: Vec<(Natural, Rational)>,
+    /// The part of the denominator of x(P) prime to the bad primes: the good
+    /// primes contribute `log good_denominator` in total.
+    pub good_denominator: Natural,
+}
+
+impl LocalHeights {
+    /// The canonical height: the sum of the local heights.
+    pub fn total(&self, prec: u64) -> Float {
+        let wp = prec + 16;
+        let mut h = self.archimedean.clone();
+        for (p, c) in &self.bad_primes {
+            if *c != 0u32 {
+                h += fq(c, wp) * ln_q(&Rational::from(p.clone()), wp);
+            }
+        }
+        if self.good_denominator != Natural::ONE {
+            h += ln_q(&Rational::from(self.good_denominator.clone()), wp);
+        }
+        h
+    }
+}
+
+/// The local heights of a non-torsion point (torsion points and O give
+/// all-zero parts) on the globally minimal model `curve`; see
+/// [`canonical_height`] for the conditions and [`LocalHeights`].
+pub fn local_heights(curve: &Curve, local: &[LocalData], point: &Point, prec: u64) -> Result<LocalHeights, Error> {
+    check_minimal(curve, local)?;
+    local_parts(curve, local, point, prec)
+}
+
+fn local_parts(curve: &Curve, local: &[LocalData], point: &Point, prec: u64) -> Result<LocalHeights, Error> {
+    let zero = || LocalHeights { archimedean: Float::ZERO, bad_primes: Vec::new(), good_denominator: Natural::ONE };
     if !curve.contains(point) {
         return Err(Error::new(ErrorKind::InvalidValue, format!("the point {point} is not on the curve")));
     }
     let (x, y) = match point {
-        Point::Infinity => return Ok(Float::ZERO),
+        Point::Infinity => return Ok(zero()),
         Point::Affine(x, y) => (x, y),
     };
     // On an integral model a torsion point has 4x integral (Silverman, AEC
@@ -230,27 +289,55 @@ pub(crate) fn height_unchecked(curve: &Curve, local: &[LocalData], point: &Point
     // exact order search is needed only when the denominator divides 4.
     let d = x.denominator_ref();
     if (*d == 1u32 || *d == 2u32 || *d == 4u32) && curve.torsion_order_of(point).is_some() {
-        return Ok(Float::ZERO);
+        return Ok(zero());
     }
     let wp = prec + 16;
-    let mut h = archimedean(curve, x, wp)?;
-    // Primes of good reduction contribute log den(x), i.e. max(0, -v_p(x)) log p
-    // summed: log of the denominator with the bad primes removed.
+    let archimedean = archimedean(curve, x, wp)?;
     let mut den = x.denominator_ref().clone();
+    let mut bad_primes = Vec::with_capacity(local.len());
     for d in local {
         let c = nonarch_coefficient(curve, d, x, y)?;
         while den != 0u32 && (&den % &d.prime) == 0u32 {
             den /= &d.prime;
         }
-        if c != 0u32 {
-            h += fq(&c, wp) * ln_q(&Rational::from(d.prime.clone()), wp);
-        }
-    }
-    if den != Natural::ONE {
-        h += ln_q(&Rational::from(den), wp);
+        bad_primes.push((d.prime.clone(), c));
     }
     let _ = to_f64;
-    Ok(h)
+    Ok(LocalHeights { archimedean, bad_primes, good_denominator: den })
+}
+
+/// The canonical height of a point on any integral model: moves the point
+/// to a globally minimal model (found at the given primes, which must
+/// include every prime dividing the discriminant of `curve`) and calls
+/// [`canonical_height`]. Canonical heights do not depend on the model.
+///
+/// ```
+/// use malachite::{Natural, Rational};
+/// use twofold::{Curve, ModelChange, Point};
+/// use twofold::heights::{canonical_height_on_model, float_to_f64};
+/// // 37a1 scaled by u = 1/2: x = x'/4, y = y'/8 (a non-minimal model).
+/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let c = ModelChange::new(Rational::from_signeds(1, 2), Rational::from(0), Rational::from(0), Rational::from(0)).unwrap();
+/// let big = e.apply_change(&c).unwrap();
+/// let (x, y) = c.map_point(&(Rational::from(0), Rational::from(0))).unwrap();
+/// let primes = [2u32, 37].map(Natural::from);
+/// let h = canonical_height_on_model(&big, &primes, &Point::Affine(x, y), 64).unwrap();
+/// assert!((float_to_f64(&h) - 0.0511114082).abs() < 1e-9);
+/// ```
+pub fn canonical_height_on_model(curve: &Curve, primes: &[Natural], point: &Point, prec: u64) -> Result<Float, Error> {
+    if !curve.contains(point) {
+        return Err(Error::new(ErrorKind::InvalidValue, format!("the point {point} is not on the curve")));
+    }
+    let (min, change) = curve.minimal_model(primes)?;
+    let local = crate::local::bad_primes_data(&min, primes)?;
+    let p = match point {
+        Point::Infinity => Point::Infinity,
+        Point::Affine(x, y) => {
+            let (x, y) = change.map_point(&(x.clone(), y.clone()))?;
+            Point::Affine(x, y)
+        }
+    };
+    canonical_height(&min, &local, &p, prec)
 }
 
 /// The naive (logarithmic) height `log max(|a|, b)` of `x = a/b`.
