@@ -77,6 +77,33 @@ impl Saturation {
     }
 }
 
+impl std::fmt::Display for Saturation {
+    /// One sentence: "saturated at all primes <= B (proven; B numerical)",
+    /// or the primes left open.
+    ///
+    /// ```
+    /// use twofold::heights::Saturation;
+    /// let s = Saturation { index_bound: Some(3), proven: vec![2, 3], unproven: vec![], divisions: 0, note: String::new() };
+    /// assert_eq!(s.to_string(), "saturated at all primes <= 3 (each proven by Siksek's test; the bound 3 is numerical with margins)");
+    /// ```
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self.index_bound {
+            None => write!(f, "saturation not established: no index bound ({})", self.note.trim_end_matches("; ")),
+            Some(b) if self.unproven.is_empty() => {
+                if b < 2 {
+                    write!(f, "saturated (index bound 1, numerical with margins)")
+                } else {
+                    write!(f, "saturated at all primes <= {b} (each proven by Siksek's test; the bound {b} is numerical with margins)")
+                }
+            }
+            Some(b) => {
+                let list: Vec<String> = self.unproven.iter().map(|p| p.to_string()).collect();
+                write!(f, "index bound {b}; saturation unproven at p = {}", list.join(", "))
+            }
+        }
+    }
+}
+
 /// A basis of a saturated subgroup of E(Q)/E(Q)_tors with its heights.
 ///
 /// ```
@@ -387,7 +414,7 @@ fn divide(
     options: &SaturationOptions,
 ) -> Result<Option<(usize, Point)>, Error> {
     let r = gens.len();
-    let Some(j) = (0..r).find(|&i| v[i] % p != 0) else { return Ok(None) };
+    let Some(j) = (0..r).find(|&i| !v[i].is_multiple_of(p)) else { return Ok(None) };
     let inv = crate::arith::inv_mod(v[j] % p, p).unwrap_or(1);
     let coeffs: Vec<i64> = v
         .iter()

@@ -145,7 +145,7 @@ pub(crate) fn archimedean(curve: &Curve, x: &Rational, prec: u64) -> Result<Floa
     let hb = [b2, b4, b6, b8].iter().map(|b| b.significant_bits()).max().unwrap_or(1) + 3;
     // Terms: the tail after n steps is at most 4^-n times a bound of size
     // O(log H); take prec/2 + log2(hb) + 8 terms.
-    let terms = prec / 2 + 64 - u64::from((hb as u64).leading_zeros()) + 8;
+    let terms = prec / 2 + 64 - u64::from(hb.leading_zeros()) + 8;
     let wp = prec + terms + 2 * hb + 64;
     let (b2, b4, b6, b8) = (fz(b2, wp), fz(b4, wp), fz(b6, wp), fz(b8, wp));
     let two = fi(2, wp);

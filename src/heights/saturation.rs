@@ -171,7 +171,7 @@ impl ModCurve {
 fn functionals(curve: &Curve, q: u64, p: u64, pts: &[Point]) -> Option<Vec<Vec<u64>>> {
     let mc = ModCurve::new(curve, q);
     let n = curve.count_points_mod(q);
-    if n % p != 0 {
+    if !n.is_multiple_of(p) {
         return None;
     }
     let red: Vec<ModPt> = pts.iter().map(|pt| mc.reduce(pt)).collect();
