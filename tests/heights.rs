@@ -438,3 +438,57 @@ proptest! {
         }
     }
 }
+
+#[test]
+fn multiples_are_divided_back() {
+    // For rank-1 curves of Cremona's table: start from 6g (+ a torsion point
+    // when there is one) and recover a generator: regulator back to hhat(g).
+    let rows: Vec<_> = common::read_table("curves-small-conductor.tsv").into_iter().filter(|r| r.rank == 1).take(12).collect();
+    for row in rows {
+        let e = Curve::from_ainvs(row.ainvs).unwrap();
+        let rep = analyse(&e, &RankOptions::default()).unwrap();
+        let primes: Vec<Natural> = rep.local.iter().map(|d| d.prime.clone()).collect();
+        let m = rep.minimal.clone();
+        let local = bad_primes_data(&m, &primes).unwrap();
+        let pts: Vec<Point> = rep
+            .points
+            .iter()
+            .map(|p| match p {
+                Point::Affine(x, y) => {
+                    let (x, y) = rep.change.map_point(&(x.clone(), y.clone())).unwrap();
+                    Point::Affine(x, y)
+                }
+                Point::Infinity => Point::Infinity,
+            })
+            .collect();
+        let b = mordell_weil_basis(&m, &pts, &local, 64, &SaturationOptions::default()).unwrap();
+        let g = b.generators[0].clone();
+        let tors = twofold::torsion::TorsionGroup::compute(&m, &primes);
+        let t = tors.points().last().cloned().unwrap_or(Point::Infinity);
+        let start = m.add(&m.multiple(&g, 6), &t);
+        let b6 = mordell_weil_basis(&m, &[start], &local, 64, &SaturationOptions::default()).unwrap();
+        assert!(b6.saturation.is_saturated(), "{:?}: {}", row.ainvs, b6.saturation);
+        assert!(b6.saturation.divisions >= 2, "{:?}: {:?}", row.ainvs, b6.saturation);
+        assert!((b6.regulator_f64() - b.regulator_f64()).abs() < 1e-12, "{:?}", row.ainvs);
+    }
+}
+
+#[test]
+fn rank_two_index_five_and_seven() {
+    // 389a1 (Cremona's table, rank 2): spans of index 5 and 35 are saturated back.
+    let (e, local) = curve([0, 1, 1, -2, 0], &[389]);
+    let (p, q) = (Point::from_ints(0, 0), Point::from_ints(1, 0));
+    let opts = SaturationOptions::default();
+    let b = mordell_weil_basis(&e, &[e.add(&p, &q), e.multiple(&q, 5)], &local, 96, &opts).unwrap();
+    assert!(b.saturation.is_saturated(), "{}", b.saturation);
+    assert!((b.regulator_f64() - 0.152460177943).abs() < 1e-9);
+    let b = mordell_weil_basis(&e, &[e.multiple(&p, 7), e.multiple(&q, 5)], &local, 96, &opts).unwrap();
+    assert!(b.saturation.is_saturated(), "{}", b.saturation);
+    assert!((b.regulator_f64() - 0.152460177943).abs() < 1e-9);
+    // With p-saturation allowed only up to 3, an index-35 span stays open at 5 and 7.
+    let small = SaturationOptions { max_saturation_prime: 3, ..SaturationOptions::default() };
+    let b = mordell_weil_basis(&e, &[e.multiple(&p, 7), e.multiple(&q, 5)], &local, 96, &small).unwrap();
+    assert!(!b.saturation.is_saturated());
+    assert!(b.saturation.unproven.contains(&5) && b.saturation.unproven.contains(&7), "{}", b.saturation);
+    assert!(b.saturation.to_string().contains("unproven"));
+}
