@@ -52,7 +52,7 @@ impl Default for SaturationOptions {
 ///
 /// ```
 /// use twofold::heights::Saturation;
-/// let s = Saturation { index_bound: Some(1), proven: vec![], unproven: vec![], divisions: 0, note: String::new() };
+/// let s = Saturation { index_bound: Some(1), proven: vec![], unproven: vec![], untested_above: None, divisions: 0, note: String::new() };
 /// assert!(s.is_saturated());
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -62,8 +62,11 @@ pub struct Saturation {
     pub index_bound: Option<u64>,
     /// The primes p <= B at which p-saturation is proven.
     pub proven: Vec<u64>,
-    /// The primes p <= B left unproven.
+    /// The primes p <= B tried and left unproven.
     pub unproven: Vec<u64>,
+    /// When set to `m`, every prime `p` with `m < p <= index_bound` is
+    /// unproven as well (above the budget, not tried, not listed).
+    pub untested_above: Option<u64>,
     /// How many times a generator was replaced by a p-th part.
     pub divisions: usize,
     /// A human-readable account (which step failed, budgets).
@@ -73,7 +76,7 @@ pub struct Saturation {
 impl Saturation {
     /// Whether saturation at every prime up to the index bound is proven.
     pub fn is_saturated(&self) -> bool {
-        self.index_bound.is_some() && self.unproven.is_empty()
+        self.index_bound.is_some() && self.unproven.is_empty() && self.untested_above.is_none()
     }
 }
 
@@ -83,13 +86,13 @@ impl std::fmt::Display for Saturation {
     ///
     /// ```
     /// use twofold::heights::Saturation;
-    /// let s = Saturation { index_bound: Some(3), proven: vec![2, 3], unproven: vec![], divisions: 0, note: String::new() };
+    /// let s = Saturation { index_bound: Some(3), proven: vec![2, 3], unproven: vec![], untested_above: None, divisions: 0, note: String::new() };
     /// assert_eq!(s.to_string(), "saturated at all primes <= 3 (each proven by Siksek's test; the bound 3 is numerical with margins)");
     /// ```
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         match self.index_bound {
             None => write!(f, "saturation not established: no index bound ({})", self.note.trim_end_matches("; ")),
-            Some(b) if self.unproven.is_empty() => {
+            Some(b) if self.unproven.is_empty() && self.untested_above.is_none() => {
                 if b < 2 {
                     write!(f, "saturated (index bound 1, numerical with margins)")
                 } else {
@@ -98,7 +101,11 @@ impl std::fmt::Display for Saturation {
             }
             Some(b) => {
                 let list: Vec<String> = self.unproven.iter().map(|p| p.to_string()).collect();
-                write!(f, "index bound {b}; saturation unproven at p = {}", list.join(", "))
+                write!(f, "index bound {b}; saturation unproven at p = {}", list.join(", "))?;
+                if let Some(m) = self.untested_above {
+                    write!(f, " and at every prime in ({m}, {b}]")?;
+                }
+                Ok(())
             }
         }
     }
@@ -308,7 +315,7 @@ pub fn mordell_weil_basis(
             precision: prec,
         };
         if r == 0 {
-            let sat = Saturation { index_bound: Some(1), proven: vec![], unproven: vec![], divisions, note: "no points of infinite order".into() };
+            let sat = Saturation { index_bound: Some(1), proven: vec![], unproven: vec![], untested_above: None, divisions, note: "no points of infinite order".into() };
             return Ok(finish(sat, gens));
         }
         // Lower bound lambda for heights of non-torsion points.
@@ -325,6 +332,7 @@ pub fn mordell_weil_basis(
                 index_bound: None,
                 proven: vec![],
                 unproven: vec![],
+                untested_above: None,
                 divisions,
                 note: format!("search height too small for a height lower bound (difference bound {bdiff:.3})"),
             };
@@ -333,7 +341,7 @@ pub fn mordell_weil_basis(
         let hsearch = l.exp().floor() as u64;
         let (found, complete) = small_points(curve, hsearch, options.deadline);
         if !complete {
-            let sat = Saturation { index_bound: None, proven: vec![], unproven: vec![], divisions, note: "point search for the height lower bound did not finish".into() };
+            let sat = Saturation { index_bound: None, proven: vec![], unproven: vec![], untested_above: None, divisions, note: "point search for the height lower bound did not finish".into() };
             return Ok(finish(sat, gens));
         }
         let mut lambda = t;
@@ -346,25 +354,33 @@ pub fn mordell_weil_basis(
         let lambda = lambda * (1.0 - 1e-6);
         let reg = to_f64(&regulator) * (1.0 + 1e-6);
         let bound2 = hermite_power(r) * reg / lambda.powi(r as i32);
+        if !bound2.is_finite() || bound2 > 1e30 {
+            let sat = Saturation {
+                index_bound: None,
+                proven: vec![],
+                unproven: vec![],
+                untested_above: None,
+                divisions,
+                note: format!("index bound not finite (lambda = {lambda:e}, Reg = {reg:e})"),
+            };
+            return Ok(finish(sat, gens));
+        }
         let bound = bound2.max(1.0).sqrt().floor() as u64;
+        let untested_above = (bound > options.max_saturation_prime).then_some(options.max_saturation_prime);
         note.push_str(&format!(
             "index^2 <= gamma_{r}^{r} Reg / lambda^{r} with lambda = {lambda:.6} (search to naive height {hsearch}, difference bound {bdiff:.3}); "
         ));
         let mut proven = Vec::new();
         let mut unproven = Vec::new();
         let mut replaced = false;
-        for p in primes_up_to(bound) {
-            if p > options.max_saturation_prime {
-                unproven.push(p);
-                continue;
-            }
+        for p in primes_up_to(bound.min(options.max_saturation_prime)) {
             let mut vecs = gens.clone();
             for (g, o) in &tors_gens {
                 if u64::from(*o) % p == 0 {
                     vecs.push(g.clone());
                 }
             }
-            match siksek_test(curve, &vecs, p, options.max_aux_prime, options.deadline)? {
+            match siksek_test(curve, &vecs, p, options.max_aux_prime.min(1 << 31), options.deadline)? {
                 SiksekOutcome::Saturated { primes_used } => {
                     proven.push(p);
                     note.push_str(&format!("p = {p}: proven with {primes_used} auxiliary primes; "));
@@ -393,7 +409,7 @@ pub fn mordell_weil_basis(
         if replaced && rounds < 64 {
             continue;
         }
-        let sat = Saturation { index_bound: Some(bound), proven, unproven, divisions, note };
+        let sat = Saturation { index_bound: Some(bound), proven, unproven, untested_above, divisions, note };
         return Ok(finish(sat, gens));
     }
 }
@@ -487,5 +503,5 @@ pub fn is_p_saturated(curve: &Curve, local: &[LocalData], points: &[Point], p: u
             vecs.push(g.clone());
         }
     }
-    Ok(matches!(siksek_test(curve, &vecs, p, max_aux_prime, None)?, SiksekOutcome::Saturated { .. }))
+    Ok(matches!(siksek_test(curve, &vecs, p, max_aux_prime.min(1 << 31), None)?, SiksekOutcome::Saturated { .. }))
 }
