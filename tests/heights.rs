@@ -493,3 +493,67 @@ fn rank_two_index_five_and_seven() {
     assert!(b.saturation.index_bound.unwrap() >= 7);
     assert!(b.saturation.to_string().contains("unproven"));
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(40))]
+    /// On random small curves: every point found by a naive search lies in
+    /// the span of the returned generators plus torsion (checked exactly
+    /// after solving the height-pairing system numerically), whenever the
+    /// result claims saturation and the rank is proven.
+    #[test]
+    fn searched_points_lie_in_the_saturated_span(a1 in 0i64..2, a2 in -1i64..2, a3 in 0i64..2, a4 in -20i64..21, a6 in -20i64..21) {
+        let Ok(e) = Curve::from_ainvs([a1, a2, a3, a4, a6]) else { return Ok(()) };
+        let Ok(rep) = analyse(&e, &RankOptions::default()) else { return Ok(()) };
+        if rep.rank() != Some(rep.points.len()) || rep.points.is_empty() {
+            return Ok(());
+        }
+        let m = rep.minimal.clone();
+        let primes: Vec<Natural> = rep.local.iter().map(|d| d.prime.clone()).collect();
+        let local = bad_primes_data(&m, &primes).unwrap();
+        let to_min = |p: &Point| match p {
+            Point::Affine(x, y) => {
+                let (x, y) = rep.change.map_point(&(x.clone(), y.clone())).unwrap();
+                Point::Affine(x, y)
+            }
+            Point::Infinity => Point::Infinity,
+        };
+        let pts: Vec<Point> = rep.points.iter().map(to_min).collect();
+        let b = mordell_weil_basis(&m, &pts, &local, 96, &SaturationOptions::default()).unwrap();
+        prop_assert_eq!(b.generators.len(), pts.len());
+        if !b.saturation.is_saturated() {
+            return Ok(());
+        }
+        let tors = twofold::torsion::TorsionGroup::compute(&m, &primes);
+        let found = twofold::search::search_curve(&m, &twofold::search::SearchLimits::new(400)).points;
+        eprintln!("span check {:?}: rank {}, {} searched points", m.ainvs(), pts.len(), found.len());
+        let r = b.generators.len();
+        let g: Vec<Vec<f64>> = b.gram.iter().map(|row| row.iter().map(float_to_f64).collect()).collect();
+        for (x, y) in found {
+            let p = Point::Affine(x, y);
+            if m.torsion_order_of(&p).is_some() {
+                continue;
+            }
+            // <P, g_i> from heights of P + g_i.
+            let hp = h(&m, &local, &p);
+            let v: Vec<f64> = b.generators.iter().map(|gi| (h(&m, &local, &m.add(&p, gi)) - hp - h(&m, &local, gi)) / 2.0).collect();
+            // Solve g a = v (r <= 3) by Gaussian elimination.
+            let mut aug: Vec<Vec<f64>> = (0..r).map(|i| { let mut row = g[i].clone(); row.push(v[i]); row }).collect();
+            for c in 0..r {
+                let piv = (c..r).max_by(|&i, &j| aug[i][c].abs().partial_cmp(&aug[j][c].abs()).unwrap()).unwrap();
+                aug.swap(c, piv);
+                for i in 0..r {
+                    if i != c {
+                        let f = aug[i][c] / aug[c][c];
+                        for k in c..=r { aug[i][k] -= f * aug[c][k]; }
+                    }
+                }
+            }
+            let coeffs: Vec<i64> = (0..r).map(|i| (aug[i][r] / aug[i][i]).round() as i64).collect();
+            let mut acc = p.clone();
+            for (c, gi) in coeffs.iter().zip(&b.generators) {
+                acc = m.add(&acc, &m.multiple(gi, -c));
+            }
+            prop_assert!(tors.points().contains(&acc), "{:?}: {} not in the span", m.ainvs(), p);
+        }
+    }
+}
