@@ -45,10 +45,11 @@ impl Default for SaturationOptions {
 /// What is known about the saturation of the generators' span.
 ///
 /// `index_bound` rests on numerical heights (used with a relative safety
-/// margin of 1e-6) and on Silverman's bound for the difference between the
-/// naive and the canonical height (Math. Comp. 55 (1990), Theorem 1; its
-/// constants are quoted from memory); each p-saturation claim in `proven`
-/// is exact (Siksek's test with exact reductions modulo primes).
+/// margin of 1e-6) and on the bound of [`local_height_bound`] for the
+/// difference between the naive and the canonical height (exact at the
+/// finite primes, numerical with a margin at infinity; Silverman's bound of
+/// [`height_difference_bound`] only as a fallback); each p-saturation claim
+/// in `proven` is exact (Siksek's test with exact reductions modulo primes).
 ///
 /// ```
 /// use twofold::heights::Saturation;
@@ -293,7 +294,12 @@ pub fn mordell_weil_basis(
     let mut gens: Vec<Point> = points.to_vec();
     let mut divisions = 0usize;
     let mut dependencies_removed;
-    let bdiff = height_difference_bound(curve).min(local_height_bound(curve, local));
+    // The local bound is derived in this crate (exact at the finite primes,
+    // a sampled infimum with a margin at infinity); Silverman's bound, whose
+    // constants are quoted from memory, is only the fallback when the local
+    // one cannot be evaluated in f64.
+    let bloc = local_height_bound(curve, local);
+    let bdiff = if bloc.is_finite() { bloc } else { height_difference_bound(curve) };
     let mut rounds = 0;
     loop {
         rounds += 1;

@@ -20,7 +20,7 @@
 //! | non-archimedean local heights | exact rational multiples of `log p` (Silverman 1988, Thm 5.2), cross-checked with the Kodaira symbol |
 //! | archimedean local height, periods, heights, pairing, regulator | numerical, about the requested number of bits (no interval arithmetic) |
 //! | LLL dependencies removed | exact: each removed combination is checked to be torsion |
-//! | height-difference bound `hhat >= h(x) - B` | the minimum of Silverman's 1990 bound (constants from memory) and a bound from the local decomposition (exact at the finite primes, a sampled infimum with a factor-2 margin at infinity): numerical with a margin |
+//! | height-difference bound `hhat >= h(x) - B` | from the local decomposition ([`local_height_bound`]: exact at the finite primes, a sampled infimum with a factor-2 margin at infinity): numerical with a margin; Silverman's 1990 bound (constants from memory) only as a fallback |
 //! | index bound `index^2 <= gamma_r^r Reg / lambda^r` | rests on the numerical regulator and heights (relative margin 1e-6) and on the difference bound with a complete point search |
 //! | p-saturation for each listed prime | exact (Siksek's test: the reductions, the group law mod q and the F_p ranks are exact) |
 //!
