@@ -11,7 +11,7 @@ use crate::local::LocalData;
 use crate::search::{search_curve, SearchLimits};
 use crate::torsion::TorsionGroup;
 use malachite::base::num::arithmetic::traits::Abs;
-use malachite::{Float, Natural, Rational};
+use malachite::{Float, Natural};
 use std::time::Instant;
 
 /// Budgets for [`mordell_weil_basis`].
@@ -468,7 +468,6 @@ fn divide(
             return Ok(Some((j, qpt)));
         }
     }
-    let _ = Rational::from(0);
     Ok(None)
 }
 

@@ -19,7 +19,7 @@
 //!   `v_p` of `psi_2`, `psi_3` and the discriminant), cross-checked against
 //!   the Kodaira symbol from [`crate::local`].
 
-use super::real::{fi, fq, fz, ln, ln_q, sqrt, to_f64};
+use super::real::{fi, fq, fz, ln, ln_q, sqrt};
 use crate::arith::valuation;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
@@ -302,7 +302,6 @@ fn local_parts(curve: &Curve, local: &[LocalData], point: &Point, prec: u64) -> 
         }
         bad_primes.push((d.prime.clone(), c));
     }
-    let _ = to_f64;
     Ok(LocalHeights { archimedean, bad_primes, good_denominator: den })
 }
 
