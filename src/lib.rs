@@ -5,6 +5,7 @@ pub mod arith;
 pub mod budget;
 pub mod curve;
 pub mod descent;
+pub mod heights;
 pub mod isogeny;
 pub mod local;
 pub mod quartic;
