@@ -2,8 +2,11 @@
 #![forbid(unsafe_code)]
 
 pub mod arith;
+pub mod batch;
 pub mod budget;
 pub mod curve;
+#[cfg(feature = "serde")]
+pub mod decimal_serde;
 pub mod descent;
 pub mod local;
 pub mod quartic;
@@ -14,6 +17,7 @@ pub mod solubility;
 pub mod torsion;
 mod error;
 
+pub use batch::{analyse_batch, BatchOptions, BatchOutcome, CurveInput};
 pub use budget::{RankOptions, Stage};
 pub use curve::{Curve, ModelChange, Point};
 pub use error::{Error, ErrorKind};

@@ -29,7 +29,8 @@ use crate::torsion::TorsionGroup;
 use malachite::{Integer, Natural, Rational};
 
 /// An everywhere locally soluble quartic class of Sel^2(E).
-#[derive(Clone, Debug)]
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct SelmerQuartic {
     /// A reduced integral quartic representing the class.
     pub quartic: Quartic,
@@ -40,9 +41,11 @@ pub struct SelmerQuartic {
 }
 
 /// The result of the full 2-descent.
-#[derive(Clone, Debug)]
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct FullDescent {
     /// The invariants `(I, J)` enumerated.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub invariants: (Integer, Integer),
     /// Number of `GL2(Z)`-classes of quartics with these invariants (before
     /// the local tests), and how many of them were everywhere locally soluble.
