@@ -426,7 +426,7 @@ fn run_parallel<It, F, G>(
 {
     use std::sync::mpsc;
     use std::sync::Mutex;
-    let window = threads * 4;
+    let window = threads * 256;
     let (work_tx, work_rx) = mpsc::channel::<(usize, It::Item)>();
     let work_rx = Mutex::new(work_rx);
     // None: the input was skipped because the batch was cancelled first
