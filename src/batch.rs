@@ -260,7 +260,9 @@ pub struct BatchSummary {
     pub no_upper_bound: usize,
     /// Inputs that gave an error.
     pub errors: usize,
-    /// Curves whose budget ran out (their bounds are what was proven before).
+    /// Reports with `budget_exhausted` set: the time budget ran out, or a
+    /// point search or the quartic enumeration stopped at its cap (their
+    /// bounds are what was proven before).
     pub budget_exhausted: usize,
     /// Whether the batch was cancelled before every input was run.
     pub cancelled: bool,
@@ -274,7 +276,7 @@ impl std::fmt::Display for BatchSummary {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         write!(
             f,
-            "{} curves: {} proven, {} open (total gap {}, {} without upper bound), {} errors, {} out of budget; {:.1} s on {} thread(s){}",
+            "{} curves: {} proven, {} open (total gap {}, {} without upper bound), {} errors, {} with a search or enumeration cut short; {:.1} s on {} thread(s){}",
             self.done,
             self.proven,
             self.open,
