@@ -54,10 +54,10 @@ pub struct FullDescent {
     pub ruled_out: Vec<(Quartic, Place)>,
     /// One representative of every class of Sel^2(E) (the trivial class included).
     pub classes: Vec<SelmerQuartic>,
-    /// dim Sel^2(E) over F2, including the image of E(Q)[2]; `None` if the
+    /// dim Sel^2(E) over F2, including the image of E(Q)\[2\]; `None` if the
     /// budget ran out before the enumeration finished.
     pub selmer_dim: Option<usize>,
-    /// dim E(Q)[2].
+    /// dim E(Q)\[2\].
     pub two_torsion_dim: usize,
     /// Dimension of the span of the images of the torsion and of the points found.
     pub found_dim: usize,

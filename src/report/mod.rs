@@ -98,7 +98,7 @@ pub struct RankReport {
     pub independence: String,
     /// Coverings where Sha could hide.
     pub sha_suspects: Vec<ShaSuspect>,
-    /// dim Sel^2(E) over F2 (including the image of E(Q)[2]), from the full 2-descent.
+    /// dim Sel^2(E) over F2 (including the image of E(Q)\[2\]), from the full 2-descent.
     pub selmer2_dim: Option<usize>,
     /// Every 2-isogeny descent that ran (one per rational 2-torsion point),
     /// with its Selmer groups, local images and witnesses.
