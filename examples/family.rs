@@ -35,7 +35,7 @@ fn square_free(d: i64) -> bool {
     let n = d.unsigned_abs();
     let mut p = 2u64;
     while p * p <= n {
-        if n % (p * p) == 0 {
+        if n.is_multiple_of(p * p) {
             return false;
         }
         p += 1;

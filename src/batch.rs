@@ -33,8 +33,8 @@ use std::time::{Duration, Instant};
 /// line that cannot be read becomes an error item of its own).
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub enum CurveInput {
-    /// A curve already built.
-    Curve(Curve),
+    /// A curve already built (boxed: a curve is much larger than a line).
+    Curve(Box<Curve>),
     /// Text in any form [`Curve::parse_scaled`] accepts: `[a1,a2,a3,a4,a6]`,
     /// `[a4,a6]` or an equation, possibly with rational coefficients.
     Text(String),
@@ -42,12 +42,12 @@ pub enum CurveInput {
 
 impl From<Curve> for CurveInput {
     fn from(c: Curve) -> Self {
-        CurveInput::Curve(c)
+        CurveInput::Curve(Box::new(c))
     }
 }
 impl From<&Curve> for CurveInput {
     fn from(c: &Curve) -> Self {
-        CurveInput::Curve(c.clone())
+        CurveInput::Curve(Box::new(c.clone()))
     }
 }
 impl From<String> for CurveInput {
