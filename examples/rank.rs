@@ -128,9 +128,11 @@ fn main() {
         opts = opts.with_observer(Bar { last: Mutex::new(None) });
     }
     let stdout = std::io::stdout();
+    // the bar shares the terminal with the reports only when both go there
+    let clear_before_output = bar && stdout.is_terminal();
     let mut out = stdout.lock();
     let summary = analyse_batch_with(&curves, &opts, |item| {
-        if bar {
+        if clear_before_output {
             eprint!("\r\x1b[K");
         }
         let text = &item.label;
