@@ -58,8 +58,8 @@
 //! # Performance
 //!
 //! Curves of small conductor take well under a millisecond to a few hundred
-//! milliseconds each (the 572 curves of conductor up to 162 take about 7 s of
-//! CPU in all). The costs that grow are factoring the discriminant (SIQS
+//! milliseconds each (the 572 curves of conductor up to 162 take 4 to 7 s
+//! of CPU in all, depending on the machine's load). The costs that grow are factoring the discriminant (SIQS
 //! beyond 40 digits or so) and the quartic enumeration of the full
 //! 2-descent, about `|c4|^(3/2)`; it stops at
 //! [`RankOptions::max_quartic_candidates`] and the report then has no
