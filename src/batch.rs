@@ -193,7 +193,8 @@ pub struct BatchOptions {
     /// The options for every curve. Its `time_limit` applies to each curve
     /// separately; its `cancel` flag, when set, cancels the whole batch:
     /// running curves stop promptly (their reports keep what was proven and
-    /// say `budget_exhausted`), and no further curve starts.
+    /// say `budget_exhausted`), and no further curve starts. Its per-stage
+    /// `progress` callback, if any, is called from the worker threads.
     pub rank: RankOptions,
     /// Worker threads; `0` means one per available core. Without the
     /// `parallel` feature the batch always runs on the calling thread.
