@@ -4,6 +4,8 @@ use std::fmt;
 
 /// What went wrong, for callers that want to branch on it.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
 #[non_exhaustive]
 pub enum ErrorKind {
     /// The text could not be read as a curve or number.
@@ -28,6 +30,7 @@ pub enum ErrorKind {
 /// assert_eq!(err.kind(), &ErrorKind::Singular);
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct Error {
     kind: ErrorKind,
     message: String,

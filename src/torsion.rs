@@ -26,6 +26,7 @@ use std::cmp::Ordering;
 /// assert_eq!(t.invariants(), vec![5]);
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct TorsionGroup {
     points: Vec<Point>,
     invariants: Vec<u32>,

@@ -24,14 +24,19 @@ pub struct Curve {
 /// A change of Weierstrass model `x = u^2 x' + r`, `y = u^3 y' + s u^2 x' + t`
 /// with rational `u != 0`, `r`, `s`, `t` (Silverman, AEC III.1).
 #[derive(Clone, Debug, PartialEq, Eq, Hash)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct ModelChange {
     /// The scaling `u`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub u: malachite::Rational,
     /// The shift `r` of x.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub r: malachite::Rational,
     /// The shear `s`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub s: malachite::Rational,
     /// The shift `t` of y.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub t: malachite::Rational,
 }
 

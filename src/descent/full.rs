@@ -29,7 +29,8 @@ use crate::torsion::TorsionGroup;
 use malachite::{Integer, Natural, Rational};
 
 /// An everywhere locally soluble quartic class of Sel^2(E).
-#[derive(Clone, Debug)]
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct SelmerQuartic {
     /// A reduced integral quartic representing the class.
     pub quartic: Quartic,
@@ -40,9 +41,11 @@ pub struct SelmerQuartic {
 }
 
 /// The result of the full 2-descent.
-#[derive(Clone, Debug)]
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct FullDescent {
     /// The invariants `(I, J)` enumerated.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub invariants: (Integer, Integer),
     /// Number of `GL2(Z)`-classes of quartics with these invariants (before
     /// the local tests), and how many of them were everywhere locally soluble.
@@ -51,10 +54,10 @@ pub struct FullDescent {
     pub ruled_out: Vec<(Quartic, Place)>,
     /// One representative of every class of Sel^2(E) (the trivial class included).
     pub classes: Vec<SelmerQuartic>,
-    /// dim Sel^2(E) over F2, including the image of E(Q)[2]; `None` if the
+    /// dim Sel^2(E) over F2, including the image of E(Q)\[2\]; `None` if the
     /// budget ran out before the enumeration finished.
     pub selmer_dim: Option<usize>,
-    /// dim E(Q)[2].
+    /// dim E(Q)\[2\].
     pub two_torsion_dim: usize,
     /// Dimension of the span of the images of the torsion and of the points found.
     pub found_dim: usize,

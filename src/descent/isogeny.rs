@@ -29,12 +29,16 @@ use malachite::{Integer, Natural, Rational};
 /// the Selmer group of square-free divisors `d` of `b` whose coverings
 /// `N^2 = d M^4 + a M^2 e^2 + (b/d) e^4` are everywhere locally soluble.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct IsogenySide {
     /// `a` of the model `y^2 = x(x^2 + a x + b)`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub a: Integer,
     /// `b` of the model.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub b: Integer,
     /// A basis of the Selmer group, as square-free integers.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub selmer_basis: Vec<Integer>,
     /// Dimension of the Selmer group over F2.
     pub selmer_dim: usize,
@@ -44,9 +48,11 @@ pub struct IsogenySide {
     pub found_dim: usize,
     /// Points of infinite order found on this side, on this side's model,
     /// with their images `d` (independent modulo the torsion image).
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub points: Vec<(Integer, Point)>,
     /// Selmer classes (a basis of a complement of the found image) whose
     /// coverings are everywhere locally soluble but where the search found no point.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub unexplained: Vec<Integer>,
     /// For every place tested, the local image (classes of `Q_v*/Q_v*^2`,
     /// as integer representatives) with a witness for each soluble class.
@@ -57,12 +63,15 @@ pub struct IsogenySide {
 /// integer representatives) whose covering is soluble over `Q_v`, each with
 /// a witness point.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct LocalImage {
     /// The place.
     pub place: Place,
     /// Soluble classes with their witnesses.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub soluble: Vec<(Integer, LocalWitness)>,
     /// Classes whose covering has no point over `Q_v`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub insoluble: Vec<Integer>,
 }
 
@@ -81,6 +90,7 @@ pub struct LocalImage {
 /// }
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct IsogenyDescent {
     /// The kernel point T, on the curve's own model.
     pub kernel_point: Point,

@@ -106,6 +106,8 @@ impl fmt::Display for Kodaira {
 /// assert_eq!(local_data(&e, &Natural::from(11u32)).unwrap().reduction, Reduction::SplitMultiplicative);
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
 pub enum Reduction {
     /// Good reduction.
     Good,
@@ -127,8 +129,10 @@ pub enum Reduction {
 /// assert_eq!((d.kodaira, d.conductor_exponent, d.tamagawa), (Kodaira::In(5), 1, 5));
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq, Hash)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct LocalData {
     /// The prime p.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub prime: Natural,
     /// The Kodaira symbol.
     pub kodaira: Kodaira,

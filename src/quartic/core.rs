@@ -29,16 +29,22 @@ pub type Matrix = [[Integer; 2]; 2];
 /// assert_eq!(g.discriminant(), -256);
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct Quartic {
     /// Coefficient of `x^4`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub a: Integer,
     /// Coefficient of `x^3 z`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub b: Integer,
     /// Coefficient of `x^2 z^2`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub c: Integer,
     /// Coefficient of `x z^3`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub d: Integer,
     /// Coefficient of `z^4`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub e: Integer,
 }
 

@@ -42,13 +42,16 @@ impl Route {
 /// An everywhere locally soluble 2-covering with no rational point found:
 /// a place where a non-trivial element of Sha could hide.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct ShaSuspect {
     /// Which route and which side produced it, e.g. `"2-isogeny T=(0, 0), E'"`.
     pub origin: String,
     /// The quartic `g` of the covering `y^2 = g(x, z)`, coefficients of
     /// `x^4, x^3 z, x^2 z^2, x z^3, z^4`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub quartic: [Integer; 5],
     /// The Selmer class, as a square-free integer `d` (isogeny route).
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub class: Option<Integer>,
     /// The search height that found no point.
     pub searched_height: u64,
@@ -64,13 +67,15 @@ pub struct ShaSuspect {
 /// assert_eq!(r.rank(), Some(1));
 /// for p in &r.points { assert!(e.contains(p)); }
 /// ```
-#[derive(Clone, Debug)]
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct RankReport {
     /// The curve as given.
     pub input: Curve,
     /// The global minimal model in reduced form.
     pub minimal: Curve,
     /// The conductor.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub conductor: Integer,
     /// Local data at every bad prime.
     pub local: Vec<LocalData>,
@@ -93,7 +98,7 @@ pub struct RankReport {
     pub independence: String,
     /// Coverings where Sha could hide.
     pub sha_suspects: Vec<ShaSuspect>,
-    /// dim Sel^2(E) over F2 (including the image of E(Q)[2]), from the full 2-descent.
+    /// dim Sel^2(E) over F2 (including the image of E(Q)\[2\]), from the full 2-descent.
     pub selmer2_dim: Option<usize>,
     /// Every 2-isogeny descent that ran (one per rational 2-torsion point),
     /// with its Selmer groups, local images and witnesses.

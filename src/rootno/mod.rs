@@ -85,6 +85,8 @@ pub use numeric::{NUMERIC_CHECK_CONDUCTOR, NUMERIC_MAX_CONDUCTOR};
 /// assert_eq!(r.method, RootNumberMethod::LocalAndNumerical);
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(tag = "kind", rename_all = "snake_case"))]
 #[non_exhaustive]
 pub enum RootNumberMethod {
     /// Every local root number came from a local formula; the conductor was
@@ -98,6 +100,7 @@ pub enum RootNumberMethod {
     /// whose entry in [`RootNumber::local`] was deduced from it.
     Numerical {
         /// The primes whose local root number was deduced from the global one.
+        #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
         deduced: Vec<Natural>,
     },
 }
@@ -115,6 +118,7 @@ pub enum RootNumberMethod {
 /// assert!(r.joint.is_empty());
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct RootNumber {
     /// The global root number `w(E)`, `1` or `-1`.
     pub global: i8,
@@ -122,14 +126,17 @@ pub struct RootNumber {
     /// known (by a local formula, or deduced as said in
     /// [`RootNumberMethod::Numerical`]), sorted by prime. Good primes have
     /// `w_p = 1` and are left out.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub local: Vec<(Natural, i8)>,
     /// Bad primes (only 2 and 3 can occur) whose local root numbers are
     /// known only through their product, which is
     /// `-global / ∏ local`. Empty in most cases.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub joint: Vec<Natural>,
     /// How the global sign was decided.
     pub method: RootNumberMethod,
     /// The conductor of the curve.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub conductor: Natural,
 }
 

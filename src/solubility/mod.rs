@@ -66,10 +66,13 @@ pub enum Place {
 /// assert!(check_witness(&g, &two, &LocalWitness { x: Integer::from(1), z: Integer::from(2) }));
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq, Hash)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct LocalWitness {
     /// First coordinate.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub x: Integer,
     /// Second coordinate (`z = 0` is the point at infinity of the `x`-line).
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub z: Integer,
 }
 
