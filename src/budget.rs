@@ -57,6 +57,11 @@ pub struct RankOptions {
     /// (probable) prime and that they account for the whole discriminant,
     /// instead of factoring it.
     pub known_primes: Option<Vec<malachite::Natural>>,
+    /// Also compute the evidence beyond the rank bounds (root number,
+    /// heights and saturation, real period, L-values, the Birch and
+    /// Swinnerton-Dyer quotient): [`crate::RankReport::evidence`]. Default
+    /// `true`; turn off for the fastest sweeps.
+    pub evidence: bool,
 }
 
 impl Default for RankOptions {
@@ -69,6 +74,7 @@ impl Default for RankOptions {
             progress: None,
             max_quartic_candidates: 400_000_000,
             cross_check_routes: false,
+            evidence: true,
             known_primes: None,
         }
     }

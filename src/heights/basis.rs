@@ -57,6 +57,7 @@ impl Default for SaturationOptions {
 /// assert!(s.is_saturated());
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct Saturation {
     /// An upper bound B for the index of the span of the generators (and
     /// torsion) in its saturation; `None` when no bound was obtained.

@@ -70,6 +70,7 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
         isogeny_runs: vec![],
         full_descent: None,
         quartic_model: None,
+        evidence: None,
         change: change.clone(),
         budget_exhausted: false,
         elapsed: budget.elapsed(),
@@ -103,6 +104,9 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
         if !curve.contains(p) {
             return Err(Error::new(crate::ErrorKind::InvalidValue, "internal check failed: reported point not on the input curve"));
         }
+    }
+    if options.evidence && !budget.exhausted() {
+        report.evidence = Some(super::evidence::compute(&report, &budget));
     }
     progress(Stage::Report, "done");
     report.elapsed = budget.elapsed();
@@ -255,7 +259,7 @@ fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullD
 }
 
 /// A point on the minimal model, taken back to the input model.
-fn unmap(change: &crate::ModelChange, p: &Point) -> Point {
+pub(crate) fn unmap(change: &crate::ModelChange, p: &Point) -> Point {
     match p {
         Point::Infinity => Point::Infinity,
         Point::Affine(x, y) => {

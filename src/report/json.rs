@@ -124,6 +124,21 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
             o.finish()
         }),
     );
+    let ev = r.evidence.as_ref();
+    let num = |x: Option<f64>| x.filter(|v| v.is_finite()).map(|v| format!("{v:.12e}")).map(|t| quote(&t)).unwrap_or_else(|| "null".into());
+    w.raw("root_number", &ev.and_then(|e| e.root_number).map(|v| v.to_string()).unwrap_or_else(|| "null".into()));
+    w.raw("analytic_rank", &opt(ev.and_then(|e| e.analytic_rank)));
+    w.raw(
+        "generators",
+        &ev.and_then(|e| e.generators.as_ref()).map(|g| list(g, point_json)).unwrap_or_else(|| "null".into()),
+    );
+    w.raw("regulator", &num(ev.and_then(|e| e.regulator)));
+    w.raw("real_period", &num(ev.and_then(|e| e.real_period)));
+    w.raw(
+        "tamagawa",
+        &ev.map(|e| list(&e.tamagawa, |(p, c)| format!("[{},{c}]", quote(&p.to_string())))).unwrap_or_else(|| "null".into()),
+    );
+    w.raw("sha_analytic", &num(ev.and_then(|e| e.sha_analytic)));
     w.raw("budget_exhausted", if r.budget_exhausted { "true" } else { "false" });
     w.raw("elapsed_ms", &r.elapsed.as_millis().to_string());
     w.finish()

@@ -3,9 +3,11 @@
 
 mod json;
 mod analyse;
+mod evidence;
 
 pub use analyse::analyse;
 pub use json::{error_json, JsonWriter};
+pub use evidence::{Evidence, Standing, Statement};
 
 use crate::curve::{Curve, Point};
 use crate::local::LocalData;
@@ -111,6 +113,10 @@ pub struct RankReport {
     /// that curve (minimal, reduced) and the degree. Sel^2, E(Q)[2] and the
     /// rank are the same for both curves.
     pub quartic_model: Option<(Curve, u64)>,
+    /// Root number, heights, saturation, periods, L-values and the Birch and
+    /// Swinnerton-Dyer quotient, each statement with its standing; `None`
+    /// when [`crate::RankOptions::evidence`] is off or the budget ran out.
+    pub evidence: Option<Evidence>,
     /// The change of model from the input model to the minimal one.
     pub change: crate::ModelChange,
     /// Whether the budget ran out before the computation finished.

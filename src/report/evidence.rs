@@ -1,0 +1,219 @@
+//! What a report says beyond the rank bounds, with the standing of each
+//! statement: the root number and parity, a Mordell-Weil basis with heights
+//! and its saturation, the real period, Tamagawa numbers, the analytic rank
+//! and the analytic order of Sha from the Birch and Swinnerton-Dyer formula.
+
+use super::RankReport;
+use crate::budget::Budget;
+use crate::curve::Point;
+use crate::heights::{mordell_weil_basis, PeriodLattice, Saturation, SaturationOptions};
+use malachite::Natural;
+
+/// How far a statement in a report is established.
+///
+/// ```
+/// use twofold::report::Standing;
+/// let s = Standing::Conditional("the Birch and Swinnerton-Dyer conjecture".into());
+/// assert_eq!(s.label(), "conditional");
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub enum Standing {
+    /// Proven: exact computation resting only on theorems.
+    Proven,
+    /// True if the named conjecture or hypothesis holds.
+    Conditional(String),
+    /// A floating-point value or a numerical observation, without a proven
+    /// error bound (the text says how it was checked).
+    Numerical,
+}
+
+impl Standing {
+    /// `"proven"`, `"conditional"` or `"numerical"`.
+    pub fn label(&self) -> &'static str {
+        match self {
+            Standing::Proven => "proven",
+            Standing::Conditional(_) => "conditional",
+            Standing::Numerical => "numerical",
+        }
+    }
+}
+
+/// One statement of a report and its standing.
+///
+/// ```
+/// use twofold::report::{Standing, Statement};
+/// let s = Statement { claim: "rank = 1".into(), standing: Standing::Proven };
+/// assert_eq!(s.to_string(), "[proven] rank = 1");
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Statement {
+    /// The statement, in words.
+    pub claim: String,
+    /// Its standing.
+    pub standing: Standing,
+}
+
+impl std::fmt::Display for Statement {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match &self.standing {
+            Standing::Conditional(on) => write!(f, "[conditional on {on}] {}", self.claim),
+            s => write!(f, "[{}] {}", s.label(), self.claim),
+        }
+    }
+}
+
+/// The arithmetic beyond the rank bounds (see the module documentation).
+///
+/// ```
+/// use twofold::{analyse, Curve, RankOptions};
+/// // 37a1 (Cremona's tables): rank 1, generator (0, 0), regulator 0.0511114082 (from memory)
+/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let r = analyse(&e, &RankOptions::default()).unwrap();
+/// let ev = r.evidence.as_ref().unwrap();
+/// assert_eq!(ev.root_number, Some(-1));
+/// assert!((ev.regulator.unwrap() - 0.0511114082).abs() < 1e-8);
+/// assert_eq!(ev.generators.as_ref().unwrap().len(), 1);
+/// ```
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Evidence {
+    /// The global root number w(E).
+    pub root_number: Option<i8>,
+    /// A basis of E(Q) modulo torsion on the input model: set only when the
+    /// rank is proven and the points are proven saturated.
+    pub generators: Option<Vec<Point>>,
+    /// Independent points (input model), LLL-reduced and saturated as far as
+    /// proven (see `saturation`); equal to `generators` when that is set.
+    pub reduced_points: Vec<Point>,
+    /// Canonical heights of `reduced_points` (numerical; the normalisation
+    /// of [`crate::heights::NORMALISATION`]).
+    pub heights: Vec<f64>,
+    /// The regulator of `reduced_points` (numerical; 1 for rank 0).
+    pub regulator: Option<f64>,
+    /// What is proven about the saturation of `reduced_points`.
+    pub saturation: Option<Saturation>,
+    /// The real period Omega of the minimal model, counted over the
+    /// connected components of E(R) (numerical).
+    pub real_period: Option<f64>,
+    /// The Tamagawa number at each bad prime (proven: Tate's algorithm).
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+    pub tamagawa: Vec<(Natural, u32)>,
+    /// The analytic rank (see `statements` for its standing).
+    pub analytic_rank: Option<usize>,
+    /// `L^(r)(E, 1) / r!` at the analytic rank r (numerical, with the error
+    /// bound in `statements`).
+    pub leading_value: Option<f64>,
+    /// The analytic order of Sha from the Birch and Swinnerton-Dyer formula
+    /// (conditional on it; numerical).
+    pub sha_analytic: Option<f64>,
+    /// Every statement with its standing.
+    pub statements: Vec<Statement>,
+}
+
+/// Working precision (bits) for heights and periods in reports.
+const PRECISION: u64 = 128;
+
+pub(crate) fn compute(report: &RankReport, budget: &Budget) -> Evidence {
+    let mut st: Vec<Statement> = Vec::new();
+    let proven = |claim: String| Statement { claim, standing: Standing::Proven };
+    // rank
+    match (report.rank_lower, report.rank_upper) {
+        (Some(l), Some(u)) if l == u => st.push(proven(format!("the rank is {l} (2-descent: the lower and upper bounds meet)"))),
+        (Some(l), Some(u)) => st.push(proven(format!("{l} <= rank <= {u} (2-descent)"))),
+        (Some(l), None) => st.push(proven(format!("rank >= {l} (independent points; no upper bound finished)"))),
+        _ => {}
+    }
+    if let Some(s) = report.selmer2_dim {
+        st.push(proven(format!("dim Sel^2(E) = {s}")));
+    }
+    // root number and parity
+    let limits = crate::arith::FactorLimits { deadline: budget.deadline, cancel: budget.cancel.clone() };
+    let w = crate::rootno::root_number_with_limits(&report.minimal, &limits).ok().map(|r| r.global);
+    if let Some(w) = w {
+        st.push(proven(format!("the root number is {w} (local root numbers: Rohrlich 1993; Halberstadt 1998 and Rizzo 2003 at 2 and 3)")));
+        if let Some(s) = report.selmer2_dim {
+            let t = report.torsion.iter().filter(|n| *n % 2 == 0).count();
+            let par = (s - t) % 2;
+            let wpar = usize::from(w == -1);
+            st.push(proven(format!(
+                "dim Sel^2(E) - dim E(Q)[2] = {} has the parity (1 - w)/2 = {wpar} (Monsky 1996){}",
+                s - t,
+                if par == wpar { "" } else { ": MISMATCH, please report" }
+            )));
+        }
+        if let Some(r) = report.rank() {
+            let ok = (r % 2 == 1) == (w == -1);
+            st.push(Statement {
+                claim: format!("(-1)^rank = {} {} w = {w}", if r % 2 == 0 { 1 } else { -1 }, if ok { "equals" } else { "differs from" }),
+                standing: Standing::Conditional("the parity conjecture (not a theorem; the observed agreement is evidence)".into()),
+            });
+        } else if let (Some(l), Some(u)) = (report.rank_lower, report.rank_upper) {
+            if u > l {
+                let wpar = usize::from(w == -1);
+                st.push(Statement {
+                    claim: format!("the rank has parity {wpar}, so it lies in {{{}}}", (l..=u).filter(|r| r % 2 == wpar).map(|r| r.to_string()).collect::<Vec<_>>().join(", ")),
+                    standing: Standing::Conditional("the parity conjecture (implied by finiteness of Sha)".into()),
+                });
+            }
+        }
+    }
+    // periods and Tamagawa numbers
+    let real_period = PeriodLattice::compute(&report.minimal, PRECISION).ok().map(|p| p.real_period_f64());
+    if let Some(om) = real_period {
+        st.push(Statement { claim: format!("the real period is {om:.12} (AGM, {PRECISION}-bit floats)"), standing: Standing::Numerical });
+    }
+    let tamagawa: Vec<(Natural, u32)> = report.local.iter().map(|d| (d.prime.clone(), d.tamagawa)).collect();
+    // heights, regulator, saturation
+    let on_min: Vec<Point> = report
+        .points
+        .iter()
+        .filter_map(|p| match p {
+            Point::Affine(x, y) => report.change.map_point(&(x.clone(), y.clone())).ok().map(|(x, y)| Point::Affine(x, y)),
+            Point::Infinity => None,
+        })
+        .collect();
+    let mut ev = Evidence {
+        root_number: w,
+        generators: None,
+        reduced_points: report.points.clone(),
+        heights: vec![],
+        regulator: if report.rank() == Some(0) { Some(1.0) } else { None },
+        saturation: None,
+        real_period,
+        tamagawa,
+        analytic_rank: None,
+        leading_value: None,
+        sha_analytic: None,
+        statements: vec![],
+    };
+    if !on_min.is_empty() && on_min.len() == report.points.len() {
+        let opts = SaturationOptions { deadline: budget.deadline, ..SaturationOptions::default() };
+        if let Ok(b) = mordell_weil_basis(&report.minimal, &on_min, &report.local, PRECISION, &opts) {
+            let back: Vec<Point> = b.generators.iter().map(|p| super::analyse::unmap(&report.change, p)).collect();
+            if back.iter().all(|p| report.input.contains(p)) && back.len() == on_min.len() {
+                ev.heights = b.heights.iter().map(crate::heights::float_to_f64).collect();
+                ev.regulator = Some(b.regulator_f64());
+                st.push(Statement {
+                    claim: format!("the regulator of the points is {:.12} (canonical heights, {PRECISION}-bit floats)", b.regulator_f64()),
+                    standing: Standing::Numerical,
+                });
+                st.push(Statement {
+                    claim: format!("the points are {}", b.saturation),
+                    standing: if b.saturation.is_saturated() { Standing::Proven } else { Standing::Numerical },
+                });
+                if b.saturation.is_saturated() && report.rank() == Some(back.len()) {
+                    st.push(proven(format!("the {} point(s) with the torsion generate E(Q)", back.len())));
+                    ev.generators = Some(back.clone());
+                }
+                ev.reduced_points = back;
+                ev.saturation = Some(b.saturation);
+            }
+        }
+    } else if report.rank() == Some(0) {
+        ev.generators = Some(vec![]);
+    }
+    ev.statements = st;
+    ev
+}
