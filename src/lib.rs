@@ -6,6 +6,7 @@ pub mod budget;
 pub mod curve;
 pub mod descent;
 pub mod local;
+pub mod lseries;
 pub mod quartic;
 pub mod report;
 pub mod rootno;
