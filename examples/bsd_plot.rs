@@ -30,7 +30,7 @@ fn main() {
         fail("too few primes for a plot");
     }
     let title = format!(
-        "{text} (conductor {n}): log prod_(q<=p) #E(F_q)/q against log log p, p <= {bound}; slope {:.3} (fit over p >= {FIT_FROM})",
+        "E = {text}, N = {n}: log prod_(q<=p) #E(F_q)/q vs log log p, p <= {bound}: slope {:.3} (fit p >= {FIT_FROM})",
         g.slope
     );
     std::fs::write(out, svg(&pts, g.slope, g.intercept, &title)).unwrap_or_else(|e| fail(&e.to_string()));
@@ -43,7 +43,7 @@ fn fail(msg: &str) -> ! {
 }
 
 fn svg(pts: &[(f64, f64)], slope: f64, intercept: f64, title: &str) -> String {
-    let (w, h, pad) = (800.0, 500.0, 60.0);
+    let (w, h, pad) = (900.0, 520.0, 60.0);
     let (x0, x1) = (pts[0].0, pts[pts.len() - 1].0);
     let (mut y0, mut y1) = pts.iter().fold((f64::MAX, f64::MIN), |(a, b), p| (a.min(p.1), b.max(p.1)));
     for x in [x0, x1] {

@@ -81,7 +81,7 @@ impl PointCounter {
     /// assert_eq!(c.trace(2), -2); // 389a1: a_2 = -2 (Cremona's table, from memory)
     /// ```
     pub fn trace(&mut self, p: u64) -> i64 {
-        assert!(p >= 2 && p < (1 << 32), "point counts need a prime below 2^32");
+        assert!((2..(1 << 32)).contains(&p), "point counts need a prime below 2^32");
         if p == 2 {
             let a: Vec<u64> = self.ainv.iter().map(|c| residue(c, 2)).collect();
             let mut count = 1i64; // the point at infinity

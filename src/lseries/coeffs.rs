@@ -51,7 +51,7 @@ pub(crate) fn coefficients_from(counter: &mut PointCounter, bad: &[(u64, i64)], 
         }
         let mut q = n / p;
         let mut pk = p;
-        while q % p == 0 {
+        while q.is_multiple_of(p) {
             q /= p;
             pk *= p;
         }

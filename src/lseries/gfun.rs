@@ -87,7 +87,7 @@ fn series(x: f64) -> GValues {
             break;
         }
         // (-1)^{n+r}
-        let s1 = if n % 2 == 0 { -1.0 } else { 1.0 };
+        let s1 = if n.is_multiple_of(2) { -1.0 } else { 1.0 };
         value[1] += s1 * t1;
         value[2] -= s1 * t2;
         value[3] += s1 * t3;

@@ -437,7 +437,7 @@ pub fn analytic_rank(curve: &Curve, conductor: &Natural, w: i8) -> Result<Analyt
 /// let e = Curve::from_ainvs([0, 0, 8, -16, 0]).unwrap();
 /// let (m, n, w) = minimal_conductor_sign(&e).unwrap();
 /// assert_eq!(m, Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap());
-/// assert_eq!((n, w), (37u32.into(), -1));
+/// assert_eq!((&n, w), (&37u32.into(), -1));
 /// assert_eq!(analytic_rank(&m, &n, w).unwrap().rank, 1);
 /// ```
 pub fn minimal_conductor_sign(curve: &Curve) -> Result<(Curve, Natural, i8), Error> {
