@@ -36,8 +36,10 @@
 //!
 //! The bound is "rigorous-ish": it follows the operations in `f64` with the
 //! standard model of rounding, but is not machine-checked interval
-//! arithmetic. For conductors up to `10^7` the bounds come out near
-//! `10^-13` or below for values of size about one; see the tests.
+//! arithmetic. Measured in `tests/lseries.rs`: for conductors up to about
+//! `10^7` the bounds stay below `2·10^-11` absolute (`10^-13`-`10^-14` for
+//! `L(E, 1)`, `10^-12` for `L'`, `10^-11` for `L'''` of size 100), so
+//! relative `10^-10` for every value above `0.2`.
 
 mod coeffs;
 mod gfun;
