@@ -209,3 +209,25 @@ fn isogenous_curves_share_their_values() {
     }
     assert!(compared > 100, "{compared}");
 }
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig::with_cases(64))]
+    /// The shared point counter against brute force over F_p^2 (any model,
+    /// singular reductions included: both count the affine solutions plus one).
+    #[test]
+    fn point_counter_matches_brute_force(a in proptest::array::uniform5(-60i64..60), i in 0usize..60) {
+        let Ok(e) = Curve::from_ainvs(a) else { return Ok(()) };
+        let p = twofold::arith::primes_up_to(300)[i];
+        let mut naive = 1u64;
+        let r = |v: i64| v.rem_euclid(p as i64) as u64;
+        let [a1, a2, a3, a4, a6] = a.map(r);
+        for x in 0..p {
+            for y in 0..p {
+                let lhs = (y * y + a1 * x % p * y + a3 * y) % p;
+                let rhs = (x * x % p * x + a2 * x % p * x + a4 * x + a6) % p;
+                naive += u64::from(lhs == rhs);
+            }
+        }
+        proptest::prop_assert_eq!(twofold::curve::PointCounter::new(&e).count(p), naive);
+    }
+}

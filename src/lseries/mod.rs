@@ -115,6 +115,25 @@ pub enum RankBasis {
     NumericalZeros,
 }
 
+impl RankBasis {
+    /// A sentence saying what an analytic rank with this basis rests on, for
+    /// reports.
+    ///
+    /// ```
+    /// use twofold::lseries::RankBasis;
+    /// assert!(RankBasis::NumericalZeros.statement().starts_with("numerical"));
+    /// ```
+    pub fn statement(&self) -> &'static str {
+        match self {
+            RankBasis::NonZeroValue => {
+                "proven up to the numerical error bound: the lower value vanishes by the sign of the functional \
+                 equation and the leading value is bounded away from zero"
+            }
+            RankBasis::NumericalZeros => "numerical: the lower derivatives are zero to the accuracy reached",
+        }
+    }
+}
+
 /// The analytic rank with the values it was read from.
 ///
 /// ```
@@ -563,9 +582,10 @@ pub struct EulerProductGrowth {
     pub points: Vec<(f64, f64)>,
     /// The least-squares slope of `log ∏` against `log log p` over the
     /// points with `p >= FIT_FROM` (the conjecture's heuristic: `∏ ~ C (log p)^r`,
-    /// so the slope should approach the rank `r`, slowly and noisily).
+    /// so the slope should approach the rank `r`, slowly and noisily). NaN
+    /// when fewer than two primes from `FIT_FROM` on are in range.
     pub slope: f64,
-    /// The intercept of the same fit.
+    /// The intercept of the same fit (NaN with the slope).
     pub intercept: f64,
 }
 
