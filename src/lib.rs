@@ -98,6 +98,7 @@ pub mod descent;
 pub mod heights;
 pub mod isogeny;
 pub mod local;
+pub mod lseries;
 pub mod quartic;
 pub mod report;
 pub mod rootno;

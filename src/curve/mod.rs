@@ -8,3 +8,4 @@ mod reduction;
 pub use model::{Curve, ModelChange};
 pub use parse::{parse_ainvs, parse_rational, MAX_INPUT_LEN};
 pub use point::Point;
+pub use reduction::PointCounter;

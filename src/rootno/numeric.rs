@@ -21,11 +21,9 @@
 //! (coefficients or conductor) is inconsistent and an error is returned.
 
 use super::Setup;
-use crate::arith::primes_up_to;
+use crate::curve::PointCounter;
 use crate::error::{Error, ErrorKind};
 use crate::local::Reduction;
-use malachite::base::num::arithmetic::traits::Mod;
-use malachite::Integer;
 
 /// Conductors up to this bound get the numerical test as a cross-check of
 /// the local formulas in [`root_number`](super::root_number) (about
@@ -164,9 +162,8 @@ fn theta(a: &[i64], c: f64) -> Theta {
 
 /// The Dirichlet coefficients `a_1 .. a_M` of `L(E, s)`, grown on demand.
 struct Coefficients {
-    /// `b2, b4, b6` and `a1 .. a6` of the global minimal model.
-    b: [Integer; 3],
-    ainv: [Integer; 5],
+    /// The point counter of the global minimal model.
+    counter: PointCounter,
     /// `(p, a_p)` at the bad primes.
     bad: Vec<(u64, i64)>,
     a: Vec<i64>,
@@ -174,13 +171,7 @@ struct Coefficients {
 
 impl Coefficients {
     fn new(minimal: &crate::curve::Curve, bad: Vec<(u64, i64)>) -> Coefficients {
-        let bi = minimal.binvs();
-        Coefficients {
-            b: [bi[0].clone(), bi[1].clone(), bi[2].clone()],
-            ainv: minimal.ainvs().clone(),
-            bad,
-            a: vec![0, 1],
-        }
+        Coefficients { counter: PointCounter::new(minimal), bad, a: vec![0, 1] }
     }
 
     fn extend_to(&mut self, m: usize) {
@@ -189,109 +180,7 @@ impl Coefficients {
         }
         // Recompute from scratch to a comfortable size.
         let m = m + m / 8 + 16;
-        let mut ap = vec![0i64; m + 1];
-        let mut is_bad = vec![false; m + 1];
-        for &(p, v) in &self.bad {
-            if (p as usize) <= m {
-                ap[p as usize] = v;
-                is_bad[p as usize] = true;
-            }
-        }
-        let mut chi: Vec<i8> = Vec::new();
-        let primes = primes_up_to(m as u64);
-        for &p in &primes {
-            if !is_bad[p as usize] {
-                ap[p as usize] = self.trace(p, &mut chi);
-            }
-        }
-        // Smallest prime factors.
-        let mut spf = vec![0u32; m + 1];
-        for &p in &primes {
-            let p = p as usize;
-            let mut k = p;
-            while k <= m {
-                if spf[k] == 0 {
-                    spf[k] = p as u32;
-                }
-                k += p;
-            }
-        }
-        let mut a = vec![0i64; m + 1];
-        if m >= 1 {
-            a[1] = 1;
-        }
-        for n in 2..=m {
-            let p = spf[n] as usize;
-            if p == n {
-                a[n] = ap[p];
-                continue;
-            }
-            let mut q = n / p;
-            let mut pk = p;
-            while q.is_multiple_of(p) {
-                q /= p;
-                pk *= p;
-            }
-            a[n] = if q > 1 {
-                a[pk] * a[q]
-            } else if is_bad[p] {
-                // n = p^k at a bad prime: a_{p^k} = a_p^k
-                ap[p] * a[n / p]
-            } else {
-                // n = p^k at a good prime: a_{p^k} = a_p a_{p^{k-1}} - p a_{p^{k-2}}
-                ap[p] * a[n / p] - (p as i64) * a[n / p / p]
-            };
-        }
-        self.a = a;
-    }
-
-    /// `a_p = p + 1 - #E(F_p)` at a good prime `p`, by counting `O(p)`.
-    fn trace(&self, p: u64, chi: &mut Vec<i8>) -> i64 {
-        let pi = Integer::from(p);
-        let red = |n: &Integer| -> u64 { u64::try_from(&n.mod_op(&pi)).expect("a residue fits a word") };
-        if p == 2 {
-            let a: Vec<u64> = self.ainv.iter().map(red).collect();
-            let mut count = 1i64; // the point at infinity
-            for x in 0..2u64 {
-                for y in 0..2u64 {
-                    let lhs = (y * y + a[0] * x * y + a[2] * y) % 2;
-                    let rhs = (x * x * x + a[1] * x * x + a[3] * x + a[4]) % 2;
-                    if lhs == rhs {
-                        count += 1;
-                    }
-                }
-            }
-            return 3 - count;
-        }
-        // Odd p: (2y + a1 x + a3)^2 = 4x^3 + b2 x^2 + 2 b4 x + b6 =: f(x), so
-        // #E(F_p) = p + 1 + Σ_x (f(x)/p) and a_p = -Σ_x (f(x)/p).
-        let (b2, b4, b6) = (red(&self.b[0]), red(&self.b[1]), red(&self.b[2]));
-        let pu = p as usize;
-        chi.clear();
-        chi.resize(pu, -1);
-        chi[0] = 0;
-        for s in 1..=(p / 2) {
-            chi[(s * s % p) as usize] = 1;
-        }
-        // f(x) = A x^3 + B x^2 + C x + D by forward differences:
-        // Δf(0) = A + B + C, Δ²f(0) = 6A + 2B, Δ³f = 6A.
-        let (ca, cb, cc) = (4 % p, b2, 2 * b4 % p);
-        let add = |u: u64, v: u64| -> u64 {
-            let w = u + v;
-            if w >= p { w - p } else { w }
-        };
-        let mut f = b6;
-        let mut d1 = (ca + cb + cc) % p;
-        let mut d2 = (6 * ca + 2 * cb) % p;
-        let d3 = 6 * ca % p;
-        let mut total = 0i64;
-        for _ in 0..p {
-            total += i64::from(chi[f as usize]);
-            f = add(f, d1);
-            d1 = add(d1, d2);
-            d2 = add(d2, d3);
-        }
-        -total
+        self.a = crate::lseries::coefficients_from(&mut self.counter, &self.bad, m);
     }
 }
 
@@ -329,18 +218,6 @@ mod tests {
             }
         }
         assert_eq!(coeffs([0, -1, 1, -10, -20], vec![(11, 1)], m), f);
-    }
-
-    #[test]
-    fn trace_matches_point_count() {
-        let e = Curve::from_ainvs([1, -1, 1, -29, 53]).unwrap();
-        let c = Coefficients::new(&e, vec![]);
-        let mut chi = Vec::new();
-        for p in primes_up_to(300) {
-            if e.discriminant().clone() % Integer::from(p) != 0 {
-                assert_eq!(c.trace(p, &mut chi), e.trace_of_frobenius(p), "p = {p}");
-            }
-        }
     }
 
     #[test]
