@@ -3,6 +3,7 @@
 
 pub mod arith;
 pub mod budget;
+pub mod certificate;
 pub mod curve;
 pub mod descent;
 pub mod local;
