@@ -241,3 +241,30 @@ fn text_form_round_trips_and_rejects_garbage() {
         assert!(matches!(Certificate::from_text(&broken), Err(CertificateError::Malformed { line: 3, .. })));
     }
 }
+
+#[test]
+fn rejects_an_unsupported_lower_bound() {
+    // dropping a point leaves the claimed lower bound unproved (37a1, rank 1, Cremona's table)
+    let c = certificate([0, 0, 1, -1, 0]);
+    let mut bad = c.clone();
+    bad.points.clear();
+    bad.quartic.as_mut().unwrap().classes.iter_mut().for_each(|cl| cl.lift = None);
+    assert!(rejected(&bad));
+    // and a claimed upper bound below the Selmer bound is refused (389a1, rank 2)
+    let c = certificate([0, 1, 1, -2, 0]);
+    let mut bad = c.clone();
+    bad.rank_upper = Some(1);
+    bad.rank_lower = Some(1);
+    assert!(rejected(&bad));
+}
+
+#[test]
+fn isogeny_route_needs_no_trust() {
+    // y^2 = x^3 - x (32a2, rank 0) and y^2 = x^3 - 82x (rank 3, from memory):
+    // every insolubility claim of the local tables is proved by the finite search
+    for a in [[0, 0, 0, -1, 0], [0, 0, 0, -82, 0]] {
+        let v = verify(&certificate(a)).unwrap();
+        assert!(v.rank_fully_checked(), "{a:?}: {:?}", v.trusted);
+        assert!(v.insolubility_proved > 0);
+    }
+}

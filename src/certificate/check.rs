@@ -211,22 +211,20 @@ impl Model {
     }
     /// `P + Q` with `None` for the point at infinity.
     pub fn add(&self, p: &Option<(Rational, Rational)>, q: &Option<(Rational, Rational)>) -> Option<(Rational, Rational)> {
-        let [a1, a2, a3, a4, a6] = &self.a;
-        let _ = a6;
+        let [a1, a2, a3, a4, _] = &self.a;
         let (Some((x1, y1)), Some((x2, y2))) = (p, q) else {
             return p.clone().or(q.clone());
         };
-        let lambda;
-        if x1 == x2 {
+        let lambda = if x1 == x2 {
             let yneg = -y1 - a1 * x1 - a3;
             if *y2 == yneg {
                 return None;
             }
             let den = Rational::from(2) * y1 + a1 * x1 + a3;
-            lambda = (Rational::from(3) * x1 * x1 + Rational::from(2) * a2 * x1 + a4 - a1 * y1) / den;
+            (Rational::from(3) * x1 * x1 + Rational::from(2) * a2 * x1 + a4 - a1 * y1) / den
         } else {
-            lambda = (y2 - y1) / (x2 - x1);
-        }
+            (y2 - y1) / (x2 - x1)
+        };
         let nu = y1 - &lambda * x1;
         let x3 = &lambda * &lambda + a1 * &lambda - a2 - x1 - x2;
         let y3 = -(&lambda + a1) * &x3 - &nu - a3;
