@@ -9,6 +9,9 @@ use malachite::{Integer, Natural, Rational};
 
 /// `v_p(n)` and the unit part `n / p^v` of a non-zero integer.
 pub(crate) fn split(n: &Integer, p: &Integer) -> (u64, Integer) {
+    if *p <= 1u32 {
+        return (0, n.clone());
+    }
     let mut u = n.clone();
     let mut v = 0u64;
     while u != 0u32 && (&u).divisible_by(p) {
@@ -394,3 +397,4 @@ mod tests {
         assert_eq!(f2_rank(&[0b11, 0b01, 0b10]), 2);
     }
 }
+

@@ -382,7 +382,7 @@ pub fn verify(c: &Certificate) -> Result<VerifiedClaims, CertificateError> {
         }
     };
     for (k, run) in c.isogeny.iter().enumerate() {
-        let (lo, up) = verify_run(&mut ctx, &min, &c4, &c6, &b2, run, k)?;
+        let (lo, up) = verify_run(&mut ctx, &min, &c4, &c6, &b2, &c.primes, run, k)?;
         lower = lower.max(lo);
         if let Some(u) = up {
             keep_upper(u, UpperBoundBasis::IsogenySelmer, &mut upper);
@@ -571,12 +571,14 @@ fn side_to_minimal(min: &Model, b2: &Integer, x0: &Integer, u: &Integer, x: &Rat
     (ex, ey)
 }
 
+#[allow(clippy::too_many_arguments)]
 fn verify_run(
     ctx: &mut Ctx,
     min: &Model,
     c4: &Integer,
     c6: &Integer,
     b2: &Integer,
+    primes: &[Natural],
     run: &IsogenyProof,
     k: usize,
 ) -> Result<(usize, Option<usize>), CertificateError> {
@@ -609,7 +611,7 @@ fn verify_run(
     let mut sels: [Option<usize>; 2] = [None, None];
     for (side_k, side) in run.sides.iter().enumerate() {
         let what = format!("{what}, side {}", if side_k == 0 { "E" } else { "E'" });
-        let (dim, sel) = verify_side(ctx, side, &bb, &what)?;
+        let (dim, sel) = verify_side(ctx, side, &bb, primes, &what)?;
         dims[side_k] = dim;
         sels[side_k] = sel;
         // the recorded points, moved to the minimal model
@@ -651,17 +653,30 @@ fn verify_run(
 }
 
 /// Checks one side; returns (dim of the span of the known images, Selmer dimension if complete).
-fn verify_side(ctx: &mut Ctx, side: &SideProof, bb: &Integer, what: &str) -> Result<(usize, Option<usize>), CertificateError> {
+fn verify_side(
+    ctx: &mut Ctx,
+    side: &SideProof,
+    bb: &Integer,
+    primes: &[Natural],
+    what: &str,
+) -> Result<(usize, Option<usize>), CertificateError> {
     let (a, b) = (&side.a, &side.b);
     let model = Model::new(&[Integer::ZERO, a.clone(), Integer::ZERO, b.clone(), Integer::ZERO]);
     // the places and the primes of b
     let place_primes: Vec<Natural> =
         side.local.iter().filter_map(|t| if let Place::Prime(p) = &t.place { Some(p.clone()) } else { None }).collect();
-    let side_primes: Vec<Integer> = place_primes
-        .iter()
-        .map(|p| Integer::from(p.clone()))
-        .filter(|p| b.mod_op(p) == 0u32)
-        .collect();
+    // the primes of b are among those of 6 Δ (disc of the side model = 16 b^2 (a^2 - 4b))
+    let mut side_primes: Vec<Integer> = Vec::new();
+    for p in place_primes.iter().chain(primes).cloned().chain([Natural::from(2u32), Natural::from(3u32)]) {
+        let p = Integer::from(p);
+        if p > 1u32 && b.mod_op(&p) == 0u32 && !side_primes.contains(&p) {
+            side_primes.push(p);
+        }
+    }
+    side_primes.sort();
+    if side_primes.len() > 62 {
+        return reject(format!("{what}: too many primes"));
+    }
     // images of torsion, T and the recorded points
     let mut span: Vec<u64> = Vec::new();
     let vec_of = |r: &Rational| square_class_vector(r, &side_primes);
