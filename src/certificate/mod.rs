@@ -33,6 +33,7 @@
 //! let again = Certificate::from_text(&cert.to_text()).unwrap();
 //! assert_eq!(again, cert);
 //! ```
+#![deny(missing_docs)]
 
 mod check;
 mod text;
