@@ -227,9 +227,9 @@ pub struct IsogenyProof {
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct QuarticProof {
-    /// The claimed dim Sel^2(E) (including E(Q)[2]).
+    /// The claimed dim Sel^2(E) (including `E(Q)[2]`).
     pub selmer_dim: Option<usize>,
-    /// The claimed dim E(Q)[2].
+    /// The claimed dim `E(Q)[2]`.
     pub two_torsion_dim: usize,
     /// How many GL2(Z)-classes the enumeration produced.
     pub enumerated: usize,

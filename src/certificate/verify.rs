@@ -92,7 +92,7 @@ pub struct VerifiedClaims {
     pub upper_bound: Option<usize>,
     /// What that upper bound rests on.
     pub upper_bound_basis: Option<UpperBoundBasis>,
-    /// dim E(Q)[2].
+    /// dim `E(Q)[2]`.
     pub two_torsion_dim: usize,
     /// How many rational points were checked on their curves.
     pub points_checked: usize,
@@ -246,7 +246,7 @@ fn apply_change(a: &[Rational; 5], c: &[Rational; 4]) -> [Rational; 5] {
 ///   the sufficient condition `v(Δ) < 12`, `v(c4) < 4` or `v(c6) < 6`,
 ///   otherwise taken on trust);
 /// * every point lies on its curve; torsion points have order at most 16;
-///   dim E(Q)[2] is confirmed (the cubic has no further rational root);
+///   dim `E(Q)[2]` is confirmed (the cubic has no further rational root);
 /// * the points of infinite order are independent modulo torsion: their
 ///   images, with the torsion, under quadratic characters
 ///   `P -> (x(P) - r | q)` for roots `r` of the 2-division cubic modulo good
@@ -313,7 +313,7 @@ pub fn verify(c: &Certificate) -> Result<VerifiedClaims, CertificateError> {
     if (&rest).unsigned_abs() != 1u32 {
         return reject(format!("the listed primes leave the cofactor {rest} of the discriminant"));
     }
-    // ---- torsion and dim E(Q)[2] ----
+    // ---- torsion and dim `E(Q)[2]` ----
     let [a1, _, a3, _, _] = &min.a;
     let mut two_torsion = Vec::new();
     for (x, y) in &c.torsion {
@@ -854,7 +854,7 @@ fn verify_quartic(
 ) -> Result<Option<(usize, String)>, CertificateError> {
     let what = "quartic route";
     if qp.two_torsion_dim != t {
-        return reject(format!("{what}: dim E(Q)[2] is {t}, not {}", qp.two_torsion_dim));
+        return reject(format!("{what}: dim `E(Q)[2]` is {t}, not {}", qp.two_torsion_dim));
     }
     let j = Integer::from(2) * c6;
     let mut places = vec![Place::Real, Place::Prime(Natural::from(2u32)), Place::Prime(Natural::from(3u32))];
@@ -919,7 +919,7 @@ fn verify_quartic(
         return reject(format!("{what}: the Selmer group is smaller than E(Q)[2]"));
     }
     if qp.upper != Some(s - t) {
-        return reject(format!("{what}: the claimed upper bound {:?} is not dim Sel^2 - dim E(Q)[2] = {}", qp.upper, s - t));
+        return reject(format!("{what}: the claimed upper bound {:?} is not dim Sel^2 - dim `E(Q)[2]` = {}", qp.upper, s - t));
     }
     let accounted = qp.classes.len() + qp.ruled_out.len();
     if qp.enumerated < accounted {
