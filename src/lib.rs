@@ -91,6 +91,7 @@
 pub mod arith;
 pub mod batch;
 pub mod budget;
+pub mod certificate;
 pub mod curve;
 #[cfg(feature = "serde")]
 pub mod decimal_serde;

@@ -1,0 +1,521 @@
+//! Rank certificates: a self-contained record of the proof behind a
+//! [`RankReport`], and an independent exact check of it.
+//!
+//! A [`Certificate`] holds the curve (input model, global minimal model and
+//! the change between them), the bad primes, the torsion points and the
+//! points of infinite order (on the minimal model), and for every descent
+//! route that ran the Selmer data: local images with a local point for
+//! each soluble class, every everywhere locally soluble class with a local
+//! point at every place that matters, the classes ruled out with the place
+//! where they fail, and the points that explain classes.
+//!
+//! [`verify`] re-checks a certificate with its own small exact arithmetic
+//! (module `check`), never calling the solubility, descent or quartic code
+//! that produced it, and returns the [`VerifiedClaims`]: the rank bounds it
+//! could establish and the list of statements it took on trust (published
+//! theorems, the completeness of the quartic enumeration, and local
+//! insolubility claims its finite search could not settle).
+//!
+//! [`Certificate::to_text`] and [`Certificate::from_text`] store a
+//! certificate as a line-oriented text (one record per line, see
+//! [`Certificate::to_text`]) so that it can be checked later.
+//!
+//! ```
+//! use twofold::{analyse, Curve, RankOptions};
+//! use twofold::certificate::{verify, Certificate};
+//! // y^2 = x^3 - 25x: rank 1 (5 is a congruent number; OEIS A003273)
+//! let e = Curve::from_ainvs([0, 0, 0, -25, 0]).unwrap();
+//! let report = analyse(&e, &RankOptions::default()).unwrap();
+//! let cert = Certificate::from_report(&report).unwrap();
+//! let claims = verify(&cert).unwrap();
+//! assert_eq!((claims.lower_bound, claims.upper_bound), (1, Some(1)));
+//! assert_eq!(claims.rank(), Some(1));
+//! let again = Certificate::from_text(&cert.to_text()).unwrap();
+//! assert_eq!(again, cert);
+//! ```
+#![deny(missing_docs)]
+
+mod check;
+mod text;
+mod verify;
+
+pub use verify::{verify, CertificateError, UpperBoundBasis, VerifiedClaims};
+
+use crate::curve::{Curve, Point};
+use crate::error::{Error, ErrorKind};
+use crate::report::RankReport;
+use crate::solubility::{local_witness, LocalWitness, Place};
+use malachite::base::num::arithmetic::traits::DivisibleBy;
+use malachite::base::num::basic::traits::One;
+use malachite::{Integer, Natural, Rational};
+
+/// A local point on `y^2 = g(x, z)`: a primitive integer pair `(x, z)` with
+/// `g(x, z)` a non-zero square in `Q_p` (positive at the real place).
+///
+/// `precision` is the `k` for which every pair congruent to `(x, z)` modulo
+/// `p^k` is again a local point: `v_p(g(x, z)) + 1` for odd `p`,
+/// `v_2(g(x, z)) + 3` for `p = 2` (Hensel's lemma for `y^2 = n`), and `0`
+/// at the real place.
+///
+/// ```
+/// use malachite::{Integer, Natural};
+/// use twofold::certificate::LocalPoint;
+/// use twofold::solubility::Place;
+/// // g = x^4 + 7 z^4 at (1, 2): g = 113 = 1 mod 8, a 2-adic unit square
+/// let w = LocalPoint { place: Place::Prime(Natural::from(2u32)), x: Integer::from(1), z: Integer::from(2), precision: 3 };
+/// assert_eq!(w.precision, 3);
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct LocalPoint {
+    /// The place.
+    pub place: Place,
+    /// First coordinate.
+    pub x: Integer,
+    /// Second coordinate.
+    pub z: Integer,
+    /// Precision `k` (see the type documentation).
+    pub precision: u64,
+}
+
+/// An element of a Selmer group: its covering quartic, a local point at
+/// every place that matters and, when known, a rational point on it.
+///
+/// For the isogeny route `label` is the square-free `d` and the quartic is
+/// `d M^4 + a M^2 e^2 + (b/d) e^4`; for the quartic route `label` is `None`.
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::certificate::SelmerClass;
+/// let c = SelmerClass { label: Some(Integer::from(-1)), quartic: [-1, 0, 0, 0, 25].map(Integer::from), local_points: vec![], lift: None };
+/// assert!(c.lift.is_none());
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct SelmerClass {
+    /// The square-free integer of the class (isogeny route).
+    pub label: Option<Integer>,
+    /// The quartic `[a, b, c, d, e]` of `y^2 = a x^4 + b x^3 z + ... + e z^4`.
+    pub quartic: [Integer; 5],
+    /// A local point at every place.
+    pub local_points: Vec<LocalPoint>,
+    /// A rational point on the covering and its image on the minimal model.
+    pub lift: Option<Lift>,
+}
+
+/// A rational point `(x, z, y)` on `y^2 = g(x, z)` with its image under the
+/// covering map on the minimal model (quartic route).
+///
+/// ```
+/// use malachite::{Integer, Rational};
+/// use twofold::certificate::Lift;
+/// let l = Lift { x: Integer::from(0), z: Integer::from(1), y: Integer::from(1), image: (Rational::from(0), Rational::from(0)) };
+/// assert_eq!(l.z, 1);
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Lift {
+    /// First coordinate on the covering.
+    pub x: Integer,
+    /// Second coordinate on the covering.
+    pub z: Integer,
+    /// `y` with `y^2 = g(x, z)`.
+    pub y: Integer,
+    /// The image on the minimal model (up to sign).
+    pub image: (Rational, Rational),
+}
+
+/// The local image at one place on one side of a 2-isogeny: one
+/// representative of every class of `Q_v*/Q_v*^2`, split into soluble
+/// (with a local point on `c^2 (c M^4 + a M^2 e^2 + (b/c) e^4)`) and
+/// insoluble ones.
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::certificate::LocalTable;
+/// use twofold::solubility::Place;
+/// let t = LocalTable { place: Place::Real, soluble: vec![], insoluble: vec![Integer::from(-1)] };
+/// assert_eq!(t.insoluble.len(), 1);
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct LocalTable {
+    /// The place.
+    pub place: Place,
+    /// Soluble representatives with a local point.
+    pub soluble: Vec<(Integer, LocalPoint)>,
+    /// Insoluble representatives.
+    pub insoluble: Vec<Integer>,
+}
+
+/// A point on a side model `y^2 = x(x^2 + a x + b)` with its claimed image
+/// `d` under the connecting map (`x` modulo squares).
+///
+/// ```
+/// use malachite::{Integer, Rational};
+/// use twofold::certificate::SideImage;
+/// let s = SideImage { class: Integer::from(-1), x: Rational::from(-4), y: Rational::from(6) };
+/// assert_eq!(s.class, -1);
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct SideImage {
+    /// The claimed square class.
+    pub class: Integer,
+    /// x on the side model.
+    pub x: Rational,
+    /// y on the side model.
+    pub y: Rational,
+}
+
+/// One side `y^2 = x(x^2 + a x + b)` of a 2-isogeny descent.
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::certificate::SideProof;
+/// let s = SideProof { a: Integer::from(0), b: Integer::from(-25), selmer_dim: Some(2), torsion: vec![], local: vec![], classes: vec![], images: vec![] };
+/// assert_eq!(s.selmer_dim, Some(2));
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct SideProof {
+    /// `a` of the side model.
+    pub a: Integer,
+    /// `b` of the side model.
+    pub b: Integer,
+    /// The claimed dimension of the Selmer group (`None` if not computed).
+    pub selmer_dim: Option<usize>,
+    /// The torsion points of the side model (affine).
+    pub torsion: Vec<(Rational, Rational)>,
+    /// Local images at every place tested.
+    pub local: Vec<LocalTable>,
+    /// A basis of the Selmer group, each with local points on its covering.
+    pub classes: Vec<SelmerClass>,
+    /// Points of the side model with their images.
+    pub images: Vec<SideImage>,
+}
+
+/// The record of one descent via a 2-isogeny.
+///
+/// The side model comes from the minimal model by
+/// `X = 36 x + 3 b2 = u^2 x'' + x0`, `Y = 108 (2 y + a1 x + a3) = u^3 y''`,
+/// which sends the kernel point to `(0, 0)`.
+///
+/// ```
+/// use malachite::{Integer, Rational};
+/// use twofold::certificate::{IsogenyProof, SideProof};
+/// let side = SideProof { a: Integer::from(0), b: Integer::from(-25), selmer_dim: None, torsion: vec![], local: vec![], classes: vec![], images: vec![] };
+/// let p = IsogenyProof { kernel: (Rational::from(0), Rational::from(0)), x0: Integer::from(0), u: Integer::from(6), sides: [side.clone(), side], lower: 0, upper: None };
+/// assert_eq!(p.u, 6);
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct IsogenyProof {
+    /// The kernel point on the minimal model.
+    pub kernel: (Rational, Rational),
+    /// `x0` of the change to the side model.
+    pub x0: Integer,
+    /// `u` of the change to the side model.
+    pub u: Integer,
+    /// The sides E and E'.
+    pub sides: [SideProof; 2],
+    /// The claimed lower bound of this route.
+    pub lower: usize,
+    /// The claimed upper bound of this route.
+    pub upper: Option<usize>,
+}
+
+/// The record of the full 2-descent.
+///
+/// ```
+/// use twofold::certificate::QuarticProof;
+/// let q = QuarticProof { selmer_dim: None, two_torsion_dim: 0, enumerated: 0, classes: vec![], ruled_out: vec![], lower: 0, upper: None };
+/// assert!(q.classes.is_empty());
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct QuarticProof {
+    /// The claimed dim Sel^2(E) (including `E(Q)[2]`).
+    pub selmer_dim: Option<usize>,
+    /// The claimed dim `E(Q)[2]`.
+    pub two_torsion_dim: usize,
+    /// How many GL2(Z)-classes the enumeration produced.
+    pub enumerated: usize,
+    /// One quartic for every class of Sel^2(E).
+    pub classes: Vec<SelmerClass>,
+    /// Quartics ruled out, each with the place where it has no point.
+    pub ruled_out: Vec<([Integer; 5], Place)>,
+    /// The claimed lower bound of this route.
+    pub lower: usize,
+    /// The claimed upper bound of this route.
+    pub upper: Option<usize>,
+}
+
+/// A point of infinite order on the minimal model.
+///
+/// ```
+/// use malachite::Rational;
+/// use twofold::certificate::CertPoint;
+/// let p = CertPoint { x: Rational::from(-4), y: Rational::from(6), height: None };
+/// assert!(p.height.is_none());
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct CertPoint {
+    /// x.
+    pub x: Rational,
+    /// y.
+    pub y: Rational,
+    /// The canonical height, as decimal text, when known (not checked by [`verify`]).
+    pub height: Option<String>,
+}
+
+/// The record of a rank proof (see the module documentation).
+///
+/// ```
+/// use twofold::{analyse, Curve, RankOptions};
+/// use twofold::certificate::{verify, Certificate};
+/// // 37a1: y^2 + y = x^3 - x, rank 1 (Cremona's table)
+/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let cert = Certificate::from_report(&analyse(&e, &RankOptions::default()).unwrap()).unwrap();
+/// assert_eq!(cert.points.len(), 1);
+/// assert_eq!(verify(&cert).unwrap().rank(), Some(1));
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Certificate {
+    /// a-invariants of the input model.
+    pub input: [Integer; 5],
+    /// a-invariants of the global minimal model.
+    pub minimal: [Integer; 5],
+    /// The change `[u, r, s, t]` from the input model to the minimal one
+    /// (`x = u^2 x' + r`, `y = u^3 y' + s u^2 x' + t`).
+    pub change: [Rational; 4],
+    /// The primes dividing the minimal discriminant.
+    pub primes: Vec<Natural>,
+    /// The claimed lower bound for the rank.
+    pub rank_lower: Option<usize>,
+    /// The claimed upper bound for the rank.
+    pub rank_upper: Option<usize>,
+    /// The affine torsion points of the minimal model.
+    pub torsion: Vec<(Rational, Rational)>,
+    /// Points of infinite order, independent modulo torsion, on the minimal model.
+    pub points: Vec<CertPoint>,
+    /// Every 2-isogeny descent that ran.
+    pub isogeny: Vec<IsogenyProof>,
+    /// The full 2-descent, when it ran.
+    pub quartic: Option<QuarticProof>,
+}
+
+fn internal(msg: &str) -> Error {
+    Error::new(ErrorKind::InvalidValue, format!("certificate: {msg}"))
+}
+
+/// The precision of a local point (see [`LocalPoint`]).
+fn precision_of(g: &[Integer; 5], place: &Place, w: &LocalWitness) -> u64 {
+    match place {
+        Place::Real => 0,
+        Place::Prime(p) => {
+            let pi = Integer::from(p.clone());
+            let v = check::split(&check::eval4(g, &w.x, &w.z), &pi).0;
+            if *p == 2u32 {
+                v + 3
+            } else {
+                v + 1
+            }
+        }
+    }
+}
+
+fn local_point(g: &[Integer; 5], place: &Place, w: &LocalWitness) -> LocalPoint {
+    LocalPoint { place: place.clone(), x: w.x.clone(), z: w.z.clone(), precision: precision_of(g, place, w) }
+}
+
+fn affine(p: &Point) -> Option<(Rational, Rational)> {
+    match p {
+        Point::Infinity => None,
+        Point::Affine(x, y) => Some((x.clone(), y.clone())),
+    }
+}
+
+impl Certificate {
+    /// Builds the certificate of a report: every point moved to the minimal
+    /// model, local points for every Selmer class, and a rational point on
+    /// each quartic class that the descent explained by a point found on
+    /// the covering (the short search is repeated to record it).
+    ///
+    /// Errors: an internal inconsistency in the report (a Selmer class
+    /// without a local point, a point off its curve).
+    pub fn from_report(report: &RankReport) -> Result<Certificate, Error> {
+        let change = &report.change;
+        let minimal = &report.minimal;
+        let to_min = |p: &Point| -> Result<Option<(Rational, Rational)>, Error> {
+            match affine(p) {
+                None => Ok(None),
+                Some(q) => change.map_point(&q).map(Some),
+            }
+        };
+        let mut torsion = Vec::new();
+        for p in &report.torsion_points {
+            if let Some(q) = to_min(p)? {
+                torsion.push(q);
+            }
+        }
+        let mut points = Vec::new();
+        for p in &report.points {
+            if let Some((x, y)) = to_min(p)? {
+                points.push(CertPoint { x, y, height: None });
+            }
+        }
+        let primes: Vec<Natural> = report.local.iter().map(|l| l.prime.clone()).collect();
+        let mut isogeny = Vec::new();
+        for run in &report.isogeny_runs {
+            isogeny.push(isogeny_proof(minimal, run, &primes)?);
+        }
+        let quartic = match &report.full_descent {
+            Some(f) => Some(quartic_proof(minimal, f)?),
+            None => None,
+        };
+        Ok(Certificate {
+            input: report.input.ainvs().clone(),
+            minimal: minimal.ainvs().clone(),
+            change: [change.u.clone(), change.r.clone(), change.s.clone(), change.t.clone()],
+            primes,
+            rank_lower: report.rank_lower,
+            rank_upper: report.rank_upper,
+            torsion,
+            points,
+            isogeny,
+            quartic,
+        })
+    }
+}
+
+/// `x0` and `u` of the side model for the kernel point `t` (the same
+/// normalisation as the descent: remove factors 2 and 3 while integral).
+fn side_change(curve: &Curve, t: &(Rational, Rational)) -> Option<(Integer, Integer)> {
+    let b2 = &curve.binvs()[0];
+    let big_x = Rational::from(36) * &t.0 + Rational::from(Integer::from(3) * b2);
+    let x0 = Integer::try_from(big_x).ok()?;
+    let mut a = Integer::from(3) * &x0;
+    let mut b = Integer::from(3) * &x0 * &x0 - Integer::from(27) * curve.c4();
+    let mut u = Integer::ONE;
+    for p in [2i32, 3] {
+        let p = Integer::from(p);
+        let (p2, p4) = (&p * &p, &p * &p * &p * &p);
+        while (&a).divisible_by(&p2) && (&b).divisible_by(&p4) {
+            a /= &p2;
+            b /= &p4;
+            u *= &p;
+        }
+    }
+    Some((x0, u))
+}
+
+fn isogeny_proof(
+    curve: &Curve,
+    run: &crate::descent::isogeny::IsogenyDescent,
+    primes: &[Natural],
+) -> Result<IsogenyProof, Error> {
+    let kernel = affine(&run.kernel_point).ok_or_else(|| internal("kernel point at infinity"))?;
+    let (x0, u) = side_change(curve, &kernel).ok_or_else(|| internal("kernel point not integral on the short model"))?;
+    let mut all_primes: Vec<Natural> = primes.to_vec();
+    for q in [2u32, 3] {
+        if !all_primes.contains(&Natural::from(q)) {
+            all_primes.push(Natural::from(q));
+        }
+    }
+    all_primes.sort();
+    let mut sides = Vec::new();
+    for side in [&run.side_e, &run.side_e_prime] {
+        let model = Curve::new([Integer::from(0), side.a.clone(), Integer::from(0), side.b.clone(), Integer::from(0)])?;
+        let tors = crate::torsion::TorsionGroup::compute(&model, &all_primes);
+        let local: Vec<LocalTable> = side
+            .local_images
+            .iter()
+            .map(|img| {
+                let soluble = img
+                    .soluble
+                    .iter()
+                    .map(|(c, w)| {
+                        let g = [c * c * c, Integer::from(0), &side.a * c * c, Integer::from(0), &side.b * c];
+                        (c.clone(), local_point(&g, &img.place, w))
+                    })
+                    .collect();
+                LocalTable { place: img.place.clone(), soluble, insoluble: img.insoluble.clone() }
+            })
+            .collect();
+        let complete = run.upper.is_some();
+        let mut classes = Vec::new();
+        if complete {
+            for d in &side.selmer_basis {
+                let g = [d.clone(), Integer::from(0), side.a.clone(), Integer::from(0), &side.b / d];
+                let mut pts = Vec::new();
+                for img in &side.local_images {
+                    let w = local_witness(&g, &img.place).ok_or_else(|| internal("a Selmer class has no local point"))?;
+                    pts.push(local_point(&g, &img.place, &w));
+                }
+                classes.push(SelmerClass { label: Some(d.clone()), quartic: g, local_points: pts, lift: None });
+            }
+        }
+        let images = side
+            .points
+            .iter()
+            .filter_map(|(d, p)| affine(p).map(|(x, y)| SideImage { class: d.clone(), x, y }))
+            .collect();
+        sides.push(SideProof {
+            a: side.a.clone(),
+            b: side.b.clone(),
+            selmer_dim: complete.then_some(side.selmer_dim),
+            torsion: tors.points().iter().filter_map(affine).collect(),
+            local,
+            classes,
+            images,
+        });
+    }
+    let side_e_prime = sides.pop().expect("two sides");
+    let side_e = sides.pop().expect("two sides");
+    Ok(IsogenyProof { kernel, x0, u, sides: [side_e, side_e_prime], lower: run.lower, upper: run.upper })
+}
+
+fn quartic_proof(curve: &Curve, f: &crate::descent::full::FullDescent) -> Result<QuarticProof, Error> {
+    let mut classes = Vec::new();
+    for sq in &f.classes {
+        let g = sq.quartic.coeffs();
+        let local_points = sq.witnesses.iter().map(|(pl, w)| local_point(&g, pl, w)).collect();
+        // a class explained by a point found on the covering gets that point
+        // again; the others get a short search (points found on E itself
+        // usually have small preimages)
+        let height = if sq.point.is_some() { crate::RankOptions::default().search_height } else { LIFT_SEARCH_HEIGHT };
+        let lift = find_lift(curve, &sq.quartic, height)?;
+        classes.push(SelmerClass { label: None, quartic: g, local_points, lift });
+    }
+    Ok(QuarticProof {
+        selmer_dim: f.selmer_dim,
+        two_torsion_dim: f.two_torsion_dim,
+        enumerated: f.quartics_enumerated,
+        classes,
+        ruled_out: f.ruled_out.iter().map(|(q, pl)| (q.coeffs(), pl.clone())).collect(),
+        lower: f.lower,
+        upper: f.upper,
+    })
+}
+
+/// The search height for a rational point on a quartic class that the
+/// descent explained by a point of E (not by a point on the covering).
+const LIFT_SEARCH_HEIGHT: u64 = 64;
+
+/// Searches the reduced form of `g` for a rational point with `y != 0`
+/// and moves it back to `g` itself.
+fn find_lift(curve: &Curve, g: &crate::quartic::Quartic, height: u64) -> Result<Option<Lift>, Error> {
+    use crate::search::{search_quartic, SearchLimits};
+    let (red, m) = crate::quartic::reduce(g);
+    let out = search_quartic(&red.coeffs(), &SearchLimits { height, first_only: true, deadline: None, cancel: None });
+    let coeffs = g.coeffs();
+    for qp in out.points.iter().take(32) {
+        if qp.y == 0u32 {
+            continue;
+        }
+        let [[al, be], [ga, de]] = &m;
+        let x = al * &qp.x + be * &qp.z;
+        let z = ga * &qp.x + de * &qp.z;
+        if check::eval4(&coeffs, &x, &z) != &qp.y * &qp.y {
+            continue;
+        }
+        let (xr, zr, yr) = (Rational::from(x.clone()), Rational::from(z.clone()), Rational::from(qp.y.clone()));
+        if let Some(image) = g.image_on_curve(curve, &xr, &zr, &yr)? {
+            return Ok(Some(Lift { x, z, y: qp.y.clone(), image }));
+        }
+    }
+    Ok(None)
+}
