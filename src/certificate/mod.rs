@@ -222,7 +222,7 @@ pub struct IsogenyProof {
 ///
 /// ```
 /// use twofold::certificate::QuarticProof;
-/// let q = QuarticProof { selmer_dim: None, two_torsion_dim: 0, enumerated: 0, classes: vec![], ruled_out: vec![], lower: 0, upper: None };
+/// let q = QuarticProof { selmer_dim: None, two_torsion_dim: 0, enumerated: 0, classes: vec![], ruled_out: vec![], lower: 0, upper: None, descent_curve: None };
 /// assert!(q.classes.is_empty());
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -241,6 +241,12 @@ pub struct QuarticProof {
     pub lower: usize,
     /// The claimed upper bound of this route.
     pub upper: Option<usize>,
+    /// When the quartics are 2-coverings of a curve isogenous to the minimal
+    /// model by an isogeny of odd degree (chosen for its smaller `c4`): that
+    /// curve's a-invariants and the degree. Sel^2 and `E(Q)[2]` of the two
+    /// curves are isomorphic; the isogeny itself is taken on trust by
+    /// [`verify`](crate::certificate::verify) (twofold proves it when it finds it).
+    pub descent_curve: Option<([Integer; 5], u64)>,
 }
 
 /// A point of infinite order on the minimal model.
@@ -362,9 +368,10 @@ impl Certificate {
         for run in &report.isogeny_runs {
             isogeny.push(isogeny_proof(minimal, run, &primes)?);
         }
-        let quartic = match &report.full_descent {
-            Some(f) => Some(quartic_proof(minimal, f)?),
-            None => None,
+        let quartic = match (&report.full_descent, &report.quartic_model) {
+            (Some(f), None) => Some(quartic_proof(minimal, f, None)?),
+            (Some(f), Some((other, d))) => Some(quartic_proof(other, f, Some(*d))?),
+            (None, _) => None,
         };
         Ok(Certificate {
             input: report.input.ainvs().clone(),
@@ -468,7 +475,9 @@ fn isogeny_proof(
     Ok(IsogenyProof { kernel, x0, u, sides: [side_e, side_e_prime], lower: run.lower, upper: run.upper })
 }
 
-fn quartic_proof(curve: &Curve, f: &crate::descent::full::FullDescent) -> Result<QuarticProof, Error> {
+/// `curve` is the curve the quartics cover: the minimal model, or the
+/// odd-degree isogenous curve of degree `degree` the descent ran on.
+fn quartic_proof(curve: &Curve, f: &crate::descent::full::FullDescent, degree: Option<u64>) -> Result<QuarticProof, Error> {
     let mut classes = Vec::new();
     for sq in &f.classes {
         let g = sq.quartic.coeffs();
@@ -488,6 +497,7 @@ fn quartic_proof(curve: &Curve, f: &crate::descent::full::FullDescent) -> Result
         ruled_out: f.ruled_out.iter().map(|(q, pl)| (q.coeffs(), pl.clone())).collect(),
         lower: f.lower,
         upper: f.upper,
+        descent_curve: degree.map(|d| (curve.ainvs().clone(), d)),
     })
 }
 

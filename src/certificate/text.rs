@@ -48,6 +48,7 @@ impl Certificate {
     ///   table place                 soluble c x z precision    insoluble c
     ///   class d a b c d e           local place x z precision
     /// quartic selmer_dim two_torsion_dim enumerated lower upper
+    ///   descent_curve a1 a2 a3 a4 a6 degree   (only when the quartics cover an odd-isogenous curve)
     ///   class - a b c d e           local place x z precision   lift x z y X Y
     ///   ruled a b c d e place
     /// end
@@ -111,6 +112,9 @@ impl Certificate {
                 q.lower,
                 opt(&q.upper)
             );
+            if let Some((a, d)) = &q.descent_curve {
+                let _ = writeln!(out, "descent_curve {} {d}", join(a));
+            }
             for c in &q.classes {
                 class_lines(&mut out, c);
             }
@@ -337,7 +341,18 @@ impl Parser {
                     ruled_out: vec![],
                     lower: num(f[3])?,
                     upper: opt_num(f[4])?,
+                    descent_curve: None,
                 });
+            }
+            "descent_curve" => {
+                arity(&f, 6)?;
+                let a = five(&f[..5])?;
+                let d: u64 = num(f[5])?;
+                let q = self.quartic.as_mut().ok_or("a descent curve outside the quartic section")?;
+                if q.descent_curve.is_some() || !q.classes.is_empty() {
+                    return Err("a misplaced descent curve".into());
+                }
+                q.descent_curve = Some((a, d));
             }
             "ruled" => {
                 arity(&f, 6)?;
