@@ -1,7 +1,7 @@
 //! `rank`: rank bounds for elliptic curves over Q from the command line.
 //!
 //! Usage:
-//!   rank [--json] [--budget SECONDS] [--height H] [--threads N] [--file PATH] [CURVE ...]
+//!   rank [--json] [--no-certificate] [--budget SECONDS] [--height H] [--threads N] [--file PATH] [CURVE ...]
 //!
 //! Curves come from the arguments, from a file (`--file`, one per line), or
 //! from standard input one per line, in any form `twofold::Curve::parse`
@@ -28,7 +28,7 @@ const DEMO: &[(&str, &str)] = &[
 ];
 
 fn usage() -> ! {
-    eprintln!("usage: rank [--json] [--budget SECONDS] [--height H] [--threads N] [--file PATH] [CURVE ...]");
+    eprintln!("usage: rank [--json] [--no-certificate] [--budget SECONDS] [--height H] [--threads N] [--file PATH] [CURVE ...]");
     std::process::exit(2)
 }
 
@@ -73,6 +73,7 @@ impl BatchObserver for Bar {
 
 fn main() {
     let mut json = false;
+    let mut no_certificate = false;
     let mut options = RankOptions::default();
     let mut threads = 0usize;
     let mut curves: Vec<String> = Vec::new();
@@ -81,6 +82,7 @@ fn main() {
     while let Some(a) = args.next() {
         match a.as_str() {
             "--json" => json = true,
+            "--no-certificate" => no_certificate = true,
             "--budget" => {
                 let s: f64 = args.next().and_then(|v| v.parse().ok()).unwrap_or_else(|| usage());
                 if !(s >= 0.0 && s.is_finite()) {
@@ -107,6 +109,7 @@ fn main() {
             _ => curves.push(a),
         }
     }
+    options.certificate = json && !no_certificate;
     let mut demo = false;
     if curves.is_empty() && !from_file {
         let stdin = std::io::stdin();

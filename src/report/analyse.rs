@@ -71,6 +71,7 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
         full_descent: None,
         quartic_model: None,
         evidence: None,
+        certificate: None,
         change: change.clone(),
         budget_exhausted: false,
         elapsed: budget.elapsed(),
@@ -107,6 +108,9 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
     }
     if options.evidence && !budget.exhausted() {
         report.evidence = Some(super::evidence::compute(&report, &budget));
+    }
+    if options.certificate {
+        report.certificate = crate::certificate::Certificate::from_report(&report).ok().map(|c| c.to_text());
     }
     progress(Stage::Report, "done");
     report.elapsed = budget.elapsed();

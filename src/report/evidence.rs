@@ -214,6 +214,82 @@ pub(crate) fn compute(report: &RankReport, budget: &Budget) -> Evidence {
     } else if report.rank() == Some(0) {
         ev.generators = Some(vec![]);
     }
+    // L-series, analytic rank and the Birch and Swinnerton-Dyer quotient
+    if let (Some(w), Ok(n)) = (w, Natural::try_from(report.conductor.clone())) {
+        if n <= crate::lseries::MAX_CONDUCTOR && !budget.exhausted() {
+            analytic(report, &n, w, &mut ev, &mut st);
+        }
+    }
     ev.statements = st;
     ev
+}
+
+fn analytic(report: &RankReport, n: &Natural, w: i8, ev: &mut Evidence, st: &mut Vec<Statement>) {
+    use crate::lseries::{analytic_rank, bsd_sha, BsdInputs, RankBasis};
+    let Ok(ar) = analytic_rank(&report.minimal, n, w) else {
+        st.push(Statement { claim: "the analytic rank was not decided to the accuracy reached".into(), standing: Standing::Numerical });
+        return;
+    };
+    let (lead, err) = ar.leading_coefficient();
+    ev.analytic_rank = Some(ar.rank);
+    ev.leading_value = Some(lead);
+    let standing = match ar.basis {
+        RankBasis::NonZeroValue => Standing::Conditional(
+            "the f64 error bound of the L-series computation (careful rounding analysis, not interval arithmetic)".into(),
+        ),
+        RankBasis::NumericalZeros => Standing::Numerical,
+    };
+    st.push(Statement {
+        claim: format!(
+            "the analytic rank is {} with L^({})(E,1)/{}! = {lead:.12} ± {err:.1e} ({})",
+            ar.rank,
+            ar.rank,
+            ar.rank,
+            ar.basis.statement()
+        ),
+        standing: standing.clone(),
+    });
+    if ar.rank <= 1 && ar.basis == RankBasis::NonZeroValue {
+        st.push(Statement {
+            claim: format!(
+                "rank = {0} and Sha is finite (Gross-Zagier 1986 and Kolyvagin 1988 with modularity, from analytic rank {0})",
+                ar.rank
+            ),
+            standing,
+        });
+    }
+    // the quotient needs the rank and a saturated basis (rank 0: nothing)
+    let regulator = if ar.rank == 0 {
+        Some(1.0)
+    } else if report.rank() == Some(ar.rank) && ev.generators.is_some() {
+        ev.regulator
+    } else {
+        None
+    };
+    let (Some(omega), Some(reg)) = (ev.real_period, regulator) else { return };
+    let torsion_order: u64 = report.torsion.iter().map(|&t| t as u64).product::<u64>().max(1);
+    let tamagawa_product: u64 = ev.tamagawa.iter().map(|(_, c)| *c as u64).product();
+    let inputs = BsdInputs {
+        rank: ar.rank,
+        leading: lead,
+        leading_error: err,
+        torsion_order,
+        omega,
+        regulator: reg,
+        tamagawa_product,
+        relative_error: 1e-12,
+    };
+    if let Ok(sha) = bsd_sha(&inputs) {
+        ev.sha_analytic = Some(sha.value);
+        st.push(Statement {
+            claim: format!(
+                "the analytic order of Sha is {:.9} ± {:.1e} (nearest integer {}{})",
+                sha.value,
+                sha.error,
+                sha.nearest,
+                if sha.is_square { ", a square" } else { "" }
+            ),
+            standing: Standing::Conditional("the Birch and Swinnerton-Dyer conjecture (its exact formula)".into()),
+        });
+    }
 }

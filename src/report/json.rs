@@ -139,6 +139,7 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
         &ev.map(|e| list(&e.tamagawa, |(p, c)| format!("[{},{c}]", quote(&p.to_string())))).unwrap_or_else(|| "null".into()),
     );
     w.raw("sha_analytic", &num(ev.and_then(|e| e.sha_analytic)));
+    w.raw("certificate", &r.certificate.as_ref().map(|c| quote(c)).unwrap_or_else(|| "null".into()));
     w.raw("budget_exhausted", if r.budget_exhausted { "true" } else { "false" });
     w.raw("elapsed_ms", &r.elapsed.as_millis().to_string());
     w.finish()

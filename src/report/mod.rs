@@ -117,6 +117,12 @@ pub struct RankReport {
     /// Swinnerton-Dyer quotient, each statement with its standing; `None`
     /// when [`crate::RankOptions::evidence`] is off or the budget ran out.
     pub evidence: Option<Evidence>,
+    /// The certificate of the rank proof in its text form
+    /// ([`crate::certificate::Certificate::to_text`]; read it back with
+    /// `Certificate::from_text` and re-check it with
+    /// [`crate::certificate::verify`]), when [`crate::RankOptions::certificate`]
+    /// is set.
+    pub certificate: Option<String>,
     /// The change of model from the input model to the minimal one.
     pub change: crate::ModelChange,
     /// Whether the budget ran out before the computation finished.
