@@ -205,6 +205,18 @@ impl fmt::Display for RankReport {
                 s.searched_height
             )?;
         }
+        if let Some(ev) = &self.evidence {
+            if let Some(g) = &ev.generators {
+                if !g.is_empty() {
+                    let list: Vec<String> = g.iter().map(|p| p.to_string()).collect();
+                    writeln!(f, "generators   {} (with the torsion, a basis of E(Q))", list.join(", "))?;
+                }
+            }
+            writeln!(f, "evidence:")?;
+            for st in &ev.statements {
+                writeln!(f, "  {st}")?;
+            }
+        }
         if self.budget_exhausted {
             writeln!(f, "  budget exhausted: the bounds above are what was proven before it ran out")?;
         }
