@@ -360,7 +360,14 @@ impl Certificate {
         let mut points = Vec::new();
         for p in &report.points {
             if let Some((x, y)) = to_min(p)? {
-                points.push(CertPoint { x, y, height: None });
+                // the canonical height (numerical, BSD normalisation; not checked by verify)
+                let pt = crate::curve::Point::Affine(x.clone(), y.clone());
+                let height = crate::heights::canonical_height(minimal, &report.local, &pt, 64)
+                    .ok()
+                    .map(|h| crate::heights::float_to_f64(&h))
+                    .filter(|h| h.is_finite())
+                    .map(|h| format!("{h:.12e}"));
+                points.push(CertPoint { x, y, height });
             }
         }
         let primes: Vec<Natural> = report.local.iter().map(|l| l.prime.clone()).collect();
