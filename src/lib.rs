@@ -35,8 +35,19 @@
 //!   [`Route`] taken, Selmer dimensions, the isogeny descents
 //!   ([`descent::isogeny::IsogenyDescent`]) and the full 2-descent
 //!   ([`descent::full::FullDescent`]) with their local witnesses, and the
-//!   [`ShaSuspect`]s. It prints readably (`Display`) and as one JSON line
-//!   ([`RankReport::to_json`]).
+//!   [`ShaSuspect`]s. Its [`RankReport::evidence`] ([`report::Evidence`])
+//!   adds the root number, a saturated basis with heights and regulator,
+//!   the real period, Tamagawa numbers, the analytic rank and the analytic
+//!   order of Sha, each statement tagged [`report::Standing`] (proven,
+//!   conditional on what, or numerical). It prints readably (`Display`) and
+//!   as one JSON line ([`RankReport::to_json`]).
+//! - [`certificate`]: the record of a rank proof built from a report, its
+//!   text form, and [`certificate::verify`], an independent exact re-check.
+//! - [`isogeny`]: rational isogenies of odd prime degree and the odd part of
+//!   the isogeny class (the quartic descent runs on the member with the
+//!   smallest `c4`); [`heights`]: periods, canonical heights, regulators,
+//!   LLL and saturation; [`lseries`]: `L^(k)(E,1)`, analytic rank and the
+//!   Birch and Swinnerton-Dyer quotient.
 //! - [`batch`]: [`analyse_batch`] over an iterator of curves or text lines
 //!   ([`CurveInput`]), with [`BatchOptions`] (threads, observer), giving a
 //!   [`BatchOutcome`] of [`batch::BatchItem`]s and a [`batch::BatchSummary`].
@@ -61,9 +72,13 @@
 //! milliseconds each (the 572 curves of conductor up to 162 take 4 to 7 s
 //! of CPU in all, depending on the machine's load). The costs that grow are factoring the discriminant (SIQS
 //! beyond 40 digits or so) and the quartic enumeration of the full
-//! 2-descent, about `|c4|^(3/2)`; it stops at
-//! [`RankOptions::max_quartic_candidates`] and the report then has no
-//! quartic upper bound. Batches scale with the cores (see README.md).
+//! 2-descent, about `|c4|^(3/2)` (run on the odd-isogenous curve with the
+//! smallest `c4`); it stops at [`RankOptions::max_quartic_candidates`] (a
+//! search estimated beyond it is refused at once) and the report then has
+//! no quartic upper bound. The evidence costs little at small conductor (an
+//! L-series at conductor 10^7 takes about 60 ms); turn it off with
+//! [`RankOptions::evidence`] for the fastest sweeps. Batches scale with the
+//! cores (1.92x on two, see README.md).
 //!
 //! # Budgets and cancellation
 //!

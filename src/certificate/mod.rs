@@ -245,7 +245,7 @@ pub struct QuarticProof {
     /// model by an isogeny of odd degree (chosen for its smaller `c4`): that
     /// curve's a-invariants and the degree. Sel^2 and `E(Q)[2]` of the two
     /// curves are isomorphic; the isogeny itself is taken on trust by
-    /// [`verify`](crate::certificate::verify) (twofold proves it when it finds it).
+    /// [`verify`] (twofold proves it when it finds it).
     pub descent_curve: Option<([Integer; 5], u64)>,
 }
 

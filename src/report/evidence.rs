@@ -90,7 +90,7 @@ pub struct Evidence {
     /// proven (see `saturation`); equal to `generators` when that is set.
     pub reduced_points: Vec<Point>,
     /// Canonical heights of `reduced_points` (numerical; the normalisation
-    /// of [`crate::heights::NORMALISATION`]).
+    /// of `heights::MordellWeilBasis::NORMALISATION`).
     pub heights: Vec<f64>,
     /// The regulator of `reduced_points` (numerical; 1 for rank 0).
     pub regulator: Option<f64>,

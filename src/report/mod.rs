@@ -110,7 +110,7 @@ pub struct RankReport {
     pub full_descent: Option<crate::descent::full::FullDescent>,
     /// When the quartic descent ran on a curve isogenous to this one by an
     /// isogeny of odd degree (a smaller `c4` makes the enumeration cheaper):
-    /// that curve (minimal, reduced) and the degree. Sel^2, E(Q)[2] and the
+    /// that curve (minimal, reduced) and the degree. Sel^2, `E(Q)[2]` and the
     /// rank are the same for both curves.
     pub quartic_model: Option<(Curve, u64)>,
     /// Root number, heights, saturation, periods, L-values and the Birch and
