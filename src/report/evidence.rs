@@ -114,6 +114,15 @@ pub struct Evidence {
     pub statements: Vec<Statement>,
 }
 
+/// Reports compute L-values up to this conductor (about 60 ms there; the
+/// cost grows linearly with the conductor, so larger ones are left to
+/// explicit calls of [`crate::lseries::analytic_rank`]).
+///
+/// ```
+/// assert_eq!(twofold::report::EVIDENCE_MAX_CONDUCTOR, 10_000_000);
+/// ```
+pub const EVIDENCE_MAX_CONDUCTOR: u64 = 10_000_000;
+
 /// Working precision (bits) for heights and periods in reports.
 const PRECISION: u64 = 128;
 
@@ -224,7 +233,7 @@ pub(crate) fn compute(report: &RankReport, budget: &Budget) -> Evidence {
     }
     // L-series, analytic rank and the Birch and Swinnerton-Dyer quotient
     if let (Some(w), Ok(n)) = (w, Natural::try_from(report.conductor.clone())) {
-        if n <= crate::lseries::MAX_CONDUCTOR && !budget.exhausted() {
+        if n <= EVIDENCE_MAX_CONDUCTOR && !budget.exhausted() {
             analytic(report, &n, w, &mut ev, &mut st);
         }
     }

@@ -7,7 +7,7 @@ mod evidence;
 
 pub use analyse::analyse;
 pub use json::{error_json, JsonWriter};
-pub use evidence::{Evidence, Standing, Statement};
+pub use evidence::{Evidence, Standing, Statement, EVIDENCE_MAX_CONDUCTOR};
 
 use crate::curve::{Curve, Point};
 use crate::local::LocalData;
