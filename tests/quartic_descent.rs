@@ -248,3 +248,20 @@ fn soluble_classes_have_local_points_found_independently() {
     }
     assert!(checked > 200, "{checked}");
 }
+
+/// A curve of our own choosing with a 45-digit discriminant, no rational
+/// 2-torsion and a huge c4: the enumeration is refused at once by its size
+/// estimate, and the report claims no upper bound it did not prove.
+#[test]
+fn hopeless_enumeration_is_refused_quickly() {
+    let e = Curve::from_ainvs([0i64, 0, 1, -123456789012345, 987654321098765432]).unwrap();
+    let t = std::time::Instant::now();
+    let r = analyse(&e, &RankOptions { evidence: false, ..RankOptions::default() }).unwrap();
+    assert!(t.elapsed().as_secs_f64() < 20.0, "took {:?}", t.elapsed());
+    assert_eq!(r.rank_upper, None);
+    assert_eq!(r.selmer2_dim, None);
+    assert_eq!(r.rank(), None);
+    for p in &r.points {
+        assert!(e.contains(p));
+    }
+}
