@@ -77,7 +77,7 @@ impl Default for RankOptions {
             time_limit: None,
             cancel: None,
             progress: None,
-            max_quartic_candidates: 400_000_000,
+            max_quartic_candidates: 1_000_000_000,
             cross_check_routes: false,
             evidence: true,
             certificate: false,

@@ -41,8 +41,8 @@ fn monsky_parity_on_the_tables() {
             checked += 1;
         }
     }
-    // all but the Sha-16 curves and one Sha-4 curve beyond the enumeration cap
-    assert!(checked + 3 >= rows.len(), "only {checked} of {} checked", rows.len());
+    // all but one Sha-16 curve beyond the enumeration cap
+    assert!(checked + 1 >= rows.len(), "only {checked} of {} checked", rows.len());
 }
 
 proptest! {

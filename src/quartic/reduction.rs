@@ -146,6 +146,13 @@ pub(crate) fn definite_covariant(g: &Quartic) -> Option<(f64, f64, f64)> {
 /// 256-bit floats (more for large coefficients), which brings the error far
 /// below the margins used by the reduction.
 pub(crate) fn tau(g: &Quartic) -> Option<(f64, f64)> {
+    // nearly coincident resolvent roots (4I^3 - J^2 tiny beside J^2) make the
+    // double-precision covariant unreliable anywhere in the domain
+    if ill_conditioned(g) {
+        if let Some(t) = precise::tau(g) {
+            return Some(t);
+        }
+    }
     let quick = definite_covariant(g).and_then(|(a, b, c)| {
         let d = 4.0 * a * c - b * b;
         let t = (-b / (2.0 * a), d.sqrt() / (2.0 * a));
@@ -155,6 +162,18 @@ pub(crate) fn tau(g: &Quartic) -> Option<(f64, f64)> {
         Some(t) if !near_boundary(t) => Some(t),
         _ => precise::tau(g).or(quick),
     }
+}
+
+/// Whether `|4I^3 - J^2|` is below `2^-20` times `J^2 + 4|I|^3`.
+fn ill_conditioned(g: &Quartic) -> bool {
+    use malachite::base::num::arithmetic::traits::Abs;
+    let i = g.invariant_i();
+    let j = g.invariant_j();
+    let i3 = Integer::from(4) * &i * &i * &i;
+    let j2 = &j * &j;
+    let d = (&i3 - &j2).abs();
+    let scale = i3.abs() + j2;
+    significant_bits(&d) + 20 < significant_bits(&scale)
 }
 
 fn near_boundary(t: (f64, f64)) -> bool {
