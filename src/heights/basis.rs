@@ -76,6 +76,11 @@ pub struct Saturation {
 }
 
 impl Saturation {
+    /// No index bound was obtained (`note` says why).
+    fn unbounded(divisions: usize, note: impl Into<String>) -> Saturation {
+        Saturation { index_bound: None, proven: vec![], unproven: vec![], untested_above: None, divisions, note: note.into() }
+    }
+
     /// Whether saturation at every prime up to the index bound is proven.
     pub fn is_saturated(&self) -> bool {
         self.index_bound.is_some() && self.unproven.is_empty() && self.untested_above.is_none()
@@ -335,20 +340,13 @@ pub fn mordell_weil_basis(
         }
         let t = l - bdiff;
         if t <= 0.0 {
-            let sat = Saturation {
-                index_bound: None,
-                proven: vec![],
-                unproven: vec![],
-                untested_above: None,
-                divisions,
-                note: format!("search height too small for a height lower bound (difference bound {bdiff:.3})"),
-            };
+            let sat = Saturation::unbounded(divisions, format!("search height too small for a height lower bound (difference bound {bdiff:.3})"));
             return Ok(finish(sat, gens));
         }
         let hsearch = l.exp().floor() as u64;
         let (found, complete) = small_points(curve, hsearch, options.deadline);
         if !complete {
-            let sat = Saturation { index_bound: None, proven: vec![], unproven: vec![], untested_above: None, divisions, note: "point search for the height lower bound did not finish".into() };
+            let sat = Saturation::unbounded(divisions, "point search for the height lower bound did not finish");
             return Ok(finish(sat, gens));
         }
         let mut lambda = t;
@@ -362,14 +360,7 @@ pub fn mordell_weil_basis(
         let reg = to_f64(&regulator) * (1.0 + 1e-6);
         let bound2 = hermite_power(r) * reg / lambda.powi(r as i32);
         if !bound2.is_finite() || bound2 > 1e30 {
-            let sat = Saturation {
-                index_bound: None,
-                proven: vec![],
-                unproven: vec![],
-                untested_above: None,
-                divisions,
-                note: format!("index bound not finite (lambda = {lambda:e}, Reg = {reg:e})"),
-            };
+            let sat = Saturation::unbounded(divisions, format!("index bound not finite (lambda = {lambda:e}, Reg = {reg:e})"));
             return Ok(finish(sat, gens));
         }
         let bound = bound2.max(1.0).sqrt().floor() as u64;

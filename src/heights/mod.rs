@@ -51,7 +51,7 @@
 mod basis;
 mod canonical;
 mod lattice;
-mod real;
+pub(crate) mod real;
 mod saturation;
 
 pub use basis::{

@@ -16,7 +16,7 @@
 //! For odd prime `l` the roots of `f_l` (degree `(l^2 - 1)/2`, leading
 //! coefficient `l`) are the `x`-coordinates of the points of order `l`.
 
-use super::poly::{z_add, z_from, z_mul, z_sub, ZPoly};
+use super::poly::{trim, z_from, z_mul, z_sub, ZPoly};
 use crate::curve::Curve;
 use malachite::Integer;
 use std::collections::HashMap;
@@ -44,8 +44,8 @@ impl DivisionPolys {
         memo.insert(0, ZPoly::new());
         memo.insert(1, z_from(&[1]));
         memo.insert(2, z_from(&[1]));
-        memo.insert(3, strip(f3));
-        memo.insert(4, strip(f4));
+        memo.insert(3, trim(f3));
+        memo.insert(4, trim(f4));
         DivisionPolys { b_sq: z_mul(&b, &b), memo }
     }
 
@@ -72,10 +72,6 @@ impl DivisionPolys {
         self.memo.insert(n, out.clone());
         out
     }
-}
-
-fn strip(v: ZPoly) -> ZPoly {
-    z_add(&v, &ZPoly::new())
 }
 
 #[cfg(test)]

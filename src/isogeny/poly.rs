@@ -7,7 +7,7 @@ use malachite::{Integer, Rational};
 pub(crate) type ZPoly = Vec<Integer>;
 pub(crate) type QPoly = Vec<Rational>;
 
-fn trim<T: PartialEq + Zero>(mut v: Vec<T>) -> Vec<T> {
+pub(crate) fn trim<T: PartialEq + Zero>(mut v: Vec<T>) -> Vec<T> {
     while v.last().is_some_and(|c| *c == T::ZERO) {
         v.pop();
     }
@@ -18,36 +18,25 @@ pub(crate) fn z_from(c: &[i64]) -> ZPoly {
     trim(c.iter().map(|&v| Integer::from(v)).collect())
 }
 
-pub(crate) fn z_add(a: &ZPoly, b: &ZPoly) -> ZPoly {
-    let n = a.len().max(b.len());
-    let mut out = Vec::with_capacity(n);
-    for k in 0..n {
-        let mut v = Integer::ZERO;
-        if k < a.len() {
-            v += &a[k];
+/// `a + sign * b` coefficientwise.
+fn combine<T>(a: &[T], b: &[T], negate: bool) -> Vec<T>
+where
+    T: Clone + PartialEq + Zero + for<'x> std::ops::AddAssign<&'x T> + for<'x> std::ops::SubAssign<&'x T>,
+{
+    let mut out: Vec<T> = a.to_vec();
+    out.resize(a.len().max(b.len()), T::ZERO);
+    for (o, c) in out.iter_mut().zip(b) {
+        if negate {
+            *o -= c;
+        } else {
+            *o += c;
         }
-        if k < b.len() {
-            v += &b[k];
-        }
-        out.push(v);
     }
     trim(out)
 }
 
 pub(crate) fn z_sub(a: &ZPoly, b: &ZPoly) -> ZPoly {
-    let n = a.len().max(b.len());
-    let mut out = Vec::with_capacity(n);
-    for k in 0..n {
-        let mut v = Integer::ZERO;
-        if k < a.len() {
-            v += &a[k];
-        }
-        if k < b.len() {
-            v -= &b[k];
-        }
-        out.push(v);
-    }
-    trim(out)
+    combine(a, b, true)
 }
 
 pub(crate) fn z_mul(a: &ZPoly, b: &ZPoly) -> ZPoly {
@@ -88,19 +77,7 @@ pub(crate) fn q_from_z(a: &ZPoly) -> QPoly {
 
 #[cfg(test)]
 pub(crate) fn q_add(a: &QPoly, b: &QPoly) -> QPoly {
-    let n = a.len().max(b.len());
-    let mut out = Vec::with_capacity(n);
-    for k in 0..n {
-        let mut v = Rational::ZERO;
-        if k < a.len() {
-            v += &a[k];
-        }
-        if k < b.len() {
-            v += &b[k];
-        }
-        out.push(v);
-    }
-    trim(out)
+    combine(a, b, false)
 }
 
 pub(crate) fn q_mul(a: &QPoly, b: &QPoly) -> QPoly {

@@ -130,16 +130,7 @@ impl<'a> Search<'a> {
                 return Err(Error::new(ErrorKind::Budget, format!("quartic search exceeded {l} candidates")));
             }
         }
-        if self.work >= self.next_check {
-            self.next_check = self.work + (1 << 20);
-            if self.cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed)) {
-                return Err(Error::new(ErrorKind::Budget, "quartic search cancelled"));
-            }
-            if self.deadline.is_some_and(|d| std::time::Instant::now() >= d) {
-                return Err(Error::new(ErrorKind::Budget, "quartic search ran out of time"));
-            }
-        }
-        Ok(())
+        self.check_clock()
     }
 
     fn clone_settings(&self) -> Search<'a> {
@@ -159,14 +150,9 @@ impl<'a> Search<'a> {
         }
     }
 
-    /// Charges set-up work that is not a candidate (see `work`).
-    fn setup_work(&mut self, n: u64) -> Result<(), Error> {
-        self.work += n;
-        if let Some(l) = self.limit {
-            if self.work > l.saturating_mul(4) {
-                return Err(Error::new(ErrorKind::Budget, format!("quartic search exceeded its work limit (4 x {l})")));
-            }
-        }
+    /// The deadline and the cancellation flag, looked at about every 2^20
+    /// units of `work`.
+    fn check_clock(&mut self) -> Result<(), Error> {
         if self.work >= self.next_check {
             self.next_check = self.work + (1 << 20);
             if self.cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed)) {
@@ -177,6 +163,17 @@ impl<'a> Search<'a> {
             }
         }
         Ok(())
+    }
+
+    /// Charges set-up work that is not a candidate (see `work`).
+    fn setup_work(&mut self, n: u64) -> Result<(), Error> {
+        self.work += n;
+        if let Some(l) = self.limit {
+            if self.work > l.saturating_mul(4) {
+                return Err(Error::new(ErrorKind::Budget, format!("quartic search exceeded its work limit (4 x {l})")));
+            }
+        }
+        self.check_clock()
     }
 
     /// All forms with this `a ≠ 0`, `0 ≤ b ≤ 2|a|` and `H` in `[hlo, hhi]`.

@@ -185,85 +185,13 @@ fn near_boundary(t: (f64, f64)) -> bool {
 mod precise {
     use super::super::core::{Quartic, RootType};
     use super::super::numeric::{resolvent_roots, significant_bits, to_f64_scaled, CubicRoots};
-    use malachite::base::num::arithmetic::traits::{Sign, Sqrt};
-    use malachite::base::num::conversion::traits::RoundingFrom;
-    use malachite::base::rounding_modes::RoundingMode;
-    use malachite::{Float, Integer};
-    use std::cmp::Ordering;
-
-    #[derive(Clone)]
-    struct Cx {
-        re: Float,
-        im: Float,
-    }
-
-    fn fl(n: &Integer, prec: u64) -> Float {
-        Float::from_integer_prec(n.clone(), prec).0
-    }
-
-    fn ff(x: f64, prec: u64) -> Float {
-        Float::from_integer_prec(Integer::ZERO_, prec).0 + Float::from(x)
-    }
-
-    trait Zero_ {
-        const ZERO_: Self;
-    }
-    impl Zero_ for Integer {
-        const ZERO_: Integer = Integer::const_from_signed(0);
-    }
-
-    impl Cx {
-        fn real(re: Float, prec: u64) -> Cx {
-            Cx { re, im: ff(0.0, prec) }
-        }
-        fn sub(&self, o: &Cx) -> Cx {
-            Cx { re: &self.re - &o.re, im: &self.im - &o.im }
-        }
-        fn mul(&self, o: &Cx) -> Cx {
-            Cx { re: &self.re * &o.re - &self.im * &o.im, im: &self.re * &o.im + &self.im * &o.re }
-        }
-        fn scale(&self, s: &Float) -> Cx {
-            Cx { re: &self.re * s, im: &self.im * s }
-        }
-        fn div(&self, o: &Cx) -> Option<Cx> {
-            let n = &o.re * &o.re + &o.im * &o.im;
-            if n == 0u32 {
-                return None;
-            }
-            Some(Cx {
-                re: (&self.re * &o.re + &self.im * &o.im) / &n,
-                im: (&self.im * &o.re - &self.re * &o.im) / &n,
-            })
-        }
-        fn abs2(&self) -> Float {
-            &self.re * &self.re + &self.im * &self.im
-        }
-        fn sqrt(&self) -> Cx {
-            let r = self.abs2().sqrt();
-            let two = Float::from(2u32);
-            let mut re = (&r + &self.re) / &two;
-            let mut im = (&r - &self.re) / &two;
-            if re.sign() == Ordering::Less {
-                re = &re - &re;
-            }
-            if im.sign() == Ordering::Less {
-                im = &im - &im;
-            }
-            let re = Sqrt::sqrt(re);
-            let im = Sqrt::sqrt(im);
-            let im = if self.im.sign() == Ordering::Less { -im } else { im };
-            Cx { re, im }
-        }
-    }
-
-    fn to_f64(x: &Float) -> f64 {
-        f64::rounding_from(x, RoundingMode::Nearest).0
-    }
+    use crate::heights::real::{fi, fz, sqrt, to_f64, Cx};
+    use malachite::Float;
 
     /// Newton's method for `φ^3 - 3Iφ + J` from a double-precision start.
     fn polish(t0: f64, i: &Float, j: &Float, prec: u64) -> Float {
-        let three = Float::from(3u32);
-        let mut t = ff(t0, prec);
+        let three = fi(3, prec);
+        let mut t = fi(0, prec) + Float::from(t0);
         for _ in 0..12 {
             let t2 = &t * &t;
             let f = &(&t2 - &(&three * i)) * &t + j;
@@ -288,72 +216,67 @@ mod precise {
         let i_exact = g.invariant_i();
         let j_exact = g.invariant_j();
         let shift = maxbits.saturating_sub(100);
-        let fi = to_f64_scaled(&i_exact, 2 * shift);
-        let fj = to_f64_scaled(&j_exact, 3 * shift);
-        let i = fl(&i_exact, prec);
-        let j = fl(&j_exact, prec);
+        let fi_ = to_f64_scaled(&i_exact, 2 * shift);
+        let fj_ = to_f64_scaled(&j_exact, 3 * shift);
+        let up = (shift as f64).exp2();
+        let i = fz(&i_exact, prec);
+        let j = fz(&j_exact, prec);
         let gh = g.hessian();
         let hc = gh.coeff_refs();
-        let three = Float::from(3u32);
-        let four = Float::from(4u32);
-        let (phi, sign) = match (rt, resolvent_roots(fi, fj, rt != RootType::TwoReal)) {
-            (RootType::FourReal, CubicRoots::Three(r)) => (Cx::real(polish(r[1] * scale_f(shift), &i, &j, prec), prec), 1i32),
-            (RootType::PositiveDefinite, CubicRoots::Three(r)) => (Cx::real(polish(r[0] * scale_f(shift), &i, &j, prec), prec), -1),
-            (RootType::NegativeDefinite, CubicRoots::Three(r)) => (Cx::real(polish(r[2] * scale_f(shift), &i, &j, prec), prec), -1),
+        let (two, three, four) = (fi(2, prec), fi(3, prec), fi(4, prec));
+        let real_root = |r: f64| Cx::real(polish(r * up, &i, &j, prec));
+        let (phi, sign) = match (rt, resolvent_roots(fi_, fj_, rt != RootType::TwoReal)) {
+            (RootType::FourReal, CubicRoots::Three(r)) => (real_root(r[1]), 1),
+            (RootType::PositiveDefinite, CubicRoots::Three(r)) => (real_root(r[0]), -1),
+            (RootType::NegativeDefinite, CubicRoots::Three(r)) => (real_root(r[2]), -1),
             (RootType::TwoReal, CubicRoots::One { real, .. }) => {
-                let r = polish(real * scale_f(shift), &i, &j, prec);
+                let r = polish(real * up, &i, &j, prec);
                 // the complex roots: -r/2 ± iκ with κ^2 = 3r^2/4 - 3I
                 let k2 = &(&(&three * &(&r * &r)) / &four) - &(&three * &i);
-                if k2.sign() != Ordering::Greater {
+                if k2 <= 0u32 {
                     return None;
                 }
-                let re = -(&r / &Float::from(2u32));
-                (Cx { re, im: k2.sqrt() }, 1)
+                (Cx::new(-(&r / &two), sqrt(&k2, prec)), 1)
             }
             _ => return None,
         };
-        let mut p: Vec<Cx> = Vec::with_capacity(5);
-        for k in 0..5 {
-            let gk = fl(coeffs[k], prec);
-            let hk = fl(hc[k], prec);
-            let v = phi.scale(&(&four * &gk)).sub(&Cx::real(hk, prec));
-            let v = v.scale(&(Float::from(sign) / &three));
-            p.push(v);
-        }
-        // q with q^2 = p
-        let two = Float::from(2u32);
-        let (qa, qb, qc) = if p[0].abs2() >= p[4].abs2() {
-            if p[0].abs2() == 0u32 {
+        // p = ±(4φ g - g_H)/3, the square of the covariant q_φ
+        let factor = Cx::real(fi(sign, prec) / &three);
+        let p: Vec<Cx> = (0..5)
+            .map(|k| {
+                let v = phi.mul(&Cx::real(&four * fz(coeffs[k], prec))).sub(&Cx::real(fz(hc[k], prec)));
+                v.mul(&factor)
+            })
+            .collect();
+        let twice = |z: &Cx| z.mul(&Cx::real(two.clone()));
+        let (qa, qb, qc) = if p[0].norm2() >= p[4].norm2() {
+            if p[0].norm2() == 0u32 {
                 return None;
             }
-            let a = p[0].sqrt();
-            let b = p[1].div(&a.scale(&two))?;
-            let c = p[2].sub(&b.mul(&b)).div(&a.scale(&two))?;
+            let a = p[0].sqrt(prec);
+            let b = p[1].div(&twice(&a));
+            let c = p[2].sub(&b.mul(&b)).div(&twice(&a));
             (a, b, c)
         } else {
-            let c = p[4].sqrt();
-            let b = p[3].div(&c.scale(&two))?;
-            let a = p[2].sub(&b.mul(&b)).div(&c.scale(&two))?;
+            let c = p[4].sqrt(prec);
+            let b = p[3].div(&twice(&c));
+            let a = p[2].sub(&b.mul(&b)).div(&twice(&c));
             (a, b, c)
         };
         let (mut a, mut b, mut c) = (qa.re, qb.re, qc.re);
-        if a.sign() == Ordering::Less {
+        if a < 0u32 {
             a = -a;
             b = -b;
             c = -c;
         }
         let d = &(&four * &(&a * &c)) - &(&b * &b);
-        if d.sign() != Ordering::Greater || a.sign() != Ordering::Greater {
+        if d <= 0u32 || a <= 0u32 {
             return None;
         }
         let re = -(&b / &(&two * &a));
-        let im = &d.sqrt() / &(&two * &a);
+        let im = &sqrt(&d, prec) / &(&two * &a);
         let t = (to_f64(&re), to_f64(&im));
         (t.0.is_finite() && t.1.is_finite() && t.1 > 0.0).then_some(t)
-    }
-
-    fn scale_f(shift: u64) -> f64 {
-        (shift as f64).exp2()
     }
 }
 
