@@ -16,7 +16,7 @@ fn table() -> Vec<Curve> {
         .map(|l| {
             let f: Vec<&str> = l.split('\t').collect();
             let a: Vec<i64> = f[2..7].iter().map(|s| s.parse().unwrap()).collect();
-            Curve::from_ainvs([a[0], a[1], a[2], a[3], a[4]]).unwrap()
+            Curve::from_coefficients([a[0], a[1], a[2], a[3], a[4]]).unwrap()
         })
         .collect()
 }

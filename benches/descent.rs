@@ -17,7 +17,7 @@ fn table() -> Vec<(Curve, usize)> {
         .map(|l| {
             let f: Vec<&str> = l.split('\t').collect();
             let a: Vec<i64> = f[2..7].iter().map(|s| s.parse().unwrap()).collect();
-            (Curve::from_ainvs([a[0], a[1], a[2], a[3], a[4]]).unwrap(), f[8].parse().unwrap())
+            (Curve::from_coefficients([a[0], a[1], a[2], a[3], a[4]]).unwrap(), f[8].parse().unwrap())
         })
         .collect()
 }
@@ -69,7 +69,7 @@ fn bench(c: &mut Criterion) {
     // is refused at once by its size estimate)
     let big: Vec<Curve> = [[0i64, 1234567, 0, 98765432101, 0], [0, -3, 0, 314159265358, 0], [0, 7, 0, 271828182845, 0]]
         .iter()
-        .map(|a| Curve::from_ainvs(*a).unwrap())
+        .map(|a| Curve::from_coefficients(*a).unwrap())
         .collect();
     let mut g = c.benchmark_group("large");
     g.sample_size(10).measurement_time(Duration::from_secs(10));

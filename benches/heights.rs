@@ -6,7 +6,7 @@ use twofold::local::bad_primes_data;
 use twofold::{Curve, Point};
 
 fn setup(a: [i64; 5], primes: &[u32]) -> (Curve, Vec<twofold::local::LocalData>) {
-    let e = Curve::from_ainvs(a).unwrap();
+    let e = Curve::from_coefficients(a).unwrap();
     let ps: Vec<Natural> = primes.iter().map(|&p| Natural::from(p)).collect();
     let l = bad_primes_data(&e, &ps).unwrap();
     (e, l)

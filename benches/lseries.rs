@@ -13,10 +13,10 @@ fn bench(c: &mut Criterion) {
     // 389a1, 5077a1 (Cremona's tables) and curves of our own choosing with
     // conductors 863935 and 9018585 (from tests/lseries.rs)
     for a in [[0, 1, 1, -2, 0], [0, 0, 1, -7, 6], [0, 0, 1, -7, 100], [0, 0, 1, 3, 250]] {
-        let (m, n, w) = minimal_conductor_sign(&Curve::from_ainvs(a).unwrap()).unwrap();
+        let (m, n, w) = minimal_conductor_sign(&Curve::from_coefficients(a).unwrap()).unwrap();
         g.bench_function(format!("special_values N={n}"), |b| b.iter(|| special_values(black_box(&m), &n, w, 3).unwrap()));
     }
-    let e = Curve::from_ainvs([0, 1, 1, -2, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap();
     g.bench_function("point counts p in [10^5, 10^5 + 1000]", |b| {
         let mut counter = PointCounter::new(&e);
         let primes: Vec<u64> = twofold::arith::primes_up_to(101_000).into_iter().filter(|&p| p >= 100_000).collect();

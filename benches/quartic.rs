@@ -17,7 +17,7 @@ fn bench_enumeration(c: &mut Criterion) {
     ];
     let opts = SearchOptions { include_negative_definite: false, ..Default::default() };
     for (name, ai) in curves {
-        let e = Curve::from_ainvs(ai).unwrap();
+        let e = Curve::from_coefficients(ai).unwrap();
         let i = e.c4().clone();
         let j = Integer::from(2) * e.c6();
         c.bench_function(&format!("quartics_{name}"), |b| b.iter(|| quartics_with_invariants(&i, &j, &opts).unwrap().len()));

@@ -10,7 +10,7 @@ use twofold::certificate::{verify, Certificate};
 use twofold::{analyse, Curve, RankOptions};
 
 fn certify(a: [i64; 5]) -> Result<(Certificate, String), String> {
-    let e = Curve::from_ainvs(a).map_err(|e| e.to_string())?;
+    let e = Curve::from_coefficients(a).map_err(|e| e.to_string())?;
     let r = analyse(&e, &RankOptions::default()).map_err(|e| e.to_string())?;
     let c = Certificate::from_report(&r).map_err(|e| e.to_string())?;
     let t = Instant::now();

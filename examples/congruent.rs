@@ -91,7 +91,7 @@ fn main() {
             continue;
         }
         let n2 = (n * n) as i64;
-        let curve = Curve::from_ainvs([0, 0, 0, -n2, 0]).expect("non-singular for n > 0");
+        let curve = Curve::from_coefficients([0, 0, 0, -n2, 0]).expect("non-singular for n > 0");
         let (ta, tb) = tunnell(n);
         let tunnell_says = if ta == 2 * tb {
             "Tunnell: A = 2B, congruent if BSD holds (conditional)"

@@ -45,7 +45,7 @@ fn square_free(d: i64) -> bool {
 
 /// The quadratic twist of `e` by `d` (see the module documentation).
 fn twist(e: &Curve, d: i64) -> Result<Curve, twofold::Error> {
-    let [b2, b4, b6, _] = e.binvs().clone();
+    let [b2, b4, b6, _] = e.b_invariants().clone();
     let d = Integer::from(d);
     let d2 = &d * &d;
     let d3 = &d2 * &d;

@@ -72,7 +72,7 @@ impl CurveInput {
         match self {
             CurveInput::Text(t) => t.clone(),
             CurveInput::Curve(c) => {
-                let a: Vec<String> = c.ainvs().iter().map(|x| x.to_string()).collect();
+                let a: Vec<String> = c.coefficients().iter().map(|x| x.to_string()).collect();
                 format!("[{}]", a.join(","))
             }
         }

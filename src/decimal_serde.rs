@@ -145,7 +145,7 @@ pub mod decimal {
 /// reading checks the discriminant again.
 impl Serialize for crate::Curve {
     fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        s.collect_seq(self.ainvs().iter().map(Out))
+        s.collect_seq(self.coefficients().iter().map(Out))
     }
 }
 impl<'de> Deserialize<'de> for crate::Curve {

@@ -24,7 +24,7 @@
 //! # The main types
 //!
 //! - [`Curve`]: an integral Weierstrass model with its invariants; built from
-//!   a-invariants ([`Curve::from_ainvs`]) or text ([`Curve::parse`],
+//!   a-invariants ([`Curve::from_coefficients`]) or text ([`Curve::parse`],
 //!   [`Curve::parse_scaled`] for rational models). [`Point`] is a rational
 //!   point with the group law on the curve; [`ModelChange`] a change of model.
 //! - [`RankOptions`] (in [`budget`]): search heights, a per-curve time limit,

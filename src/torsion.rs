@@ -20,7 +20,7 @@ use std::cmp::Ordering;
 ///
 /// ```
 /// use twofold::{Curve, torsion::TorsionGroup};
-/// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap(); // 11a1: Z/5 (Cremona's table)
+/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap(); // 11a1: Z/5 (Cremona's table)
 /// let t = TorsionGroup::compute(&e, &[11u32.into()]);
 /// assert_eq!(t.order(), 5);
 /// assert_eq!(t.invariants(), vec![5]);
@@ -137,8 +137,8 @@ fn nagell_lutz_points(curve: &Curve, bad_primes: &[Natural]) -> Vec<Point> {
     }
     assert!(rest == Integer::ONE, "bad_primes must contain every prime dividing the discriminant");
     ys.push(Integer::ZERO);
-    let [a1, _, a3, _, _] = curve.ainvs();
-    let b2 = &curve.binvs()[0];
+    let [a1, _, a3, _, _] = curve.coefficients();
+    let b2 = &curve.b_invariants()[0];
     let mut out = Vec::new();
     for y in ys {
         let c = &b - &y * &y;

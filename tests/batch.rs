@@ -21,7 +21,7 @@ fn table_lines() -> Vec<String> {
     let mut rows = common::read_table("curves-small-conductor.tsv");
     rows.extend(common::read_table("curves-with-sha.tsv"));
     rows.iter()
-        .map(|r| format!("[{}]", r.ainvs.map(|a| a.to_string()).join(",")))
+        .map(|r| format!("[{}]", r.coefficients.map(|a| a.to_string()).join(",")))
         .collect()
 }
 
@@ -79,7 +79,7 @@ fn bad_inputs_are_items_and_the_batch_goes_on() {
     let inputs: Vec<CurveInput> = vec![
         "[0,0,0,0,0]".into(),                                  // singular
         "not a curve".into(),                                  // unreadable
-        Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap().into(),   // 37a1, rank 1 (Cremona's Table 1)
+        Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap().into(),   // 37a1, rank 1 (Cremona's Table 1)
         "".into(),                                             // empty line
         "y^2 = x^3 - 36x".into(),                              // area-6 triangle curve, rank 1 (from memory: 6 is congruent)
     ];
@@ -125,7 +125,7 @@ fn cancellation_stops_promptly_and_keeps_what_finished() {
                 f.store(true, Ordering::SeqCst);
             }
         });
-    let inputs = (1i64..).map(|k| Curve::from_ainvs([0, 0, 0, 0, k]).unwrap());
+    let inputs = (1i64..).map(|k| Curve::from_coefficients([0, 0, 0, 0, k]).unwrap());
     let t = Instant::now();
     let run = analyse_batch(inputs, &opts);
     assert!(t.elapsed() < Duration::from_secs(60));

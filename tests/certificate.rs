@@ -10,7 +10,7 @@ use twofold::solubility::{check_witness, LocalWitness, Place};
 use twofold::{analyse, Curve, RankOptions};
 
 fn certificate(a: [i64; 5]) -> Certificate {
-    let e = Curve::from_ainvs(a).unwrap();
+    let e = Curve::from_coefficients(a).unwrap();
     let r = analyse(&e, &RankOptions::default()).unwrap();
     Certificate::from_report(&r).unwrap()
 }
@@ -23,11 +23,11 @@ fn check_table(name: &str) -> (usize, usize, usize) {
     let rows = common::read_table(name);
     let (mut proven, mut fully, mut trusted) = (0, 0, 0);
     for row in &rows {
-        let c = certificate(row.ainvs);
-        let v = verify(&c).unwrap_or_else(|e| panic!("{:?}: {e}", row.ainvs));
+        let c = certificate(row.coefficients);
+        let v = verify(&c).unwrap_or_else(|e| panic!("{:?}: {e}", row.coefficients));
         // the verified bounds contain the published rank (Cremona's tables)
-        assert!(v.lower_bound <= row.rank, "{:?}", row.ainvs);
-        assert!(v.upper_bound.is_none_or(|u| u >= row.rank), "{:?}", row.ainvs);
+        assert!(v.lower_bound <= row.rank, "{:?}", row.coefficients);
+        assert!(v.upper_bound.is_none_or(|u| u >= row.rank), "{:?}", row.coefficients);
         assert!(v.lower_bound_verified);
         if v.rank().is_some() {
             proven += 1;
@@ -37,7 +37,7 @@ fn check_table(name: &str) -> (usize, usize, usize) {
         }
         trusted += v.trusted.len();
         let back = Certificate::from_text(&c.to_text()).unwrap();
-        assert_eq!(back, c, "{:?}", row.ainvs);
+        assert_eq!(back, c, "{:?}", row.coefficients);
     }
     eprintln!("{name}: {} curves, rank established on {proven}, with nothing on trust on {fully}; {trusted} trusted statements", rows.len());
     (rows.len(), proven, fully)

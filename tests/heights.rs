@@ -16,7 +16,7 @@ use twofold::local::{bad_primes_data, LocalData};
 use twofold::{analyse, Curve, ModelChange, Point, RankOptions};
 
 fn curve(a: [i64; 5], primes: &[u32]) -> (Curve, Vec<LocalData>) {
-    let e = Curve::from_ainvs(a).unwrap();
+    let e = Curve::from_coefficients(a).unwrap();
     let ps: Vec<Natural> = primes.iter().map(|&p| Natural::from(p)).collect();
     let local = bad_primes_data(&e, &ps).unwrap();
     (e, local)
@@ -55,12 +55,12 @@ fn lattice_invariants(w1: f64, w2: (f64, f64)) -> ((f64, f64), (f64, f64)) {
 #[test]
 fn real_periods_37a1_11a1() {
     // 37a1: real period 5.98691729 (from memory); two real components.
-    let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     let l = PeriodLattice::compute(&e, 128).unwrap();
     assert_eq!(l.real_components, 2);
     assert!((l.real_period_f64() - 5.98691729).abs() < 1e-7);
     // 11a1: real period 1.26920930 (from memory); one real component.
-    let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+    let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
     let l = PeriodLattice::compute(&e, 128).unwrap();
     assert_eq!(l.real_components, 1);
     assert!((l.real_period_f64() - 1.26920930).abs() < 1e-7);
@@ -73,7 +73,7 @@ fn period_lattice_matches_c4_c6() {
     // an independent check of both periods, for positive and negative
     // discriminants.
     for a in [[0, 0, 1, -1, 0], [0, -1, 1, -10, -20], [0, 1, 1, -2, 0], [1, 0, 1, 4, -6], [0, 0, 0, -1, 0], [0, 0, 1, 0, -7]] {
-        let e = Curve::from_ainvs(a).unwrap();
+        let e = Curve::from_coefficients(a).unwrap();
         let l = PeriodLattice::compute(&e, 64).unwrap();
         let w1 = float_to_f64(&l.omega1);
         let w2 = (float_to_f64(&l.omega2_re), float_to_f64(&l.omega2_im));
@@ -90,7 +90,7 @@ fn real_period_by_quadrature() {
     // Independent check of omega1 = int_{e1}^oo dx / sqrt(cubic) for
     // y^2 = x^3 - x (e1 = 1): substitute x = 1 + t^2, integrand
     // 2 / sqrt((t^2 + 2)(t^2 + 1)), Simpson's rule on [0, 2000] plus the tail 2/T.
-    let e = Curve::from_ainvs([0, 0, 0, -1, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 0, 0, -1, 0]).unwrap();
     let l = PeriodLattice::compute(&e, 64).unwrap();
     let f = |t: f64| 2.0 / ((t * t + 2.0) * (t * t + 1.0)).sqrt();
     let (n, big) = (2_000_000, 2000.0f64);
@@ -143,7 +143,7 @@ fn prepared() -> Vec<(Curve, Vec<LocalData>, Vec<Point>)> {
     curves_with_points()
         .into_iter()
         .map(|(a, primes, pts)| {
-            let e = Curve::from_ainvs(a).unwrap();
+            let e = Curve::from_coefficients(a).unwrap();
             let ps: Vec<Natural> = primes.iter().map(|&p| Natural::from(p)).collect();
             // minimal model (the heights need one)
             let (m, c) = e.minimal_model(&ps).unwrap();
@@ -218,8 +218,8 @@ fn height_difference_bound_holds_on_multiples() {
         for n in 1..8 {
             let q = e.multiple(&pts[0], n);
             let hx = float_to_f64(&naive_height(q.x().unwrap(), 64));
-            assert!(h(&e, &local, &q) >= hx - b, "{:?}", e.ainvs());
-            assert!(h(&e, &local, &q) >= hx - b2, "{:?}", e.ainvs());
+            assert!(h(&e, &local, &q) >= hx - b, "{:?}", e.coefficients());
+            assert!(h(&e, &local, &q) >= hx - b2, "{:?}", e.coefficients());
         }
     }
 }
@@ -272,7 +272,7 @@ fn two_p_is_not_2_saturated() {
 
 fn table_check(rows: &[common::Row]) {
     for row in rows {
-        let e = Curve::from_ainvs(row.ainvs).unwrap();
+        let e = Curve::from_coefficients(row.coefficients).unwrap();
         let rep = analyse(&e, &RankOptions::default()).unwrap();
         if rep.points.is_empty() {
             continue;
@@ -291,9 +291,9 @@ fn table_check(rows: &[common::Row]) {
             })
             .collect();
         let b = mordell_weil_basis(&rep.minimal, &pts, &local, 64, &SaturationOptions::default()).unwrap();
-        assert_eq!(b.generators.len(), row.rank, "{:?}", row.ainvs);
-        assert!(b.saturation.is_saturated(), "{:?}: {:?}", row.ainvs, b.saturation);
-        eprintln!("{:?} rank {} reg {:.6} bound {:?} divisions {}", row.ainvs, row.rank, b.regulator_f64(), b.saturation.index_bound, b.saturation.divisions);
+        assert_eq!(b.generators.len(), row.rank, "{:?}", row.coefficients);
+        assert!(b.saturation.is_saturated(), "{:?}: {:?}", row.coefficients, b.saturation);
+        eprintln!("{:?} rank {} reg {:.6} bound {:?} divisions {}", row.coefficients, row.rank, b.regulator_f64(), b.saturation.index_bound, b.saturation.divisions);
         // Heights of the generators against the naive heights and both difference bounds.
         let bd = height_difference_bound(&rep.minimal).min(local_height_bound(&rep.minimal, &local));
         for (g, hg) in b.generators.iter().zip(&b.heights) {
@@ -384,7 +384,7 @@ fn requested_precision_is_met() {
             let q = e.multiple(p, 3);
             let a = canonical_height(&e, &local, &q, 128).unwrap();
             let b = canonical_height(&e, &local, &q, 320).unwrap();
-            assert!(close(&a, &b), "{:?} {}", e.ainvs(), float_to_f64(&(&a - &b)));
+            assert!(close(&a, &b), "{:?} {}", e.coefficients(), float_to_f64(&(&a - &b)));
         }
         let l1 = PeriodLattice::compute(&e, 128).unwrap();
         let l2 = PeriodLattice::compute(&e, 320).unwrap();
@@ -445,7 +445,7 @@ fn multiples_are_divided_back() {
     // when there is one) and recover a generator: regulator back to hhat(g).
     let rows: Vec<_> = common::read_table("curves-small-conductor.tsv").into_iter().filter(|r| r.rank == 1).take(12).collect();
     for row in rows {
-        let e = Curve::from_ainvs(row.ainvs).unwrap();
+        let e = Curve::from_coefficients(row.coefficients).unwrap();
         let rep = analyse(&e, &RankOptions::default()).unwrap();
         let primes: Vec<Natural> = rep.local.iter().map(|d| d.prime.clone()).collect();
         let m = rep.minimal.clone();
@@ -467,9 +467,9 @@ fn multiples_are_divided_back() {
         let t = tors.points().last().cloned().unwrap_or(Point::Infinity);
         let start = m.add(&m.multiple(&g, 6), &t);
         let b6 = mordell_weil_basis(&m, &[start], &local, 64, &SaturationOptions::default()).unwrap();
-        assert!(b6.saturation.is_saturated(), "{:?}: {}", row.ainvs, b6.saturation);
-        assert!(b6.saturation.divisions >= 2, "{:?}: {:?}", row.ainvs, b6.saturation);
-        assert!((b6.regulator_f64() - b.regulator_f64()).abs() < 1e-12, "{:?}", row.ainvs);
+        assert!(b6.saturation.is_saturated(), "{:?}: {}", row.coefficients, b6.saturation);
+        assert!(b6.saturation.divisions >= 2, "{:?}: {:?}", row.coefficients, b6.saturation);
+        assert!((b6.regulator_f64() - b.regulator_f64()).abs() < 1e-12, "{:?}", row.coefficients);
     }
 }
 
@@ -502,7 +502,7 @@ proptest! {
     /// result claims saturation and the rank is proven.
     #[test]
     fn searched_points_lie_in_the_saturated_span(a1 in 0i64..2, a2 in -1i64..2, a3 in 0i64..2, a4 in -20i64..21, a6 in -20i64..21) {
-        let Ok(e) = Curve::from_ainvs([a1, a2, a3, a4, a6]) else { return Ok(()) };
+        let Ok(e) = Curve::from_coefficients([a1, a2, a3, a4, a6]) else { return Ok(()) };
         let Ok(rep) = analyse(&e, &RankOptions::default()) else { return Ok(()) };
         if rep.rank() != Some(rep.points.len()) || rep.points.is_empty() {
             return Ok(());
@@ -525,7 +525,7 @@ proptest! {
         }
         let tors = twofold::torsion::TorsionGroup::compute(&m, &primes);
         let found = twofold::search::search_curve(&m, &twofold::search::SearchLimits::new(400)).points;
-        eprintln!("span check {:?}: rank {}, {} searched points", m.ainvs(), pts.len(), found.len());
+        eprintln!("span check {:?}: rank {}, {} searched points", m.coefficients(), pts.len(), found.len());
         let r = b.generators.len();
         let g: Vec<Vec<f64>> = b.gram.iter().map(|row| row.iter().map(float_to_f64).collect()).collect();
         for (x, y) in found {
@@ -553,7 +553,7 @@ proptest! {
             for (c, gi) in coeffs.iter().zip(&b.generators) {
                 acc = m.add(&acc, &m.multiple(gi, -c));
             }
-            prop_assert!(tors.points().contains(&acc), "{:?}: {} not in the span", m.ainvs(), p);
+            prop_assert!(tors.points().contains(&acc), "{:?}: {} not in the span", m.coefficients(), p);
         }
     }
 }

@@ -17,10 +17,10 @@ fn even_torsion_curves_of_the_table() {
     let mut open = Vec::new();
     for r in rows.iter().filter(|r| r.torsion_order % 2 == 0) {
         total += 1;
-        let e = Curve::from_ainvs(r.ainvs).unwrap();
+        let e = Curve::from_coefficients(r.coefficients).unwrap();
         let rep = analyse(&e, &RankOptions::default()).unwrap();
         let (lo, up) = (rep.rank_lower.unwrap(), rep.rank_upper.unwrap());
-        assert!(lo <= r.rank && r.rank <= up, "{:?}: published rank {} not in [{lo}, {up}]", r.ainvs, r.rank);
+        assert!(lo <= r.rank && r.rank <= up, "{:?}: published rank {} not in [{lo}, {up}]", r.coefficients, r.rank);
         assert_eq!(rep.points.len(), lo);
         for p in &rep.points {
             assert!(e.contains(p));
@@ -28,14 +28,14 @@ fn even_torsion_curves_of_the_table() {
         if lo == up {
             proven += 1;
         } else {
-            assert!(!rep.sha_suspects.is_empty(), "{:?}: open gap without suspects", r.ainvs);
-            open.push((r.conductor, r.ainvs));
+            assert!(!rep.sha_suspects.is_empty(), "{:?}: open gap without suspects", r.coefficients);
+            open.push((r.conductor, r.coefficients));
         }
     }
     // The rank is proven for all of them except where the published Sha list
     // shows Sha[2] non-trivial (Sha order divisible by 4).
     let sha2: Vec<(u64, [i64; 5])> =
-        sha.iter().filter(|r| r.sha_order.unwrap() % 4 == 0).map(|r| (r.conductor, r.ainvs)).collect();
+        sha.iter().filter(|r| r.sha_order.unwrap() % 4 == 0).map(|r| (r.conductor, r.coefficients)).collect();
     for o in &open {
         assert!(sha2.contains(o), "{o:?} is open but has trivial Sha[2]");
     }
@@ -48,13 +48,13 @@ fn even_torsion_curves_of_the_table() {
 #[test]
 fn small_congruent_numbers() {
     for n in [5i64, 6, 7] {
-        let e = Curve::from_ainvs([0, 0, 0, -n * n, 0]).unwrap();
+        let e = Curve::from_coefficients([0, 0, 0, -n * n, 0]).unwrap();
         let r = analyse(&e, &RankOptions::default()).unwrap();
         assert_eq!(r.rank(), Some(1), "n = {n}");
     }
     // 1, 2, 3 are not congruent (Fermat for 1; classical)
     for n in [1i64, 2, 3] {
-        let e = Curve::from_ainvs([0, 0, 0, -n * n, 0]).unwrap();
+        let e = Curve::from_coefficients([0, 0, 0, -n * n, 0]).unwrap();
         let r = analyse(&e, &RankOptions::default()).unwrap();
         assert_eq!(r.rank(), Some(0), "n = {n}");
     }
@@ -95,7 +95,7 @@ fn congruent_numbers_against_tunnell() {
         } else {
             (ternary_count(n / 2, 4, 8), ternary_count(n / 2, 4, 32))
         };
-        let e = Curve::from_ainvs([0, 0, 0, -n * n, 0]).unwrap();
+        let e = Curve::from_coefficients([0, 0, 0, -n * n, 0]).unwrap();
         // the isogeny route decides these; keep the quartic enumeration short
         // (the evidence beyond the bounds is not needed here: off, to keep the sweep short)
         let o = RankOptions { max_quartic_candidates: 200_000, evidence: false, ..RankOptions::default().with_search_height(100) };
@@ -114,10 +114,10 @@ fn congruent_numbers_against_tunnell() {
 /// shifted model of it.
 #[test]
 fn bounds_are_model_invariant() {
-    let e = Curve::from_ainvs([0, 0, 0, -36, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 0, 0, -36, 0]).unwrap();
     let r = analyse(&e, &RankOptions::default()).unwrap();
     // x -> x + 1 shift: y^2 = (x+1)^3 - 36(x+1) = x^3 + 3x^2 - 33x - 35
-    let e2 = Curve::from_ainvs([0, 3, 0, -33, -35]).unwrap();
+    let e2 = Curve::from_coefficients([0, 3, 0, -33, -35]).unwrap();
     let r2 = analyse(&e2, &RankOptions::default()).unwrap();
     assert_eq!((r.rank_lower, r.rank_upper), (r2.rank_lower, r2.rank_upper));
     for p in &r2.points {

@@ -26,31 +26,31 @@ fn odd_classes_match_the_table() {
     let mut torsion_odd: HashMap<(u64, u32), bool> = HashMap::new();
     for r in &rows {
         let key = (r.conductor, r.class.unwrap());
-        classes.entry(key).or_default().push(r.ainvs);
+        classes.entry(key).or_default().push(r.coefficients);
         let odd = torsion_odd.entry(key).or_insert(true);
         *odd &= r.torsion_order % 2 == 1;
     }
     let mut complete_checked = 0;
     for r in &rows {
         let key = (r.conductor, r.class.unwrap());
-        let e = Curve::from_ainvs(r.ainvs).unwrap();
+        let e = Curve::from_coefficients(r.coefficients).unwrap();
         let class = odd_isogeny_class(&e, &bad_primes(&e)).unwrap();
         let table: HashSet<[i64; 5]> = classes[&key].iter().copied().collect();
         let got: HashSet<[i64; 5]> = class
             .curves
             .iter()
-            .map(|c| c.ainvs().clone().map(|v| i64::try_from(&v).unwrap()))
+            .map(|c| c.coefficients().clone().map(|v| i64::try_from(&v).unwrap()))
             .collect();
-        assert!(got.is_subset(&table), "{:?}: computed {got:?} not within the table class {table:?}", r.ainvs);
+        assert!(got.is_subset(&table), "{:?}: computed {got:?} not within the table class {table:?}", r.coefficients);
         for (a, b, phi) in &class.links {
             for p in [5u64, 7, 13, 17, 19, 23, 29, 31] {
                 if r.conductor % p != 0 {
-                    assert_eq!(class.curves[*a].count_points_mod(p), class.curves[*b].count_points_mod(p), "{:?} link of degree {}", r.ainvs, phi.degree);
+                    assert_eq!(class.curves[*a].count_points_mod(p), class.curves[*b].count_points_mod(p), "{:?} link of degree {}", r.coefficients, phi.degree);
                 }
             }
         }
         if torsion_odd[&key] {
-            assert_eq!(got, table, "{:?}: class incomplete", r.ainvs);
+            assert_eq!(got, table, "{:?}: class incomplete", r.coefficients);
             complete_checked += 1;
         }
     }
@@ -61,7 +61,7 @@ fn odd_classes_match_the_table() {
 /// 11a3's torsion point (0, 0) of order 5 maps to a point of the image.
 #[test]
 fn points_map_onto_the_image() {
-    let e = Curve::from_ainvs([0, -1, 1, 0, 0]).unwrap(); // 11a3
+    let e = Curve::from_coefficients([0, -1, 1, 0, 0]).unwrap(); // 11a3
     let class = odd_isogeny_class(&e, &[Natural::from(11u32)]).unwrap();
     assert_eq!(class.curves.len(), 3);
     for (a, _, phi) in &class.links {
@@ -85,7 +85,7 @@ fn selmer_dimension_is_constant_on_odd_links() {
     let rows = common::read_table("curves-small-conductor.tsv");
     let mut checked = 0;
     for r in rows.iter().step_by(3) {
-        let e = Curve::from_ainvs(r.ainvs).unwrap();
+        let e = Curve::from_coefficients(r.coefficients).unwrap();
         let class = odd_isogeny_class(&e, &bad_primes(&e)).unwrap();
         for (a, b, _) in &class.links {
             let (ea, eb) = (&class.curves[*a], &class.curves[*b]);
@@ -94,7 +94,7 @@ fn selmer_dimension_is_constant_on_odd_links() {
             }
             let o = twofold::RankOptions::default();
             let (sa, sb) = (full_descent(ea, &o).unwrap().selmer_dim, full_descent(eb, &o).unwrap().selmer_dim);
-            assert_eq!(sa, sb, "{:?} -> {:?}", ea.ainvs(), eb.ainvs());
+            assert_eq!(sa, sb, "{:?} -> {:?}", ea.coefficients(), eb.coefficients());
             checked += 1;
         }
     }

@@ -17,7 +17,7 @@ use twofold::{Curve, ModelChange};
 #[derive(Clone, Debug)]
 struct Row {
     conductor: u64,
-    ainvs: [i64; 5],
+    coefficients: [i64; 5],
 }
 
 fn read_table(name: &str, skip: usize) -> Vec<Row> {
@@ -28,7 +28,7 @@ fn read_table(name: &str, skip: usize) -> Vec<Row> {
         .map(|l| {
             let f: Vec<&str> = l.split('\t').collect();
             let a: Vec<i64> = f[1 + skip..6 + skip].iter().map(|x| x.parse().unwrap()).collect();
-            Row { conductor: f[0].parse().unwrap(), ainvs: [a[0], a[1], a[2], a[3], a[4]] }
+            Row { conductor: f[0].parse().unwrap(), coefficients: [a[0], a[1], a[2], a[3], a[4]] }
         })
         .collect()
 }
@@ -48,7 +48,7 @@ fn table() -> &'static [Row] {
 }
 
 fn curve(a: [i64; 5]) -> Curve {
-    Curve::from_ainvs(a).unwrap()
+    Curve::from_coefficients(a).unwrap()
 }
 
 /// The primes dividing a discriminant, by trial division up to 1000 (test
@@ -81,10 +81,10 @@ fn valuation(x: &Integer, p: u64) -> u32 {
 fn conductors_match_the_tables() {
     // Cremona, Algorithms for Modular Elliptic Curves, Table 1, and the Sha list.
     for row in table() {
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         let primes = small_primes_of(e.discriminant());
         let got = conductor(&e, &primes).unwrap();
-        assert_eq!(got, Integer::from(row.conductor), "conductor of {:?}", row.ainvs);
+        assert_eq!(got, Integer::from(row.conductor), "conductor of {:?}", row.coefficients);
     }
 }
 
@@ -92,11 +92,11 @@ fn conductors_match_the_tables() {
 fn table_models_are_their_own_minimal_models() {
     // The tables list global minimal models in reduced form.
     for row in table() {
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         let primes = small_primes_of(e.discriminant());
         let (m, c) = e.minimal_model(&primes).unwrap();
-        assert_eq!(m, e, "minimal model of {:?}", row.ainvs);
-        assert!(c.is_identity(), "change for {:?}: {:?}", row.ainvs, c);
+        assert_eq!(m, e, "minimal model of {:?}", row.coefficients);
+        assert!(c.is_identity(), "change for {:?}: {:?}", row.coefficients, c);
         assert_eq!(e.reduced_form().0, e);
         for p in &primes {
             assert!(e.is_minimal_at(p).unwrap());
@@ -136,17 +136,17 @@ fn reduction_types_agree_with_point_counts() {
     // additive reduction (Silverman, AEC, Exercise 5.13 / Prop. VII.5.1 and
     // its proof; Ireland-Rosen style point count).
     for row in table() {
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         for d in bad_primes_data(&e, &small_primes_of(e.discriminant())).unwrap() {
             let p = u64::try_from(&d.prime).unwrap();
-            let ap = p as i64 - affine_count(&row.ainvs, p);
+            let ap = p as i64 - affine_count(&row.coefficients, p);
             let want = match d.reduction {
                 Reduction::SplitMultiplicative => 1,
                 Reduction::NonSplitMultiplicative => -1,
                 Reduction::Additive => 0,
                 Reduction::Good => unreachable!(),
             };
-            assert_eq!(ap, want, "a_{p} of {:?} ({:?})", row.ainvs, d);
+            assert_eq!(ap, want, "a_{p} of {:?} ({:?})", row.coefficients, d);
         }
     }
 }
@@ -219,16 +219,16 @@ fn tamagawa_short_model(e: &Curve, p: u64, kodaira: Kodaira) -> Option<u32> {
 fn types_at_primes_above_three_agree_with_valuations() {
     let mut checked_c = 0;
     for row in table() {
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         for p in small_primes_of(e.discriminant()) {
             let pu = u64::try_from(&p).unwrap();
             if pu < 5 {
                 continue;
             }
             let d = local_data(&e, &p).unwrap();
-            assert_eq!(d.kodaira, kodaira_from_valuations(&e, pu), "{:?} at {pu}", row.ainvs);
+            assert_eq!(d.kodaira, kodaira_from_valuations(&e, pu), "{:?} at {pu}", row.coefficients);
             if let Some(c) = tamagawa_short_model(&e, pu, d.kodaira) {
-                assert_eq!(d.tamagawa, c, "c_{pu} of {:?}", row.ainvs);
+                assert_eq!(d.tamagawa, c, "c_{pu} of {:?}", row.coefficients);
                 checked_c += 1;
             }
         }
@@ -242,7 +242,7 @@ fn laws_of_local_data_on_the_tables() {
     // Advanced Topics, IV.11.1) and the possible c_p for each type
     // (Silverman, Advanced Topics, Table 4.1); f <= 8 at 2, <= 5 at 3, <= 2 above.
     for row in table() {
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         for d in bad_primes_data(&e, &small_primes_of(e.discriminant())).unwrap() {
             let p = u64::try_from(&d.prime).unwrap();
             assert_eq!(d.conductor_exponent + d.kodaira.components(), d.minimal_valuation_disc + 1, "{d:?}");
@@ -364,7 +364,7 @@ fn twists_by_large_primes() {
         (Natural::from(1u32) << 89u64) - Natural::from(1u32), // 2^89 - 1
     ];
     for row in table().iter().step_by(37) {
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         let primes = small_primes_of(e.discriminant());
         for p in &big {
             let pi = Integer::from(p.clone());
@@ -378,7 +378,7 @@ fn twists_by_large_primes() {
             }
             ps.push(p.clone());
             let want = Integer::from(row.conductor) * &pi * &pi;
-            assert_eq!(conductor(&f, &ps).unwrap(), want, "twist of {:?} by {d}", row.ainvs);
+            assert_eq!(conductor(&f, &ps).unwrap(), want, "twist of {:?} by {d}", row.coefficients);
             let dp = local_data(&f, p).unwrap();
             assert_eq!(dp.kodaira, Kodaira::I0Star);
             assert_eq!(dp.minimal_valuation_disc, 6);
@@ -460,7 +460,7 @@ proptest! {
     #[test]
     fn local_data_is_invariant_under_changes_of_model((i, c) in arb_change()) {
         let row = &table()[i];
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         let f = e.apply_change(&c).unwrap();
         let primes = small_primes_of(f.discriminant());
         let (m, back) = f.minimal_model(&primes).unwrap();
@@ -485,7 +485,7 @@ proptest! {
     fn reduced_form_of_a_shifted_table_model_is_the_table_model(
         i in 0..table().len(), r in -50i64..50, s in -50i64..50, t in -50i64..50, neg in any::<bool>()
     ) {
-        let e = curve(table()[i].ainvs);
+        let e = curve(table()[i].coefficients);
         let u = if neg { -1 } else { 1 };
         let c = ModelChange::new(Rational::from(u), Rational::from(r), Rational::from(s), Rational::from(t)).unwrap();
         let f = e.apply_change(&c).unwrap();
@@ -522,7 +522,7 @@ proptest! {
         u in prop_oneof![Just(1i64), Just(2), Just(3), Just(4), Just(5), Just(6), Just(9), Just(12), Just(25)],
         r in -20i64..20, s in -20i64..20, t in -20i64..20,
     ) {
-        prop_assume!(Curve::from_ainvs(a).is_ok());
+        prop_assume!(Curve::from_coefficients(a).is_ok());
         let e = curve(a);
         let c = ModelChange::new(Rational::from_signeds(1, u), Rational::from(r), Rational::from(s), Rational::from(t)).unwrap();
         let f = e.apply_change(&c).unwrap();

@@ -10,7 +10,7 @@ use twofold::lseries::{
 use twofold::{Curve, ErrorKind};
 
 fn curve(a: [i64; 5]) -> Curve {
-    Curve::from_ainvs(a).unwrap()
+    Curve::from_coefficients(a).unwrap()
 }
 
 fn nat(n: u64) -> Natural {
@@ -115,12 +115,12 @@ fn table_ranks_equal_analytic_ranks() {
         let rows = common::read_table(name);
         assert!(rows.len() > 20);
         for row in rows {
-            let e = curve(row.ainvs);
+            let e = curve(row.coefficients);
             let (m, n, w) = minimal_conductor_sign(&e).unwrap();
-            assert_eq!(n, nat(row.conductor), "{:?}", row.ainvs);
-            let a = analytic_rank(&m, &n, w).unwrap_or_else(|err| panic!("{:?}: {err}", row.ainvs));
-            assert_eq!(a.rank, row.rank, "{:?}: {:?}", row.ainvs, a.values);
-            assert!(a.leading.error < 1e-12 * a.leading.value.abs(), "{:?}: {:?}", row.ainvs, a.leading);
+            assert_eq!(n, nat(row.conductor), "{:?}", row.coefficients);
+            let a = analytic_rank(&m, &n, w).unwrap_or_else(|err| panic!("{:?}: {err}", row.coefficients));
+            assert_eq!(a.rank, row.rank, "{:?}: {:?}", row.coefficients, a.values);
+            assert!(a.leading.error < 1e-12 * a.leading.value.abs(), "{:?}: {:?}", row.coefficients, a.leading);
         }
     }
 }
@@ -193,7 +193,7 @@ fn isogenous_curves_share_their_values() {
     let mut first: std::collections::HashMap<(u64, u32), (f64, f64)> = Default::default();
     let mut compared = 0;
     for row in rows {
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         let (m, n, w) = minimal_conductor_sign(&e).unwrap();
         let a = analytic_rank(&m, &n, w).unwrap();
         let key = (row.conductor, row.class.unwrap());
@@ -202,7 +202,7 @@ fn isogenous_curves_share_their_values() {
                 first.insert(key, (a.leading.value, a.leading.error));
             }
             Some(&(v, err)) => {
-                assert!((v - a.leading.value).abs() <= err + a.leading.error, "{:?}: {v} vs {}", row.ainvs, a.leading.value);
+                assert!((v - a.leading.value).abs() <= err + a.leading.error, "{:?}: {v} vs {}", row.coefficients, a.leading.value);
                 compared += 1;
             }
         }
@@ -216,7 +216,7 @@ proptest::proptest! {
     /// singular reductions included: both count the affine solutions plus one).
     #[test]
     fn point_counter_matches_brute_force(a in proptest::array::uniform5(-60i64..60), i in 0usize..60) {
-        let Ok(e) = Curve::from_ainvs(a) else { return Ok(()) };
+        let Ok(e) = Curve::from_coefficients(a) else { return Ok(()) };
         let p = twofold::arith::primes_up_to(300)[i];
         let mut naive = 1u64;
         let r = |v: i64| v.rem_euclid(p as i64) as u64;

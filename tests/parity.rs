@@ -35,9 +35,9 @@ fn monsky_parity_on_the_tables() {
     rows.extend(common::read_table("curves-with-sha.tsv"));
     let mut checked = 0;
     for r in &rows {
-        let e = Curve::from_ainvs(r.ainvs).unwrap();
+        let e = Curve::from_coefficients(r.coefficients).unwrap();
         if let Some(ok) = parity_holds_report(&e) {
-            assert!(ok, "{:?}: Monsky parity fails", r.ainvs);
+            assert!(ok, "{:?}: Monsky parity fails", r.coefficients);
             checked += 1;
         }
     }
@@ -50,7 +50,7 @@ proptest! {
     /// Random small curves.
     #[test]
     fn monsky_parity_random(a1 in 0i64..=1, a2 in -1i64..=1, a3 in 0i64..=1, a4 in -40i64..=40, a6 in -80i64..=80) {
-        if let Ok(e) = Curve::from_ainvs([a1, a2, a3, a4, a6]) {
+        if let Ok(e) = Curve::from_coefficients([a1, a2, a3, a4, a6]) {
             if let Some(ok) = parity_holds(&e) {
                 prop_assert!(ok, "{:?}", [a1, a2, a3, a4, a6]);
             }

@@ -14,7 +14,7 @@ fn bad_primes(e: &Curve) -> Vec<Natural> {
 
 fn small_curve() -> impl Strategy<Value = Curve> {
     (-2i64..=2, -3i64..=3, -2i64..=2, -30i64..=30, -60i64..=60)
-        .prop_filter_map("singular", |(a1, a2, a3, a4, a6)| Curve::from_ainvs([a1 % 2, a2, a3 % 2, a4, a6]).ok())
+        .prop_filter_map("singular", |(a1, a2, a3, a4, a6)| Curve::from_coefficients([a1 % 2, a2, a3 % 2, a4, a6]).ok())
 }
 
 fn change() -> impl Strategy<Value = ModelChange> {
@@ -86,8 +86,8 @@ proptest! {
     #[test]
     fn isogenous_curves(a in -20i64..=20, b in -40i64..=40) {
         prop_assume!(b != 0 && a * a - 4 * b != 0);
-        let e = Curve::from_ainvs([0, a, 0, b, 0]).unwrap();
-        let e1 = Curve::from_ainvs([0, -2 * a, 0, a * a - 4 * b, 0]).unwrap();
+        let e = Curve::from_coefficients([0, a, 0, b, 0]).unwrap();
+        let e1 = Curve::from_coefficients([0, -2 * a, 0, a * a - 4 * b, 0]).unwrap();
         let o = RankOptions::default().with_search_height(60);
         let r = analyse(&e, &o).unwrap();
         let r1 = analyse(&e1, &o).unwrap();

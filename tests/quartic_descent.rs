@@ -27,7 +27,7 @@ fn published_tables() {
     let sha = common::read_table("curves-with-sha.tsv");
     // a curve of the small table that is also in the Sha list takes its Sha order from there
     for r in rows.iter_mut() {
-        if let Some(s) = sha.iter().find(|s| s.ainvs == r.ainvs) {
+        if let Some(s) = sha.iter().find(|s| s.coefficients == r.coefficients) {
             r.sha_order = s.sha_order;
         }
     }
@@ -35,33 +35,33 @@ fn published_tables() {
     let opts = RankOptions { cross_check_routes: true, ..RankOptions::default() };
     let mut incomplete = Vec::new();
     for r in &rows {
-        let e = Curve::from_ainvs(r.ainvs).unwrap();
+        let e = Curve::from_coefficients(r.coefficients).unwrap();
         let rep = analyse(&e, &opts).unwrap();
-        assert!(rep.rank_lower.unwrap() <= r.rank, "{:?}", r.ainvs);
+        assert!(rep.rank_lower.unwrap() <= r.rank, "{:?}", r.coefficients);
         if matches!(r.sha_order, None | Some(9) | Some(25)) {
-            assert_eq!(rep.rank(), Some(r.rank), "{:?}: Sha[2] is trivial, the rank must be proven", r.ainvs);
+            assert_eq!(rep.rank(), Some(r.rank), "{:?}: Sha[2] is trivial, the rank must be proven", r.coefficients);
         }
         let d = rep.full_descent.as_ref().expect("the quartic route runs");
         for c in &d.classes {
             for (place, w) in &c.witnesses {
-                assert!(check_witness(&c.quartic.coeffs(), place, w), "{:?}: witness at {place:?}", r.ainvs);
+                assert!(check_witness(&c.quartic.coeffs(), place, w), "{:?}: witness at {place:?}", r.coefficients);
             }
         }
         let Some(s) = d.selmer_dim else {
-            incomplete.push((r.ainvs, r.sha_order));
+            incomplete.push((r.coefficients, r.sha_order));
             continue;
         };
         assert_eq!(rep.selmer2_dim, Some(s));
         let sha2 = s - d.two_torsion_dim - r.rank;
-        assert!(s >= d.two_torsion_dim + r.rank, "{:?}: Selmer too small", r.ainvs);
-        assert_eq!(sha2 % 2, 0, "{:?}: parity", r.ainvs);
+        assert!(s >= d.two_torsion_dim + r.rank, "{:?}: Selmer too small", r.coefficients);
+        assert_eq!(sha2 % 2, 0, "{:?}: parity", r.coefficients);
         match r.sha_order {
-            None | Some(9) | Some(25) => assert_eq!(sha2, 0, "{:?}: Sha[2] should be trivial", r.ainvs),
-            Some(4) => assert_eq!(sha2, 2, "{:?}: Sha[2] should have dimension 2", r.ainvs),
+            None | Some(9) | Some(25) => assert_eq!(sha2, 0, "{:?}: Sha[2] should be trivial", r.coefficients),
+            Some(4) => assert_eq!(sha2, 2, "{:?}: Sha[2] should have dimension 2", r.coefficients),
             Some(_) => {}
         }
         if d.upper != Some(d.lower) {
-            assert_eq!(d.unexplained.len(), d.upper.unwrap() - d.lower, "{:?}", r.ainvs);
+            assert_eq!(d.unexplained.len(), d.upper.unwrap() - d.lower, "{:?}", r.coefficients);
         }
     }
     eprintln!("enumeration incomplete on {incomplete:?}");
@@ -76,7 +76,7 @@ fn published_tables() {
 #[test]
 fn ranks_two_and_three() {
     for (a, rank) in [([0, 1, 1, -2, 0], 2usize), ([0, 0, 1, -7, 6], 3)] {
-        let e = Curve::from_ainvs(a).unwrap();
+        let e = Curve::from_coefficients(a).unwrap();
         let r = analyse(&e, &RankOptions::default()).unwrap();
         assert_eq!(r.rank(), Some(rank));
         assert_eq!(r.points.len(), rank);
@@ -93,7 +93,7 @@ fn ranks_two_and_three() {
 fn routes_agree_on_two_torsion_curves() {
     let rows = common::read_table("curves-small-conductor.tsv");
     for r in rows.iter().filter(|r| r.torsion_order % 2 == 0).take(150) {
-        let e = Curve::from_ainvs(r.ainvs).unwrap();
+        let e = Curve::from_coefficients(r.coefficients).unwrap();
         let o = RankOptions { cross_check_routes: true, ..RankOptions::default() };
         let rep = analyse(&e, &o).unwrap();
         assert_eq!(rep.route.name(), "2-isogeny+quartic");
@@ -120,7 +120,7 @@ fn lind_reichardt() {
 /// A zero budget gives a report that claims nothing it did not prove.
 #[test]
 fn zero_budget() {
-    let e = Curve::from_ainvs([0, 1, 1, -2, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap();
     let r = match analyse(&e, &RankOptions::default().with_time_limit(std::time::Duration::ZERO)) {
         Ok(r) => r,
         // the budget may already be gone while factoring the discriminant
@@ -140,7 +140,7 @@ fn zero_budget() {
 #[test]
 fn known_primes() {
     use malachite::Natural;
-    let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap(); // discriminant 37
+    let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // discriminant 37
     let o = RankOptions { known_primes: Some(vec![Natural::from(37u32)]), ..RankOptions::default() };
     assert_eq!(analyse(&e, &o).unwrap().rank(), Some(1));
     let bad = RankOptions { known_primes: Some(vec![Natural::from(35u32)]), ..RankOptions::default() };
@@ -223,7 +223,7 @@ fn soluble_classes_have_local_points_found_independently() {
     let rows = common::read_table("curves-small-conductor.tsv");
     let mut checked = 0;
     for r in rows.iter().step_by(3) {
-        let e = Curve::from_ainvs(r.ainvs).unwrap();
+        let e = Curve::from_coefficients(r.coefficients).unwrap();
         let opts = RankOptions { cross_check_routes: true, ..RankOptions::default() };
         let rep = analyse(&e, &opts).unwrap();
         let Some(d) = rep.full_descent.as_ref() else { continue };
@@ -234,11 +234,11 @@ fn soluble_classes_have_local_points_found_independently() {
                     Place::Real => {
                         // the reported real point, evaluated here (positive values can sit in
                         // very narrow intervals, so no blind search)
-                        assert!(eval(&g, &w.x, &w.z) > 0, "{:?}: {g:?} not positive at the real witness", r.ainvs);
+                        assert!(eval(&g, &w.x, &w.z) > 0, "{:?}: {g:?} not positive at the real witness", r.coefficients);
                     }
                     Place::Prime(p) => {
                         let p = u64::try_from(p).unwrap();
-                        assert!(search(&g, p), "{:?}: no point of {g:?} over Q_{p} found independently", r.ainvs);
+                        assert!(search(&g, p), "{:?}: no point of {g:?} over Q_{p} found independently", r.coefficients);
                     }
                 }
                 checked += 1;
@@ -253,7 +253,7 @@ fn soluble_classes_have_local_points_found_independently() {
 /// estimate, and the report claims no upper bound it did not prove.
 #[test]
 fn hopeless_enumeration_is_refused_quickly() {
-    let e = Curve::from_ainvs([0i64, 0, 1, -123456789012345, 987654321098765432]).unwrap();
+    let e = Curve::from_coefficients([0i64, 0, 1, -123456789012345, 987654321098765432]).unwrap();
     let t = std::time::Instant::now();
     let r = analyse(&e, &RankOptions { evidence: false, ..RankOptions::default() }).unwrap();
     assert!(t.elapsed().as_secs_f64() < 20.0, "took {:?}", t.elapsed());

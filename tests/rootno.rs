@@ -26,7 +26,7 @@ use twofold::rootno::{
 use twofold::{Curve, ModelChange};
 
 fn curve(a: [i64; 5]) -> Curve {
-    Curve::from_ainvs(a).unwrap()
+    Curve::from_coefficients(a).unwrap()
 }
 
 fn all_table_rows() -> Vec<common::Row> {
@@ -68,11 +68,11 @@ fn published_tables_sign_is_parity_of_rank() {
     let rows = all_table_rows();
     let mut by_method = [0usize; 3];
     for row in &rows {
-        let e = curve(row.ainvs);
-        let r = root_number(&e).unwrap_or_else(|err| panic!("{:?}: {err}", row.ainvs));
+        let e = curve(row.coefficients);
+        let r = root_number(&e).unwrap_or_else(|err| panic!("{:?}: {err}", row.coefficients));
         let want = if row.rank % 2 == 0 { 1 } else { -1 };
-        assert_eq!(r.global, want, "{:?} (conductor {}, rank {})", row.ainvs, row.conductor, row.rank);
-        assert_eq!(r.conductor, nat(row.conductor), "{:?}", row.ainvs);
+        assert_eq!(r.global, want, "{:?} (conductor {}, rank {})", row.coefficients, row.conductor, row.rank);
+        assert_eq!(r.conductor, nat(row.conductor), "{:?}", row.coefficients);
         check_consistent(&r);
         match &r.method {
             RootNumberMethod::LocalAndNumerical => by_method[0] += 1,
@@ -81,7 +81,7 @@ fn published_tables_sign_is_parity_of_rank() {
             m => panic!("unexpected method {m:?} at conductor {}", row.conductor),
         }
         // The numerical route alone gives the same sign.
-        assert_eq!(root_number_numerical(&e), Some(want), "{:?}", row.ainvs);
+        assert_eq!(root_number_numerical(&e), Some(want), "{:?}", row.coefficients);
     }
     eprintln!(
         "table curves: {} by local formulas checked numerically, {} with one local sign deduced, {} with w_2 w_3 joint",
@@ -124,7 +124,7 @@ fn bad_primes(e: &Curve) -> Vec<Natural> {
 #[test]
 fn local_entries_match_local_function() {
     for row in all_table_rows().iter().step_by(7) {
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         let r = root_number(&e).unwrap();
         let deduced = match &r.method {
             RootNumberMethod::Numerical { deduced } => deduced.clone(),
@@ -135,7 +135,7 @@ fn local_entries_match_local_function() {
             if deduced.contains(p) {
                 assert_eq!(got, None);
             } else {
-                assert_eq!(got, Some(*s), "{:?} at {p}", row.ainvs);
+                assert_eq!(got, Some(*s), "{:?} at {p}", row.coefficients);
             }
         }
         for p in bad_primes(&e) {
@@ -175,7 +175,7 @@ fn twisting_formula_on_table_curves() {
     let ds = [-3i64, -4, 5, -7, -8, 8, -11, 12, 13, -15, 17, -19, -20, 21, -23, -24, 24];
     let mut checked = 0;
     for (i, row) in all_table_rows().iter().enumerate().step_by(3) {
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         let n = row.conductor as i64;
         let w = if row.rank % 2 == 0 { 1 } else { -1 };
         for &d in ds.iter().skip(i % 5).step_by(5) {
@@ -187,8 +187,8 @@ fn twisting_formula_on_table_curves() {
             // χ_D(-N) = χ_D(-1) χ_D(N), and χ_D(-1) = sign(D) for a discriminant D
             let chi = kronecker_i64(d, n as u64) * if d < 0 { -1 } else { 1 };
             let r = root_number(&twist(&e, d)).unwrap();
-            assert_eq!(r.conductor, nat((n * d * d) as u64), "{:?} twisted by {d}", row.ainvs);
-            assert_eq!(i32::from(r.global), chi * w, "{:?} twisted by {d}", row.ainvs);
+            assert_eq!(r.conductor, nat((n * d * d) as u64), "{:?} twisted by {d}", row.coefficients);
+            assert_eq!(i32::from(r.global), chi * w, "{:?} twisted by {d}", row.coefficients);
             check_consistent(&r);
             checked += 1;
         }
@@ -228,10 +228,10 @@ fn rohrlich_formula_against_functional_equation() {
                 let a6 = centred((-b2 * b2 * b2 + 72 * b2 * a4 - c6t).rem_euclid(pk) * inv(864));
                 for (k4, k6) in [(0, 0), (1, 0), (0, 1), (-1, 0), (0, -1), (1, 1), (-1, -1), (1, -1), (-1, 1)] {
                     let (a4, a6) = (a4 + k4 * pk, a6 + k6 * pk);
-                    let Ok(e_curve) = Curve::from_ainvs([1, a2, 0, a4, a6]) else { continue };
+                    let Ok(e_curve) = Curve::from_coefficients([1, a2, 0, a4, a6]) else { continue };
                     let d = local_data(&e_curve, &nat(p as u64)).unwrap();
                     assert_eq!(d.reduction, Reduction::Additive);
-                    assert_eq!(12 / gcd(12, d.minimal_valuation_disc), e, "{:?}", e_curve.ainvs());
+                    assert_eq!(12 / gcd(12, d.minimal_valuation_disc), e, "{:?}", e_curve.coefficients());
                     if conductor_of(&e_curve) > nat(8_000_000) {
                         continue;
                     }
@@ -242,7 +242,7 @@ fn rohrlich_formula_against_functional_equation() {
                     };
                     assert_eq!(local_root_number(&e_curve, &nat(p as u64)).unwrap(), Some(want as i8));
                     let r = root_number(&e_curve).unwrap();
-                    assert_eq!(r.method, RootNumberMethod::LocalAndNumerical, "{:?}", e_curve.ainvs());
+                    assert_eq!(r.method, RootNumberMethod::LocalAndNumerical, "{:?}", e_curve.coefficients());
                     found += 1;
                     if found == 2 {
                         break 'scan;
@@ -273,7 +273,7 @@ fn gcd(a: u32, b: u32) -> u32 {
 #[test]
 fn twists_by_p_give_legendre_of_minus_one() {
     for row in all_table_rows().iter().step_by(11) {
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         for p in [5u64, 7, 11, 13] {
             let t = twist(&e, p as i64);
             let d = local_data(&e, &nat(p)).unwrap();
@@ -281,7 +281,7 @@ fn twists_by_p_give_legendre_of_minus_one() {
                 continue;
             }
             let want = kronecker_i64(-1, p) as i8;
-            assert_eq!(local_root_number(&t, &nat(p)).unwrap(), Some(want), "{:?} at {p}", row.ainvs);
+            assert_eq!(local_root_number(&t, &nat(p)).unwrap(), Some(want), "{:?} at {p}", row.coefficients);
             assert_eq!(local_root_number(&twist(&e, -(p as i64)), &nat(p)).unwrap(), Some(want));
         }
     }
@@ -320,7 +320,7 @@ proptest! {
     /// result is consistent.
     #[test]
     fn local_formulas_agree_with_functional_equation(a in small_curve()) {
-        let Ok(e) = Curve::from_ainvs(a) else { return Ok(()) };
+        let Ok(e) = Curve::from_coefficients(a) else { return Ok(()) };
         if conductor_of(&e) > nat(100_000) {
             return Ok(());
         }
@@ -342,7 +342,7 @@ proptest! {
     /// The root number and the local root numbers do not depend on the model.
     #[test]
     fn invariant_under_change_of_model(a in small_curve(), u in 1i64..=4, r in -5i64..=5, s in -3i64..=3, t in -5i64..=5) {
-        let Ok(e) = Curve::from_ainvs(a) else { return Ok(()) };
+        let Ok(e) = Curve::from_coefficients(a) else { return Ok(()) };
         if conductor_of(&e) > nat(1_000_000) {
             return Ok(());
         }
@@ -366,7 +366,7 @@ proptest! {
 fn tame_rule_at_two_and_three_on_table_curves() {
     let mut seen = [0usize; 2];
     for row in &all_table_rows() {
-        let e = curve(row.ainvs);
+        let e = curve(row.coefficients);
         for (i, p) in [2u64, 3].into_iter().enumerate() {
             let d = local_data(&e, &nat(p)).unwrap();
             if d.reduction != Reduction::Additive || d.conductor_exponent != 2 {
@@ -383,7 +383,7 @@ fn tame_rule_at_two_and_three_on_table_curves() {
                 continue;
             }
             let want = if p == 2 { -1 } else { 1 };
-            assert_eq!(local_root_number(&e, &nat(p)).unwrap(), Some(want), "{:?}", row.ainvs);
+            assert_eq!(local_root_number(&e, &nat(p)).unwrap(), Some(want), "{:?}", row.coefficients);
             let r = root_number(&e).unwrap();
             let want_w = if row.rank % 2 == 0 { 1 } else { -1 };
             assert_eq!(r.global, want_w);
@@ -427,19 +427,19 @@ fn small_coefficient_sweep() {
             for a3 in 0..=1 {
                 for a4 in -3..=3 {
                     for a6 in -3..=3 {
-                        let Ok(e) = Curve::from_ainvs([a1, a2, a3, a4, a6]) else { continue };
+                        let Ok(e) = Curve::from_coefficients([a1, a2, a3, a4, a6]) else { continue };
                         let r = root_number(&e).unwrap();
                         check_consistent(&r);
                         match r.method {
                             RootNumberMethod::LocalAndNumerical => counts[0] += 1,
                             RootNumberMethod::Numerical { .. } => counts[1] += 1,
-                            ref m => panic!("{m:?} for {:?}", e.ainvs()),
+                            ref m => panic!("{m:?} for {:?}", e.coefficients()),
                         }
                         let n = u64::try_from(&r.conductor).unwrap();
                         if n % 2 == 1 && n < 20_000 {
                             // D = -4: χ_{-4}(-N) = -χ_{-4}(N)
                             let t = root_number(&twist(&e, -1)).unwrap();
-                            assert_eq!(t.global, -r.global * kronecker_i64(-4, n) as i8, "{:?}", e.ainvs());
+                            assert_eq!(t.global, -r.global * kronecker_i64(-4, n) as i8, "{:?}", e.coefficients());
                         }
                     }
                 }

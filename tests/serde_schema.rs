@@ -15,7 +15,7 @@ fn to_value<T: serde::Serialize>(x: &T) -> Value {
 
 #[test]
 fn leaf_forms_match_the_schema() {
-    let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     assert_eq!(to_value(&e), json!(["0", "0", "1", "-1", "0"]));
     assert_eq!(to_value(&Point::Infinity), json!("infinity"));
     let p = Point::Affine(malachite::Rational::from_signeds(-3, 4), 5.into());
@@ -55,7 +55,7 @@ fn bad_data_is_rejected() {
 
 #[test]
 fn report_fields_are_strings_and_round_trip() {
-    let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     let r = analyse(&e, &RankOptions::default()).unwrap();
     let v = to_value(&r);
     assert_eq!(v["conductor"], json!("37")); // Cremona's Table 1: 37a1
@@ -76,7 +76,7 @@ fn batch_items_root_numbers_and_summaries_round_trip() {
     assert_eq!(to_value(&run.items[1])["result"]["Err"]["kind"], json!("singular"));
     let s = serde_json::to_string(&run.summary).unwrap();
     assert_eq!(serde_json::from_str::<BatchSummary>(&s).unwrap(), run.summary);
-    let w = root_number(&Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap()).unwrap();
+    let w = root_number(&Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap()).unwrap();
     let text = serde_json::to_string(&w).unwrap();
     assert_eq!(serde_json::from_str::<RootNumber>(&text).unwrap(), w);
     assert_eq!(to_value(&w)["conductor"], json!("11"));

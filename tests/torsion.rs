@@ -32,7 +32,7 @@ fn torsion_orders_match_published_table() {
     for line in text.lines().filter(|l| !l.starts_with('#') && !l.trim().is_empty()) {
         let f: Vec<&str> = line.split('\t').collect();
         let a: Vec<i64> = f[2..7].iter().map(|s| s.parse().unwrap()).collect();
-        let e = Curve::from_ainvs([a[0], a[1], a[2], a[3], a[4]]).unwrap();
+        let e = Curve::from_coefficients([a[0], a[1], a[2], a[3], a[4]]).unwrap();
         let t = TorsionGroup::compute(&e, &small_primes_of(e.discriminant()));
         assert_eq!(t.order().to_string(), f[8], "curve {line}");
         for p in t.points() {

@@ -24,7 +24,7 @@
 //! use twofold::{analyse, Curve, RankOptions};
 //! use twofold::certificate::{verify, Certificate};
 //! // y^2 = x^3 - 25x: rank 1 (5 is a congruent number; OEIS A003273)
-//! let e = Curve::from_ainvs([0, 0, 0, -25, 0]).unwrap();
+//! let e = Curve::from_coefficients([0, 0, 0, -25, 0]).unwrap();
 //! let report = analyse(&e, &RankOptions::default()).unwrap();
 //! let cert = Certificate::from_report(&report).unwrap();
 //! let claims = verify(&cert).unwrap();
@@ -273,7 +273,7 @@ pub struct CertPoint {
 /// use twofold::{analyse, Curve, RankOptions};
 /// use twofold::certificate::{verify, Certificate};
 /// // 37a1: y^2 + y = x^3 - x, rank 1 (Cremona's table)
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let cert = Certificate::from_report(&analyse(&e, &RankOptions::default()).unwrap()).unwrap();
 /// assert_eq!(cert.points.len(), 1);
 /// assert_eq!(verify(&cert).unwrap().rank(), Some(1));
@@ -381,8 +381,8 @@ impl Certificate {
             (None, _) => None,
         };
         Ok(Certificate {
-            input: report.input.ainvs().clone(),
-            minimal: minimal.ainvs().clone(),
+            input: report.input.coefficients().clone(),
+            minimal: minimal.coefficients().clone(),
             change: [change.u.clone(), change.r.clone(), change.s.clone(), change.t.clone()],
             primes,
             rank_lower: report.rank_lower,
@@ -398,7 +398,7 @@ impl Certificate {
 /// `x0` and `u` of the side model for the kernel point `t` (the same
 /// normalisation as the descent: remove factors 2 and 3 while integral).
 fn side_change(curve: &Curve, t: &(Rational, Rational)) -> Option<(Integer, Integer)> {
-    let b2 = &curve.binvs()[0];
+    let b2 = &curve.b_invariants()[0];
     let big_x = Rational::from(36) * &t.0 + Rational::from(Integer::from(3) * b2);
     let x0 = Integer::try_from(big_x).ok()?;
     let mut a = Integer::from(3) * &x0;
@@ -504,7 +504,7 @@ fn quartic_proof(curve: &Curve, f: &crate::descent::full::FullDescent, degree: O
         ruled_out: f.ruled_out.iter().map(|(q, pl)| (q.coeffs(), pl.clone())).collect(),
         lower: f.lower,
         upper: f.upper,
-        descent_curve: degree.map(|d| (curve.ainvs().clone(), d)),
+        descent_curve: degree.map(|d| (curve.coefficients().clone(), d)),
     })
 }
 

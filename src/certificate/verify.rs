@@ -74,7 +74,7 @@ pub enum UpperBoundBasis {
 /// use twofold::{analyse, Curve, RankOptions};
 /// use twofold::certificate::{verify, Certificate, UpperBoundBasis};
 /// // y^2 = x^3 - x: rank 0 (32a2 in Cremona's table)
-/// let e = Curve::from_ainvs([0, 0, 0, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 0, -1, 0]).unwrap();
 /// let c = Certificate::from_report(&analyse(&e, &RankOptions::default()).unwrap()).unwrap();
 /// let v = verify(&c).unwrap();
 /// assert_eq!(v.rank(), Some(0));
@@ -481,11 +481,11 @@ fn legendre_u64(a: u64, q: u64) -> i8 {
 
 /// The F2 rank of the images of `rows` under the quadratic characters
 /// at good odd primes.
-fn character_rank(rows: &[(Rational, Rational)], ainvs: &[Integer; 5], disc: &Integer) -> usize {
+fn character_rank(rows: &[(Rational, Rational)], coefficients: &[Integer; 5], disc: &Integer) -> usize {
     if rows.is_empty() {
         return 0;
     }
-    let m = Model::new(ainvs);
+    let m = Model::new(coefficients);
     let [b2, b4, b6, _] = m.b_invariants();
     let b = [b2, b4, b6].map(|x| Integer::try_from(x).expect("integral model"));
     let mut columns: Vec<u64> = Vec::new();
@@ -1001,10 +1001,10 @@ mod tests {
 
     #[test]
     fn model_change_formula_matches_the_curve_module() {
-        let e = crate::Curve::from_ainvs([1, -1, 1, -7, 3]).unwrap();
+        let e = crate::Curve::from_coefficients([1, -1, 1, -7, 3]).unwrap();
         let ch = crate::ModelChange::new(Rational::from(2), Rational::from(3), Rational::from(-1), Rational::from(5)).unwrap();
-        let f = e.apply_change(&ch).map(|c| c.ainvs().clone().map(Rational::from));
-        let ours = apply_change(&e.ainvs().clone().map(Rational::from), &[ch.u, ch.r, ch.s, ch.t]);
+        let f = e.apply_change(&ch).map(|c| c.coefficients().clone().map(Rational::from));
+        let ours = apply_change(&e.coefficients().clone().map(Rational::from), &[ch.u, ch.r, ch.s, ch.t]);
         match f {
             Ok(theirs) => assert_eq!(ours, theirs),
             Err(_) => assert!(ours.iter().any(|a| a.to_numerator_and_denominator().1 != 1u32)),

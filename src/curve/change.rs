@@ -17,7 +17,7 @@ impl ModelChange {
     ///
     /// ```
     /// use twofold::{Curve, ModelChange};
-    /// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+    /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
     /// assert_eq!(e.apply_change(&ModelChange::identity()).unwrap(), e);
     /// ```
     pub fn identity() -> ModelChange {
@@ -59,7 +59,7 @@ impl ModelChange {
     /// use malachite::Rational;
     /// use twofold::{Curve, ModelChange};
     /// let q = |n: i64| Rational::from(n);
-    /// let e = Curve::from_ainvs([1, 0, 1, 4, -6]).unwrap();
+    /// let e = Curve::from_coefficients([1, 0, 1, 4, -6]).unwrap();
     /// let c1 = ModelChange::new(q(1), q(2), q(-1), q(3)).unwrap();
     /// let c2 = ModelChange::new(q(-1), q(0), q(1), q(1)).unwrap();
     /// let two_steps = e.apply_change(&c1).unwrap().apply_change(&c2).unwrap();
@@ -149,7 +149,7 @@ fn zero_scaling() -> Error {
 
 /// The a-invariants after the change `c` (Silverman, AEC Table 3.1), as
 /// rationals. `c.u` must be non-zero.
-pub(crate) fn transform_ainvs(a: &[Rational; 5], c: &ModelChange) -> [Rational; 5] {
+pub(crate) fn transform_coefficients(a: &[Rational; 5], c: &ModelChange) -> [Rational; 5] {
     let [a1, a2, a3, a4, a6] = a;
     let ModelChange { u, r, s, t } = c;
     let u2 = u * u;
@@ -169,7 +169,7 @@ pub(crate) fn transform_ainvs(a: &[Rational; 5], c: &ModelChange) -> [Rational; 
 }
 
 /// The a-invariants after the integral change `[1, r, s, t]`.
-pub(crate) fn shift_ainvs(a: &[Integer; 5], r: &Integer, s: &Integer, t: &Integer) -> [Integer; 5] {
+pub(crate) fn shift_coefficients(a: &[Integer; 5], r: &Integer, s: &Integer, t: &Integer) -> [Integer; 5] {
     let [a1, a2, a3, a4, a6] = a;
     let rs = r * s;
     [
@@ -228,9 +228,9 @@ impl Curve {
     /// use twofold::{Curve, ModelChange};
     /// let q = |n: i64| Rational::from(n);
     /// // y^2 = x^3 + 16 becomes y^2 + y = x^3 under x = 4x', y = 8y' + 4.
-    /// let e = Curve::from_ainvs([0, 0, 0, 0, 16]).unwrap();
+    /// let e = Curve::from_coefficients([0, 0, 0, 0, 16]).unwrap();
     /// let c = ModelChange::new(q(2), q(0), q(0), q(4)).unwrap();
-    /// assert_eq!(e.apply_change(&c).unwrap(), Curve::from_ainvs([0, 0, 1, 0, 0]).unwrap());
+    /// assert_eq!(e.apply_change(&c).unwrap(), Curve::from_coefficients([0, 0, 1, 0, 0]).unwrap());
     /// // Scaling by u = 4 is not integral:
     /// assert!(e.apply_change(&ModelChange::new(q(4), q(0), q(0), q(0)).unwrap()).is_err());
     /// ```
@@ -238,8 +238,8 @@ impl Curve {
         if c.u == 0u32 {
             return Err(zero_scaling());
         }
-        let a = self.ainvs().clone().map(Rational::from);
-        let b = transform_ainvs(&a, c);
+        let a = self.coefficients().clone().map(Rational::from);
+        let b = transform_coefficients(&a, c);
         let mut out: [Integer; 5] = Default::default();
         for (o, x) in out.iter_mut().zip(b.iter()) {
             *o = Integer::try_from(x).map_err(|_| {
@@ -269,12 +269,12 @@ impl Curve {
     /// let mut a = [0, 0, 0, 0, 0].map(Rational::from);
     /// a[3] = Rational::from_signeds(-1, 4);
     /// a[4] = Rational::from_signeds(1, 2);
-    /// let (e, c) = Curve::from_rational_ainvs(a).unwrap();
-    /// assert_eq!(e, Curve::from_ainvs([0, 0, 0, -64, 2048]).unwrap());
+    /// let (e, c) = Curve::from_rational_coefficients(a).unwrap();
+    /// assert_eq!(e, Curve::from_coefficients([0, 0, 0, -64, 2048]).unwrap());
     /// assert_eq!(c.u, Rational::from_signeds(1, 4));
-    /// assert!(Curve::from_rational_ainvs([0, 0, 0, 0, 0].map(Rational::from)).is_err());
+    /// assert!(Curve::from_rational_coefficients([0, 0, 0, 0, 0].map(Rational::from)).is_err());
     /// ```
-    pub fn from_rational_ainvs(a: [Rational; 5]) -> Result<(Curve, ModelChange), Error> {
+    pub fn from_rational_coefficients(a: [Rational; 5]) -> Result<(Curve, ModelChange), Error> {
         let mut d = Natural::ONE;
         for x in &a {
             d = d.lcm(x.denominator_ref());
@@ -285,7 +285,7 @@ impl Curve {
             s: Rational::ZERO,
             t: Rational::ZERO,
         };
-        let b = transform_ainvs(&a, &c);
+        let b = transform_coefficients(&a, &c);
         let mut out: [Integer; 5] = Default::default();
         for (o, x) in out.iter_mut().zip(b.iter()) {
             // d^i * a_i is an integer because den(a_i) | d.
@@ -300,14 +300,14 @@ impl Curve {
     ///
     /// ```
     /// use twofold::Curve;
-    /// let e = Curve::from_ainvs([2, 3, 4, 5, 6]).unwrap();
+    /// let e = Curve::from_coefficients([2, 3, 4, 5, 6]).unwrap();
     /// let (f, c) = e.reduced_form();
     /// assert_eq!(e.apply_change(&c).unwrap(), f);
-    /// let a = f.ainvs();
+    /// let a = f.coefficients();
     /// assert!(a[0] >= 0 && a[0] <= 1 && a[2] >= 0 && a[2] <= 1 && a[1] >= -1 && a[1] <= 1);
     /// ```
     pub fn reduced_form(&self) -> (Curve, ModelChange) {
-        let [a1, a2, a3, _, _] = self.ainvs();
+        let [a1, a2, a3, _, _] = self.coefficients();
         let two = Integer::from(2);
         let three = Integer::from(3);
         let s = (a1.mod_op(&two) - a1) / &two;
@@ -319,7 +319,7 @@ impl Curve {
         let r = (target2 - &m) / &three;
         let n = a3 + &r * a1;
         let t = ((&n).mod_op(&two) - &n) / &two;
-        let a = shift_ainvs(self.ainvs(), &r, &s, &t);
+        let a = shift_coefficients(self.coefficients(), &r, &s, &t);
         let e = Curve::new(a).expect("a change of model keeps the discriminant non-zero");
         let c = ModelChange { u: Rational::ONE, r: Rational::from(r), s: Rational::from(s), t: Rational::from(t) };
         (e, c)
@@ -334,13 +334,13 @@ impl Curve {
     /// use malachite::Natural;
     /// use twofold::Curve;
     /// // y^2 = x^3 - 16 * 64 is y^2 = x^3 - 16 scaled by u = 1/2.
-    /// let e = Curve::from_ainvs([0, 0, 0, 0, -1024]).unwrap();
+    /// let e = Curve::from_coefficients([0, 0, 0, 0, -1024]).unwrap();
     /// assert!(!e.is_minimal_at(&Natural::from(2u32)).unwrap());
     /// assert!(e.is_minimal_at(&Natural::from(3u32)).unwrap());
     /// ```
     pub fn is_minimal_at(&self, p: &Natural) -> Result<bool, Error> {
         crate::local::check_prime(p)?;
-        let out = crate::local::tate(self.ainvs(), self.discriminant(), p);
+        let out = crate::local::tate(self.coefficients(), self.discriminant(), p);
         Ok(out.scalings == 0)
     }
 
@@ -354,14 +354,14 @@ impl Curve {
     /// ```
     /// use malachite::Natural;
     /// use twofold::Curve;
-    /// let e = Curve::from_ainvs([0, 0, 0, 0, -1024]).unwrap();
+    /// let e = Curve::from_coefficients([0, 0, 0, 0, -1024]).unwrap();
     /// let (f, c) = e.minimal_model_at(&Natural::from(2u32)).unwrap();
     /// assert!(f.is_minimal_at(&Natural::from(2u32)).unwrap());
     /// assert_eq!(e.apply_change(&c).unwrap(), f);
     /// ```
     pub fn minimal_model_at(&self, p: &Natural) -> Result<(Curve, ModelChange), Error> {
         crate::local::check_prime(p)?;
-        let out = crate::local::tate(self.ainvs(), self.discriminant(), p);
+        let out = crate::local::tate(self.coefficients(), self.discriminant(), p);
         let e = Curve::new(out.model).expect("a change of model keeps the discriminant non-zero");
         Ok((e, out.change))
     }
@@ -384,7 +384,7 @@ impl Curve {
     /// use malachite::{Natural, Rational};
     /// use twofold::{Curve, ModelChange};
     /// let q = |n: i64| Rational::from(n);
-    /// let e11 = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+    /// let e11 = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
     /// // a non-minimal model of the same curve
     /// let big = e11.apply_change(&ModelChange::new(Rational::from_signeds(1, 6), q(5), q(-2), q(7)).unwrap()).unwrap();
     /// let primes: Vec<Natural> = [2u32, 3, 11].map(Natural::from).to_vec();
@@ -410,7 +410,7 @@ impl Curve {
         }
         let mut u = Natural::ONE;
         for p in &primes {
-            let out = crate::local::tate(self.ainvs(), self.discriminant(), p);
+            let out = crate::local::tate(self.coefficients(), self.discriminant(), p);
             u *= p.pow(u64::from(out.scalings));
         }
         let ui = Integer::from(u.clone());
@@ -428,8 +428,8 @@ impl Curve {
         }
         // Solve the first three transformation formulas for s, r, t.
         let uq = Rational::from(u);
-        let [a1, a2, a3, _, _] = self.ainvs().clone().map(Rational::from);
-        let [b1, b2, b3, _, _] = m.ainvs().clone().map(Rational::from);
+        let [a1, a2, a3, _, _] = self.coefficients().clone().map(Rational::from);
+        let [b1, b2, b3, _, _] = m.coefficients().clone().map(Rational::from);
         let s = (&uq * b1 - &a1) / Rational::from(2u32);
         let r = (&uq * &uq * b2 - &a2 + &s * &a1 + &s * &s) / Rational::from(3u32);
         let t = (&uq * &uq * &uq * b3 - &a3 - &r * &a1) / Rational::from(2u32);
@@ -487,16 +487,16 @@ mod tests {
             // choose a6 so that (x0, y0) is on the curve
             let a6 = y0 * y0 + a[0] * x0 * y0 + a[2] * y0 - x0 * x0 * x0 - a[1] * x0 * x0 - a[3] * x0;
             let ar = [q(a[0]), q(a[1]), q(a[2]), q(a[3]), q(a6)];
-            prop_assume!(Curve::from_ainvs([a[0], a[1], a[2], a[3], a6]).is_ok());
-            let e = Curve::from_ainvs([a[0], a[1], a[2], a[3], a6]).unwrap();
-            let b = transform_ainvs(&ar, &c);
+            prop_assume!(Curve::from_coefficients([a[0], a[1], a[2], a[3], a6]).is_ok());
+            let e = Curve::from_coefficients([a[0], a[1], a[2], a[3], a6]).unwrap();
+            let b = transform_coefficients(&ar, &c);
             let pt = (q(x0), q(y0));
             let pt2 = c.map_point(&pt).unwrap();
             prop_assert!(on_curve(&b, &pt2));
             prop_assert_eq!(c.unmap_point(&pt2), pt.clone());
             // invariants via a scaled integral model: multiply through by the
             // lcm of denominators with a second change and compare
-            let (f, c2) = Curve::from_rational_ainvs(b.clone()).unwrap();
+            let (f, c2) = Curve::from_rational_coefficients(b.clone()).unwrap();
             let total = c.compose(&c2);
             let ut = total.u.clone();
             prop_assert_eq!(Rational::from(f.c4().clone()), Rational::from(e.c4().clone()) / (&ut * &ut * &ut * &ut));
@@ -505,10 +505,10 @@ mod tests {
             prop_assert_eq!(f.j_invariant(), e.j_invariant());
             prop_assert_eq!(&e.apply_change(&total).unwrap(), &f);
             // composition matches applying one after the other
-            prop_assert_eq!(transform_ainvs(&b, &c2), transform_ainvs(&ar, &total));
+            prop_assert_eq!(transform_coefficients(&b, &c2), transform_coefficients(&ar, &total));
             // inverse undoes
             let inv = c.inverse().unwrap();
-            prop_assert_eq!(transform_ainvs(&b, &inv), ar.clone());
+            prop_assert_eq!(transform_coefficients(&b, &inv), ar.clone());
             prop_assert!(c.compose(&inv).is_identity());
             prop_assert!(inv.compose(&c).is_identity());
             prop_assert_eq!(inv.map_point(&pt2).unwrap(), pt);
@@ -523,11 +523,11 @@ mod tests {
 
         #[test]
         fn reduced_form_is_reduced_and_reconstructible(a in proptest::array::uniform5(-1000i64..1000)) {
-            prop_assume!(Curve::from_ainvs(a).is_ok());
-            let e = Curve::from_ainvs(a).unwrap();
+            prop_assume!(Curve::from_coefficients(a).is_ok());
+            let e = Curve::from_coefficients(a).unwrap();
             let (f, c) = e.reduced_form();
             prop_assert_eq!(&e.apply_change(&c).unwrap(), &f);
-            let b = f.ainvs();
+            let b = f.coefficients();
             prop_assert!(b[0] == 0u32 || b[0] == 1u32);
             prop_assert!(b[2] == 0u32 || b[2] == 1u32);
             prop_assert!(b[1] >= -1 && b[1] <= 1);
@@ -544,8 +544,8 @@ mod tests {
         let ar = a.clone().map(Rational::from);
         for (r, s, t) in [(1, 2, 3), (-4, 0, 9), (0, -7, -1)] {
             let c = ModelChange { u: q(1), r: q(r), s: q(s), t: q(t) };
-            let got = shift_ainvs(&a, &Integer::from(r), &Integer::from(s), &Integer::from(t));
-            assert_eq!(got.map(Rational::from), transform_ainvs(&ar, &c));
+            let got = shift_coefficients(&a, &Integer::from(r), &Integer::from(s), &Integer::from(t));
+            assert_eq!(got.map(Rational::from), transform_coefficients(&ar, &c));
         }
     }
 
@@ -555,10 +555,10 @@ mod tests {
         // Curves, Table 1) has c4 = 496, c6 = 20008 and so the short model
         // y^2 = x^3 - 27 c4 x - 54 c6 (Silverman, AEC III.1), which is 11a1
         // scaled by u = 1/6; its minimal model is 11a1 again, with u = 6.
-        let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+        let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
         assert_eq!(e.c4(), &Integer::from(496));
         assert_eq!(e.c6(), &Integer::from(20008));
-        let short = Curve::from_ainvs([0, 0, 0, -13392, -1080432]).unwrap();
+        let short = Curve::from_coefficients([0, 0, 0, -13392, -1080432]).unwrap();
         assert_eq!(short.j_invariant(), e.j_invariant());
         let primes: Vec<Natural> = [2u32, 3, 11].map(Natural::from).to_vec();
         let (m, c) = short.minimal_model(&primes).unwrap();
@@ -568,7 +568,7 @@ mod tests {
 
     #[test]
     fn non_integral_and_zero_scaling_are_errors() {
-        let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+        let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
         let c = ModelChange { u: q(2), r: q(0), s: q(0), t: q(0) };
         assert_eq!(e.apply_change(&c).unwrap_err().kind(), &ErrorKind::InvalidValue);
         let z = ModelChange { u: q(0), r: q(0), s: q(0), t: q(0) };
@@ -579,14 +579,14 @@ mod tests {
 
     #[test]
     fn minimal_model_rejects_bad_prime_lists() {
-        let e = Curve::from_ainvs([0, 0, 0, 0, -1024]).unwrap();
+        let e = Curve::from_coefficients([0, 0, 0, 0, -1024]).unwrap();
         // 4 is not prime
         assert!(e.minimal_model(&[Natural::from(4u32), Natural::from(3u32)]).is_err());
         // 2 left out while the model is not minimal at 2
         assert!(e.minimal_model(&[Natural::from(3u32)]).is_err());
         // a prime left out that cannot matter is fine: 37a1 has Delta = 37,
         // and c4 = 48, c6 = -216 are prime to 37
-        let f = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+        let f = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
         assert_eq!(f.minimal_model(&[]).unwrap().0, f);
     }
 }

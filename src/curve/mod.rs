@@ -6,6 +6,6 @@ mod parse;
 mod point;
 mod reduction;
 pub use model::{Curve, ModelChange};
-pub use parse::{parse_ainvs, parse_rational, MAX_INPUT_LEN};
+pub use parse::{parse_coefficients, parse_rational, MAX_INPUT_LEN};
 pub use point::Point;
 pub use reduction::PointCounter;

@@ -9,7 +9,7 @@ use malachite::Integer;
 ///
 /// ```
 /// use twofold::Curve;
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// assert_eq!(e.discriminant().to_string(), "37");
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq, Hash)]
@@ -46,10 +46,10 @@ impl Curve {
     ///
     /// ```
     /// use twofold::Curve;
-    /// assert!(Curve::from_ainvs([0, 0, 0, -1, 0]).is_ok());
-    /// assert!(Curve::from_ainvs([0, 0, 0, 0, 0]).is_err());
+    /// assert!(Curve::from_coefficients([0, 0, 0, -1, 0]).is_ok());
+    /// assert!(Curve::from_coefficients([0, 0, 0, 0, 0]).is_err());
     /// ```
-    pub fn from_ainvs<T: Into<Integer>>(a: [T; 5]) -> Result<Curve, Error> {
+    pub fn from_coefficients<T: Into<Integer>>(a: [T; 5]) -> Result<Curve, Error> {
         let [a1, a2, a3, a4, a6] = a;
         Curve::new([a1.into(), a2.into(), a3.into(), a4.into(), a6.into()])
     }
@@ -75,11 +75,11 @@ impl Curve {
     }
 
     /// The a-invariants `[a1, a2, a3, a4, a6]`.
-    pub fn ainvs(&self) -> &[Integer; 5] {
+    pub fn coefficients(&self) -> &[Integer; 5] {
         &self.a
     }
     /// The b-invariants `[b2, b4, b6, b8]`.
-    pub fn binvs(&self) -> &[Integer; 4] {
+    pub fn b_invariants(&self) -> &[Integer; 4] {
         &self.b
     }
     /// The invariant c4.
@@ -98,7 +98,7 @@ impl Curve {
     ///
     /// ```
     /// use twofold::Curve;
-    /// let e = Curve::from_ainvs([0, 0, 0, -1, 0]).unwrap();
+    /// let e = Curve::from_coefficients([0, 0, 0, -1, 0]).unwrap();
     /// assert_eq!(e.j_invariant().to_string(), "1728");
     /// ```
     pub fn j_invariant(&self) -> malachite::Rational {

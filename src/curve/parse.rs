@@ -64,13 +64,13 @@ fn parse_integer(t: &str) -> Result<Integer, Error> {
 ///   either side, `*` optional between a coefficient and a variable).
 ///
 /// ```
-/// use twofold::curve::parse_ainvs;
-/// let a = parse_ainvs("y^2 + x*y + y = x^3 - x^2 - 10*x - 20").unwrap();
+/// use twofold::curve::parse_coefficients;
+/// let a = parse_coefficients("y^2 + x*y + y = x^3 - x^2 - 10*x - 20").unwrap();
 /// let s: Vec<String> = a.iter().map(|c| c.to_string()).collect();
 /// assert_eq!(s, ["1", "-1", "1", "-10", "-20"]);
-/// assert_eq!(parse_ainvs("[-1, 0]").unwrap()[3].to_string(), "-1");
+/// assert_eq!(parse_coefficients("[-1, 0]").unwrap()[3].to_string(), "-1");
 /// ```
-pub fn parse_ainvs(text: &str) -> Result<[Rational; 5], Error> {
+pub fn parse_coefficients(text: &str) -> Result<[Rational; 5], Error> {
     if text.len() > MAX_INPUT_LEN {
         return Err(Error::new(ErrorKind::TooLarge, format!("input of {} bytes exceeds the limit of {MAX_INPUT_LEN}", text.len())));
     }
@@ -233,7 +233,7 @@ fn parse_term(term: &str) -> Result<(Mono, Rational), Error> {
 }
 
 impl super::Curve {
-    /// Reads a curve from text (see [`parse_ainvs`] for the forms accepted).
+    /// Reads a curve from text (see [`parse_coefficients`] for the forms accepted).
     /// The a-invariants must be integers here; rational a-invariants are
     /// accepted by [`super::Curve::parse_scaled`], which also returns the change of model.
     ///
@@ -244,7 +244,7 @@ impl super::Curve {
     /// assert!(Curve::parse("[1,2,3]").is_err());
     /// ```
     pub fn parse(text: &str) -> Result<super::Curve, Error> {
-        let a = parse_ainvs(text)?;
+        let a = parse_coefficients(text)?;
         let mut ints: Vec<Integer> = Vec::with_capacity(5);
         for (i, c) in a.iter().enumerate() {
             let (n, d) = c.to_numerator_and_denominator();
@@ -268,13 +268,13 @@ mod tests {
 
     #[test]
     fn forms_agree() {
-        let a = parse_ainvs("[1,-1,1,-10,-20]").unwrap();
-        let b = parse_ainvs("y^2+x*y+y=x^3-x^2-10*x-20").unwrap();
-        let c = parse_ainvs("  x^3 - x^2 - 10x - 20 = y^2 + xy + y ").unwrap();
+        let a = parse_coefficients("[1,-1,1,-10,-20]").unwrap();
+        let b = parse_coefficients("y^2+x*y+y=x^3-x^2-10*x-20").unwrap();
+        let c = parse_coefficients("  x^3 - x^2 - 10x - 20 = y^2 + xy + y ").unwrap();
         assert_eq!(a, b);
         assert_eq!(a, c);
-        let d = parse_ainvs("2y^2 = 2x^3 - 4x").unwrap();
-        assert_eq!(d, parse_ainvs("[0,0,0,-2,0]").unwrap());
+        let d = parse_coefficients("2y^2 = 2x^3 - 4x").unwrap();
+        assert_eq!(d, parse_coefficients("[0,0,0,-2,0]").unwrap());
     }
 
     #[test]
@@ -312,11 +312,11 @@ impl super::Curve {
     /// ```
     /// use twofold::Curve;
     /// let (e, ch) = Curve::parse_scaled("[0,0,0,1/4,1/8]").unwrap();
-    /// assert!(e.ainvs().iter().all(|_| true));
+    /// assert!(e.coefficients().iter().all(|_| true));
     /// assert!(!ch.is_identity());
     /// ```
     pub fn parse_scaled(text: &str) -> Result<(super::Curve, super::ModelChange), Error> {
-        let a = parse_ainvs(text)?;
-        super::Curve::from_rational_ainvs(a)
+        let a = parse_coefficients(text)?;
+        super::Curve::from_rational_coefficients(a)
     }
 }

@@ -10,7 +10,7 @@ use malachite::{Integer, Rational};
 ///
 /// ```
 /// use twofold::{Curve, Point};
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let p = Point::from_ints(0, 0);
 /// assert!(e.contains(&p));
 /// let q = e.double(&p);
@@ -63,7 +63,7 @@ impl Curve {
         match p {
             Point::Infinity => true,
             Point::Affine(x, y) => {
-                let [a1, a2, a3, a4, a6] = self.ainvs();
+                let [a1, a2, a3, a4, a6] = self.coefficients();
                 let lhs = y * y + q(a1) * x * y + q(a3) * y;
                 let rhs = x * x * x + q(a2) * x * x + q(a4) * x + q(a6);
                 lhs == rhs
@@ -76,7 +76,7 @@ impl Curve {
         match p {
             Point::Infinity => Point::Infinity,
             Point::Affine(x, y) => {
-                let [a1, _, a3, _, _] = self.ainvs();
+                let [a1, _, a3, _, _] = self.coefficients();
                 Point::Affine(x.clone(), -y - q(a1) * x - q(a3))
             }
         }
@@ -89,7 +89,7 @@ impl Curve {
             (_, Point::Infinity) => return p.clone(),
             (Point::Affine(x1, y1), Point::Affine(x2, y2)) => (x1, y1, x2, y2),
         };
-        let [a1, a2, a3, a4, a6] = self.ainvs();
+        let [a1, a2, a3, a4, a6] = self.coefficients();
         let (a1, a2, a3, a4, a6) = (q(a1), q(a2), q(a3), q(a4), q(a6));
         let (lambda, nu);
         if x1 == x2 {
@@ -118,7 +118,7 @@ impl Curve {
     ///
     /// ```
     /// use twofold::{Curve, Point};
-    /// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap(); // 5-torsion (Cremona's table, 11a1)
+    /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap(); // 5-torsion (Cremona's table, 11a1)
     /// assert_eq!(e.multiple(&Point::from_ints(5, 5), 5), Point::Infinity);
     /// ```
     pub fn multiple(&self, p: &Point, n: i64) -> Point {

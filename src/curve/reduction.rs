@@ -28,7 +28,7 @@ fn residue(n: &Integer, p: u64) -> u64 {
 /// ```
 /// use twofold::{Curve, curve::PointCounter};
 /// // 11a1 (Cremona's Table 1): a_2 = -2, a_3 = -1, a_5 = 1, a_7 = -2
-/// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// let mut counter = PointCounter::new(&e);
 /// let traces: Vec<i64> = [2, 3, 5, 7].iter().map(|&p| counter.trace(p)).collect();
 /// assert_eq!(traces, vec![-2, -1, 1, -2]);
@@ -47,12 +47,12 @@ impl PointCounter {
     ///
     /// ```
     /// use twofold::{Curve, curve::PointCounter};
-    /// let mut c = PointCounter::new(&Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap());
+    /// let mut c = PointCounter::new(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap());
     /// assert_eq!(c.trace(2), -2); // 37a1, Cremona's table
     /// ```
     pub fn new(curve: &Curve) -> PointCounter {
-        let a = curve.ainvs();
-        let b = curve.binvs();
+        let a = curve.coefficients();
+        let b = curve.b_invariants();
         PointCounter {
             ainv: [a[0].clone(), a[1].clone(), a[2].clone(), a[3].clone(), a[4].clone()],
             b: [b[0].clone(), b[1].clone(), b[2].clone()],
@@ -66,7 +66,7 @@ impl PointCounter {
     ///
     /// ```
     /// use twofold::{Curve, curve::PointCounter};
-    /// let mut c = PointCounter::new(&Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap());
+    /// let mut c = PointCounter::new(&Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap());
     /// assert_eq!(c.count(2), 5); // 11a1 has a rational 5-torsion point
     /// ```
     pub fn count(&mut self, p: u64) -> u64 {
@@ -77,7 +77,7 @@ impl PointCounter {
     ///
     /// ```
     /// use twofold::{Curve, curve::PointCounter};
-    /// let mut c = PointCounter::new(&Curve::from_ainvs([0, 1, 1, -2, 0]).unwrap());
+    /// let mut c = PointCounter::new(&Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap());
     /// assert_eq!(c.trace(2), -2); // 389a1: a_2 = -2 (Cremona's table, from memory)
     /// ```
     pub fn trace(&mut self, p: u64) -> i64 {
@@ -154,7 +154,7 @@ impl Curve {
     /// ```
     /// use twofold::Curve;
     /// // y^2 + y = x^3 - x^2 - 10x - 20 (11a1 in Cremona's table): a_2 = -2, a_3 = -1
-    /// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+    /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
     /// assert_eq!(e.count_points_mod(2), 5);
     /// assert_eq!(e.count_points_mod(3), 5);
     /// ```
@@ -166,7 +166,7 @@ impl Curve {
     ///
     /// ```
     /// use twofold::Curve;
-    /// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap(); // 37a1, Cremona's table
+    /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // 37a1, Cremona's table
     /// assert_eq!(e.trace_of_frobenius(2), -2);
     /// assert_eq!(e.trace_of_frobenius(3), -3);
     /// assert_eq!(e.trace_of_frobenius(5), -2);
@@ -183,7 +183,7 @@ mod tests {
 
     /// Brute force over all (x, y) in F_p^2.
     fn naive(e: &Curve, p: u64) -> u64 {
-        let a: Vec<u64> = e.ainvs().iter().map(|c| residue(c, p)).collect();
+        let a: Vec<u64> = e.coefficients().iter().map(|c| residue(c, p)).collect();
         let mut n = 1;
         for x in 0..p {
             for y in 0..p {
@@ -200,7 +200,7 @@ mod tests {
     #[test]
     fn counter_matches_brute_force() {
         for a in [[1, -1, 1, -29, 53], [0, 0, 1, -7, 6], [1, 0, 1, 4, -6], [0, 0, 0, -1, 0]] {
-            let e = Curve::from_ainvs(a).unwrap();
+            let e = Curve::from_coefficients(a).unwrap();
             let mut c = PointCounter::new(&e);
             for p in primes_up_to(200) {
                 assert_eq!(c.count(p), naive(&e, p), "{a:?} p = {p}");

@@ -80,7 +80,7 @@ pub struct LocalImage {
 /// ```
 /// use twofold::{analyse, Curve, RankOptions};
 /// // y^2 = x^3 - 82x has rank 3 (its Selmer groups are sharp; checked by the descent itself)
-/// let e = Curve::from_ainvs([0, 0, 0, -82, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 0, -82, 0]).unwrap();
 /// let r = analyse(&e, &RankOptions::default()).unwrap();
 /// let run = &r.isogeny_runs[0];
 /// assert_eq!((run.lower, run.upper), (3, Some(3)));
@@ -123,7 +123,7 @@ struct TwoTorsionModel {
 impl TwoTorsionModel {
     fn new(curve: &Curve, t: &Point) -> Option<TwoTorsionModel> {
         let Point::Affine(x, _) = t else { return None };
-        let b2 = &curve.binvs()[0];
+        let b2 = &curve.b_invariants()[0];
         let big_x = Rational::from(36) * x + Rational::from(Integer::from(3) * b2);
         let (n, d) = big_x.to_numerator_and_denominator();
         if d != Natural::ONE {
@@ -149,11 +149,11 @@ impl TwoTorsionModel {
         match p {
             Point::Infinity => Point::Infinity,
             Point::Affine(x2, y2) => {
-                let [a1, _, a3, _, _] = curve.ainvs();
+                let [a1, _, a3, _, _] = curve.coefficients();
                 let u = Rational::from(self.u.clone());
                 let big_x = &u * &u * x2 + Rational::from(self.x0.clone());
                 let big_y = &u * &u * &u * y2;
-                let x = (big_x - Rational::from(Integer::from(3) * &curve.binvs()[0])) / Rational::from(36);
+                let x = (big_x - Rational::from(Integer::from(3) * &curve.b_invariants()[0])) / Rational::from(36);
                 let y = (big_y / Rational::from(108) - Rational::from(a1.clone()) * &x - Rational::from(a3.clone()))
                     / Rational::from(2);
                 Point::Affine(x, y)
@@ -165,8 +165,8 @@ impl TwoTorsionModel {
         match p {
             Point::Infinity => Point::Infinity,
             Point::Affine(x, y) => {
-                let [a1, _, a3, _, _] = curve.ainvs();
-                let big_x = Rational::from(36) * x + Rational::from(Integer::from(3) * &curve.binvs()[0]);
+                let [a1, _, a3, _, _] = curve.coefficients();
+                let big_x = Rational::from(36) * x + Rational::from(Integer::from(3) * &curve.b_invariants()[0]);
                 let big_y = Rational::from(108)
                     * (Rational::from(2) * y + Rational::from(a1.clone()) * x + Rational::from(a3.clone()));
                 let u = Rational::from(self.u.clone());

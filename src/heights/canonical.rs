@@ -76,9 +76,9 @@ pub(crate) fn nonarch_coefficient(curve: &Curve, d: &LocalData, x: &Rational, y:
     if vx < 0 {
         return Ok(Rational::from(-vx));
     }
-    let [a1, a2, _a3, a4, _] = curve.ainvs();
-    let [b2, b4, b6, b8] = curve.binvs();
-    let a3 = &curve.ainvs()[2];
+    let [a1, a2, _a3, a4, _] = curve.coefficients();
+    let [b2, b4, b6, b8] = curve.b_invariants();
+    let a3 = &curve.coefficients()[2];
     let dfdx = Rational::from(3) * x * x + Rational::from(2) * q(a2) * x + q(a4) - q(a1) * y;
     let psi2 = Rational::from(2) * y + q(a1) * x + q(a3);
     let va = val_q(&dfdx, p).unwrap_or(i64::MAX);
@@ -141,7 +141,7 @@ pub(crate) fn nonarch_coefficient(curve: &Curve, d: &LocalData, x: &Rational, y:
 /// The archimedean local height of the affine point with x-coordinate `x`
 /// (normalisation of the module documentation), to about `prec` bits.
 pub(crate) fn archimedean(curve: &Curve, x: &Rational, prec: u64) -> Result<Float, Error> {
-    let [b2, b4, b6, b8] = curve.binvs();
+    let [b2, b4, b6, b8] = curve.b_invariants();
     let hb = [b2, b4, b6, b8].iter().map(|b| b.significant_bits()).max().unwrap_or(1) + 3;
     // Terms: the tail after n steps is at most 4^-n times a bound of size
     // O(log H); take prec/2 + log2(hb) + 8 terms.
@@ -206,7 +206,7 @@ pub(crate) fn archimedean(curve: &Curve, x: &Rational, prec: u64) -> Result<Floa
 /// use twofold::{Curve, Point};
 /// use twofold::local::bad_primes_data;
 /// use twofold::heights::canonical_height;
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let local = bad_primes_data(&e, &[Natural::from(37u32)]).unwrap();
 /// let h = canonical_height(&e, &local, &Point::from_ints(0, 0), 64).unwrap();
 /// // 0.0511114082... for the generator of 37a1 (from memory)
@@ -231,7 +231,7 @@ pub(crate) fn height_unchecked(curve: &Curve, local: &[LocalData], point: &Point
 /// use twofold::heights::{local_heights, float_to_f64};
 /// // 37a1: (0,0) is integral with good reduction everywhere but 37, where it
 /// // lies on E_0 (type I1), so all of its height is archimedean.
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let local = bad_primes_data(&e, &[Natural::from(37u32)]).unwrap();
 /// let l = local_heights(&e, &local, &Point::from_ints(0, 0), 64).unwrap();
 /// assert!(l.bad_primes.iter().all(|(_, c)| *c == 0u32));
@@ -315,7 +315,7 @@ fn local_parts(curve: &Curve, local: &[LocalData], point: &Point, prec: u64) -> 
 /// use twofold::{Curve, ModelChange, Point};
 /// use twofold::heights::{canonical_height_on_model, float_to_f64};
 /// // 37a1 scaled by u = 1/2: x = x'/4, y = y'/8 (a non-minimal model).
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let c = ModelChange::new(Rational::from_signeds(1, 2), Rational::from(0), Rational::from(0), Rational::from(0)).unwrap();
 /// let big = e.apply_change(&c).unwrap();
 /// let (x, y) = c.map_point(&(Rational::from(0), Rational::from(0))).unwrap();

@@ -30,7 +30,7 @@ pub(crate) fn combination(curve: &Curve, points: &[Point], coeffs: &[i64]) -> Po
 /// use twofold::local::bad_primes_data;
 /// use twofold::heights::{height_pairing_matrix, float_to_f64};
 /// // 389a1 with (0,0) and (1,0) (Cremona's tables)
-/// let e = Curve::from_ainvs([0, 1, 1, -2, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap();
 /// let local = bad_primes_data(&e, &[Natural::from(389u32)]).unwrap();
 /// let g = height_pairing_matrix(&e, &local, &[Point::from_ints(0, 0), Point::from_ints(1, 0)], 64).unwrap();
 /// assert!(float_to_f64(&g[0][0]) > 0.0 && float_to_f64(&g[0][1]).abs() < float_to_f64(&g[0][0]));
@@ -98,7 +98,7 @@ pub(crate) fn determinant(m: &[Vec<Float>]) -> Float {
 /// use twofold::local::bad_primes_data;
 /// use twofold::heights::{regulator, float_to_f64};
 /// // 389a1: regulator 0.152460177943... (from memory)
-/// let e = Curve::from_ainvs([0, 1, 1, -2, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap();
 /// let local = bad_primes_data(&e, &[Natural::from(389u32)]).unwrap();
 /// let r = regulator(&e, &local, &[Point::from_ints(0, 0), Point::from_ints(1, 0)], 64).unwrap();
 /// assert!((float_to_f64(&r) - 0.152460177943).abs() < 1e-9);
@@ -114,7 +114,7 @@ pub fn regulator(curve: &Curve, local: &[LocalData], points: &[Point], prec: u64
 /// use twofold::{Curve, Point};
 /// use twofold::local::bad_primes_data;
 /// use twofold::heights::lll_reduce;
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let local = bad_primes_data(&e, &[Natural::from(37u32)]).unwrap();
 /// let p = Point::from_ints(0, 0);
 /// let out = lll_reduce(&e, &local, &[e.multiple(&p, 3), e.multiple(&p, 5)], 64).unwrap();

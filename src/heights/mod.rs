@@ -35,7 +35,7 @@
 //! use twofold::local::bad_primes_data;
 //! use twofold::heights::{mordell_weil_basis, PeriodLattice, SaturationOptions};
 //! // 389a1 (Cremona's tables: rank 2, regulator 0.152460177943..., from memory)
-//! let e = Curve::from_ainvs([0, 1, 1, -2, 0]).unwrap();
+//! let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap();
 //! let local = bad_primes_data(&e, &[Natural::from(389u32)]).unwrap();
 //! let pts = [Point::from_ints(0, 0), Point::from_ints(1, 0)];
 //! let b = mordell_weil_basis(&e, &pts, &local, 96, &SaturationOptions::default()).unwrap();

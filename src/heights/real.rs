@@ -198,7 +198,7 @@ fn f64_durand_kerner(c2: f64, c1: f64, c0: f64, bound: f64) -> [(f64, f64); 3] {
 /// use twofold::Curve;
 /// use twofold::heights::PeriodLattice;
 /// // 11a1 (Cremona's tables): real period 1.26920930... (from memory)
-/// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// let l = PeriodLattice::compute(&e, 64).unwrap();
 /// assert!((l.real_period_f64() - 1.2692093).abs() < 1e-6);
 /// assert_eq!(l.real_components, 1);
@@ -222,7 +222,7 @@ impl PeriodLattice {
     /// Computes the lattice of `curve` to about `precision` bits.
     pub fn compute(curve: &Curve, precision: u64) -> Result<PeriodLattice, Error> {
         let wp = precision + 40 + curve.discriminant().significant_bits();
-        let [b2, b4, b6, _] = curve.binvs();
+        let [b2, b4, b6, _] = curve.b_invariants();
         let four = fi(4, wp);
         let c2 = fz(b2, wp) / &four;
         let c1 = fz(b4, wp) / fi(2, wp);

@@ -70,7 +70,7 @@ fn sb(a: u64, b: u64, q: u64) -> u64 {
 
 impl ModCurve {
     pub fn new(curve: &Curve, q: u64) -> ModCurve {
-        let a = curve.ainvs();
+        let a = curve.coefficients();
         ModCurve { q, a: [0, 1, 2, 3, 4].map(|i| residue(&a[i], q)) }
     }
 
@@ -180,7 +180,7 @@ fn functionals(curve: &Curve, q: u64, p: u64, pts: &[Point]) -> Option<Vec<Vec<u
     }
     let cyclic;
     if p == 2 {
-        let b = curve.binvs();
+        let b = curve.b_invariants();
         let bb = [residue(&b[0], q), residue(&b[1], q), residue(&b[2], q)];
         let roots = mc.two_division_roots(&bb);
         match roots.len() {

@@ -28,7 +28,7 @@ pub(crate) struct DivisionPolys {
 
 impl DivisionPolys {
     pub(crate) fn new(curve: &Curve) -> DivisionPolys {
-        let [b2, b4, b6, b8] = curve.binvs().clone();
+        let [b2, b4, b6, b8] = curve.b_invariants().clone();
         let b = vec![b6.clone(), Integer::from(2) * &b4, b2.clone(), Integer::from(4)];
         let f3 = vec![b8.clone(), Integer::from(3) * &b6, Integer::from(3) * &b4, b2.clone(), Integer::from(3)];
         let f4 = vec![
@@ -80,7 +80,7 @@ mod tests {
 
     #[test]
     fn degrees_and_leading_coefficients() {
-        let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+        let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
         let mut d = DivisionPolys::new(&e);
         for l in [3u64, 5, 7, 11] {
             let f = d.f(l);

@@ -103,7 +103,7 @@ fn residue(n: &Integer, p: u64) -> u64 {
 /// Candidate kernel `x`-coordinate sets modulo `p`: for each cyclic subgroup
 /// of `E(F_p)[l]`, the `x`-coordinates of `kT`, `1 ≤ k ≤ (l-1)/2`.
 fn subgroups_mod_p(curve: &Curve, l: u64, p: u64) -> Vec<Vec<u64>> {
-    let [b2, b4, b6, _] = curve.binvs();
+    let [b2, b4, b6, _] = curve.b_invariants();
     let inv2 = inv_mod(2, p).unwrap();
     let inv4 = mul_mod(inv2, inv2, p);
     let m = ModCurve { p, a2: mul_mod(residue(b2, p), inv4, p), a4: mul_mod(residue(b4, p), inv2, p), a6: mul_mod(residue(b6, p), inv4, p) };
@@ -281,8 +281,8 @@ pub(crate) fn velu_model(curve: &Curve, k: &QPoly) -> [Rational; 5] {
     let s1 = -coef(n_i - 1);
     let s2 = coef(n_i - 2);
     let s3 = -coef(n_i - 3);
-    let [b2, b4, b6, _] = curve.binvs().clone().map(Rational::from);
-    let a = curve.ainvs().clone().map(Rational::from);
+    let [b2, b4, b6, _] = curve.b_invariants().clone().map(Rational::from);
+    let a = curve.coefficients().clone().map(Rational::from);
     let nq = Rational::from(n as u64);
     let p2 = &s1 * &s1 - Rational::from(2) * &s2;
     let p3 = &s1 * &s1 * &s1 - Rational::from(3) * &s1 * &s2 + Rational::from(3) * &s3;
@@ -308,7 +308,7 @@ pub(crate) struct VeluMap {
 
 impl VeluMap {
     pub(crate) fn new(curve: &Curve, k: &QPoly) -> VeluMap {
-        let [b2, b4, b6, _] = curve.binvs().clone().map(Rational::from);
+        let [b2, b4, b6, _] = curve.b_invariants().clone().map(Rational::from);
         let dk = q_derivative(k);
         let tq: QPoly = vec![b4.clone(), b2.clone(), Rational::from(6)];
         let uq: QPoly = vec![b6, Rational::from(2) * &b4, b2, Rational::from(4)];

@@ -40,14 +40,14 @@ pub const ODD_DEGREES: [u64; 8] = [3, 5, 7, 11, 13, 17, 19, 37];
 /// use twofold::{isogeny::odd_isogenies, Curve};
 /// use malachite::Natural;
 /// // 11a1 is 5-isogenous to 11a2 and 11a3 (Cremona's table 1)
-/// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// let isogs = odd_isogenies(&e, &[Natural::from(11u32)]).unwrap();
-/// let mut targets: Vec<String> = isogs.iter().map(|i| format!("{:?}", i.target.ainvs())).collect();
+/// let mut targets: Vec<String> = isogs.iter().map(|i| format!("{:?}", i.target.coefficients())).collect();
 /// targets.sort();
 /// assert_eq!(isogs.len(), 2);
 /// assert!(isogs.iter().all(|i| i.degree == 5));
-/// let a2 = Curve::from_ainvs([0, -1, 1, -7820, -263580]).unwrap();
-/// let a3 = Curve::from_ainvs([0, -1, 1, 0, 0]).unwrap();
+/// let a2 = Curve::from_coefficients([0, -1, 1, -7820, -263580]).unwrap();
+/// let a3 = Curve::from_coefficients([0, -1, 1, 0, 0]).unwrap();
 /// assert!(isogs.iter().any(|i| i.target == a2) && isogs.iter().any(|i| i.target == a3));
 /// ```
 #[derive(Clone, Debug)]
@@ -128,7 +128,7 @@ pub fn odd_isogenies(curve: &Curve, bad: &[Natural]) -> Result<Vec<OddIsogeny>, 
 
 fn build(curve: &Curve, l: u64, k: Vec<Rational>, bad: &[Natural]) -> Result<OddIsogeny, Error> {
     let velu = kernel::velu_model(curve, &k);
-    let (integral, scale) = Curve::from_rational_ainvs(velu.clone())?;
+    let (integral, scale) = Curve::from_rational_coefficients(velu.clone())?;
     let mut primes: Vec<Natural> = bad.to_vec();
     for q in [2u64, 3, l] {
         if !primes.contains(&Natural::from(q)) {
@@ -153,11 +153,11 @@ fn build(curve: &Curve, l: u64, k: Vec<Rational>, bad: &[Natural]) -> Result<Odd
 /// use twofold::{isogeny::odd_isogeny_class, Curve};
 /// use malachite::Natural;
 /// // the class 11a has three curves linked by 5-isogenies (Cremona's table 1)
-/// let e = Curve::from_ainvs([0, -1, 1, -7820, -263580]).unwrap();
+/// let e = Curve::from_coefficients([0, -1, 1, -7820, -263580]).unwrap();
 /// let class = odd_isogeny_class(&e, &[Natural::from(11u32)]).unwrap();
 /// assert_eq!(class.curves.len(), 3);
 /// let small = class.smallest_c4();
-/// assert_eq!(class.curves[small], Curve::from_ainvs([0, -1, 1, 0, 0]).unwrap());
+/// assert_eq!(class.curves[small], Curve::from_coefficients([0, -1, 1, 0, 0]).unwrap());
 /// ```
 #[derive(Clone, Debug)]
 pub struct OddIsogenyClass {

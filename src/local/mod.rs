@@ -102,7 +102,7 @@ impl fmt::Display for Kodaira {
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, local::{local_data, Reduction}};
-/// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// assert_eq!(local_data(&e, &Natural::from(11u32)).unwrap().reduction, Reduction::SplitMultiplicative);
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
@@ -124,7 +124,7 @@ pub enum Reduction {
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, local::{local_data, Kodaira}};
-/// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// let d = local_data(&e, &Natural::from(11u32)).unwrap();
 /// assert_eq!((d.kodaira, d.conductor_exponent, d.tamagawa), (Kodaira::In(5), 1, 5));
 /// ```
@@ -154,7 +154,7 @@ pub struct LocalData {
 /// use malachite::Natural;
 /// use twofold::{Curve, local::{local_data, Kodaira, Reduction}};
 /// // y^2 = x^3 - x has conductor 32 and type III at 2 (Ogg: 5 = 6 - 2 + 1).
-/// let e = Curve::from_ainvs([0, 0, 0, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 0, -1, 0]).unwrap();
 /// let d = local_data(&e, &Natural::from(2u32)).unwrap();
 /// assert_eq!(d.kodaira, Kodaira::III);
 /// assert_eq!(d.conductor_exponent, 5);
@@ -163,7 +163,7 @@ pub struct LocalData {
 /// ```
 pub fn local_data(curve: &Curve, p: &Natural) -> Result<LocalData, Error> {
     check_prime(p)?;
-    Ok(tate(curve.ainvs(), curve.discriminant(), p).data)
+    Ok(tate(curve.coefficients(), curve.discriminant(), p).data)
 }
 
 /// The local data at every prime of bad reduction. `primes` must contain
@@ -175,7 +175,7 @@ pub fn local_data(curve: &Curve, p: &Natural) -> Result<LocalData, Error> {
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, local::bad_primes_data};
-/// let e = Curve::from_ainvs([1, 0, 1, 4, -6]).unwrap(); // 14a1, Delta = -2^6 7^3
+/// let e = Curve::from_coefficients([1, 0, 1, 4, -6]).unwrap(); // 14a1, Delta = -2^6 7^3
 /// let primes = [2u32, 7].map(Natural::from);
 /// let data = bad_primes_data(&e, &primes).unwrap();
 /// assert_eq!(data.len(), 2);
@@ -192,7 +192,7 @@ pub fn bad_primes_data(curve: &Curve, primes: &[Natural]) -> Result<Vec<LocalDat
     }
     Ok(primes
         .iter()
-        .map(|p| tate(curve.ainvs(), curve.discriminant(), p).data)
+        .map(|p| tate(curve.coefficients(), curve.discriminant(), p).data)
         .filter(|d| d.reduction != Reduction::Good)
         .collect())
 }
@@ -205,9 +205,9 @@ pub fn bad_primes_data(curve: &Curve, primes: &[Natural]) -> Result<Vec<LocalDat
 /// use malachite::{Integer, Natural};
 /// use twofold::{Curve, local::conductor};
 /// // y^2 + y = x^3 - x (37a1), y^2 = x^3 + 1 (Delta = -2^4 3^3, conductor 36)
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// assert_eq!(conductor(&e, &[Natural::from(37u32)]).unwrap(), Integer::from(37));
-/// let f = Curve::from_ainvs([0, 0, 0, 0, 1]).unwrap();
+/// let f = Curve::from_coefficients([0, 0, 0, 0, 1]).unwrap();
 /// assert_eq!(conductor(&f, &[2u32, 3].map(Natural::from)).unwrap(), Integer::from(36));
 /// ```
 pub fn conductor(curve: &Curve, primes: &[Natural]) -> Result<Integer, Error> {
@@ -226,7 +226,7 @@ pub fn conductor(curve: &Curve, primes: &[Natural]) -> Result<Integer, Error> {
 /// use malachite::Natural;
 /// use twofold::{Curve, local::tamagawa_product};
 /// // 11a1: c_11 = 5 (Cremona, Algorithms for Modular Elliptic Curves, Table 3; from memory)
-/// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// assert_eq!(tamagawa_product(&e, &[Natural::from(11u32)]).unwrap(), 5u32);
 /// ```
 pub fn tamagawa_product(curve: &Curve, primes: &[Natural]) -> Result<Natural, Error> {

@@ -6,7 +6,7 @@
 
 use super::modp::{CubicRoots, Fp, QuadRoots};
 use super::{Kodaira, LocalData, Reduction};
-use crate::curve::change::shift_ainvs;
+use crate::curve::change::shift_coefficients;
 use crate::curve::ModelChange;
 use malachite::base::num::arithmetic::traits::{DivisibleBy, Mod, Pow};
 use malachite::base::num::basic::traits::{One, Zero};
@@ -30,7 +30,7 @@ struct Tracker {
 
 impl Tracker {
     fn shift(&mut self, a: &mut [Integer; 5], r: &Integer, s: &Integer, t: &Integer) {
-        *a = shift_ainvs(a, r, s, t);
+        *a = shift_coefficients(a, r, s, t);
         let step = ModelChange {
             u: Rational::ONE,
             r: Rational::from(r.clone()),

@@ -448,18 +448,18 @@ impl CoveringClass {
     /// ```
     /// use malachite::Rational;
     /// use twofold::{Curve, quartic::CoveringClass};
-    /// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+    /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     /// let p = CoveringClass::kummer_image(&e, &Rational::from(0), &Rational::from(0)).unwrap();
     /// assert!(!p.is_trivial());
     /// ```
     pub fn kummer_image(curve: &Curve, x: &Rational, y: &Rational) -> Option<CoveringClass> {
-        let [a1, a2, a3, a4, a6] = curve.ainvs().clone().map(Rational::from);
+        let [a1, a2, a3, a4, a6] = curve.coefficients().clone().map(Rational::from);
         if y * y + &a1 * x * y + &a3 * y != x * x * x + &a2 * x * x + &a4 * x + &a6 {
             return None;
         }
         let i = curve.c4().clone();
         let j = Integer::from(2) * curve.c6();
-        let bx = Rational::from(36) * x + Rational::from(Integer::from(3) * &curve.binvs()[0]);
+        let bx = Rational::from(36) * x + Rational::from(Integer::from(3) * &curve.b_invariants()[0]);
         let mut elt = [bx.clone(), Rational::from(3), Rational::ZERO];
         // 2-torsion: X = -3 r for a root r of F; fix that component
         let r = -(&bx / Rational::from(3));
@@ -638,7 +638,7 @@ mod tests {
         // For quartics with a rational point, the class equals the Kummer image of the
         // image point on the Jacobian (37a1, 389a1 from Cremona's tables).
         for ai in [[0i64, 0, 1, -1, 0], [0, 1, 1, -2, 0]] {
-            let e = Curve::from_ainvs(ai).unwrap();
+            let e = Curve::from_coefficients(ai).unwrap();
             let (i, j) = (e.c4().clone(), Integer::from(2) * e.c6());
             let list = quartics_with_invariants(&i, &j, &Default::default()).unwrap();
             let mut with_points = 0;
@@ -666,7 +666,7 @@ mod tests {
 
     /// Small rational points on a curve (x = n/d^2).
     fn small_points(e: &Curve, nmax: i64, dmax: i64) -> Vec<(Rational, Rational)> {
-        let [a1, a2, a3, a4, a6] = e.ainvs().clone().map(Rational::from);
+        let [a1, a2, a3, a4, a6] = e.coefficients().clone().map(Rational::from);
         let mut pts = Vec::new();
         for d in 1..=dmax {
             for n in -nmax..=nmax {
@@ -685,7 +685,7 @@ mod tests {
     }
 
     fn kummer_images_covered(ai: [i64; 5], scaled: bool) -> (usize, usize) {
-        let e = Curve::from_ainvs(ai).unwrap();
+        let e = Curve::from_coefficients(ai).unwrap();
         let mut invs = vec![(e.c4().clone(), Integer::from(2) * e.c6())];
         if scaled {
             invs.push((Integer::from(16) * e.c4(), Integer::from(128) * e.c6()));
@@ -750,7 +750,7 @@ mod tests {
         let (mut tt, mut cc, mut curves) = (0, 0, 0);
         for _ in 0..400 {
             let ai = [rnd(1).abs(), rnd(1), rnd(1).abs(), rnd(25), rnd(40)];
-            let Ok(e) = Curve::from_ainvs(ai) else { continue };
+            let Ok(e) = Curve::from_coefficients(ai) else { continue };
             if e.c4().clone() * e.c4() > Integer::from(1_000_000_000i64) {
                 continue;
             }
@@ -781,7 +781,7 @@ mod tests {
     #[test]
     fn counts_of_classes_with_points() {
         for (ai, size) in [([0i64, 0, 1, -1, 0], 2usize), ([0, 1, 1, -2, 0], 4), ([0, 0, 1, -7, 6], 8)] {
-            let e = Curve::from_ainvs(ai).unwrap();
+            let e = Curve::from_coefficients(ai).unwrap();
             let mut ks: Vec<CoveringClass> =
                 small_points(&e, 60, 3).iter().map(|(x, y)| CoveringClass::kummer_image(&e, x, y).unwrap()).collect();
             ks.push(covering_class(&Quartic::from_coeffs([0, 4, 0, 0, 1])).unwrap().with_invariants(e.c4(), &(Integer::from(2) * e.c6())));
@@ -813,7 +813,7 @@ mod tests {
     #[test]
     fn kummer_images_with_two_torsion() {
         for (ai, size) in [([0i64, 0, 0, -1, 0], 4usize), ([1, 0, 1, 4, -6], 2), ([1, 1, 1, -10, -10], 4), ([0, -1, 1, -10, -20], 1)] {
-            let e = Curve::from_ainvs(ai).unwrap();
+            let e = Curve::from_coefficients(ai).unwrap();
             let mut ks: Vec<CoveringClass> =
                 small_points(&e, 60, 3).iter().map(|(x, y)| CoveringClass::kummer_image(&e, x, y).unwrap()).collect();
             ks.push(covering_class(&Quartic::from_coeffs([0, 4, 0, 0, 1])).unwrap().with_invariants(e.c4(), &(Integer::from(2) * e.c6())));

@@ -344,7 +344,7 @@ impl Quartic {
     /// use malachite::Rational;
     /// use twofold::{Curve, quartic::Quartic};
     /// // y^2 + y = x^3 - x (Cremona's table 37a1): c4 = 48, c6 = -216.
-    /// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+    /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     /// // y^2 = x^4 - 2x^3 z + x^2 z^2 + 4 x z^3 ... any quartic with (I, J) = (48, -432):
     /// let g = twofold::quartic::quartics_with_invariants(&48.into(), &(-432).into(), &Default::default()).unwrap()
     ///     .into_iter().find(|g| g.e == 1 || g.a == 1).unwrap();
@@ -359,8 +359,8 @@ impl Quartic {
         let u3 = &u2 * &u;
         let xs = bx / u2;
         let ys = by / u3;
-        let [a1, _a2, a3, _a4, _a6] = curve.ainvs();
-        let b2 = &curve.binvs()[0];
+        let [a1, _a2, a3, _a4, _a6] = curve.coefficients();
+        let b2 = &curve.b_invariants()[0];
         let ex = (xs - Rational::from(int(3) * b2)) / Rational::from(36);
         let ey = (ys / Rational::from(108) - Rational::from(a1.clone()) * &ex - Rational::from(a3.clone())) / Rational::from(2);
         Ok(Some((ex, ey)))
@@ -684,7 +684,7 @@ mod tests {
             ((seed >> 33) % (2 * m as u64 + 1)) as i64 - m
         };
         for ai in curves {
-            let e = Curve::from_ainvs(ai).unwrap();
+            let e = Curve::from_coefficients(ai).unwrap();
             let c4 = e.c4().clone();
             let c6 = e.c6().clone();
             for scale in [1i64, 2, 3] {
@@ -706,7 +706,7 @@ mod tests {
                                 let Some(y0) = crate::quartic::numeric::isqrt_exact(&v) else { continue };
                                 let (xr, zr, yr) = (Rational::from(x0), Rational::from(z0), Rational::from(y0.clone()));
                                 if let Some((px, py)) = g.image_on_curve(&e, &xr, &zr, &yr).unwrap() {
-                                    let [a1, a2, a3, a4, a6] = e.ainvs().clone().map(Rational::from);
+                                    let [a1, a2, a3, a4, a6] = e.coefficients().clone().map(Rational::from);
                                     let lhs = &py * &py + &a1 * &px * &py + &a3 * &py;
                                     let rhs = &px * &px * &px + &a2 * &px * &px + &a4 * &px + a6;
                                     assert_eq!(lhs, rhs, "curve {ai:?} quartic {g:?} point {x0},{z0},{y0}");
@@ -721,7 +721,7 @@ mod tests {
 
     #[test]
     fn scaling_rejects_twists() {
-        let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+        let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
         // (I, J) = (4 c4, 8 * 2c6) has u^2 = 2, not a rational square.
         assert!(scaling_to_curve(&int(4 * 48), &int(-8 * 432), &e).is_err());
         assert_eq!(scaling_to_curve(&int(16 * 48), &int(-64 * 432), &e).unwrap(), 2);

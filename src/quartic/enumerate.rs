@@ -808,7 +808,7 @@ pub(crate) fn distinct_classes(forms: Vec<Quartic>) -> Result<Vec<Quartic>, Erro
 ///
 /// ```
 /// use twofold::{Curve, quartic::covering_invariants};
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let v = covering_invariants(&e);
 /// assert_eq!(v[0], (48.into(), (-432).into()));
 /// ```
@@ -821,7 +821,7 @@ pub fn covering_invariants(curve: &Curve) -> Vec<(Integer, Integer)> {
 ///
 /// ```
 /// use twofold::{Curve, quartic::covering_invariants_conservative};
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// assert_eq!(covering_invariants_conservative(&e)[1], (768.into(), (-27648).into()));
 /// ```
 pub fn covering_invariants_conservative(curve: &Curve) -> Vec<(Integer, Integer)> {
@@ -995,7 +995,7 @@ mod tests {
         }
         let mut done = 0;
         for ai in table_curves().into_iter().take(100) {
-            let e = Curve::from_ainvs(ai).unwrap();
+            let e = Curve::from_coefficients(ai).unwrap();
             let (i, j) = (e.c4().clone(), Integer::from(2) * e.c6());
             let mut cost = 0;
             with_mode(Mode { count_only: true, reference: true }, || raw_search(&i, &j, false, &mut cost, &SearchOptions::default()).unwrap());
@@ -1017,7 +1017,7 @@ mod tests {
         let t0 = std::time::Instant::now();
         let mut fails = 0;
         for ai in table_curves() {
-            let e = Curve::from_ainvs(ai).unwrap();
+            let e = Curve::from_coefficients(ai).unwrap();
             let (i, j) = (e.c4().clone(), Integer::from(2) * e.c6());
             let t = std::time::Instant::now();
             let r = quartics_with_invariants(&i, &j, &opts);
@@ -1047,7 +1047,7 @@ mod tests {
     fn five_curves_timing() {
         let opts = SearchOptions { include_negative_definite: false, max_candidates: Some(50_000_000), ..Default::default() };
         for ai in [[0, -1, 1, -7820, -263580], [1, 1, 1, -3138, -68969], [0, -1, 1, -946260, 354609639], [1, 0, 0, -15663, -755809], [0, 1, 1, -195508, -33338481]] {
-            let e = Curve::from_ainvs(ai).unwrap();
+            let e = Curve::from_coefficients(ai).unwrap();
             let (i, j) = (e.c4().clone(), Integer::from(2) * e.c6());
             let (mut c, mut cr) = (0, 0);
             with_mode(Mode { count_only: true, reference: false }, || raw_search(&i, &j, false, &mut c, &SearchOptions::default()).unwrap());
@@ -1071,7 +1071,7 @@ mod tests {
             for line in txt.lines().filter(|l| !l.starts_with('#') && !l.trim().is_empty()) {
                 let v: Vec<i64> = line.split('\t').map(|x| x.trim().parse().unwrap()).collect();
                 let ai = [v[off], v[off + 1], v[off + 2], v[off + 3], v[off + 4]];
-                let e = Curve::from_ainvs(ai).unwrap();
+                let e = Curve::from_coefficients(ai).unwrap();
                 let i = e.c4().clone();
                 let j = Integer::from(2) * e.c6();
                 let mut steps = 0;
@@ -1105,7 +1105,7 @@ mod tests {
         ];
         let opts = SearchOptions { include_negative_definite: false, ..Default::default() };
         for (name, ai) in curves {
-            let e = Curve::from_ainvs(ai).unwrap();
+            let e = Curve::from_coefficients(ai).unwrap();
             let i = e.c4().clone();
             let j = Integer::from(2) * e.c6();
             let t = std::time::Instant::now();

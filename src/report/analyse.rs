@@ -232,7 +232,7 @@ fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullD
                 None => "quartic 2-covering of E (an element of Sel^2(E))".to_string(),
                 Some((c, d)) => format!(
                     "quartic 2-covering of the {d}-isogenous curve {} (an element of its Sel^2, isomorphic to Sel^2(E) since {d} is odd)",
-                    super::ainvs_text(c)
+                    super::coefficients_text(c)
                 ),
             };
             for q in &f.unexplained {

@@ -69,7 +69,7 @@ impl std::fmt::Display for Statement {
 /// ```
 /// use twofold::{analyse, Curve, RankOptions};
 /// // 37a1 (Cremona's tables): rank 1, generator (0, 0), regulator 0.0511114082 (from memory)
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let r = analyse(&e, &RankOptions::default()).unwrap();
 /// let ev = r.evidence.as_ref().unwrap();
 /// assert_eq!(ev.root_number, Some(-1));

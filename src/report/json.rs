@@ -87,7 +87,7 @@ pub(crate) fn point_json(p: &Point) -> String {
 pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
     let mut w = JsonWriter::new();
     w.string("input", input);
-    w.raw("ainvs", &list(r.minimal.ainvs(), |a| quote(&a.to_string())));
+    w.raw("coefficients", &list(r.minimal.coefficients(), |a| quote(&a.to_string())));
     w.string("conductor", &r.conductor.to_string());
     w.raw("torsion", &list(&r.torsion, |n| n.to_string()));
     w.raw("rank_lower", &opt(r.rank_lower));
@@ -105,7 +105,7 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
             .as_ref()
             .map(|(c, d)| {
                 let mut o = JsonWriter::new();
-                o.raw("ainvs", &list(c.ainvs(), |a| quote(&a.to_string())));
+                o.raw("coefficients", &list(c.coefficients(), |a| quote(&a.to_string())));
                 o.raw("isogeny_degree", &d.to_string());
                 o.finish()
             })

@@ -64,7 +64,7 @@ pub struct ShaSuspect {
 /// ```
 /// use twofold::{analyse, Curve, RankOptions};
 /// // y^2 = x^3 - 25x: n = 5 is a congruent number, rank 1 (OEIS A003273)
-/// let e = Curve::from_ainvs([0, 0, 0, -25, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 0, -25, 0]).unwrap();
 /// let r = analyse(&e, &RankOptions::default()).unwrap();
 /// assert_eq!(r.rank(), Some(1));
 /// for p in &r.points { assert!(e.contains(p)); }
@@ -146,15 +146,15 @@ impl RankReport {
     }
 }
 
-fn ainvs_text(c: &Curve) -> String {
-    let a: Vec<String> = c.ainvs().iter().map(|x| x.to_string()).collect();
+fn coefficients_text(c: &Curve) -> String {
+    let a: Vec<String> = c.coefficients().iter().map(|x| x.to_string()).collect();
     format!("[{}]", a.join(","))
 }
 
 impl fmt::Display for RankReport {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        writeln!(f, "curve        {}", ainvs_text(&self.input))?;
-        writeln!(f, "minimal      {}", ainvs_text(&self.minimal))?;
+        writeln!(f, "curve        {}", coefficients_text(&self.input))?;
+        writeln!(f, "minimal      {}", coefficients_text(&self.minimal))?;
         writeln!(f, "conductor    {}", self.conductor)?;
         for l in &self.local {
             writeln!(
@@ -183,7 +183,7 @@ impl fmt::Display for RankReport {
         if let Some(s) = self.selmer2_dim {
             writeln!(f, "2-Selmer dimension {s} (including E(Q)[2])")?;
             if let Some((c, d)) = &self.quartic_model {
-                writeln!(f, "  (quartic descent run on the {d}-isogenous curve {}, whose Sel^2 is isomorphic)", ainvs_text(c))?;
+                writeln!(f, "  (quartic descent run on the {d}-isogenous curve {}, whose Sel^2 is isomorphic)", coefficients_text(c))?;
             }
         }
         if let Some((s, t)) = self.isogeny_selmer {

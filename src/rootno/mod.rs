@@ -81,7 +81,7 @@ pub use numeric::{NUMERIC_CHECK_CONDUCTOR, NUMERIC_MAX_CONDUCTOR};
 /// ```
 /// use twofold::{Curve, rootno::{root_number, RootNumberMethod}};
 /// // 11a1 (Cremona's Table 1): split multiplicative at 11, conductor 11
-/// let r = root_number(&Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap()).unwrap();
+/// let r = root_number(&Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap()).unwrap();
 /// assert_eq!(r.method, RootNumberMethod::LocalAndNumerical);
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -111,7 +111,7 @@ pub enum RootNumberMethod {
 /// use twofold::{Curve, rootno::root_number};
 /// // 37a1 (Cremona's Table 1; rank 1, so w = -1): non-split at 37, so
 /// // w_37 = +1 and w = -w_37
-/// let r = root_number(&Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap()).unwrap();
+/// let r = root_number(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap()).unwrap();
 /// assert_eq!(r.global, -1);
 /// assert_eq!(r.local, vec![(37u32.into(), 1)]);
 /// assert_eq!(r.conductor, 37u32);
@@ -153,17 +153,17 @@ pub struct RootNumber {
 /// use twofold::{Curve, rootno::local_root_number};
 /// let p = |n: u32| Natural::from(n);
 /// // 11a1: split multiplicative at 11, good at 2 (Cremona's Table 1)
-/// let e = Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap();
+/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// assert_eq!(local_root_number(&e, &p(11)).unwrap(), Some(-1));
 /// assert_eq!(local_root_number(&e, &p(2)).unwrap(), Some(1));
 /// // y^2 = x^3 - 25x: type I0* at 5, e = 12/gcd(12, 6) = 2, so (-1/5) = 1 (Rohrlich)
-/// let f = Curve::from_ainvs([0, 0, 0, -25, 0]).unwrap();
+/// let f = Curve::from_coefficients([0, 0, 0, -25, 0]).unwrap();
 /// assert_eq!(local_root_number(&f, &p(5)).unwrap(), Some(1));
 /// assert!(local_root_number(&f, &p(6)).is_err());
 /// ```
 pub fn local_root_number(curve: &Curve, p: &Natural) -> Result<Option<i8>, Error> {
     check_prime(p)?;
-    let out = tate(curve.ainvs(), curve.discriminant(), p);
+    let out = tate(curve.coefficients(), curve.discriminant(), p);
     let model = Curve::new(out.model).map_err(|_| internal("Tate's algorithm returned a singular model"))?;
     local_sign(&model, &out.data)
 }
@@ -182,8 +182,8 @@ pub fn local_root_number(curve: &Curve, p: &Natural) -> Result<Option<i8>, Error
 /// ```
 /// use twofold::{Curve, rootno::root_number};
 /// // 389a1 (rank 2) and 5077a1 (rank 3) from Cremona's tables (from memory)
-/// assert_eq!(root_number(&Curve::from_ainvs([0, 1, 1, -2, 0]).unwrap()).unwrap().global, 1);
-/// assert_eq!(root_number(&Curve::from_ainvs([0, 0, 1, -7, 6]).unwrap()).unwrap().global, -1);
+/// assert_eq!(root_number(&Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap()).unwrap().global, 1);
+/// assert_eq!(root_number(&Curve::from_coefficients([0, 0, 1, -7, 6]).unwrap()).unwrap().global, -1);
 /// ```
 pub fn root_number(curve: &Curve) -> Result<RootNumber, Error> {
     root_number_with_limits(curve, &FactorLimits::default())
@@ -196,7 +196,7 @@ pub fn root_number(curve: &Curve) -> Result<RootNumber, Error> {
 /// use twofold::{Curve, arith::FactorLimits, rootno::root_number_with_limits};
 /// let limits = FactorLimits { deadline: Some(Instant::now() + Duration::from_secs(10)), ..Default::default() };
 /// // y^2 = x^3 + 1, conductor 36 (Cremona's Table 1, 36a1 has rank 0)
-/// let r = root_number_with_limits(&Curve::from_ainvs([0, 0, 0, 0, 1]).unwrap(), &limits).unwrap();
+/// let r = root_number_with_limits(&Curve::from_coefficients([0, 0, 0, 0, 1]).unwrap(), &limits).unwrap();
 /// assert_eq!(r.global, 1);
 /// assert_eq!(r.conductor, 36u32);
 /// ```
@@ -275,8 +275,8 @@ pub fn root_number_with_limits(curve: &Curve, limits: &FactorLimits) -> Result<R
 /// ```
 /// use twofold::{Curve, rootno::root_number_numerical};
 /// // 11a1 (rank 0) and 37a1 (rank 1), Cremona's Table 1
-/// assert_eq!(root_number_numerical(&Curve::from_ainvs([0, -1, 1, -10, -20]).unwrap()), Some(1));
-/// assert_eq!(root_number_numerical(&Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap()), Some(-1));
+/// assert_eq!(root_number_numerical(&Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap()), Some(1));
+/// assert_eq!(root_number_numerical(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap()), Some(-1));
 /// ```
 pub fn root_number_numerical(curve: &Curve) -> Option<i8> {
     let setup = Setup::new(curve, &FactorLimits::default()).ok()?;
@@ -305,7 +305,7 @@ impl Setup {
         let mut bad = Vec::new();
         let mut conductor = Natural::ONE;
         for p in primes {
-            let out = tate(minimal.ainvs(), minimal.discriminant(), &p);
+            let out = tate(minimal.coefficients(), minimal.discriminant(), &p);
             if out.data.reduction == Reduction::Good {
                 continue;
             }
@@ -388,7 +388,7 @@ fn twist_has_good_reduction(c4: &Integer, c6: &Integer, d: i64, p: &Natural) -> 
     let a6 = Integer::from(-54) * (&d).pow(3) * c6;
     let zero = Integer::from(0);
     match Curve::new([zero.clone(), zero.clone(), zero, a4, a6]) {
-        Ok(t) => tate(t.ainvs(), t.discriminant(), p).data.reduction == Reduction::Good,
+        Ok(t) => tate(t.coefficients(), t.discriminant(), p).data.reduction == Reduction::Good,
         Err(_) => false,
     }
 }

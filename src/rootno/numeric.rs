@@ -190,7 +190,7 @@ mod tests {
     use crate::curve::Curve;
 
     fn coeffs(a: [i64; 5], bad: Vec<(u64, i64)>, m: usize) -> Vec<i64> {
-        let e = Curve::from_ainvs(a).unwrap();
+        let e = Curve::from_coefficients(a).unwrap();
         let mut c = Coefficients::new(&e, bad);
         c.extend_to(m);
         c.a[..=m].to_vec()

@@ -10,7 +10,7 @@ use malachite::{Integer, Rational};
 
 /// Whether `(x, y)` lies on the curve, checked in exact rationals.
 fn on_curve(curve: &Curve, x: &Rational, y: &Rational) -> bool {
-    let [a1, a2, a3, a4, a6] = curve.ainvs().clone().map(Rational::from);
+    let [a1, a2, a3, a4, a6] = curve.coefficients().clone().map(Rational::from);
     let lhs = y * y + &a1 * x * y + &a3 * y;
     let rhs = ((x + a2) * x + a4) * x + a6;
     lhs == rhs
@@ -19,7 +19,7 @@ fn on_curve(curve: &Curve, x: &Rational, y: &Rational) -> bool {
 /// The points with `x = m / k^2` whose value `Y = k^3 (2y + a1 x + a3)` is
 /// `+-y_abs` (one point when `y_abs = 0`), each checked on the curve.
 fn points_at(curve: &Curve, m: i64, k: u64, y_abs: &Integer, out: &mut Vec<(Rational, Rational)>) {
-    let a = curve.ainvs();
+    let a = curve.coefficients();
     let (mi, ki) = (Integer::from(m), Integer::from(k));
     let k2 = &ki * &ki;
     let k3 = &k2 * &ki;
@@ -71,14 +71,14 @@ fn sort_points(points: &mut [(Rational, Rational)]) {
 /// use twofold::search::{search_curve, SearchLimits};
 /// // y^2 + y = x^3 - x (conductor 37; Cremona's tables: rank 1, generator
 /// // (0, 0), no torsion). The point 5P = (1/4, -5/8) has height 4.
-/// let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let out = search_curve(&e, &SearchLimits::new(4));
 /// let xs: Vec<String> = out.points.iter().map(|p| p.0.to_string()).collect();
 /// assert_eq!(xs, ["-1", "-1", "0", "0", "1", "1", "2", "2", "1/4", "1/4"]);
 /// ```
 pub fn search_curve(curve: &Curve, limits: &SearchLimits) -> SearchOutcome<(Rational, Rational)> {
     let (height, clamped) = clamp_height(limits.height);
-    let [b2, b4, b6, _] = curve.binvs();
+    let [b2, b4, b6, _] = curve.b_invariants();
     let mut c = [Integer::from(4), b2.clone(), Integer::from(2) * b4, b6.clone()];
     let four = Integer::from(4);
     let scale = if c.iter().all(|v| (v % &four) == Integer::ZERO) {
@@ -120,13 +120,13 @@ pub fn search_curve(curve: &Curve, limits: &SearchLimits) -> SearchOutcome<(Rati
 /// ```
 /// use twofold::Curve;
 /// use twofold::search::{search_curve, search_curve_naive, SearchLimits};
-/// let e = Curve::from_ainvs([1, -1, 1, -3, 3]).unwrap();
+/// let e = Curve::from_coefficients([1, -1, 1, -3, 3]).unwrap();
 /// let limits = SearchLimits::new(60);
 /// assert_eq!(search_curve_naive(&e, &limits), search_curve(&e, &limits));
 /// ```
 pub fn search_curve_naive(curve: &Curve, limits: &SearchLimits) -> SearchOutcome<(Rational, Rational)> {
     let (height, clamped) = clamp_height(limits.height);
-    let [a1, a2, a3, a4, a6] = curve.ainvs().clone().map(Rational::from);
+    let [a1, a2, a3, a4, a6] = curve.coefficients().clone().map(Rational::from);
     let mut out = SearchOutcome { points: Vec::new(), complete: false, height_reached: 0, candidates_tested: 0 };
     let mut clock = Clock::new(limits);
     let two = Rational::from(2);

@@ -36,14 +36,14 @@ fn eval_quartic(g: &[Integer; 5], x: &Integer, z: &Integer) -> Integer {
 }
 
 fn on_curve(e: &Curve, x: &Rational, y: &Rational) -> bool {
-    let [a1, a2, a3, a4, a6] = e.ainvs().clone().map(Rational::from);
+    let [a1, a2, a3, a4, a6] = e.coefficients().clone().map(Rational::from);
     y * y + &a1 * x * y + &a3 * y == x * x * x + &a2 * x * x + &a4 * x + &a6
 }
 
 /// Chord-and-tangent addition on a general Weierstrass model (Silverman,
 /// AEC, III.2.3); `None` is the point at infinity.
 fn add(e: &Curve, p: &Option<(Rational, Rational)>, r: &Option<(Rational, Rational)>) -> Option<(Rational, Rational)> {
-    let [a1, a2, a3, a4, _] = e.ainvs().clone().map(Rational::from);
+    let [a1, a2, a3, a4, _] = e.coefficients().clone().map(Rational::from);
     let (Some((x1, y1)), Some((x2, y2))) = (p, r) else {
         return p.clone().or(r.clone());
     };
@@ -84,7 +84,7 @@ fn curve_37a_points_are_the_multiples_of_the_generator() {
     // torsion, generator P = (0, 0). Recalled x-coordinates of nP (from
     // memory), each checked on the equation below: 0, 1, -1, 2, 1/4, 6,
     // -5/9, 21/25, -20/49, 161/16.
-    let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     let remembered = ["0", "1", "-1", "2", "1/4", "6", "-5/9", "21/25", "-20/49", "161/16"];
     // Independent computation: the multiples nP by chord and tangent.
     let gen = Some((q("0"), q("0")));
@@ -130,7 +130,7 @@ fn congruent_number_five() {
     //     triangle 3/2, 20/3, 41/6 with x = (41/12)^2);
     //   2-torsion (0, 0), (5, 0), (-5, 0).
     // (x = 45/4 is not on it: x^3 - 25x = 73125/64 and 73125 is no square.)
-    let e = Curve::from_ainvs([0, 0, 0, -25, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 0, 0, -25, 0]).unwrap();
     let out = search_curve(&e, &SearchLimits::new(1681));
     assert!(out.complete);
     for (x, y) in [("-4", "6"), ("-4", "-6"), ("45", "300"), ("25/4", "75/8"), ("1681/144", "62279/1728"), ("0", "0"), ("5", "0"), ("-5", "0")] {
@@ -201,7 +201,7 @@ fn quartic_with_large_point() {
 
 #[test]
 fn first_only_stops_at_one_point() {
-    let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     let all = search_curve(&e, &SearchLimits::new(100));
     let one = search_curve(&e, &SearchLimits { first_only: true, ..SearchLimits::new(100) });
     assert_eq!(one.points.len(), 1);
@@ -233,7 +233,7 @@ fn deadline_and_cancel_stop_the_search() {
     let cancelled = SearchLimits { cancel: Some(flag.clone()), ..SearchLimits::new(100_000) };
     let out = search_quartic(&g, &cancelled);
     assert!(!out.complete && out.height_reached == 0);
-    let e = Curve::from_ainvs([0, 0, 0, -25, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 0, 0, -25, 0]).unwrap();
     let out = search_curve(&e, &cancelled);
     assert!(!out.complete && out.height_reached == 0);
 
@@ -242,7 +242,7 @@ fn deadline_and_cancel_stop_the_search() {
     flag.store(false, Ordering::Relaxed);
     let start = Instant::now();
     let soon = SearchLimits { deadline: Some(start + Duration::from_millis(50)), ..SearchLimits::new(1 << 30) };
-    let e = Curve::from_ainvs([0, 0, 1, -1, 0]).unwrap();
+    let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     let out = search_curve(&e, &soon);
     assert!(start.elapsed() < Duration::from_secs(5));
     assert!(!out.complete);
@@ -323,7 +323,7 @@ proptest! {
     fn curve_sieve_matches_naive(a1 in -3i64..3, a2 in -10i64..10, a3 in -3i64..3, a4 in -30i64..30,
                                  x0 in -15i64..15, y0 in -40i64..40, h in 0u64..160) {
         let a6 = y0 * y0 + a1 * x0 * y0 + a3 * y0 - x0 * x0 * x0 - a2 * x0 * x0 - a4 * x0;
-        let Ok(e) = Curve::from_ainvs([a1, a2, a3, a4, a6]) else { return Ok(()) };
+        let Ok(e) = Curve::from_coefficients([a1, a2, a3, a4, a6]) else { return Ok(()) };
         let lim = SearchLimits::new(h);
         let fast = search_curve(&e, &lim);
         for (x, y) in &fast.points {

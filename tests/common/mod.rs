@@ -8,7 +8,7 @@
 pub struct Row {
     pub conductor: u64,
     pub class: Option<u32>,
-    pub ainvs: [i64; 5],
+    pub coefficients: [i64; 5],
     pub rank: usize,
     pub torsion_order: usize,
     pub sha_order: Option<u64>,
@@ -33,7 +33,7 @@ pub fn read_table(name: &str) -> Vec<Row> {
         rows.push(Row {
             conductor: get("conductor").unwrap().parse().unwrap(),
             class: get("class").map(|s| s.parse().unwrap()),
-            ainvs: a,
+            coefficients: a,
             rank: get("rank").unwrap().parse().unwrap(),
             torsion_order: get("torsion_order").unwrap().parse().unwrap(),
             sha_order: get("sha_order").map(|s| s.parse().unwrap()),
