@@ -1,5 +1,5 @@
 //! Benchmarks for the enumeration of binary quartics with the invariants
-//! `(c4, 2c6)` of a few curves from Cremona's tables.
+//! `(c4, 2c6)` of a few curves from the published tables (Cremona 1997).
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use malachite::Integer;
@@ -7,13 +7,13 @@ use twofold::quartic::{quartics_with_invariants, SearchOptions};
 use twofold::Curve;
 
 fn bench_enumeration(c: &mut Criterion) {
-    // a-invariants from Cremona's tables: 37a1, 389a1, 5077a1, 11a1, 571a1 (Sha[2] non-trivial).
+    // a-invariants from the published tables (Cremona 1997): y^2 + y = x^3 - x, y^2 + y = x^3 + x^2 - 2x, y^2 + y = x^3 - 7x + 6, y^2 + y = x^3 - x^2 - 10x - 20, [0,-1,1,-929,-10595] (Sha[2] non-trivial).
     let curves: [(&str, [i64; 5]); 5] = [
-        ("37a1", [0, 0, 1, -1, 0]),
-        ("389a1", [0, 1, 1, -2, 0]),
-        ("5077a1", [0, 0, 1, -7, 6]),
-        ("11a1", [0, -1, 1, -10, -20]),
-        ("571a1", [0, -1, 1, -929, -10595]),
+        ("rank1_N37", [0, 0, 1, -1, 0]),
+        ("rank2_N389", [0, 1, 1, -2, 0]),
+        ("rank3_N5077", [0, 0, 1, -7, 6]),
+        ("rank0_N11", [0, -1, 1, -10, -20]),
+        ("sha4_N571", [0, -1, 1, -929, -10595]),
     ];
     let opts = SearchOptions { include_negative_definite: false, ..Default::default() };
     for (name, ai) in curves {

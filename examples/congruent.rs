@@ -112,7 +112,7 @@ fn main() {
                 format!("congruent (proven): point {p} gives the triangle {a}, {b}, {c} of area {n}")
             }
             (_, Some(0)) => {
-                let (s, t) = report.isogeny_selmer.unwrap_or((0, 0));
+                let (s, t) = report.isogeny_selmer_dims.unwrap_or((0, 0));
                 format!("not congruent (proven): 2-isogeny Selmer dimensions {s} and {t} bound the rank by 0")
             }
             (l, u) => format!(
@@ -123,7 +123,7 @@ fn main() {
                 report
                     .sha_suspects
                     .first()
-                    .map(|s| format!("y^2 = {}x^4 + {}x^2z^2 + {}z^4", s.quartic[0], s.quartic[2], s.quartic[4]))
+                    .map(|s| format!("y^2 = {}", twofold::quartic::Quartic::new(s.quartic.clone())))
                     .unwrap_or_default()
             ),
         };

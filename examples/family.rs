@@ -108,7 +108,7 @@ fn main() {
         eprintln!("family: cannot write {}: {err}", csv_path.display());
         std::process::exit(2)
     }));
-    writeln!(csv, "d,model,conductor,torsion,rank_lower,rank_upper,rank,method,selmer2_dim,points,sha_suspects,budget_exhausted").ok();
+    writeln!(csv, "d,model,conductor,torsion,rank_lower,rank_upper,rank,method,two_selmer_dim,points,sha_suspects,budget_exhausted").ok();
 
     let mut opts = BatchOptions::new(options).with_threads(threads);
     if std::io::stderr().is_terminal() {
@@ -134,7 +134,7 @@ fn main() {
                     opt(r.rank_upper),
                     opt(r.rank()),
                     r.route.name(),
-                    opt(r.selmer2_dim),
+                    opt(r.two_selmer_dim),
                     pts.join(" "),
                     r.sha_suspects.len(),
                     r.budget_exhausted

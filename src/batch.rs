@@ -10,7 +10,7 @@
 //!
 //! ```
 //! use twofold::batch::{analyse_batch, BatchOptions};
-//! // 11a1, 37a1 and 389a1 (Cremona's Table 1: ranks 0, 1, 2), one bad line
+//! // y^2 + y = x^3 - x^2 - 10x - 20, y^2 + y = x^3 - x and y^2 + y = x^3 + x^2 - 2x (Cremona 1997, Table 1: ranks 0, 1, 2), one bad line
 //! let lines = ["[0,-1,1,-10,-20]", "y^2 + y = x^3 - x", "[0,1,1,-2,0]", "[0,0,0,0,0]"];
 //! let run = analyse_batch(lines, &BatchOptions::default().with_threads(2));
 //! let ranks: Vec<_> = run.items.iter().map(|i| i.result.as_ref().ok().and_then(|r| r.rank())).collect();
@@ -85,7 +85,7 @@ impl CurveInput {
 /// ```
 /// use twofold::batch::analyse_text;
 /// use twofold::RankOptions;
-/// // y^2 = x^3 - x/16 is y^2 = x^3 - x scaled by u = 2: rank 0 (32a2, Cremona's Table 1)
+/// // y^2 = x^3 - x/16 is y^2 = x^3 - x scaled by u = 2: rank 0 (conductor 32, Cremona 1997, Table 1)
 /// let r = analyse_text("y^2 = x^3 - 1/16*x", &RankOptions::default()).unwrap();
 /// assert_eq!(r.rank(), Some(0));
 /// assert!(analyse_text("y^2 = x^3", &RankOptions::default()).is_err());

@@ -5,7 +5,7 @@
 //!
 //! ```
 //! use twofold::{analyse, Curve, RankOptions};
-//! // y^2 + y = x^3 - 7x + 6, conductor 5077: rank 3 (Cremona's Table 1 lists it)
+//! // y^2 + y = x^3 - 7x + 6, conductor 5077: rank 3 (Cremona 1997, Table 1 lists it)
 //! let e = Curve::parse("y^2 + y = x^3 - 7*x + 6").unwrap();
 //! let r = analyse(&e, &RankOptions::default()).unwrap();
 //! assert_eq!(r.conductor.to_string(), "5077");

@@ -20,7 +20,7 @@ use std::cmp::Ordering;
 ///
 /// ```
 /// use twofold::{Curve, torsion::TorsionGroup};
-/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap(); // 11a1: Z/5 (Cremona's table)
+/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap(); // y^2 + y = x^3 - x^2 - 10x - 20: Z/5 (published table, Cremona 1997)
 /// let t = TorsionGroup::compute(&e, &[11u32.into()]);
 /// assert_eq!(t.order(), 5);
 /// assert_eq!(t.invariants(), vec![5]);

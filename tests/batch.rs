@@ -57,7 +57,7 @@ fn tables_batch_equals_single_for_one_and_two_threads() {
             // the fields a caller compares first, then the whole report
             assert_eq!((r.rank_lower, r.rank_upper), (one.rank_lower, one.rank_upper), "{}", lines[i]);
             assert_eq!(r.points, one.points, "{}", lines[i]);
-            assert_eq!((r.selmer2_dim, r.isogeny_selmer), (one.selmer2_dim, one.isogeny_selmer), "{}", lines[i]);
+            assert_eq!((r.two_selmer_dim, r.isogeny_selmer_dims), (one.two_selmer_dim, one.isogeny_selmer_dims), "{}", lines[i]);
             assert_eq!(timeless(r), timeless(one), "{} with {threads} threads", lines[i]);
         }
         let proven = single.iter().filter(|r| r.rank().is_some()).count();
@@ -79,7 +79,7 @@ fn bad_inputs_are_items_and_the_batch_goes_on() {
     let inputs: Vec<CurveInput> = vec![
         "[0,0,0,0,0]".into(),                                  // singular
         "not a curve".into(),                                  // unreadable
-        Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap().into(),   // 37a1, rank 1 (Cremona's Table 1)
+        Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap().into(),   // y^2 + y = x^3 - x, rank 1 (Cremona 1997, Table 1)
         "".into(),                                             // empty line
         "y^2 = x^3 - 36x".into(),                              // area-6 triangle curve, rank 1 (from memory: 6 is congruent)
     ];

@@ -28,8 +28,8 @@ fn bsd_quotient_on_both_tables() {
         let e = Curve::from_coefficients(r.coefficients).unwrap();
         let rep = analyse(&e, &RankOptions::default()).unwrap();
         let ev = rep.evidence.as_ref().expect("evidence");
-        assert_eq!(ev.analytic_rank, Some(r.rank), "{:?}: analytic rank", r.coefficients);
-        let s = ev.sha_analytic.unwrap_or_else(|| panic!("{:?}: no BSD quotient ({:?})", r.coefficients, ev.statements));
+        assert_eq!(ev.vanishing_order, Some(r.rank), "{:?}: analytic rank", r.coefficients);
+        let s = ev.sha_bsd_estimate.unwrap_or_else(|| panic!("{:?}: no BSD quotient ({:?})", r.coefficients, ev.statements));
         assert!((s - *expected as f64).abs() < 1e-6, "{:?}: analytic Sha {s}, published {expected}", r.coefficients);
         // the quotient is labelled as conditional on BSD
         assert!(ev.statements.iter().any(|st| st.claim.contains("analytic order of Sha")
@@ -49,11 +49,11 @@ fn bsd_quotient_on_both_tables() {
 /// The JSON line carries the evidence fields and a certificate that verifies.
 #[test]
 fn json_has_evidence_and_a_verifiable_certificate() {
-    let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap(); // 389a1, rank 2 (Cremona's tables, from memory)
+    let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap(); // y^2 + y = x^3 + x^2 - 2x, rank 2 (published tables, Cremona 1997, from memory)
     let opts = RankOptions { certificate: true, ..RankOptions::default() };
     let rep = analyse(&e, &opts).unwrap();
     let line = rep.to_json("[0,1,1,-2,0]");
-    for f in ["\"root_number\":1", "\"analytic_rank\":2", "\"generators\":[", "\"regulator\":\"1.5246017794", "\"real_period\":", "\"tamagawa\":[[\"389\",1]]", "\"sha_analytic\":\"1.0000", "\"certificate\":\"twofold-certificate"] {
+    for f in ["\"root_number\":1", "\"vanishing_order\":2", "\"saturated_basis\":[", "\"regulator\":\"1.5246017794", "\"period_omega\":", "\"tamagawa_numbers\":[[\"389\",1]]", "\"sha_bsd_estimate\":\"1.0000", "\"certificate\":\"twofold-certificate"] {
         assert!(line.contains(f), "{f} missing in {line}");
     }
     let cert = twofold::certificate::Certificate::from_text(rep.certificate.as_ref().unwrap()).unwrap();

@@ -1,5 +1,5 @@
 //! Certificates: `verify` accepts the certificate of every curve of both
-//! published tables (Cremona's tables, tests/data/README.md) and rejects
+//! published tables (published tables, Cremona 1997, tests/data/README.md) and rejects
 //! tampered ones; the text form round-trips.
 
 mod common;
@@ -25,7 +25,7 @@ fn check_table(name: &str) -> (usize, usize, usize) {
     for row in &rows {
         let c = certificate(row.coefficients);
         let v = verify(&c).unwrap_or_else(|e| panic!("{:?}: {e}", row.coefficients));
-        // the verified bounds contain the published rank (Cremona's tables)
+        // the verified bounds contain the published rank (published tables, Cremona 1997)
         assert!(v.lower_bound <= row.rank, "{:?}", row.coefficients);
         assert!(v.upper_bound.is_none_or(|u| u >= row.rank), "{:?}", row.coefficients);
         assert!(v.lower_bound_verified);
@@ -55,8 +55,8 @@ fn accepts_every_sha_curve() {
     assert!(n > 0);
 }
 
-// Curves for the tamper tests (ranks from Cremona's table: 11a1 rank 0,
-// 37a1 rank 1, 389a1 rank 2, 14a1 rank 0 with 2-torsion; y^2 = x^3 - 82x rank 3, from memory).
+// Curves for the tamper tests (ranks from the published table (Cremona 1997): y^2 + y = x^3 - x^2 - 10x - 20 rank 0,
+// y^2 + y = x^3 - x rank 1, y^2 + y = x^3 + x^2 - 2x rank 2, [1,0,1,4,-6] rank 0 with 2-torsion; y^2 = x^3 - 82x rank 3, from memory).
 const SAMPLES: [[i64; 5]; 5] = [[0, -1, 1, -10, -20], [0, 0, 1, -1, 0], [0, 1, 1, -2, 0], [1, 0, 1, 4, -6], [0, 0, 0, -82, 0]];
 
 #[test]
@@ -244,13 +244,13 @@ fn text_form_round_trips_and_rejects_garbage() {
 
 #[test]
 fn rejects_an_unsupported_lower_bound() {
-    // dropping a point leaves the claimed lower bound unproved (37a1, rank 1, Cremona's table)
+    // dropping a point leaves the claimed lower bound unproved (y^2 + y = x^3 - x, rank 1, the published table (Cremona 1997))
     let c = certificate([0, 0, 1, -1, 0]);
     let mut bad = c.clone();
     bad.points.clear();
     bad.quartic.as_mut().unwrap().classes.iter_mut().for_each(|cl| cl.lift = None);
     assert!(rejected(&bad));
-    // and a claimed upper bound below the Selmer bound is refused (389a1, rank 2)
+    // and a claimed upper bound below the Selmer bound is refused (y^2 + y = x^3 + x^2 - 2x, rank 2)
     let c = certificate([0, 1, 1, -2, 0]);
     let mut bad = c.clone();
     bad.rank_upper = Some(1);
@@ -260,7 +260,7 @@ fn rejects_an_unsupported_lower_bound() {
 
 #[test]
 fn isogeny_route_needs_no_trust() {
-    // y^2 = x^3 - x (32a2, rank 0) and y^2 = x^3 - 82x (rank 3, from memory):
+    // y^2 = x^3 - x (conductor 32, rank 0) and y^2 = x^3 - 82x (rank 3, from memory):
     // every insolubility claim of the local tables is proved by the finite search
     for a in [[0, 0, 0, -1, 0], [0, 0, 0, -82, 0]] {
         let v = verify(&certificate(a)).unwrap();

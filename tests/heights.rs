@@ -2,7 +2,7 @@
 //!
 //! Sources: Cremona, *Algorithms for Modular Elliptic Curves* (2nd ed.),
 //! Table 1 (via tests/data/curves-small-conductor.tsv: ranks); values
-//! marked "(from memory)" are recalled from Cremona's tables of periods,
+//! marked "(from memory)" are recalled from the published tables (Cremona 1997) of periods,
 //! heights and regulators.
 mod common;
 
@@ -54,12 +54,12 @@ fn lattice_invariants(w1: f64, w2: (f64, f64)) -> ((f64, f64), (f64, f64)) {
 
 #[test]
 fn real_periods_37a1_11a1() {
-    // 37a1: real period 5.98691729 (from memory); two real components.
+    // y^2 + y = x^3 - x: real period 5.98691729 (from memory); two real components.
     let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     let l = PeriodLattice::compute(&e, 128).unwrap();
     assert_eq!(l.real_components, 2);
     assert!((l.real_period_f64() - 5.98691729).abs() < 1e-7);
-    // 11a1: real period 1.26920930 (from memory); one real component.
+    // y^2 + y = x^3 - x^2 - 10x - 20: real period 1.26920930 (from memory); one real component.
     let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
     let l = PeriodLattice::compute(&e, 128).unwrap();
     assert_eq!(l.real_components, 1);
@@ -116,16 +116,16 @@ fn heights_37a1_389a1_and_torsion() {
     }
     let approx = float_to_f64(&naive_height(q.x().unwrap(), 64)) / 4f64.powi(7);
     assert!((approx - 0.0511114082).abs() < 1e-3, "{approx}");
-    // 389a1: regulator 0.152460177943 (from memory)
+    // y^2 + y = x^3 + x^2 - 2x: regulator 0.152460177943 (from memory)
     let (e, local) = curve([0, 1, 1, -2, 0], &[389]);
     let r = regulator(&e, &local, &[Point::from_ints(0, 0), Point::from_ints(1, 0)], 96).unwrap();
     assert!((float_to_f64(&r) - 0.152460177943).abs() < 1e-10, "{}", float_to_f64(&r));
-    // 11a1: (5, 5) has order 5 (Cremona's table: torsion 5), height 0.
+    // y^2 + y = x^3 - x^2 - 10x - 20: (5, 5) has order 5 (published table, Cremona 1997: torsion 5), height 0.
     let (e, local) = curve([0, -1, 1, -10, -20], &[11]);
     assert_eq!(h(&e, &local, &Point::from_ints(5, 5)), 0.0);
 }
 
-/// Curves with a point of infinite order (Cremona's table: rank >= 1),
+/// Curves with a point of infinite order (published table, Cremona 1997: rank >= 1),
 /// with bad primes of several Kodaira types, and a point on each.
 fn curves_with_points() -> Vec<([i64; 5], Vec<u32>, Vec<Point>)> {
     let q = |a: i64, b: i64| Rational::from_signeds(a, b);
@@ -234,7 +234,7 @@ fn lll_removes_dependencies() {
     let out = lll_reduce(&e, &local, &[a.clone(), b.clone(), c], 96).unwrap();
     assert_eq!(out.points.len(), 2);
     assert_eq!(out.relations.len(), 1);
-    // Regulator of the span {3P+Q, 2P-Q} is 25 times Reg(389a1) (det [[3,1],[2,-1]] = -5).
+    // Regulator of the span {3P+Q, 2P-Q} is 25 times Reg(y^2 + y = x^3 + x^2 - 2x) (det [[3,1],[2,-1]] = -5).
     let reg = float_to_f64(&regulator(&e, &local, &out.points, 96).unwrap());
     assert!((reg - 25.0 * 0.152460177943).abs() < 1e-8, "{reg}");
     // The transformation rows reproduce the points; the relation rows give torsion.
@@ -262,7 +262,7 @@ fn two_p_is_not_2_saturated() {
     assert!(b.saturation.is_saturated(), "{:?}", b.saturation);
     assert_eq!(b.saturation.divisions, 1);
     assert!(b.generators[0] == p || b.generators[0] == e.negate(&p));
-    // 389a1 with {P, 3Q}: 3-divisibility found, regulator back to Reg(389a1).
+    // y^2 + y = x^3 + x^2 - 2x with {P, 3Q}: 3-divisibility found, regulator back to Reg(y^2 + y = x^3 + x^2 - 2x).
     let (e, local) = curve([0, 1, 1, -2, 0], &[389]);
     let pts = [Point::from_ints(0, 0), e.multiple(&Point::from_ints(1, 0), 3)];
     let b = mordell_weil_basis(&e, &pts, &local, 96, &SaturationOptions::default()).unwrap();
@@ -308,7 +308,7 @@ fn table_check(rows: &[common::Row]) {
 
 #[test]
 fn saturation_table_rank_at_least_one() {
-    // Cremona's Table 1 (tests/data/curves-small-conductor.tsv): every curve
+    // Cremona 1997, Table 1 (tests/data/curves-small-conductor.tsv): every curve
     // of positive rank; the points come from the rank pipeline. About 7 s.
     let rows: Vec<_> = common::read_table("curves-small-conductor.tsv").into_iter().filter(|r| r.rank >= 1).collect();
     assert!(rows.len() > 50);
@@ -317,7 +317,7 @@ fn saturation_table_rank_at_least_one() {
 
 #[test]
 fn siksek_test_with_torsion() {
-    // 65a1 = [1,0,0,-1,0]: rank 1, torsion Z/2 (Cremona's table); T = (0,0)
+    // [1,0,0,-1,0] = [1,0,0,-1,0]: rank 1, torsion Z/2 (published table, Cremona 1997); T = (0,0)
     // has order 2 and P = (1,0) has infinite order.
     let (e, local) = curve([1, 0, 0, -1, 0], &[5, 13]);
     let (p, t) = (Point::from_ints(1, 0), Point::from_ints(0, 0));
@@ -334,7 +334,7 @@ fn siksek_test_with_torsion() {
     assert!(b.saturation.is_saturated());
     let g = &b.generators[0];
     assert!([p.clone(), e.negate(&p), e.add(&p, &t), e.negate(&e.add(&p, &t))].contains(g), "{g}");
-    // 91b = [0,1,1,-7,5]: rank 1, torsion Z/3 (Cremona's table).
+    // [0,1,1,-7,5] = [0,1,1,-7,5]: rank 1, torsion Z/3 (published table, Cremona 1997).
     let (e, local) = curve([0, 1, 1, -7, 5], &[7, 13]);
     let pts: Vec<Point> = twofold::search::search_curve(&e, &twofold::search::SearchLimits::new(50))
         .points
@@ -356,7 +356,7 @@ fn siksek_test_with_torsion() {
 
 #[test]
 fn rank_three_5077a1() {
-    // 5077a1 = [0,0,1,-7,6] has rank 3 with generators among (0,2), (1,0),
+    // y^2 + y = x^3 - 7x + 6 = [0,0,1,-7,6] has rank 3 with generators among (0,2), (1,0),
     // (2,0); regulator 0.417143558758 (from memory).
     let (e, local) = curve([0, 0, 1, -7, 6], &[5077]);
     let pts = [Point::from_ints(0, 2), Point::from_ints(1, 0), Point::from_ints(2, 0)];
@@ -399,7 +399,7 @@ fn bad_input_is_an_error() {
     assert!(canonical_height(&e, &[], &Point::from_ints(0, 0), 64).is_err());
     assert!(mordell_weil_basis(&e, &[Point::from_ints(2, 3)], &local, 64, &SaturationOptions::default()).is_err());
     assert!(is_p_saturated(&e, &local, &[Point::from_ints(0, 0)], 4, 1000).is_err());
-    // A non-minimal model (u = 2 scaling of 37a1) is refused.
+    // A non-minimal model (u = 2 scaling of y^2 + y = x^3 - x) is refused.
     let c = ModelChange::new(Rational::from(1) / Rational::from(2), Rational::from(0), Rational::from(0), Rational::from(0)).unwrap();
     let big = e.apply_change(&c).unwrap();
     let ps: Vec<Natural> = [2u32, 37].iter().map(|&p| Natural::from(p)).collect();
@@ -441,7 +441,7 @@ proptest! {
 
 #[test]
 fn multiples_are_divided_back() {
-    // For rank-1 curves of Cremona's table: start from 6g (+ a torsion point
+    // For rank-1 curves of the published table (Cremona 1997): start from 6g (+ a torsion point
     // when there is one) and recover a generator: regulator back to hhat(g).
     let rows: Vec<_> = common::read_table("curves-small-conductor.tsv").into_iter().filter(|r| r.rank == 1).take(12).collect();
     for row in rows {
@@ -475,7 +475,7 @@ fn multiples_are_divided_back() {
 
 #[test]
 fn rank_two_index_five_and_seven() {
-    // 389a1 (Cremona's table, rank 2): spans of index 5 and 35 are saturated back.
+    // y^2 + y = x^3 + x^2 - 2x (published table, Cremona 1997, rank 2): spans of index 5 and 35 are saturated back.
     let (e, local) = curve([0, 1, 1, -2, 0], &[389]);
     let (p, q) = (Point::from_ints(0, 0), Point::from_ints(1, 0));
     let opts = SaturationOptions::default();

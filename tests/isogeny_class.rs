@@ -1,4 +1,4 @@
-//! Odd-degree isogeny classes against Cremona's table 1 (*Algorithms for
+//! Odd-degree isogeny classes against Cremona 1997, Table 1 (*Algorithms for
 //! Modular Elliptic Curves*, 2nd ed.; tests/data/curves-small-conductor.tsv,
 //! where curves with the same conductor and class number are isogenous and
 //! every class is complete).
@@ -57,11 +57,11 @@ fn odd_classes_match_the_table() {
     assert!(complete_checked > 100, "{complete_checked}");
 }
 
-/// Points map to points: the generator of 37a1 has no isogenous partner, but
-/// 11a3's torsion point (0, 0) of order 5 maps to a point of the image.
+/// Points map to points: the generator of y^2 + y = x^3 - x has no isogenous partner, but
+/// y^2 + y = x^3 - x^2's torsion point (0, 0) of order 5 maps to a point of the image.
 #[test]
 fn points_map_onto_the_image() {
-    let e = Curve::from_coefficients([0, -1, 1, 0, 0]).unwrap(); // 11a3
+    let e = Curve::from_coefficients([0, -1, 1, 0, 0]).unwrap(); // y^2 + y = x^3 - x^2
     let class = odd_isogeny_class(&e, &[Natural::from(11u32)]).unwrap();
     assert_eq!(class.curves.len(), 3);
     for (a, _, phi) in &class.links {

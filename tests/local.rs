@@ -277,7 +277,7 @@ fn find(ds: &[LocalData], p: u64) -> &LocalData {
 
 #[test]
 fn known_local_data_from_the_literature() {
-    // 11a1 [0,-1,1,-10,-20]: Delta = -11^5, split I5 at 11, c_11 = 5
+    // y^2 + y = x^3 - x^2 - 10x - 20 [0,-1,1,-10,-20]: Delta = -11^5, split I5 at 11, c_11 = 5
     // (Cremona, Algorithms for Modular Elliptic Curves, Table 3; from memory).
     let e = curve([0, -1, 1, -10, -20]);
     let d = local_data(&e, &n(11)).unwrap();
@@ -285,42 +285,42 @@ fn known_local_data_from_the_literature() {
     assert_eq!((d.tamagawa, d.conductor_exponent), (5, 1));
     assert_eq!(d.reduction, Reduction::SplitMultiplicative);
     assert_eq!(d.kodaira.to_string(), "I5");
-    // 11a2 [0,-1,1,-7820,-263580]: I1 at 11, c = 1; 11a3 [0,-1,1,0,0]: I1 (from memory).
+    // [0,-1,1,-7820,-263580] [0,-1,1,-7820,-263580]: I1 at 11, c = 1; y^2 + y = x^3 - x^2 [0,-1,1,0,0]: I1 (from memory).
     assert_eq!(local_data(&curve([0, -1, 1, -7820, -263580]), &n(11)).unwrap().kodaira, Kodaira::In(1));
     assert_eq!(local_data(&curve([0, -1, 1, 0, 0]), &n(11)).unwrap().kodaira, Kodaira::In(1));
-    // 37a1 [0,0,1,-1,0]: Delta = 37, I1 at 37, non-split, c_37 = 1 (from memory;
+    // y^2 + y = x^3 - x [0,0,1,-1,0]: Delta = 37, I1 at 37, non-split, c_37 = 1 (from memory;
     // the root number -1 of this rank-1 curve forces a_37 = -1).
     let d = local_data(&curve([0, 0, 1, -1, 0]), &n(37)).unwrap();
     assert_eq!((d.kodaira, d.tamagawa, d.reduction), (Kodaira::In(1), 1, Reduction::NonSplitMultiplicative));
-    // 14a1 [1,0,1,4,-6]: Delta = -2^6 7^3; non-split I6 at 2 (c = 2), split I3
+    // [1,0,1,4,-6] [1,0,1,4,-6]: Delta = -2^6 7^3; non-split I6 at 2 (c = 2), split I3
     // at 7 (c = 3); Tamagawa product 6 (from memory).
     let e = curve([1, 0, 1, 4, -6]);
     let ds = bad_primes_data(&e, &[n(2), n(7)]).unwrap();
     assert_eq!((find(&ds, 2).kodaira, find(&ds, 2).tamagawa), (Kodaira::In(6), 2));
     assert_eq!((find(&ds, 7).kodaira, find(&ds, 7).tamagawa), (Kodaira::In(3), 3));
     assert_eq!(tamagawa_product(&e, &[n(2), n(7)]).unwrap(), 6u32);
-    // y^2 = x^3 - x (32a2 in Table 1): Delta = 2^6, conductor 2^5: type III,
+    // y^2 = x^3 - x (conductor 32 in Table 1): Delta = 2^6, conductor 2^5: type III,
     // c_2 = 2 (from memory).
     let d = local_data(&curve([0, 0, 0, -1, 0]), &n(2)).unwrap();
     assert_eq!((d.kodaira, d.conductor_exponent, d.tamagawa), (Kodaira::III, 5, 2));
-    // y^2 = x^3 + 1 (36a1): Delta = -2^4 3^3, conductor 36: IV at 2, III at 3 (from memory).
+    // y^2 = x^3 + 1 ([0,0,0,0,1]): Delta = -2^4 3^3, conductor 36: IV at 2, III at 3 (from memory).
     let ds = bad_primes_data(&curve([0, 0, 0, 0, 1]), &[n(2), n(3)]).unwrap();
     assert_eq!((find(&ds, 2).kodaira, find(&ds, 2).conductor_exponent), (Kodaira::IV, 2));
     assert_eq!((find(&ds, 3).kodaira, find(&ds, 3).conductor_exponent), (Kodaira::III, 2));
-    // 27a1 [0,0,1,0,-7]: Delta = -3^9, conductor 27: IV* at 3, c_3 = 3 (from memory).
+    // [0,0,1,0,-7] [0,0,1,0,-7]: Delta = -3^9, conductor 27: IV* at 3, c_3 = 3 (from memory).
     let d = local_data(&curve([0, 0, 1, 0, -7]), &n(3)).unwrap();
     assert_eq!((d.kodaira, d.conductor_exponent, d.tamagawa), (Kodaira::IVStar, 3, 3));
-    // 36a1: c_2 = 3, c_3 = 2 (from memory).
+    // [0,0,0,0,1]: c_2 = 3, c_3 = 2 (from memory).
     assert_eq!((find(&ds, 2).tamagawa, find(&ds, 3).tamagawa), (3, 2));
-    // 15a1 [1,1,1,-10,-10]: Delta = 3^4 5^4, non-split I4 at 3 (c = 2), split
+    // [1,1,1,-10,-10] [1,1,1,-10,-10]: Delta = 3^4 5^4, non-split I4 at 3 (c = 2), split
     // I4 at 5 (c = 4) (from memory).
     let ds = bad_primes_data(&curve([1, 1, 1, -10, -10]), &[n(3), n(5)]).unwrap();
     assert_eq!((find(&ds, 3).kodaira, find(&ds, 3).tamagawa, find(&ds, 3).reduction), (Kodaira::In(4), 2, Reduction::NonSplitMultiplicative));
     assert_eq!((find(&ds, 5).kodaira, find(&ds, 5).tamagawa, find(&ds, 5).reduction), (Kodaira::In(4), 4, Reduction::SplitMultiplicative));
-    // 17a1 [1,-1,1,-1,-14]: Delta = -17^4, split I4, c_17 = 4 (from memory).
+    // [1,-1,1,-1,-14] [1,-1,1,-1,-14]: Delta = -17^4, split I4, c_17 = 4 (from memory).
     let d = local_data(&curve([1, -1, 1, -1, -14]), &n(17)).unwrap();
     assert_eq!((d.kodaira, d.tamagawa, d.reduction), (Kodaira::In(4), 4, Reduction::SplitMultiplicative));
-    // 389a1 [0,1,1,-2,0] has rank 2, so root number +1 = a_389: split I1
+    // y^2 + y = x^3 + x^2 - 2x [0,1,1,-2,0] has rank 2, so root number +1 = a_389: split I1
     // (root number w = -prod w_p with w_p = -a_p at multiplicative p; Rohrlich 1993).
     let d = local_data(&curve([0, 1, 1, -2, 0]), &n(389)).unwrap();
     assert_eq!((d.kodaira, d.reduction), (Kodaira::In(1), Reduction::SplitMultiplicative));

@@ -25,7 +25,7 @@ fn close(got: f64, want: f64, tol: f64) -> bool {
 
 #[test]
 fn eleven_a1() {
-    // L(11a1, 1) = 0.2538418608559... (from memory; Cremona's tables)
+    // L(y^2 + y = x^3 - x^2 - 10x - 20, 1) = 0.2538418608559... (from memory; the published tables (Cremona 1997))
     let v = special_values(&curve([0, -1, 1, -10, -20]), &nat(11), 1, 3).unwrap();
     assert!(close(v[0].value, 0.2538418608559, 1e-12), "{:?}", v[0]);
     assert!(v[0].error < 1e-14, "{:?}", v[0]);
@@ -36,7 +36,7 @@ fn eleven_a1() {
 
 #[test]
 fn thirty_seven_a1() {
-    // L'(37a1, 1) = 0.3059997738340... (from memory; Cremona's tables)
+    // L'(y^2 + y = x^3 - x, 1) = 0.3059997738340... (from memory; the published tables (Cremona 1997))
     let a = analytic_rank(&curve([0, 0, 1, -1, 0]), &nat(37), -1).unwrap();
     assert_eq!((a.rank, a.basis), (1, RankBasis::NonZeroValue));
     assert!(close(a.leading.value, 0.3059997738340, 1e-12), "{:?}", a.leading);
@@ -45,7 +45,7 @@ fn thirty_seven_a1() {
 
 #[test]
 fn three_eight_nine_a1() {
-    // L''(389a1, 1)/2! = 0.7593165002... (from memory: L'' = 1.5186330005)
+    // L''(y^2 + y = x^3 + x^2 - 2x, 1)/2! = 0.7593165002... (from memory: L'' = 1.5186330005)
     let a = analytic_rank(&curve([0, 1, 1, -2, 0]), &nat(389), 1).unwrap();
     assert_eq!((a.rank, a.basis), (2, RankBasis::NumericalZeros));
     let (c, err) = a.leading_coefficient();
@@ -56,7 +56,7 @@ fn three_eight_nine_a1() {
 
 #[test]
 fn five_oh_seven_seven_a1() {
-    // 5077a1 = [0,0,1,-7,6], rank 3, L'''(E,1)/3! = 1.7318... (from memory)
+    // y^2 + y = x^3 - 7x + 6 = [0,0,1,-7,6], rank 3, L'''(E,1)/3! = 1.7318... (from memory)
     let a = analytic_rank(&curve([0, 0, 1, -7, 6]), &nat(5077), -1).unwrap();
     assert_eq!((a.rank, a.basis), (3, RankBasis::NumericalZeros));
     let (c, err) = a.leading_coefficient();
@@ -67,7 +67,7 @@ fn five_oh_seven_seven_a1() {
 #[test]
 fn bsd_quotients_of_the_first_curves() {
     // (curve, conductor, torsion, Omega incl. components, regulator, prod c_p):
-    // periods and regulators from Cremona's tables (from memory); Sha = 1 for all four.
+    // periods and regulators from the published tables (Cremona 1997) (from memory); Sha = 1 for all four.
     let cases: [([i64; 5], u64, u64, f64, f64, u64); 4] = [
         ([0, -1, 1, -10, -20], 11, 5, 1.26920930427955, 1.0, 5),
         ([0, 0, 1, -1, 0], 37, 1, 5.98691729246392, 0.0511114082399688, 1),
@@ -109,7 +109,7 @@ fn bsd_quotients_of_the_first_curves() {
 
 #[test]
 fn table_ranks_equal_analytic_ranks() {
-    // Every curve of Cremona's Table 1 copy (conductor <= 162) and of the
+    // Every curve of Cremona 1997, Table 1 copy (conductor <= 162) and of the
     // Sha list (all rank 0): the analytic rank equals the published rank.
     for name in ["curves-small-conductor.tsv", "curves-with-sha.tsv"] {
         let rows = common::read_table(name);
@@ -178,7 +178,7 @@ fn bad_input_is_an_error() {
     assert_eq!(special_values(&e, &nat(121), 1, 1).unwrap_err().kind(), &ErrorKind::InvalidValue);
     assert_eq!(special_values(&e, &nat(22), 1, 1).unwrap_err().kind(), &ErrorKind::InvalidValue);
     assert_eq!(special_values(&e, &nat(0), 1, 1).unwrap_err().kind(), &ErrorKind::InvalidValue);
-    // a non-minimal model (scaled by u = 2) of 37a1
+    // a non-minimal model (scaled by u = 2) of y^2 + y = x^3 - x
     let big = curve([0, 0, 8, -16, 0]);
     assert_eq!(special_values(&big, &nat(37), -1, 1).unwrap_err().kind(), &ErrorKind::InvalidValue);
     assert_eq!(special_values(&e, &nat(20_000_000_000), 1, 1).unwrap_err().kind(), &ErrorKind::TooLarge);

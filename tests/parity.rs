@@ -22,7 +22,7 @@ fn parity_holds(e: &Curve) -> Option<bool> {
 fn parity_holds_report(e: &Curve) -> Option<bool> {
     let opts = RankOptions { cross_check_routes: true, ..RankOptions::default() };
     let r = analyse(e, &opts).ok()?;
-    let s = r.selmer2_dim?;
+    let s = r.two_selmer_dim?;
     let t = r.torsion.iter().filter(|n| *n % 2 == 0).count();
     let w = root_number(e).ok()?.global;
     Some(((s - t) % 2 == 1) == (w == -1))

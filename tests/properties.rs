@@ -72,7 +72,7 @@ proptest! {
         prop_assert_eq!(&r1.conductor, &r2.conductor);
         prop_assert_eq!(r1.rank_upper, r2.rank_upper);
         // dim Sel^2(E) is an invariant of the curve, not of the model
-        prop_assert_eq!(r1.selmer2_dim, r2.selmer2_dim);
+        prop_assert_eq!(r1.two_selmer_dim, r2.two_selmer_dim);
         if let (Some(a), Some(b)) = (r1.rank(), r2.rank()) {
             prop_assert_eq!(a, b);
         }

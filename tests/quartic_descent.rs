@@ -51,7 +51,7 @@ fn published_tables() {
             incomplete.push((r.coefficients, r.sha_order));
             continue;
         };
-        assert_eq!(rep.selmer2_dim, Some(s));
+        assert_eq!(rep.two_selmer_dim, Some(s));
         let sha2 = s - d.two_torsion_dim - r.rank;
         assert!(s >= d.two_torsion_dim + r.rank, "{:?}: Selmer too small", r.coefficients);
         assert_eq!(sha2 % 2, 0, "{:?}: parity", r.coefficients);
@@ -72,7 +72,7 @@ fn published_tables() {
 
 /// Curves known from memory: y^2 + y = x^3 + x^2 - 2x has rank 2 and
 /// y^2 + y = x^3 - 7x + 6 has rank 3 (the conductor 389 and 5077 curves of
-/// Cremona's tables; from memory). The search finds that many independent points.
+/// the published tables (Cremona 1997); from memory). The search finds that many independent points.
 #[test]
 fn ranks_two_and_three() {
     for (a, rank) in [([0, 1, 1, -2, 0], 2usize), ([0, 0, 1, -7, 6], 3)] {
@@ -154,7 +154,7 @@ fn known_primes() {
 /// `(x, z)` modulo `p^k` (one representative of each point of `P^1(Z/p^k)`)
 /// where `g(x, z) = p^{2m} u` with `u` a unit square (a quadratic residue mod
 /// `p`, or `u ≡ 1 mod 8` at 2), which Hensel's lemma lifts to a point over
-/// `Q_p`; at R the reported point is re-evaluated. Small-conductor table (Cremona's Table 1),
+/// `Q_p`; at R the reported point is re-evaluated. Small-conductor table (Cremona 1997, Table 1),
 /// every third curve.
 #[test]
 fn soluble_classes_have_local_points_found_independently() {
@@ -258,7 +258,7 @@ fn hopeless_enumeration_is_refused_quickly() {
     let r = analyse(&e, &RankOptions { evidence: false, ..RankOptions::default() }).unwrap();
     assert!(t.elapsed().as_secs_f64() < 20.0, "took {:?}", t.elapsed());
     assert_eq!(r.rank_upper, None);
-    assert_eq!(r.selmer2_dim, None);
+    assert_eq!(r.two_selmer_dim, None);
     assert_eq!(r.rank(), None);
     for p in &r.points {
         assert!(e.contains(p));

@@ -44,8 +44,8 @@ fn nat(n: u64) -> Natural {
 
 #[test]
 fn known_values_from_memory() {
-    // Cremona's tables (from memory): 11a1 w = +1 (rank 0), 37a1 w = -1
-    // (rank 1), 389a1 w = +1 (rank 2), 5077a1 w = -1 (rank 3).
+    // the published tables (Cremona 1997) (from memory): y^2 + y = x^3 - x^2 - 10x - 20 w = +1 (rank 0), y^2 + y = x^3 - x w = -1
+    // (rank 1), y^2 + y = x^3 + x^2 - 2x w = +1 (rank 2), y^2 + y = x^3 - 7x + 6 w = -1 (rank 3).
     for (a, w, n) in [
         ([0, -1, 1, -10, -20], 1, 11u64),
         ([0, 0, 1, -1, 0], -1, 37),
@@ -298,7 +298,7 @@ fn bad_input() {
 /// Cases the local formulas leave open, and what is deduced there.
 #[test]
 fn wild_cases_at_two_and_three() {
-    // 27a1 = y^2 + y = x^3 - 7 (Cremona's Table 1; rank 0): conductor 27 = 3^3,
+    // [0,0,1,0,-7] = y^2 + y = x^3 - 7 (Cremona 1997, Table 1; rank 0): conductor 27 = 3^3,
     // so wild at 3; the numerical test decides and w_3 = -w = -1 follows.
     let e = curve([0, 0, 1, 0, -7]);
     assert_eq!(local_root_number(&e, &nat(3)).unwrap(), None);

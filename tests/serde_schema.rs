@@ -1,6 +1,6 @@
 //! The serde forms documented in docs/schema.md (feature `serde`): leaf
 //! forms, rejection of bad data, and round trips of batch items and root
-//! numbers. Curves: 37a1 and 11a1 from Cremona's Table 1 (tests/data).
+//! numbers. Curves: y^2 + y = x^3 - x and y^2 + y = x^3 - x^2 - 10x - 20 from Cremona 1997, Table 1 (tests/data).
 #![cfg(feature = "serde")]
 
 use serde_json::{json, Value};
@@ -58,7 +58,7 @@ fn report_fields_are_strings_and_round_trip() {
     let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     let r = analyse(&e, &RankOptions::default()).unwrap();
     let v = to_value(&r);
-    assert_eq!(v["conductor"], json!("37")); // Cremona's Table 1: 37a1
+    assert_eq!(v["conductor"], json!("37")); // Cremona 1997, Table 1: y^2 + y = x^3 - x
     assert_eq!(v["local"][0]["kodaira"], json!("I1"));
     assert_eq!(v["rank_lower"], json!(1));
     assert!(v["elapsed"]["nanos"].is_number());

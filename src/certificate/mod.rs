@@ -272,7 +272,7 @@ pub struct CertPoint {
 /// ```
 /// use twofold::{analyse, Curve, RankOptions};
 /// use twofold::certificate::{verify, Certificate};
-/// // 37a1: y^2 + y = x^3 - x, rank 1 (Cremona's table)
+/// // y^2 + y = x^3 - x: y^2 + y = x^3 - x, rank 1 (published table, Cremona 1997)
 /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let cert = Certificate::from_report(&analyse(&e, &RankOptions::default()).unwrap()).unwrap();
 /// assert_eq!(cert.points.len(), 1);
@@ -375,7 +375,7 @@ impl Certificate {
         for run in &report.isogeny_runs {
             isogeny.push(isogeny_proof(minimal, run, &primes)?);
         }
-        let quartic = match (&report.full_descent, &report.quartic_model) {
+        let quartic = match (&report.full_descent, &report.descent_curve) {
             (Some(f), None) => Some(quartic_proof(minimal, f, None)?),
             (Some(f), Some((other, d))) => Some(quartic_proof(other, f, Some(*d))?),
             (None, _) => None,

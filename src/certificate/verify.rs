@@ -73,7 +73,7 @@ pub enum UpperBoundBasis {
 /// ```
 /// use twofold::{analyse, Curve, RankOptions};
 /// use twofold::certificate::{verify, Certificate, UpperBoundBasis};
-/// // y^2 = x^3 - x: rank 0 (32a2 in Cremona's table)
+/// // y^2 = x^3 - x: rank 0 (conductor 32 in the published table (Cremona 1997))
 /// let e = Curve::from_coefficients([0, 0, 0, -1, 0]).unwrap();
 /// let c = Certificate::from_report(&analyse(&e, &RankOptions::default()).unwrap()).unwrap();
 /// let v = verify(&c).unwrap();

@@ -551,10 +551,10 @@ mod tests {
 
     #[test]
     fn known_isomorphism_from_literature() {
-        // 11a1 = [0,-1,1,-10,-20] (Cremona, Algorithms for Modular Elliptic
+        // y^2 + y = x^3 - x^2 - 10x - 20 = [0,-1,1,-10,-20] (Cremona, Algorithms for Modular Elliptic
         // Curves, Table 1) has c4 = 496, c6 = 20008 and so the short model
-        // y^2 = x^3 - 27 c4 x - 54 c6 (Silverman, AEC III.1), which is 11a1
-        // scaled by u = 1/6; its minimal model is 11a1 again, with u = 6.
+        // y^2 = x^3 - 27 c4 x - 54 c6 (Silverman, AEC III.1), which is y^2 + y = x^3 - x^2 - 10x - 20
+        // scaled by u = 1/6; its minimal model is y^2 + y = x^3 - x^2 - 10x - 20 again, with u = 6.
         let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
         assert_eq!(e.c4(), &Integer::from(496));
         assert_eq!(e.c6(), &Integer::from(20008));
@@ -584,7 +584,7 @@ mod tests {
         assert!(e.minimal_model(&[Natural::from(4u32), Natural::from(3u32)]).is_err());
         // 2 left out while the model is not minimal at 2
         assert!(e.minimal_model(&[Natural::from(3u32)]).is_err());
-        // a prime left out that cannot matter is fine: 37a1 has Delta = 37,
+        // a prime left out that cannot matter is fine: y^2 + y = x^3 - x has Delta = 37,
         // and c4 = 48, c6 = -216 are prime to 37
         let f = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
         assert_eq!(f.minimal_model(&[]).unwrap().0, f);

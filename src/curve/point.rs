@@ -118,7 +118,7 @@ impl Curve {
     ///
     /// ```
     /// use twofold::{Curve, Point};
-    /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap(); // 5-torsion (Cremona's table, 11a1)
+    /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap(); // 5-torsion (published table, Cremona 1997, y^2 + y = x^3 - x^2 - 10x - 20)
     /// assert_eq!(e.multiple(&Point::from_ints(5, 5), 5), Point::Infinity);
     /// ```
     pub fn multiple(&self, p: &Point, n: i64) -> Point {

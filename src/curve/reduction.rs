@@ -27,7 +27,7 @@ fn residue(n: &Integer, p: u64) -> u64 {
 ///
 /// ```
 /// use twofold::{Curve, curve::PointCounter};
-/// // 11a1 (Cremona's Table 1): a_2 = -2, a_3 = -1, a_5 = 1, a_7 = -2
+/// // y^2 + y = x^3 - x^2 - 10x - 20 (Cremona 1997, Table 1): a_2 = -2, a_3 = -1, a_5 = 1, a_7 = -2
 /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// let mut counter = PointCounter::new(&e);
 /// let traces: Vec<i64> = [2, 3, 5, 7].iter().map(|&p| counter.trace(p)).collect();
@@ -48,7 +48,7 @@ impl PointCounter {
     /// ```
     /// use twofold::{Curve, curve::PointCounter};
     /// let mut c = PointCounter::new(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap());
-    /// assert_eq!(c.trace(2), -2); // 37a1, Cremona's table
+    /// assert_eq!(c.trace(2), -2); // y^2 + y = x^3 - x, the published table (Cremona 1997)
     /// ```
     pub fn new(curve: &Curve) -> PointCounter {
         let a = curve.coefficients();
@@ -67,7 +67,7 @@ impl PointCounter {
     /// ```
     /// use twofold::{Curve, curve::PointCounter};
     /// let mut c = PointCounter::new(&Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap());
-    /// assert_eq!(c.count(2), 5); // 11a1 has a rational 5-torsion point
+    /// assert_eq!(c.count(2), 5); // y^2 + y = x^3 - x^2 - 10x - 20 has a rational 5-torsion point
     /// ```
     pub fn count(&mut self, p: u64) -> u64 {
         (p as i64 + 1 - self.trace(p)) as u64
@@ -78,7 +78,7 @@ impl PointCounter {
     /// ```
     /// use twofold::{Curve, curve::PointCounter};
     /// let mut c = PointCounter::new(&Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap());
-    /// assert_eq!(c.trace(2), -2); // 389a1: a_2 = -2 (Cremona's table, from memory)
+    /// assert_eq!(c.trace(2), -2); // y^2 + y = x^3 + x^2 - 2x: a_2 = -2 (published table, Cremona 1997, from memory)
     /// ```
     pub fn trace(&mut self, p: u64) -> i64 {
         assert!((2..(1 << 32)).contains(&p), "point counts need a prime below 2^32");
@@ -153,7 +153,7 @@ impl Curve {
     ///
     /// ```
     /// use twofold::Curve;
-    /// // y^2 + y = x^3 - x^2 - 10x - 20 (11a1 in Cremona's table): a_2 = -2, a_3 = -1
+    /// // y^2 + y = x^3 - x^2 - 10x - 20 (y^2 + y = x^3 - x^2 - 10x - 20 in the published table (Cremona 1997)): a_2 = -2, a_3 = -1
     /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
     /// assert_eq!(e.count_points_mod(2), 5);
     /// assert_eq!(e.count_points_mod(3), 5);
@@ -166,7 +166,7 @@ impl Curve {
     ///
     /// ```
     /// use twofold::Curve;
-    /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // 37a1, Cremona's table
+    /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // y^2 + y = x^3 - x, the published table (Cremona 1997)
     /// assert_eq!(e.trace_of_frobenius(2), -2);
     /// assert_eq!(e.trace_of_frobenius(3), -3);
     /// assert_eq!(e.trace_of_frobenius(5), -2);

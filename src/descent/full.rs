@@ -294,7 +294,7 @@ pub(crate) fn full_two_descent(
 /// ```
 /// use twofold::{Curve, RankOptions};
 /// use twofold::descent::full::full_descent;
-/// // y^2 + y = x^3 + x^2 - 2x: rank 2 (Cremona's tables, 389a1; from memory)
+/// // y^2 + y = x^3 + x^2 - 2x: rank 2 (published tables, Cremona 1997, y^2 + y = x^3 + x^2 - 2x; from memory)
 /// let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap();
 /// let d = full_descent(&e, &RankOptions::default()).unwrap();
 /// assert_eq!(d.selmer_dim, Some(2));

@@ -125,7 +125,7 @@ impl std::fmt::Display for Saturation {
 /// use twofold::{Curve, Point};
 /// use twofold::local::bad_primes_data;
 /// use twofold::heights::{mordell_weil_basis, SaturationOptions};
-/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // 37a1
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // y^2 + y = x^3 - x
 /// let local = bad_primes_data(&e, &[Natural::from(37u32)]).unwrap();
 /// let b = mordell_weil_basis(&e, &[Point::from_ints(1, 0)], &local, 64, &SaturationOptions::default()).unwrap();
 /// // (1, 0) = 2 (0, 0) is not 2-saturated; it is replaced by a half.
@@ -476,7 +476,7 @@ fn divide(
 /// use twofold::{Curve, Point};
 /// use twofold::local::bad_primes_data;
 /// use twofold::heights::is_p_saturated;
-/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // 37a1
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // y^2 + y = x^3 - x
 /// let local = bad_primes_data(&e, &[Natural::from(37u32)]).unwrap();
 /// let p = Point::from_ints(0, 0);
 /// assert!(is_p_saturated(&e, &local, &[p.clone()], 2, 10_000).unwrap());

@@ -209,7 +209,7 @@ pub(crate) fn archimedean(curve: &Curve, x: &Rational, prec: u64) -> Result<Floa
 /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let local = bad_primes_data(&e, &[Natural::from(37u32)]).unwrap();
 /// let h = canonical_height(&e, &local, &Point::from_ints(0, 0), 64).unwrap();
-/// // 0.0511114082... for the generator of 37a1 (from memory)
+/// // 0.0511114082... for the generator of y^2 + y = x^3 - x (from memory)
 /// assert!((twofold::heights::float_to_f64(&h) - 0.0511114082).abs() < 1e-9);
 /// ```
 pub fn canonical_height(curve: &Curve, local: &[LocalData], point: &Point, prec: u64) -> Result<Float, Error> {
@@ -229,7 +229,7 @@ pub(crate) fn height_unchecked(curve: &Curve, local: &[LocalData], point: &Point
 /// use twofold::{Curve, Point};
 /// use twofold::local::bad_primes_data;
 /// use twofold::heights::{local_heights, float_to_f64};
-/// // 37a1: (0,0) is integral with good reduction everywhere but 37, where it
+/// // y^2 + y = x^3 - x: (0,0) is integral with good reduction everywhere but 37, where it
 /// // lies on E_0 (type I1), so all of its height is archimedean.
 /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let local = bad_primes_data(&e, &[Natural::from(37u32)]).unwrap();
@@ -314,7 +314,7 @@ fn local_parts(curve: &Curve, local: &[LocalData], point: &Point, prec: u64) -> 
 /// use malachite::{Natural, Rational};
 /// use twofold::{Curve, ModelChange, Point};
 /// use twofold::heights::{canonical_height_on_model, float_to_f64};
-/// // 37a1 scaled by u = 1/2: x = x'/4, y = y'/8 (a non-minimal model).
+/// // y^2 + y = x^3 - x scaled by u = 1/2: x = x'/4, y = y'/8 (a non-minimal model).
 /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let c = ModelChange::new(Rational::from_signeds(1, 2), Rational::from(0), Rational::from(0), Rational::from(0)).unwrap();
 /// let big = e.apply_change(&c).unwrap();

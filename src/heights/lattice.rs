@@ -29,7 +29,7 @@ pub(crate) fn combination(curve: &Curve, points: &[Point], coeffs: &[i64]) -> Po
 /// use twofold::{Curve, Point};
 /// use twofold::local::bad_primes_data;
 /// use twofold::heights::{height_pairing_matrix, float_to_f64};
-/// // 389a1 with (0,0) and (1,0) (Cremona's tables)
+/// // y^2 + y = x^3 + x^2 - 2x with (0,0) and (1,0) (published tables, Cremona 1997)
 /// let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap();
 /// let local = bad_primes_data(&e, &[Natural::from(389u32)]).unwrap();
 /// let g = height_pairing_matrix(&e, &local, &[Point::from_ints(0, 0), Point::from_ints(1, 0)], 64).unwrap();
@@ -97,7 +97,7 @@ pub(crate) fn determinant(m: &[Vec<Float>]) -> Float {
 /// use twofold::{Curve, Point};
 /// use twofold::local::bad_primes_data;
 /// use twofold::heights::{regulator, float_to_f64};
-/// // 389a1: regulator 0.152460177943... (from memory)
+/// // y^2 + y = x^3 + x^2 - 2x: regulator 0.152460177943... (from memory)
 /// let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap();
 /// let local = bad_primes_data(&e, &[Natural::from(389u32)]).unwrap();
 /// let r = regulator(&e, &local, &[Point::from_ints(0, 0), Point::from_ints(1, 0)], 64).unwrap();

@@ -34,7 +34,7 @@
 //! use twofold::{Curve, Point};
 //! use twofold::local::bad_primes_data;
 //! use twofold::heights::{mordell_weil_basis, PeriodLattice, SaturationOptions};
-//! // 389a1 (Cremona's tables: rank 2, regulator 0.152460177943..., from memory)
+//! // y^2 + y = x^3 + x^2 - 2x (published tables, Cremona 1997: rank 2, regulator 0.152460177943..., from memory)
 //! let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap();
 //! let local = bad_primes_data(&e, &[Natural::from(389u32)]).unwrap();
 //! let pts = [Point::from_ints(0, 0), Point::from_ints(1, 0)];

@@ -197,7 +197,7 @@ fn f64_durand_kerner(c2: f64, c1: f64, c0: f64, bound: f64) -> [(f64, f64); 3] {
 /// ```
 /// use twofold::Curve;
 /// use twofold::heights::PeriodLattice;
-/// // 11a1 (Cremona's tables): real period 1.26920930... (from memory)
+/// // y^2 + y = x^3 - x^2 - 10x - 20 (published tables, Cremona 1997): real period 1.26920930... (from memory)
 /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// let l = PeriodLattice::compute(&e, 64).unwrap();
 /// assert!((l.real_period_f64() - 1.2692093).abs() < 1e-6);

@@ -87,7 +87,7 @@ mod tests {
             assert_eq!(f.len() as u64 - 1, (l * l - 1) / 2);
             assert_eq!(f.last().unwrap(), &Integer::from(l));
         }
-        // 11a1 has the 5-torsion point (5, 5) (Cremona's table): f_5(5) = 0
+        // y^2 + y = x^3 - x^2 - 10x - 20 has the 5-torsion point (5, 5) (published table, Cremona 1997): f_5(5) = 0
         let f5 = d.f(5);
         let v = f5.iter().rev().fold(Integer::from(0), |acc, c| acc * Integer::from(5) + c);
         assert_eq!(v, 0);

@@ -39,7 +39,7 @@ pub const ODD_DEGREES: [u64; 8] = [3, 5, 7, 11, 13, 17, 19, 37];
 /// ```
 /// use twofold::{isogeny::odd_isogenies, Curve};
 /// use malachite::Natural;
-/// // 11a1 is 5-isogenous to 11a2 and 11a3 (Cremona's table 1)
+/// // y^2 + y = x^3 - x^2 - 10x - 20 is 5-isogenous to [0,-1,1,-7820,-263580] and y^2 + y = x^3 - x^2 (Cremona 1997, Table 1)
 /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// let isogs = odd_isogenies(&e, &[Natural::from(11u32)]).unwrap();
 /// let mut targets: Vec<String> = isogs.iter().map(|i| format!("{:?}", i.target.coefficients())).collect();
@@ -152,7 +152,7 @@ fn build(curve: &Curve, l: u64, k: Vec<Rational>, bad: &[Natural]) -> Result<Odd
 /// ```
 /// use twofold::{isogeny::odd_isogeny_class, Curve};
 /// use malachite::Natural;
-/// // the class 11a has three curves linked by 5-isogenies (Cremona's table 1)
+/// // the class the isogeny class of conductor 11 has three curves linked by 5-isogenies (Cremona 1997, Table 1)
 /// let e = Curve::from_coefficients([0, -1, 1, -7820, -263580]).unwrap();
 /// let class = odd_isogeny_class(&e, &[Natural::from(11u32)]).unwrap();
 /// assert_eq!(class.curves.len(), 3);

@@ -119,6 +119,24 @@ pub enum Reduction {
     Additive,
 }
 
+/// Written in words: "good", "split multiplicative", "non-split
+/// multiplicative", "additive".
+///
+/// ```
+/// use twofold::local::Reduction;
+/// assert_eq!(Reduction::NonSplitMultiplicative.to_string(), "non-split multiplicative");
+/// ```
+impl fmt::Display for Reduction {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(match self {
+            Reduction::Good => "good",
+            Reduction::SplitMultiplicative => "split multiplicative",
+            Reduction::NonSplitMultiplicative => "non-split multiplicative",
+            Reduction::Additive => "additive",
+        })
+    }
+}
+
 /// The local data of a curve at one prime, as found by Tate's algorithm.
 ///
 /// ```
@@ -175,7 +193,7 @@ pub fn local_data(curve: &Curve, p: &Natural) -> Result<LocalData, Error> {
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, local::bad_primes_data};
-/// let e = Curve::from_coefficients([1, 0, 1, 4, -6]).unwrap(); // 14a1, Delta = -2^6 7^3
+/// let e = Curve::from_coefficients([1, 0, 1, 4, -6]).unwrap(); // [1,0,1,4,-6], Delta = -2^6 7^3
 /// let primes = [2u32, 7].map(Natural::from);
 /// let data = bad_primes_data(&e, &primes).unwrap();
 /// assert_eq!(data.len(), 2);
@@ -204,7 +222,7 @@ pub fn bad_primes_data(curve: &Curve, primes: &[Natural]) -> Result<Vec<LocalDat
 /// ```
 /// use malachite::{Integer, Natural};
 /// use twofold::{Curve, local::conductor};
-/// // y^2 + y = x^3 - x (37a1), y^2 = x^3 + 1 (Delta = -2^4 3^3, conductor 36)
+/// // y^2 + y = x^3 - x (y^2 + y = x^3 - x), y^2 = x^3 + 1 (Delta = -2^4 3^3, conductor 36)
 /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// assert_eq!(conductor(&e, &[Natural::from(37u32)]).unwrap(), Integer::from(37));
 /// let f = Curve::from_coefficients([0, 0, 0, 0, 1]).unwrap();
@@ -225,7 +243,7 @@ pub fn conductor(curve: &Curve, primes: &[Natural]) -> Result<Integer, Error> {
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, local::tamagawa_product};
-/// // 11a1: c_11 = 5 (Cremona, Algorithms for Modular Elliptic Curves, Table 3; from memory)
+/// // y^2 + y = x^3 - x^2 - 10x - 20: c_11 = 5 (Cremona, Algorithms for Modular Elliptic Curves, Table 3; from memory)
 /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// assert_eq!(tamagawa_product(&e, &[Natural::from(11u32)]).unwrap(), 5u32);
 /// ```

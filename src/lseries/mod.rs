@@ -73,7 +73,7 @@ pub const MAX_CONDUCTOR: u64 = 1_000_000_000;
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, lseries::special_values};
-/// // 11a1 (Cremona's Table 1): w = +1, conductor 11
+/// // y^2 + y = x^3 - x^2 - 10x - 20 (Cremona 1997, Table 1): w = +1, conductor 11
 /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// let v = special_values(&e, &Natural::from(11u32), 1, 1).unwrap();
 /// assert!((v[0].value - 0.2538418608559).abs() < 1e-12); // L(E, 1) (from memory)
@@ -139,7 +139,7 @@ impl RankBasis {
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, lseries::{analytic_rank, RankBasis}};
-/// // 37a1 (Cremona's Table 1): rank 1, w = -1
+/// // y^2 + y = x^3 - x (Cremona 1997, Table 1): rank 1, w = -1
 /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let a = analytic_rank(&e, &Natural::from(37u32), -1).unwrap();
 /// assert_eq!((a.rank, a.basis), (1, RankBasis::NonZeroValue));
@@ -164,7 +164,7 @@ impl AnalyticRank {
     /// ```
     /// use malachite::Natural;
     /// use twofold::{Curve, lseries::analytic_rank};
-    /// // 389a1 (Cremona's Table 1): rank 2; L''(E,1)/2 = 0.7593165002 (from memory)
+    /// // y^2 + y = x^3 + x^2 - 2x (Cremona 1997, Table 1): rank 2; L''(E,1)/2 = 0.7593165002 (from memory)
     /// let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap();
     /// let (c, err) = analytic_rank(&e, &Natural::from(389u32), 1).unwrap().leading_coefficient();
     /// assert!((c - 0.7593165002).abs() < 1e-9 && err < 1e-12);
@@ -193,7 +193,7 @@ fn bad(kind: ErrorKind, msg: impl Into<String>) -> Error {
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, lseries::dirichlet_coefficients};
-/// // 11a1: q - 2q^2 - q^3 + 2q^4 + q^5 + 2q^6 - 2q^7 (Cremona, §2.8; from memory)
+/// // y^2 + y = x^3 - x^2 - 10x - 20: q - 2q^2 - q^3 + 2q^4 + q^5 + 2q^6 - 2q^7 (Cremona, §2.8; from memory)
 /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// let a = dirichlet_coefficients(&e, &Natural::from(11u32), 7).unwrap();
 /// assert_eq!(a, vec![0, 1, -2, -1, 2, 1, 2, -2]);
@@ -323,7 +323,7 @@ impl CompensatedSum {
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, lseries::special_values};
-/// // 5077a1 = [0,0,1,-7,6] (Cremona's Table 1): rank 3, w = -1;
+/// // y^2 + y = x^3 - 7x + 6 = [0,0,1,-7,6] (Cremona 1997, Table 1): rank 3, w = -1;
 /// // L'''(E, 1)/3! = 1.7318 (from memory)
 /// let e = Curve::from_coefficients([0, 0, 1, -7, 6]).unwrap();
 /// let v = special_values(&e, &Natural::from(5077u32), -1, 3).unwrap();
@@ -438,7 +438,7 @@ pub fn rank_from_values(values: &[SpecialValue]) -> Result<AnalyticRank, Error> 
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, lseries::{analytic_rank, RankBasis}};
-/// // 5077a1 (Cremona's Table 1): analytic rank 3, read numerically
+/// // y^2 + y = x^3 - 7x + 6 (Cremona 1997, Table 1): analytic rank 3, read numerically
 /// let e = Curve::from_coefficients([0, 0, 1, -7, 6]).unwrap();
 /// let a = analytic_rank(&e, &Natural::from(5077u32), -1).unwrap();
 /// assert_eq!((a.rank, a.basis), (3, RankBasis::NumericalZeros));
@@ -454,7 +454,7 @@ pub fn analytic_rank(curve: &Curve, conductor: &Natural, w: i8) -> Result<Analyt
 ///
 /// ```
 /// use twofold::{Curve, lseries::{minimal_conductor_sign, analytic_rank}};
-/// // a non-minimal model of 37a1: u = 2 scaling of y^2 + y = x^3 - x
+/// // a non-minimal model of y^2 + y = x^3 - x: u = 2 scaling of y^2 + y = x^3 - x
 /// let e = Curve::from_coefficients([0, 0, 8, -16, 0]).unwrap();
 /// let (m, n, w) = minimal_conductor_sign(&e).unwrap();
 /// assert_eq!(m, Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap());
@@ -473,8 +473,8 @@ pub fn minimal_conductor_sign(curve: &Curve) -> Result<(Curve, Natural, i8), Err
 ///
 /// ```
 /// use twofold::lseries::{bsd_sha, BsdInputs};
-/// // 11a1: L(E,1) = 0.2538418608559, Omega = 1.26920930427955 (one real
-/// // component), c_11 = 5, #E(Q)_tors = 5 (Cremona's tables; from memory)
+/// // y^2 + y = x^3 - x^2 - 10x - 20: L(E,1) = 0.2538418608559, Omega = 1.26920930427955 (one real
+/// // component), c_11 = 5, #E(Q)_tors = 5 (published tables, Cremona 1997; from memory)
 /// let s = bsd_sha(&BsdInputs {
 ///     rank: 0, leading: 0.2538418608559, leading_error: 1e-13, torsion_order: 5,
 ///     omega: 1.26920930427955, regulator: 1.0, tamagawa_product: 5, relative_error: 1e-13,
@@ -534,9 +534,9 @@ pub struct ShaEstimate {
 ///
 /// ```
 /// use twofold::lseries::{bsd_sha, BsdInputs};
-/// // 37a1: L'(E,1) = 0.3059997738340, Omega = 5.98691729246392 (two real
+/// // y^2 + y = x^3 - x: L'(E,1) = 0.3059997738340, Omega = 5.98691729246392 (two real
 /// // components), Reg = 0.0511114082399688, c_37 = 1, trivial torsion
-/// // (Cremona's tables; from memory)
+/// // (published tables, Cremona 1997; from memory)
 /// let s = bsd_sha(&BsdInputs {
 ///     rank: 1, leading: 0.3059997738340, leading_error: 1e-13, torsion_order: 1,
 ///     omega: 5.98691729246392, regulator: 0.0511114082399688, tamagawa_product: 1, relative_error: 1e-13,
@@ -570,7 +570,7 @@ pub fn bsd_sha(inputs: &BsdInputs) -> Result<ShaEstimate, Error> {
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, lseries::euler_product_growth};
-/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // 37a1, rank 1
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // y^2 + y = x^3 - x, rank 1
 /// let g = euler_product_growth(&e, &Natural::from(37u32), 2000).unwrap();
 /// assert_eq!(g.points.len(), 302); // primes below 2000 except 37
 /// assert!(g.slope > 0.3 && g.slope < 2.0);
@@ -606,7 +606,7 @@ pub const FIT_FROM: u64 = 100;
 /// ```
 /// use malachite::Natural;
 /// use twofold::{Curve, lseries::euler_product_growth};
-/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap(); // 11a1, rank 0
+/// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap(); // y^2 + y = x^3 - x^2 - 10x - 20, rank 0
 /// let g = euler_product_growth(&e, &Natural::from(11u32), 5000).unwrap();
 /// assert!(g.slope.abs() < 0.5);
 /// ```

@@ -569,7 +569,7 @@ mod tests {
         // roots 4, 2, -6: t^3 - 28 t + 48? e2 = 8 - 24 - 12 = -28 no (3 ∤ 28). roots 5, 1, -6: e2 = 5 - 30 - 6 = -31.
         // roots 7, -2, -5: e2 = -14 - 35 + 10 = -39 = -3*13 -> I = 13, J = -e3 = 70: t^3 - 39t + 70.
         assert_eq!(integer_roots_of_resolvent(&Integer::from(13), &Integer::from(70)), [-7, 2, 5].map(Integer::from));
-        // t^3 - 3*48 t - 432: 37a1 (I,J)=(48,-432) → F(φ)=φ^3-144φ-432, no rational roots (E(Q)[2] = 0)
+        // t^3 - 3*48 t - 432: y^2 + y = x^3 - x (I,J)=(48,-432) → F(φ)=φ^3-144φ-432, no rational roots (E(Q)[2] = 0)
         assert!(integer_roots_of_resolvent(&Integer::from(48), &Integer::from(-432)).is_empty());
     }
 
@@ -636,7 +636,7 @@ mod tests {
     #[test]
     fn kummer_image_matches_quartic_class_at_points() {
         // For quartics with a rational point, the class equals the Kummer image of the
-        // image point on the Jacobian (37a1, 389a1 from Cremona's tables).
+        // image point on the Jacobian (y^2 + y = x^3 - x, y^2 + y = x^3 + x^2 - 2x from the published tables (Cremona 1997)).
         for ai in [[0i64, 0, 1, -1, 0], [0, 1, 1, -2, 0]] {
             let e = Curve::from_coefficients(ai).unwrap();
             let (i, j) = (e.c4().clone(), Integer::from(2) * e.c6());
@@ -713,8 +713,8 @@ mod tests {
     /// Every Kummer image of a rational point is the class of some quartic with
     /// invariants (c4, 2c6) of the model (Cremona, Fisher and Stoll 2010: a
     /// locally soluble 2-covering of a minimal model has a level-0 model).
-    /// Curves: 37a1, 389a1, 5077a1 (ranks 1, 2, 3), 11a1, 14a1, 15a1, 17a1, 21a1,
-    /// 24a1, 30a1, 57a1, 65a1 (Cremona's tables; a-invariants from memory).
+    /// Curves: y^2 + y = x^3 - x, y^2 + y = x^3 + x^2 - 2x, y^2 + y = x^3 - 7x + 6 (ranks 1, 2, 3), y^2 + y = x^3 - x^2 - 10x - 20, [1,0,1,4,-6], [1,1,1,-10,-10], [1,-1,1,-1,-14], [1,0,0,-4,-1],
+    /// [0,-1,0,-4,4], [1,0,1,1,2], [0,-1,1,-2,2], [1,0,0,-1,0] (published tables, Cremona 1997; a-invariants from memory).
     #[test]
     fn kummer_images_of_points_are_covered() {
         let curves: [[i64; 5]; 12] = [
@@ -773,7 +773,7 @@ mod tests {
         reps.len()
     }
 
-    /// Ranks and torsion from Cremona's tables: 37a1 rank 1, 389a1 rank 2, 5077a1
+    /// Ranks and torsion from the published tables (Cremona 1997): y^2 + y = x^3 - x rank 1, y^2 + y = x^3 + x^2 - 2x rank 2, y^2 + y = x^3 - 7x + 6
     /// rank 3, all with trivial torsion, so E(Q)/2E(Q) has 2, 4, 8 elements; the
     /// Kummer images of small points realise all of them, and the quartics with
     /// invariants (c4, 2c6) that have a small rational point fall into exactly as
@@ -807,8 +807,8 @@ mod tests {
         }
     }
 
-    /// Curves with rational 2-torsion, rank 0 (Cremona's tables, from memory):
-    /// y^2 = x^3 - x (32a2, E(Q) = Z/2 x Z/2), 14a1 (Z/6), 15a1 (Z/2 x Z/4), 11a1 (Z/5):
+    /// Curves with rational 2-torsion, rank 0 (published tables, Cremona 1997, from memory):
+    /// y^2 = x^3 - x (conductor 32, E(Q) = Z/2 x Z/2), [1,0,1,4,-6] (Z/6), [1,1,1,-10,-10] (Z/2 x Z/4), y^2 + y = x^3 - x^2 - 10x - 20 (Z/5):
     /// |E(Q)/2E(Q)| = 4, 2, 4, 1; this exercises split algebras and the 2-torsion rule.
     #[test]
     fn kummer_images_with_two_torsion() {

@@ -343,7 +343,7 @@ impl Quartic {
     /// ```
     /// use malachite::Rational;
     /// use twofold::{Curve, quartic::Quartic};
-    /// // y^2 + y = x^3 - x (Cremona's table 37a1): c4 = 48, c6 = -216.
+    /// // y^2 + y = x^3 - x (published table, Cremona 1997 y^2 + y = x^3 - x): c4 = 48, c6 = -216.
     /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     /// // y^2 = x^4 - 2x^3 z + x^2 z^2 + 4 x z^3 ... any quartic with (I, J) = (48, -432):
     /// let g = twofold::quartic::quartics_with_invariants(&48.into(), &(-432).into(), &Default::default()).unwrap()
@@ -668,7 +668,7 @@ mod tests {
 
     #[test]
     fn covering_map_to_user_model() {
-        // Models from Cremona's tables (a-invariants): 37a1, 389a1, 11a1, 14a1, 15a1, and
+        // Models from the published tables (Cremona 1997) (a-invariants): y^2 + y = x^3 - x, y^2 + y = x^3 + x^2 - 2x, y^2 + y = x^3 - x^2 - 10x - 20, [1,0,1,4,-6], [1,1,1,-10,-10], and
         // a non-minimal model with a1, a3 odd.
         let curves: [[i64; 5]; 6] = [
             [0, 0, 1, -1, 0],
@@ -725,5 +725,18 @@ mod tests {
         // (I, J) = (4 c4, 8 * 2c6) has u^2 = 2, not a rational square.
         assert!(scaling_to_curve(&int(4 * 48), &int(-8 * 432), &e).is_err());
         assert_eq!(scaling_to_curve(&int(16 * 48), &int(-64 * 432), &e).unwrap(), 2);
+    }
+}
+
+/// The binary form written out, `-x^4 + 942x^2z^2 - 24649z^4`.
+///
+/// ```
+/// use twofold::quartic::Quartic;
+/// assert_eq!(Quartic::from_coeffs([-1, 0, 942, 0, -24649]).to_string(), "-x^4 + 942x^2z^2 - 24649z^4");
+/// assert_eq!(Quartic::from_coeffs([1, -1, 0, 1, 1]).to_string(), "x^4 - x^3z + xz^3 + z^4");
+/// ```
+impl std::fmt::Display for Quartic {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(&crate::curve::signed_terms(&self.coeffs(), &["x^4", "x^3z", "x^2z^2", "xz^3", "z^4"]))
     }
 }

@@ -695,7 +695,7 @@ fn raw_search(i: &Integer, j: &Integer, positive_definite_only: bool, steps: &mu
 ///
 /// The representatives are reduced (see [`reduce`](super::reduce)) and sorted
 /// by coefficient size. The search box and its proof of completeness are
-/// described in the module documentation (BSD 1963; Cremona's book 3.5;
+/// described in the module documentation (BSD 1963; Cremona 1997 3.5;
 /// Cremona, LMS JCM 2 (1999)). Errors: [`ErrorKind::InvalidValue`] for zero
 /// discriminant, [`ErrorKind::TooLarge`] for invariants beyond the
 /// floating-point range used for the box, [`ErrorKind::Budget`] when
@@ -704,7 +704,7 @@ fn raw_search(i: &Integer, j: &Integer, positive_definite_only: bool, steps: &mu
 /// ```
 /// use malachite::Integer;
 /// use twofold::quartic::quartics_with_invariants;
-/// // 37a1 (Cremona's tables): c4 = 48, c6 = -216, so (I, J) = (48, -432).
+/// // y^2 + y = x^3 - x (published tables, Cremona 1997): c4 = 48, c6 = -216, so (I, J) = (48, -432).
 /// let list = quartics_with_invariants(&Integer::from(48), &Integer::from(-432), &Default::default()).unwrap();
 /// assert!(list.iter().all(|g| g.invariant_i() == 48 && g.invariant_j() == -432));
 /// assert!(!list.is_empty());
@@ -800,7 +800,7 @@ pub(crate) fn distinct_classes(forms: Vec<Quartic>) -> Result<Vec<Quartic>, Erro
 /// `p`; the integral binary quartic `P^2 + 4Q` then has invariants exactly
 /// `(c4, 2c6)`, and since `Z` is a principal ideal domain these local models
 /// glue to a global one. The older bound of Birch and Swinnerton-Dyer (1963)
-/// (also used in Cremona's book, 3.5) allowed the 2-adic scaling
+/// (also used in Cremona 1997, 3.5) allowed the 2-adic scaling
 /// `(2^4 c4, 2^6 · 2c6)` as well; [`covering_invariants_conservative`] returns
 /// both pairs (the second search is about 64 times longer). The model passed
 /// must be minimal (at least at the primes where it matters); this function
@@ -983,7 +983,7 @@ mod tests {
     /// The loop over `(a, H)` finds exactly the raw forms of the reference
     /// loop over `(a, b, c)`: on invariants of small forms (independent
     /// brute-force box) and on the invariants `(c4, 2c6)` of curves of the
-    /// published table in tests/data (Cremona's tables), where the reference is
+    /// published table in tests/data (published tables, Cremona 1997), where the reference is
     /// cheap enough.
     #[test]
     fn by_h_matches_reference() {
@@ -1038,7 +1038,7 @@ mod tests {
     }
 
     /// Five curves with large `c4` from the published table in tests/data
-    /// (Cremona's tables; the first is the conductor-11 curve of that file with
+    /// (published tables, Cremona 1997; the first is the conductor-11 curve of that file with
     /// `c4 = 375376`): candidate counts and timing with the
     /// descent's budget of 5·10^7 (run with --ignored --nocapture, release).
     /// Only [1,1,1,-3138,-68969] fits the budget (about 2.1·10^7 candidates).
@@ -1090,16 +1090,16 @@ mod tests {
         eprintln!("total {tot} over {}", rows.len());
     }
 
-    /// Timing probe over a few curves from Cremona's tables (run with --ignored --nocapture).
+    /// Timing probe over a few curves from the published tables (Cremona 1997) (run with --ignored --nocapture).
     #[test]
     #[ignore]
     fn timing_probe() {
         let curves: [(&str, [i64; 5]); 7] = [
-            ("37a1", [0, 0, 1, -1, 0]),
-            ("389a1", [0, 1, 1, -2, 0]),
-            ("5077a1", [0, 0, 1, -7, 6]),
-            ("11a1", [0, -1, 1, -10, -20]),
-            ("571a1", [0, -1, 1, -929, -10595]),
+            ("y^2 + y = x^3 - x", [0, 0, 1, -1, 0]),
+            ("y^2 + y = x^3 + x^2 - 2x", [0, 1, 1, -2, 0]),
+            ("y^2 + y = x^3 - 7x + 6", [0, 0, 1, -7, 6]),
+            ("y^2 + y = x^3 - x^2 - 10x - 20", [0, -1, 1, -10, -20]),
+            ("[0,-1,1,-929,-10595]", [0, -1, 1, -929, -10595]),
             ("mid", [0, 0, 0, -3000, 1000]),
             ("big", [1, 0, 0, -100000, 10000000]),
         ];

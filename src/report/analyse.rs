@@ -22,7 +22,7 @@ use malachite::Natural;
 ///
 /// ```
 /// use twofold::{analyse, Curve, RankOptions};
-/// let e = Curve::parse("y^2 = x^3 - x").unwrap(); // 32a2: rank 0, torsion Z/2 x Z/2 (Cremona's table)
+/// let e = Curve::parse("y^2 = x^3 - x").unwrap(); // conductor 32: rank 0, torsion Z/2 x Z/2 (published table, Cremona 1997)
 /// let r = analyse(&e, &RankOptions::default()).unwrap();
 /// assert_eq!(r.rank(), Some(0));
 /// assert_eq!(r.torsion, vec![2, 2]);
@@ -62,14 +62,14 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
         rank_lower: None,
         rank_upper: None,
         route: Route::None,
-        isogeny_selmer: None,
+        isogeny_selmer_dims: None,
         points: vec![],
         independence: String::new(),
         sha_suspects: vec![],
-        selmer2_dim: None,
+        two_selmer_dim: None,
         isogeny_runs: vec![],
         full_descent: None,
-        quartic_model: None,
+        descent_curve: None,
         evidence: None,
         certificate: None,
         change: change.clone(),
@@ -157,7 +157,7 @@ fn quartic_route(
     }
     f.lower = mapped.len();
     f.points = mapped;
-    report.quartic_model = Some((other.clone(), degree));
+    report.descent_curve = Some((other.clone(), degree));
     Ok(f)
 }
 
@@ -197,7 +197,7 @@ fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullD
         if let Some(u) = f.upper {
             upper = Some(upper.map_or(u, |b: usize| b.min(u)));
         }
-        report.selmer2_dim = f.selmer_dim;
+        report.two_selmer_dim = f.selmer_dim;
         if !f.search_complete {
             report.budget_exhausted = true;
         }
@@ -223,12 +223,12 @@ fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullD
     }
     report.rank_upper = upper;
     if let Some(best) = runs.iter().filter(|r| r.upper.is_some()).min_by_key(|r| r.upper.unwrap()) {
-        report.isogeny_selmer = Some((best.side_e.selmer_dim, best.side_e_prime.selmer_dim));
+        report.isogeny_selmer_dims = Some((best.side_e.selmer_dim, best.side_e_prime.selmer_dim));
     }
     if report.rank_upper.is_some() && report.rank_upper != report.rank_lower {
         let u = report.rank_upper.unwrap();
         if let Some(f) = full.filter(|f| f.upper == Some(u)) {
-            let origin = match &report.quartic_model {
+            let origin = match &report.descent_curve {
                 None => "quartic 2-covering of E (an element of Sel^2(E))".to_string(),
                 Some((c, d)) => format!(
                     "quartic 2-covering of the {d}-isogenous curve {} (an element of its Sel^2, isomorphic to Sel^2(E) since {d} is odd)",

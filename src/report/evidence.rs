@@ -68,7 +68,7 @@ impl std::fmt::Display for Statement {
 ///
 /// ```
 /// use twofold::{analyse, Curve, RankOptions};
-/// // 37a1 (Cremona's tables): rank 1, generator (0, 0), regulator 0.0511114082 (from memory)
+/// // y^2 + y = x^3 - x (published tables, Cremona 1997): rank 1, generator (0, 0), regulator 0.0511114082 (from memory)
 /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let r = analyse(&e, &RankOptions::default()).unwrap();
 /// let ev = r.evidence.as_ref().unwrap();
@@ -103,13 +103,13 @@ pub struct Evidence {
     #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub tamagawa: Vec<(Natural, u32)>,
     /// The analytic rank (see `statements` for its standing).
-    pub analytic_rank: Option<usize>,
+    pub vanishing_order: Option<usize>,
     /// `L^(r)(E, 1) / r!` at the analytic rank r (numerical, with the error
     /// bound in `statements`).
     pub leading_value: Option<f64>,
     /// The analytic order of Sha from the Birch and Swinnerton-Dyer formula
     /// (conditional on it; numerical).
-    pub sha_analytic: Option<f64>,
+    pub sha_bsd_estimate: Option<f64>,
     /// Every statement with its standing.
     pub statements: Vec<Statement>,
 }
@@ -136,15 +136,29 @@ pub(crate) fn compute(report: &RankReport, budget: &Budget) -> Evidence {
         (Some(l), None) => st.push(proven(format!("rank >= {l} (independent points; no upper bound finished)"))),
         _ => {}
     }
-    if let Some(s) = report.selmer2_dim {
+    if let Some(s) = report.two_selmer_dim {
         st.push(proven(format!("dim Sel^2(E) = {s}")));
     }
     // root number and parity
     let limits = crate::arith::FactorLimits { deadline: budget.deadline, cancel: budget.cancel.clone() };
-    let w = crate::rootno::root_number_with_limits(&report.minimal, &limits).ok().map(|r| r.global);
-    if let Some(w) = w {
-        st.push(proven(format!("the root number is {w} (local root numbers: Rohrlich 1993; Halberstadt 1998 and Rizzo 2003 at 2 and 3)")));
-        if let Some(s) = report.selmer2_dim {
+    let rn = crate::rootno::root_number_with_limits(&report.minimal, &limits);
+    let w = rn.as_ref().ok().map(|r| r.global);
+    if let Ok(r) = &rn {
+        use crate::rootno::RootNumberMethod;
+        let w = r.global;
+        let local = "local root numbers: -1 at split and +1 at non-split multiplicative primes, Rohrlich 1993 for p >= 5, \
+                     the tame and twist cases at 2 and 3";
+        st.push(match &r.method {
+            RootNumberMethod::LocalFormulas => proven(format!("the root number is {w} ({local})")),
+            RootNumberMethod::LocalAndNumerical => {
+                proven(format!("the root number is {w} ({local}; the functional equation tested numerically agrees)"))
+            }
+            _ => Statement {
+                claim: format!("the root number is {w} (functional equation tested numerically; no local formula at 2 or 3 here)"),
+                standing: Standing::Conditional("the f64 error bound of the numerical test, which assumes the platform's exp is accurate to a few ulps".into()),
+            },
+        });
+        if let Some(s) = report.two_selmer_dim {
             let t = report.torsion.iter().filter(|n| *n % 2 == 0).count();
             let par = (s - t) % 2;
             let wpar = usize::from(w == -1);
@@ -194,9 +208,9 @@ pub(crate) fn compute(report: &RankReport, budget: &Budget) -> Evidence {
         saturation: None,
         real_period,
         tamagawa,
-        analytic_rank: None,
+        vanishing_order: None,
         leading_value: None,
-        sha_analytic: None,
+        sha_bsd_estimate: None,
         statements: vec![],
     };
     if !on_min.is_empty() && on_min.len() == report.points.len() {
@@ -248,7 +262,7 @@ fn analytic(report: &RankReport, n: &Natural, w: i8, ev: &mut Evidence, st: &mut
         return;
     };
     let (lead, err) = ar.leading_coefficient();
-    ev.analytic_rank = Some(ar.rank);
+    ev.vanishing_order = Some(ar.rank);
     ev.leading_value = Some(lead);
     let standing = match ar.basis {
         RankBasis::NonZeroValue => Standing::Conditional(
@@ -262,7 +276,13 @@ fn analytic(report: &RankReport, n: &Natural, w: i8, ev: &mut Evidence, st: &mut
             ar.rank,
             ar.rank,
             ar.rank,
-            ar.basis.statement()
+            match (ar.basis, ar.rank) {
+                (RankBasis::NonZeroValue, 0) => "L(E,1) is bounded away from zero by the error bound".to_string(),
+                (RankBasis::NonZeroValue, _) => format!(
+                    "L(E,1) = 0 by the sign w = {w} of the functional equation, and L'(E,1) is bounded away from zero by the error bound"
+                ),
+                (basis, _) => basis.statement().to_string(),
+            }
         ),
         standing: standing.clone(),
     });
@@ -297,7 +317,7 @@ fn analytic(report: &RankReport, n: &Natural, w: i8, ev: &mut Evidence, st: &mut
         relative_error: 1e-12,
     };
     if let Ok(sha) = bsd_sha(&inputs) {
-        ev.sha_analytic = Some(sha.value);
+        ev.sha_bsd_estimate = Some(sha.value);
         st.push(Statement {
             claim: format!(
                 "the analytic order of Sha is {:.9} ± {:.1e} (nearest integer {}{})",

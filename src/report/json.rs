@@ -87,21 +87,21 @@ pub(crate) fn point_json(p: &Point) -> String {
 pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
     let mut w = JsonWriter::new();
     w.string("input", input);
-    w.raw("coefficients", &list(r.minimal.coefficients(), |a| quote(&a.to_string())));
+    w.raw("minimal_model", &list(r.minimal.coefficients(), |a| quote(&a.to_string())));
     w.string("conductor", &r.conductor.to_string());
     w.raw("torsion", &list(&r.torsion, |n| n.to_string()));
     w.raw("rank_lower", &opt(r.rank_lower));
     w.raw("rank_upper", &opt(r.rank_upper));
     w.raw("rank", &opt(r.rank()));
-    w.string("method", r.route.name());
+    w.string("route", r.route.name());
     w.raw(
-        "isogeny_selmer",
-        &r.isogeny_selmer.map(|(a, b)| format!("[{a},{b}]")).unwrap_or_else(|| "null".into()),
+        "isogeny_selmer_dims",
+        &r.isogeny_selmer_dims.map(|(a, b)| format!("[{a},{b}]")).unwrap_or_else(|| "null".into()),
     );
-    w.raw("selmer2_dim", &opt(r.selmer2_dim));
+    w.raw("two_selmer_dim", &opt(r.two_selmer_dim));
     w.raw(
-        "quartic_curve",
-        &r.quartic_model
+        "descent_curve",
+        &r.descent_curve
             .as_ref()
             .map(|(c, d)| {
                 let mut o = JsonWriter::new();
@@ -127,18 +127,18 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
     let ev = r.evidence.as_ref();
     let num = |x: Option<f64>| x.filter(|v| v.is_finite()).map(|v| format!("{v:.12e}")).map(|t| quote(&t)).unwrap_or_else(|| "null".into());
     w.raw("root_number", &ev.and_then(|e| e.root_number).map(|v| v.to_string()).unwrap_or_else(|| "null".into()));
-    w.raw("analytic_rank", &opt(ev.and_then(|e| e.analytic_rank)));
+    w.raw("vanishing_order", &opt(ev.and_then(|e| e.vanishing_order)));
     w.raw(
-        "generators",
+        "saturated_basis",
         &ev.and_then(|e| e.generators.as_ref()).map(|g| list(g, point_json)).unwrap_or_else(|| "null".into()),
     );
     w.raw("regulator", &num(ev.and_then(|e| e.regulator)));
-    w.raw("real_period", &num(ev.and_then(|e| e.real_period)));
+    w.raw("period_omega", &num(ev.and_then(|e| e.real_period)));
     w.raw(
-        "tamagawa",
+        "tamagawa_numbers",
         &ev.map(|e| list(&e.tamagawa, |(p, c)| format!("[{},{c}]", quote(&p.to_string())))).unwrap_or_else(|| "null".into()),
     );
-    w.raw("sha_analytic", &num(ev.and_then(|e| e.sha_analytic)));
+    w.raw("sha_bsd_estimate", &num(ev.and_then(|e| e.sha_bsd_estimate)));
     w.raw("certificate", &r.certificate.as_ref().map(|c| quote(c)).unwrap_or_else(|| "null".into()));
     w.raw("budget_exhausted", if r.budget_exhausted { "true" } else { "false" });
     w.raw("elapsed_ms", &r.elapsed.as_millis().to_string());

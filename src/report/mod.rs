@@ -93,7 +93,7 @@ pub struct RankReport {
     pub route: Route,
     /// Selmer dimensions (dim over E of divisors of b, dim over E' of divisors of b') of
     /// the isogeny route that gave the best upper bound.
-    pub isogeny_selmer: Option<(usize, usize)>,
+    pub isogeny_selmer_dims: Option<(usize, usize)>,
     /// Points of infinite order on the input model, independent modulo torsion.
     pub points: Vec<Point>,
     /// Why the points are independent.
@@ -101,18 +101,18 @@ pub struct RankReport {
     /// Coverings where Sha could hide.
     pub sha_suspects: Vec<ShaSuspect>,
     /// dim Sel^2(E) over F2 (including the image of E(Q)\[2\]), from the full 2-descent.
-    pub selmer2_dim: Option<usize>,
+    pub two_selmer_dim: Option<usize>,
     /// Every 2-isogeny descent that ran (one per rational 2-torsion point),
     /// with its Selmer groups, local images and witnesses.
     pub isogeny_runs: Vec<crate::descent::isogeny::IsogenyDescent>,
-    /// The full 2-descent, when it ran (on the curve of `quartic_model` when
+    /// The full 2-descent, when it ran (on the curve of `descent_curve` when
     /// that is set; its points are then already carried to the minimal model).
     pub full_descent: Option<crate::descent::full::FullDescent>,
     /// When the quartic descent ran on a curve isogenous to this one by an
     /// isogeny of odd degree (a smaller `c4` makes the enumeration cheaper):
     /// that curve (minimal, reduced) and the degree. Sel^2, `E(Q)[2]` and the
     /// rank are the same for both curves.
-    pub quartic_model: Option<(Curve, u64)>,
+    pub descent_curve: Option<(Curve, u64)>,
     /// Root number, heights, saturation, periods, L-values and the Birch and
     /// Swinnerton-Dyer quotient, each statement with its standing; `None`
     /// when [`crate::RankOptions::evidence`] is off or the budget ran out.
@@ -153,14 +153,18 @@ fn coefficients_text(c: &Curve) -> String {
 
 impl fmt::Display for RankReport {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        writeln!(f, "curve        {}", coefficients_text(&self.input))?;
-        writeln!(f, "minimal      {}", coefficients_text(&self.minimal))?;
-        writeln!(f, "conductor    {}", self.conductor)?;
+        writeln!(f, "E: {}", self.input)?;
+        if self.minimal == self.input {
+            writeln!(f, "  the input model is globally minimal")?;
+        } else {
+            writeln!(f, "  globally minimal model: {}", self.minimal)?;
+        }
+        writeln!(f, "  conductor N = {}", self.conductor)?;
         for l in &self.local {
             writeln!(
                 f,
-                "  p = {:<6} {:<6} f = {}  c_p = {}  {:?}",
-                l.prime, l.kodaira.to_string(), l.conductor_exponent, l.tamagawa, l.reduction
+                "    at p = {}: {}, {}, exponent {}, Tamagawa number {}",
+                l.prime, l.kodaira, l.reduction, l.conductor_exponent, l.tamagawa
             )?;
         }
         let tors = if self.torsion.is_empty() {
@@ -168,39 +172,37 @@ impl fmt::Display for RankReport {
         } else {
             self.torsion.iter().map(|n| format!("Z/{n}")).collect::<Vec<_>>().join(" x ")
         };
-        writeln!(f, "torsion      {tors}")?;
+        writeln!(f, "  E(Q)_tors = {tors}")?;
         let show = |b: Option<usize>| b.map(|x| x.to_string()).unwrap_or_else(|| "?".into());
         match self.rank() {
-            Some(r) => writeln!(f, "rank         {r} (proven: lower and upper bounds meet; route {})", self.route.name())?,
+            Some(r) => writeln!(f, "  rank E(Q) = {r}, proven: the lower and upper bounds meet (route: {})", self.route.name())?,
             None => writeln!(
                 f,
-                "rank         between {} and {} (not proven; route {})",
+                "  {} <= rank E(Q) <= {}, not proven (route: {})",
                 show(self.rank_lower),
                 show(self.rank_upper),
                 self.route.name()
             )?,
         }
-        if let Some(s) = self.selmer2_dim {
-            writeln!(f, "2-Selmer dimension {s} (including E(Q)[2])")?;
-            if let Some((c, d)) = &self.quartic_model {
-                writeln!(f, "  (quartic descent run on the {d}-isogenous curve {}, whose Sel^2 is isomorphic)", coefficients_text(c))?;
+        if let Some(s) = self.two_selmer_dim {
+            writeln!(f, "  dim Sel^2(E) = {s} (E(Q)[2] included)")?;
+            if let Some((c, d)) = &self.descent_curve {
+                writeln!(f, "    (quartic descent run on the {d}-isogenous curve {c}, whose Sel^2 is isomorphic)")?;
             }
         }
-        if let Some((s, t)) = self.isogeny_selmer {
-            writeln!(f, "isogeny Selmer dimensions {s} and {t}")?;
-        }
-        for p in &self.points {
-            writeln!(f, "  point      {p}")?;
+        if let Some((s, t)) = self.isogeny_selmer_dims {
+            writeln!(f, "  2-isogeny Selmer groups of dimensions {s} and {t}")?;
         }
         if !self.points.is_empty() {
-            writeln!(f, "  independent: {}", self.independence)?;
+            let list: Vec<String> = self.points.iter().map(|p| p.to_string()).collect();
+            writeln!(f, "  points found: {}", list.join(", "))?;
+            writeln!(f, "    independent: {}", self.independence)?;
         }
         for s in &self.sha_suspects {
-            let q: Vec<String> = s.quartic.iter().map(|c| c.to_string()).collect();
             writeln!(
                 f,
-                "  Sha could hide in: y^2 = g(x,z) with g = [{}] ({}), everywhere locally soluble, no point with height <= {}",
-                q.join(","),
+                "  Sha could hide in y^2 = {} ({}): everywhere locally soluble, no point with height <= {}",
+                crate::quartic::Quartic::new(s.quartic.clone()),
                 s.origin,
                 s.searched_height
             )?;
@@ -209,17 +211,17 @@ impl fmt::Display for RankReport {
             if let Some(g) = &ev.generators {
                 if !g.is_empty() {
                     let list: Vec<String> = g.iter().map(|p| p.to_string()).collect();
-                    writeln!(f, "generators   {} (with the torsion, a basis of E(Q))", list.join(", "))?;
+                    writeln!(f, "  generators: {} (with the torsion, a basis of E(Q))", list.join(", "))?;
                 }
             }
-            writeln!(f, "evidence:")?;
+            writeln!(f, "  what is known, and on what it rests:")?;
             for st in &ev.statements {
-                writeln!(f, "  {st}")?;
+                writeln!(f, "    {st}")?;
             }
         }
         if self.budget_exhausted {
-            writeln!(f, "  budget exhausted: the bounds above are what was proven before it ran out")?;
+            writeln!(f, "  the budget ran out: the bounds above are what was proven before it did")?;
         }
-        write!(f, "time         {} ms", self.elapsed.as_millis())
+        write!(f, "  ({} ms)", self.elapsed.as_millis())
     }
 }

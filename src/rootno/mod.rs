@@ -80,7 +80,7 @@ pub use numeric::{NUMERIC_CHECK_CONDUCTOR, NUMERIC_MAX_CONDUCTOR};
 ///
 /// ```
 /// use twofold::{Curve, rootno::{root_number, RootNumberMethod}};
-/// // 11a1 (Cremona's Table 1): split multiplicative at 11, conductor 11
+/// // y^2 + y = x^3 - x^2 - 10x - 20 (Cremona 1997, Table 1): split multiplicative at 11, conductor 11
 /// let r = root_number(&Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap()).unwrap();
 /// assert_eq!(r.method, RootNumberMethod::LocalAndNumerical);
 /// ```
@@ -109,7 +109,7 @@ pub enum RootNumberMethod {
 ///
 /// ```
 /// use twofold::{Curve, rootno::root_number};
-/// // 37a1 (Cremona's Table 1; rank 1, so w = -1): non-split at 37, so
+/// // y^2 + y = x^3 - x (Cremona 1997, Table 1; rank 1, so w = -1): non-split at 37, so
 /// // w_37 = +1 and w = -w_37
 /// let r = root_number(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap()).unwrap();
 /// assert_eq!(r.global, -1);
@@ -152,7 +152,7 @@ pub struct RootNumber {
 /// use malachite::Natural;
 /// use twofold::{Curve, rootno::local_root_number};
 /// let p = |n: u32| Natural::from(n);
-/// // 11a1: split multiplicative at 11, good at 2 (Cremona's Table 1)
+/// // y^2 + y = x^3 - x^2 - 10x - 20: split multiplicative at 11, good at 2 (Cremona 1997, Table 1)
 /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
 /// assert_eq!(local_root_number(&e, &p(11)).unwrap(), Some(-1));
 /// assert_eq!(local_root_number(&e, &p(2)).unwrap(), Some(1));
@@ -181,7 +181,7 @@ pub fn local_root_number(curve: &Curve, p: &Natural) -> Result<Option<i8>, Error
 ///
 /// ```
 /// use twofold::{Curve, rootno::root_number};
-/// // 389a1 (rank 2) and 5077a1 (rank 3) from Cremona's tables (from memory)
+/// // y^2 + y = x^3 + x^2 - 2x (rank 2) and y^2 + y = x^3 - 7x + 6 (rank 3) from the published tables (Cremona 1997) (from memory)
 /// assert_eq!(root_number(&Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap()).unwrap().global, 1);
 /// assert_eq!(root_number(&Curve::from_coefficients([0, 0, 1, -7, 6]).unwrap()).unwrap().global, -1);
 /// ```
@@ -195,7 +195,7 @@ pub fn root_number(curve: &Curve) -> Result<RootNumber, Error> {
 /// use std::time::{Duration, Instant};
 /// use twofold::{Curve, arith::FactorLimits, rootno::root_number_with_limits};
 /// let limits = FactorLimits { deadline: Some(Instant::now() + Duration::from_secs(10)), ..Default::default() };
-/// // y^2 = x^3 + 1, conductor 36 (Cremona's Table 1, 36a1 has rank 0)
+/// // y^2 = x^3 + 1, conductor 36 (Cremona 1997, Table 1, [0,0,0,0,1] has rank 0)
 /// let r = root_number_with_limits(&Curve::from_coefficients([0, 0, 0, 0, 1]).unwrap(), &limits).unwrap();
 /// assert_eq!(r.global, 1);
 /// assert_eq!(r.conductor, 36u32);
@@ -274,7 +274,7 @@ pub fn root_number_with_limits(curve: &Curve, limits: &FactorLimits) -> Result<R
 ///
 /// ```
 /// use twofold::{Curve, rootno::root_number_numerical};
-/// // 11a1 (rank 0) and 37a1 (rank 1), Cremona's Table 1
+/// // y^2 + y = x^3 - x^2 - 10x - 20 (rank 0) and y^2 + y = x^3 - x (rank 1), Cremona 1997, Table 1
 /// assert_eq!(root_number_numerical(&Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap()), Some(1));
 /// assert_eq!(root_number_numerical(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap()), Some(-1));
 /// ```

@@ -198,7 +198,7 @@ mod tests {
 
     #[test]
     fn eleven_a_coefficients() {
-        // q prod (1 - q^n)^2 (1 - q^{11n})^2 is the newform of 11a (Cremona,
+        // q prod (1 - q^n)^2 (1 - q^{11n})^2 is the newform of the isogeny class of conductor 11 (Cremona,
         // Algorithms for Modular Elliptic Curves, 2.8; the product identity).
         let m = 60;
         let mut f = vec![0i64; m + 1];

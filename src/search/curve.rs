@@ -69,7 +69,7 @@ fn sort_points(points: &mut [(Rational, Rational)]) {
 /// ```
 /// use twofold::Curve;
 /// use twofold::search::{search_curve, SearchLimits};
-/// // y^2 + y = x^3 - x (conductor 37; Cremona's tables: rank 1, generator
+/// // y^2 + y = x^3 - x (conductor 37; the published tables (Cremona 1997): rank 1, generator
 /// // (0, 0), no torsion). The point 5P = (1/4, -5/8) has height 4.
 /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
 /// let out = search_curve(&e, &SearchLimits::new(4));

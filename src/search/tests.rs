@@ -79,8 +79,8 @@ fn check_quartic_points(g: &[Integer; 5], out: &SearchOutcome<QuarticPoint>) {
 
 #[test]
 fn curve_37a_points_are_the_multiples_of_the_generator() {
-    // y^2 + y = x^3 - x, conductor 37: Cremona's tables (Algorithms for
-    // Modular Elliptic Curves, table 1, curve 37a1) give rank 1, trivial
+    // y^2 + y = x^3 - x, conductor 37: the published tables (Cremona 1997) (Algorithms for
+    // Modular Elliptic Curves, table 1, curve y^2 + y = x^3 - x) give rank 1, trivial
     // torsion, generator P = (0, 0). Recalled x-coordinates of nP (from
     // memory), each checked on the equation below: 0, 1, -1, 2, 1/4, 6,
     // -5/9, 21/25, -20/49, 161/16.
