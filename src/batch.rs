@@ -22,7 +22,8 @@
 use crate::budget::RankOptions;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
-use crate::report::{analyse, RankReport};
+use crate::pipeline::analyse;
+use crate::report::RankReport;
 use std::collections::BTreeMap;
 use std::panic::{catch_unwind, AssertUnwindSafe};
 use std::sync::atomic::{AtomicBool, Ordering};

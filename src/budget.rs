@@ -16,6 +16,13 @@ pub enum Stage {
     Solubility,
     /// Searching for rational points.
     Search,
+    /// Finding the odd-degree isogeny class (to run the quartic descent
+    /// where c4 is smallest).
+    IsogenyClass,
+    /// Root number, heights and saturation, periods, L-values.
+    Evidence,
+    /// Building the certificate of the rank proof.
+    Certificate,
     /// Assembling the report.
     Report,
 }
@@ -121,21 +128,66 @@ impl RankOptions {
     }
 }
 
-/// A running budget: the deadline and cancellation flag of one computation.
-#[derive(Clone, Debug)]
-pub(crate) struct Budget {
-    pub(crate) start: Instant,
-    pub(crate) deadline: Option<Instant>,
-    pub(crate) cancel: Option<Arc<AtomicBool>>,
+/// The work of one analysis: when it started, when it must end, the flag
+/// that cancels it and the callback that hears its progress. Built once from
+/// [`RankOptions`] and passed down to every stage, which derives from it the
+/// limits it needs ([`crate::arith::FactorLimits::within`],
+/// [`crate::search::SearchLimits::within`],
+/// [`crate::heights::SaturationOptions::within`]); a stage that finds it
+/// [`exhausted`](Work::exhausted) stops and returns what it proved.
+///
+/// ```
+/// use std::sync::{atomic::{AtomicBool, Ordering}, Arc};
+/// use std::time::Duration;
+/// use twofold::{RankOptions, Work};
+/// let flag = Arc::new(AtomicBool::new(false));
+/// let work = Work::new(&RankOptions::default().with_time_limit(Duration::from_secs(60)).with_cancel(flag.clone()));
+/// assert!(!work.exhausted());
+/// flag.store(true, Ordering::Relaxed);
+/// assert!(work.exhausted());
+/// assert!(!Work::unlimited().exhausted());
+/// ```
+#[derive(Clone)]
+pub struct Work {
+    start: Instant,
+    deadline: Option<Instant>,
+    cancel: Option<Arc<AtomicBool>>,
+    progress: Option<ProgressFn>,
 }
 
-impl Budget {
-    pub(crate) fn from_options(o: &RankOptions) -> Budget {
-        let start = Instant::now();
-        Budget { start, deadline: o.time_limit.map(|d| start + d), cancel: o.cancel.clone() }
+impl std::fmt::Debug for Work {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.debug_struct("Work")
+            .field("elapsed", &self.start.elapsed())
+            .field("remaining", &self.remaining())
+            .field("cancel", &self.cancel.is_some())
+            .field("progress", &self.progress.is_some())
+            .finish()
     }
-    /// Whether the budget is spent or the work cancelled.
-    pub(crate) fn exhausted(&self) -> bool {
+}
+
+impl Work {
+    /// The work described by `options`, starting now: its deadline is
+    /// `options.time_limit` from now.
+    pub fn new(options: &RankOptions) -> Work {
+        let start = Instant::now();
+        Work {
+            start,
+            deadline: options.time_limit.and_then(|d| start.checked_add(d)),
+            cancel: options.cancel.clone(),
+            progress: options.progress.clone(),
+        }
+    }
+    /// Work without deadline, cancellation or progress.
+    pub fn unlimited() -> Work {
+        Work { start: Instant::now(), deadline: None, cancel: None, progress: None }
+    }
+    /// Work that ends at `deadline` (if any) or when `cancel` (if any) is set.
+    pub fn until(deadline: Option<Instant>, cancel: Option<Arc<AtomicBool>>) -> Work {
+        Work { start: Instant::now(), deadline, cancel, progress: None }
+    }
+    /// Whether the deadline has passed or the work was cancelled.
+    pub fn exhausted(&self) -> bool {
         if let Some(c) = &self.cancel {
             if c.load(Ordering::Relaxed) {
                 return true;
@@ -143,7 +195,37 @@ impl Budget {
         }
         matches!(self.deadline, Some(d) if Instant::now() >= d)
     }
-    pub(crate) fn elapsed(&self) -> Duration {
+    /// Time since the work started.
+    pub fn elapsed(&self) -> Duration {
         self.start.elapsed()
+    }
+    /// Time left before the deadline (`None`: no deadline).
+    pub fn remaining(&self) -> Option<Duration> {
+        self.deadline.map(|d| d.saturating_duration_since(Instant::now()))
+    }
+    /// The deadline, if any.
+    pub fn deadline(&self) -> Option<Instant> {
+        self.deadline
+    }
+    /// The cancellation flag, if any.
+    pub fn cancel_flag(&self) -> Option<&Arc<AtomicBool>> {
+        self.cancel.as_ref()
+    }
+    /// Tells the progress callback (if any) that `stage` starts.
+    pub fn report(&self, stage: Stage, message: &str) {
+        if let Some(f) = &self.progress {
+            f(stage, message)
+        }
+    }
+    /// The same work with its deadline moved earlier to `at most` the given
+    /// share of the remaining time (for a stage that must leave time for
+    /// the ones after it).
+    pub fn share(&self, fraction: f64) -> Work {
+        let mut w = self.clone();
+        if let Some(left) = self.remaining() {
+            let part = left.mul_f64(fraction.clamp(0.0, 1.0));
+            w.deadline = Instant::now().checked_add(part).or(self.deadline);
+        }
+        w
     }
 }

@@ -36,13 +36,13 @@ pub trait DecimalForm: Sized {
     fn read<'de, D: Deserializer<'de>>(d: D) -> Result<Self, D::Error>;
 }
 
-struct Out<'a, T>(&'a T);
+pub(crate) struct Out<'a, T>(pub(crate) &'a T);
 impl<T: DecimalForm> Serialize for Out<'_, T> {
     fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
         self.0.write(s)
     }
 }
-struct In<T>(T);
+pub(crate) struct In<T>(pub(crate) T);
 impl<'de, T: DecimalForm> Deserialize<'de> for In<T> {
     fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
         T::read(d).map(In)
@@ -73,17 +73,18 @@ number!(Rational, "a rational number");
 /// Types written by their own `Serialize` impl inside decimal containers.
 macro_rules! plain {
     ($($t:ty),*) => {$(
-        impl DecimalForm for $t {
-            fn write<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-                self.serialize(s)
+        impl $crate::decimal_serde::DecimalForm for $t {
+            fn write<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+                serde::Serialize::serialize(self, s)
             }
-            fn read<'de, D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-                <$t>::deserialize(d)
+            fn read<'de, D: serde::Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+                <$t as serde::Deserialize>::deserialize(d)
             }
         }
     )*};
 }
-plain!(i8, u32, u64, usize, crate::Point, crate::solubility::LocalWitness);
+plain!(i8, u32, u64, usize);
+pub(crate) use plain;
 
 impl<T: DecimalForm> DecimalForm for Option<T> {
     fn write<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
@@ -139,122 +140,34 @@ pub mod decimal {
     }
 }
 
-// ---- hand-written forms for types whose derived form would be clumsy ----
+// The hand-written forms of the library's own types (curves, points,
+// Kodaira symbols, routes, places) live beside those types, in each room's
+// `serde_forms.rs`; this module stays a leaf that every room may use.
 
-/// A curve is written as its a-invariants `["a1","a2","a3","a4","a6"]`;
-/// reading checks the discriminant again.
-impl Serialize for crate::Curve {
-    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        s.collect_seq(self.coefficients().iter().map(Out))
-    }
-}
-impl<'de> Deserialize<'de> for crate::Curve {
-    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-        let a = <[Integer; 5]>::read(d)?;
-        crate::Curve::new(a).map_err(D::Error::custom)
-    }
-}
-
-/// A point is written `["x","y"]` (rational strings), the point at infinity
-/// as the string `"infinity"`.
-impl Serialize for crate::Point {
-    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        match self {
-            crate::Point::Infinity => s.serialize_str("infinity"),
-            crate::Point::Affine(x, y) => (Out(x), Out(y)).serialize(s),
-        }
-    }
-}
-impl<'de> Deserialize<'de> for crate::Point {
-    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-        #[derive(Deserialize)]
-        #[serde(untagged)]
-        enum Form {
-            Word(String),
-            Pair(In<Rational>, In<Rational>),
-        }
-        match Form::deserialize(d)? {
-            Form::Word(w) if w == "infinity" => Ok(crate::Point::Infinity),
-            Form::Word(w) => Err(D::Error::custom(format!("expected [x, y] or \"infinity\", got {w:?}"))),
-            Form::Pair(x, y) => Ok(crate::Point::Affine(x.0, y.0)),
-        }
-    }
-}
-
-/// A Kodaira symbol is written as printed: `"I0"`, `"I5"`, `"I1*"`, `"IV*"`.
-impl Serialize for crate::local::Kodaira {
-    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        s.collect_str(self)
-    }
-}
-impl<'de> Deserialize<'de> for crate::local::Kodaira {
-    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-        use crate::local::Kodaira as K;
-        let s = String::deserialize(d)?;
-        let (base, star) = match s.strip_suffix('*') {
-            Some(b) => (b, true),
-            None => (s.as_str(), false),
-        };
-        let k = match (base, star) {
-            ("I0", false) => Some(K::I0),
-            ("II", false) => Some(K::II),
-            ("III", false) => Some(K::III),
-            ("IV", false) => Some(K::IV),
-            ("I0", true) => Some(K::I0Star),
-            ("IV", true) => Some(K::IVStar),
-            ("III", true) => Some(K::IIIStar),
-            ("II", true) => Some(K::IIStar),
-            _ => base
-                .strip_prefix('I')
-                .and_then(|n| n.parse::<u32>().ok())
-                .filter(|&n| n >= 1)
-                .map(|n| if star { K::InStar(n) } else { K::In(n) }),
-        };
-        k.ok_or_else(|| D::Error::custom(format!("not a Kodaira symbol: {s:?}")))
-    }
-}
-
-/// A route is written by its report name (`"quartic"`, `"2-isogeny"`,
-/// `"2-isogeny+quartic"`, `"none"`).
-impl Serialize for crate::Route {
-    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        s.serialize_str(self.name())
-    }
-}
-impl<'de> Deserialize<'de> for crate::Route {
-    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-        use crate::Route as R;
-        let s = String::deserialize(d)?;
-        [R::Isogeny, R::Quartic, R::IsogenyAndQuartic, R::None]
-            .into_iter()
-            .find(|r| r.name() == s)
-            .ok_or_else(|| D::Error::custom(format!("not a route name: {s:?}")))
-    }
-}
-
+/// The serde form of a `Place` enum (`Real` or `Prime(Natural)`) of room
+/// `$m`: `"real"` or the prime as a decimal string.
 macro_rules! place_form {
     ($m:ident) => {
         /// A place is written `"real"` or as its prime, a decimal string.
-        impl Serialize for crate::$m::Place {
-            fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        impl serde::Serialize for crate::$m::Place {
+            fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
                 match self {
                     crate::$m::Place::Real => s.serialize_str("real"),
                     crate::$m::Place::Prime(p) => s.collect_str(p),
                 }
             }
         }
-        impl<'de> Deserialize<'de> for crate::$m::Place {
-            fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-                let s = String::deserialize(d)?;
+        impl<'de> serde::Deserialize<'de> for crate::$m::Place {
+            fn deserialize<D: serde::Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+                let s = <String as serde::Deserialize>::deserialize(d)?;
                 if s == "real" {
                     return Ok(crate::$m::Place::Real);
                 }
-                Natural::from_str(&s)
+                <malachite::Natural as std::str::FromStr>::from_str(&s)
                     .map(crate::$m::Place::Prime)
-                    .map_err(|_| D::Error::custom(format!("expected \"real\" or a prime, got {s:?}")))
+                    .map_err(|_| <D::Error as serde::de::Error>::custom(format!("expected \"real\" or a prime, got {s:?}")))
             }
         }
     };
 }
-place_form!(solubility);
-place_form!(arith);
+pub(crate) use place_form;

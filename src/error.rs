@@ -20,6 +20,10 @@ pub enum ErrorKind {
     FactorBudget,
     /// The time budget ran out or the work was cancelled.
     Budget,
+    /// Two computations that must agree did not, or a result failed its
+    /// exact re-check: a bug in twofold, never a property of the input.
+    /// The message asks for a report.
+    Internal,
 }
 
 /// An error from twofold: a kind and a message saying what was expected.
@@ -34,11 +38,31 @@ pub enum ErrorKind {
 pub struct Error {
     kind: ErrorKind,
     message: String,
+    /// The error of the stage this one wraps, if any (see [`Error::source`](std::error::Error::source)).
+    cause: Option<Box<Error>>,
 }
 
 impl Error {
     pub(crate) fn new(kind: ErrorKind, message: impl Into<String>) -> Self {
-        Error { kind, message: message.into() }
+        Error { kind, message: message.into(), cause: None }
+    }
+
+    /// An internal inconsistency: two routes disagree, or a result failed its
+    /// exact re-check. `place` names the stage.
+    pub(crate) fn internal(place: &str, message: impl AsRef<str>) -> Self {
+        Error::new(
+            ErrorKind::Internal,
+            format!(
+                "internal inconsistency in {place}: {} (a bug in twofold, not a property of the curve; please report it with the input)",
+                message.as_ref()
+            ),
+        )
+    }
+
+    /// Wraps `self` as the cause of a new error of the same kind that says
+    /// which stage failed (`source()` returns the original).
+    pub(crate) fn in_stage(self, stage: &str) -> Self {
+        Error { kind: self.kind.clone(), message: format!("{stage} failed"), cause: Some(Box::new(self)) }
     }
 
     /// The kind of error.
@@ -61,9 +85,26 @@ impl fmt::Display for Error {
             ErrorKind::InvalidValue => "invalid value",
             ErrorKind::FactorBudget => "factorisation budget exhausted",
             ErrorKind::Budget => "budget exhausted",
+            ErrorKind::Internal => "internal error",
         };
-        write!(f, "{k}: {}", self.message)
+        write!(f, "{k}: {}", self.message)?;
+        if let Some(c) = &self.cause {
+            write!(f, " ({c})")?;
+        }
+        Ok(())
     }
 }
 
-impl std::error::Error for Error {}
+/// `source()` gives the error of the stage that this one wraps.
+///
+/// ```
+/// use std::error::Error as _;
+/// use twofold::Curve;
+/// let err = Curve::parse("[0,0,0,0,0]").unwrap_err();
+/// assert!(err.source().is_none());
+/// ```
+impl std::error::Error for Error {
+    fn source(&self) -> Option<&(dyn std::error::Error + 'static)> {
+        self.cause.as_deref().map(|e| e as &(dyn std::error::Error + 'static))
+    }
+}

@@ -20,3 +20,18 @@ pub use primality::is_probable_prime;
 pub use factor::{factor, factor_u64, FactorLimits, Factorization};
 pub use sqrt::sqrt_mod_prime_power;
 pub use hilbert::{hilbert_symbol, hilbert_symbol_integers, Place};
+
+impl FactorLimits {
+    /// The limits of `work`: its deadline and cancellation flag.
+    ///
+    /// ```
+    /// use twofold::{arith::FactorLimits, Work};
+    /// assert!(FactorLimits::within(&Work::unlimited()).deadline.is_none());
+    /// ```
+    pub fn within(work: &crate::budget::Work) -> FactorLimits {
+        FactorLimits { deadline: work.deadline(), cancel: work.cancel_flag().cloned() }
+    }
+}
+
+#[cfg(feature = "serde")]
+crate::decimal_serde::place_form!(arith);

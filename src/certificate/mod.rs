@@ -42,7 +42,7 @@ mod verify;
 pub use verify::{verify, CertificateError, UpperBoundBasis, VerifiedClaims};
 
 use crate::curve::{Curve, Point};
-use crate::error::{Error, ErrorKind};
+use crate::error::Error;
 use crate::report::RankReport;
 use crate::solubility::{local_witness, LocalWitness, Place};
 use malachite::base::num::arithmetic::traits::DivisibleBy;
@@ -303,9 +303,6 @@ pub struct Certificate {
     pub quartic: Option<QuarticProof>,
 }
 
-fn internal(msg: &str) -> Error {
-    Error::new(ErrorKind::InvalidValue, format!("certificate: {msg}"))
-}
 
 /// The precision of a local point (see [`LocalPoint`]).
 fn precision_of(g: &[Integer; 5], place: &Place, w: &LocalWitness) -> u64 {
@@ -421,8 +418,8 @@ fn isogeny_proof(
     run: &crate::descent::isogeny::IsogenyDescent,
     primes: &[Natural],
 ) -> Result<IsogenyProof, Error> {
-    let kernel = affine(&run.kernel_point).ok_or_else(|| internal("kernel point at infinity"))?;
-    let (x0, u) = side_change(curve, &kernel).ok_or_else(|| internal("kernel point not integral on the short model"))?;
+    let kernel = affine(&run.kernel_point).ok_or_else(|| Error::internal("the certificate builder", "kernel point at infinity"))?;
+    let (x0, u) = side_change(curve, &kernel).ok_or_else(|| Error::internal("the certificate builder", "kernel point not integral on the short model"))?;
     let mut all_primes: Vec<Natural> = primes.to_vec();
     for q in [2u32, 3] {
         if !all_primes.contains(&Natural::from(q)) {
@@ -456,7 +453,7 @@ fn isogeny_proof(
                 let g = [d.clone(), Integer::from(0), side.a.clone(), Integer::from(0), &side.b / d];
                 let mut pts = Vec::new();
                 for img in &side.local_images {
-                    let w = local_witness(&g, &img.place).ok_or_else(|| internal("a Selmer class has no local point"))?;
+                    let w = local_witness(&g, &img.place).ok_or_else(|| Error::internal("the certificate builder", "a Selmer class has no local point"))?;
                     pts.push(local_point(&g, &img.place, &w));
                 }
                 classes.push(SelmerClass { label: Some(d.clone()), quartic: g, local_points: pts, lift: None });

@@ -19,7 +19,7 @@
 //! found, together with the torsion, span a subspace of dimension
 //! `k <= dim Sel^2`, and `k - dim E(Q)[2] <= rank <= dim Sel^2 - dim E(Q)[2]`.
 
-use crate::budget::{Budget, RankOptions, Stage};
+use crate::budget::{RankOptions, Stage, Work};
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
 use crate::quartic::{covering_class, quartics_with_invariants, reduce, CoveringClass, Quartic, SearchOptions};
@@ -73,9 +73,6 @@ pub struct FullDescent {
     pub search_complete: bool,
 }
 
-fn internal(msg: &str) -> Error {
-    Error::new(ErrorKind::InvalidValue, format!("internal consistency check failed in the quartic descent: {msg}"))
-}
 
 /// A subgroup of Sel^2(E) kept as its non-trivial elements.
 struct ClassSpan {
@@ -93,7 +90,7 @@ impl ClassSpan {
         }
         let mut new = vec![c.clone()];
         for e in &self.elements {
-            let p = e.mul(c).ok_or_else(|| internal("classes in different algebras"))?;
+            let p = e.mul(c).ok_or_else(|| Error::internal("the quartic descent", "classes in different algebras"))?;
             new.push(p);
         }
         self.elements.extend(new);
@@ -111,11 +108,9 @@ pub(crate) fn full_two_descent(
     torsion: &TorsionGroup,
     bad_primes: &[Natural],
     options: &RankOptions,
-    budget: &Budget,
+    work: &Work,
 ) -> Result<FullDescent, Error> {
-    if let Some(f) = &options.progress {
-        f(Stage::Solubility, "enumerating quartic 2-coverings");
-    }
+    work.report(Stage::Solubility, "enumerating quartic 2-coverings");
     let i = curve.c4().clone();
     let j = Integer::from(2) * curve.c6();
     let two_torsion_dim = match torsion.two_torsion().len() {
@@ -151,21 +146,21 @@ pub(crate) fn full_two_descent(
         &SearchOptions {
             include_negative_definite: false,
             max_candidates: Some(options.max_quartic_candidates),
-            deadline: budget.deadline,
-            cancel: budget.cancel.clone(),
+            deadline: work.deadline(),
+            cancel: work.cancel_flag().cloned(),
         },
     );
     let mut torsion_span = ClassSpan { elements: vec![] };
     let mut span = ClassSpan { elements: vec![] };
     for p in torsion.points() {
         if let Point::Affine(x, y) = p {
-            let c = CoveringClass::kummer_image(curve, x, y).ok_or_else(|| internal("torsion point off the curve"))?;
+            let c = CoveringClass::kummer_image(curve, x, y).ok_or_else(|| Error::internal("the quartic descent", "torsion point off the curve"))?;
             torsion_span.insert(&c)?;
             span.insert(&c)?;
         }
     }
     if torsion_span.dim() != two_torsion_dim {
-        return Err(internal("the torsion image has the wrong dimension"));
+        return Err(Error::internal("the quartic descent", "the torsion image has the wrong dimension"));
     }
     let mut distinct: Vec<(CoveringClass, SelmerQuartic)> = Vec::new();
     let complete = match enumeration {
@@ -173,7 +168,7 @@ pub(crate) fn full_two_descent(
             out.quartics_enumerated = list.len();
             let mut finished = true;
             for g in list {
-                if budget.exhausted() {
+                if work.exhausted() {
                     finished = false;
                     break;
                 }
@@ -196,39 +191,37 @@ pub(crate) fn full_two_descent(
     if complete {
         let n = distinct.len();
         if n == 0 || !n.is_power_of_two() {
-            return Err(internal(&format!("{n} Selmer classes is not a power of 2")));
+            return Err(Error::internal("the quartic descent", &format!("{n} Selmer classes is not a power of 2")));
         }
         let s = n.trailing_zeros() as usize;
         if s < two_torsion_dim {
-            return Err(internal("Selmer group smaller than the torsion image"));
+            return Err(Error::internal("the quartic descent", "Selmer group smaller than the torsion image"));
         }
         // every torsion image must be among the classes
         for t in &torsion_span.elements {
             if !distinct.iter().any(|(d, _)| d.same_as(t)) {
-                return Err(internal("a torsion image is not an everywhere locally soluble class"));
+                return Err(Error::internal("the quartic descent", "a torsion image is not an everywhere locally soluble class"));
             }
         }
         out.selmer_dim = Some(s);
         out.upper = Some(s - two_torsion_dim);
     }
     // points on E itself
-    if let Some(f) = &options.progress {
-        f(Stage::Search, "searching the curve and its quartic coverings");
-    }
+    work.report(Stage::Search, "searching the curve and its quartic coverings");
     let curve_limits = SearchLimits {
         height: options.curve_search_height,
         first_only: false,
-        deadline: budget.deadline,
-        cancel: budget.cancel.clone(),
+        deadline: work.deadline(),
+        cancel: work.cancel_flag().cloned(),
     };
     let found = search_curve(curve, &curve_limits);
     out.search_complete &= found.complete;
     let add_point = |pt: Point, span: &mut ClassSpan, out: &mut FullDescent| -> Result<(), Error> {
         let Point::Affine(x, y) = &pt else { return Ok(()) };
         if !curve.contains(&pt) {
-            return Err(internal("a found point is not on the curve"));
+            return Err(Error::internal("the quartic descent", "a found point is not on the curve"));
         }
-        let c = CoveringClass::kummer_image(curve, x, y).ok_or_else(|| internal("point off the curve"))?;
+        let c = CoveringClass::kummer_image(curve, x, y).ok_or_else(|| Error::internal("the quartic descent", "point off the curve"))?;
         if span.insert(&c)? {
             out.points.push(pt);
         }
@@ -245,7 +238,7 @@ pub(crate) fn full_two_descent(
         if span.contains(c) {
             continue;
         }
-        if budget.exhausted() {
+        if work.exhausted() {
             out.search_complete = false;
             break;
         }
@@ -253,8 +246,8 @@ pub(crate) fn full_two_descent(
         let limits = SearchLimits {
             height: options.search_height,
             first_only: true,
-            deadline: budget.deadline,
-            cancel: budget.cancel.clone(),
+            deadline: work.deadline(),
+            cancel: work.cancel_flag().cloned(),
         };
         let res = search_quartic(&red.coeffs(), &limits);
         out.search_complete &= res.complete || !res.points.is_empty();
@@ -272,7 +265,7 @@ pub(crate) fn full_two_descent(
     out.lower = span.dim() - two_torsion_dim;
     if let Some(u) = out.upper {
         if out.lower > u {
-            return Err(internal("lower bound exceeds the Selmer bound"));
+            return Err(Error::internal("the quartic descent", "lower bound exceeds the Selmer bound"));
         }
         // a basis of the classes not explained by points
         let mut rest = ClassSpan { elements: span.elements.clone() };
@@ -301,12 +294,8 @@ pub(crate) fn full_two_descent(
 /// assert_eq!((d.lower, d.upper), (2, Some(2)));
 /// ```
 pub fn full_descent(curve: &Curve, options: &RankOptions) -> Result<FullDescent, Error> {
-    let budget = Budget::from_options(options);
-    let limits = crate::arith::FactorLimits { deadline: budget.deadline, cancel: budget.cancel.clone() };
-    let primes: Vec<Natural> = crate::arith::factor(curve.discriminant(), &limits)?.primes().cloned().collect();
-    let (minimal, _) = curve.minimal_model(&primes)?;
-    let primes: Vec<Natural> =
-        primes.into_iter().filter(|p| crate::arith::valuation(minimal.discriminant(), p).unwrap_or(0) > 0).collect();
-    let torsion = TorsionGroup::compute(&minimal, &primes);
-    full_two_descent(&minimal, &torsion, &primes, options, &budget)
+    let work = Work::new(options);
+    let data = crate::local::CurveData::new(curve, &work)?;
+    let torsion = TorsionGroup::compute(data.minimal(), data.bad_primes());
+    full_two_descent(data.minimal(), &torsion, data.bad_primes(), options, &work)
 }

@@ -15,9 +15,9 @@
 
 use super::f2::{kernel, F2Span, SquareClasses};
 use crate::arith::{jacobi, valuation};
-use crate::budget::{Budget, RankOptions, Stage};
+use crate::budget::{RankOptions, Stage, Work};
 use crate::curve::{Curve, Point};
-use crate::error::{Error, ErrorKind};
+use crate::error::Error;
 use crate::search::{search_curve, search_quartic, SearchLimits};
 use crate::solubility::{local_witness, LocalWitness, Place};
 use crate::torsion::TorsionGroup;
@@ -263,21 +263,18 @@ struct SideWork {
     local_images: Vec<LocalImage>,
 }
 
-fn internal(msg: &str) -> Error {
-    Error::new(ErrorKind::InvalidValue, format!("internal consistency check failed: {msg}"))
-}
 
 /// Computes the Selmer group of one side by local images at R, 2 and the
 /// odd primes of `b b'`. Returns `Ok(false)` if the budget ran out.
 /// `primes` lists 2 and every prime dividing `b b'`; elsewhere the local
 /// condition holds automatically (good reduction at an odd prime, with `d`
 /// a unit there).
-fn selmer_of_side(w: &mut SideWork, primes: &[Natural], budget: &Budget) -> Result<bool, Error> {
+fn selmer_of_side(w: &mut SideWork, primes: &[Natural], work: &Work) -> Result<bool, Error> {
     let mut places = vec![Place::Real];
     places.extend(primes.iter().cloned().map(Place::Prime));
     let mut basis: Vec<u64> = (0..w.classes.dim()).map(|i| 1u64 << i).collect();
     for place in places {
-        if budget.exhausted() {
+        if work.exhausted() {
             return Ok(false);
         }
         let mut soluble = Vec::new();
@@ -297,7 +294,7 @@ fn selmer_of_side(w: &mut SideWork, primes: &[Natural], budget: &Budget) -> Resu
         for &x in &local_span {
             for &y in &local_span {
                 if !local_span.contains(&(x ^ y)) {
-                    return Err(internal("local image is not a subgroup"));
+                    return Err(Error::internal("the 2-isogeny descent", "local image is not a subgroup"));
                 }
             }
         }
@@ -345,9 +342,9 @@ pub(crate) fn descend_via_isogeny(
     torsion: &TorsionGroup,
     bad_primes: &[Natural],
     options: &RankOptions,
-    budget: &Budget,
+    work: &Work,
 ) -> Result<IsogenyDescent, Error> {
-    let model = TwoTorsionModel::new(curve, t).ok_or_else(|| internal("2-torsion point is not integral on the short model"))?;
+    let model = TwoTorsionModel::new(curve, t).ok_or_else(|| Error::internal("the 2-isogeny descent", "2-torsion point is not integral on the short model"))?;
     let (a, b) = (model.a.clone(), model.b.clone());
     let (a1, b1) = (Integer::from(-2) * &a, &a * &a - Integer::from(4) * &b);
     let mut all_primes: Vec<Natural> = bad_primes.to_vec();
@@ -372,9 +369,7 @@ pub(crate) fn descend_via_isogeny(
     };
     let e_model = side_curve(&a, &b);
     let e1_model = side_curve(&a1, &b1);
-    if options.progress.is_some() {
-        (options.progress.as_ref().unwrap())(Stage::Solubility, "2-isogeny Selmer groups");
-    }
+    work.report(Stage::Solubility, "2-isogeny Selmer groups");
     let mut sides = [
         SideWork {
             a: a.clone(),
@@ -399,17 +394,17 @@ pub(crate) fn descend_via_isogeny(
     ];
     let mut complete_selmer = true;
     for w in sides.iter_mut() {
-        complete_selmer &= selmer_of_side(w, &both, budget)?;
+        complete_selmer &= selmer_of_side(w, &both, work)?;
     }
     // torsion images
     let tors_e1 = TorsionGroup::compute(&e1_model, &both);
     for p in torsion.points() {
         let q = model.from_user(curve, p);
-        let v = sides[0].classes.vector_of(&alpha(&q, &b)).ok_or_else(|| internal("torsion image outside S"))?;
+        let v = sides[0].classes.vector_of(&alpha(&q, &b)).ok_or_else(|| Error::internal("the 2-isogeny descent", "torsion image outside S"))?;
         sides[0].torsion.insert(v);
     }
     for p in tors_e1.points() {
-        let v = sides[1].classes.vector_of(&alpha(p, &b1)).ok_or_else(|| internal("torsion image outside S"))?;
+        let v = sides[1].classes.vector_of(&alpha(p, &b1)).ok_or_else(|| Error::internal("the 2-isogeny descent", "torsion image outside S"))?;
         sides[1].torsion.insert(v);
     }
     for w in sides.iter_mut() {
@@ -417,21 +412,19 @@ pub(crate) fn descend_via_isogeny(
         if complete_selmer {
             for &v in w.torsion.basis() {
                 if !w.selmer.contains(v) {
-                    return Err(internal("torsion image outside the Selmer group"));
+                    return Err(Error::internal("the 2-isogeny descent", "torsion image outside the Selmer group"));
                 }
             }
         }
     }
     // search on the curves themselves
-    if let Some(f) = &options.progress {
-        f(Stage::Search, "2-isogeny point search");
-    }
+    work.report(Stage::Search, "2-isogeny point search");
     let mut search_complete = true;
     let curve_limits = SearchLimits {
         height: options.curve_search_height,
         first_only: false,
-        deadline: budget.deadline,
-        cancel: budget.cancel.clone(),
+        deadline: work.deadline(),
+        cancel: work.cancel_flag().cloned(),
     };
     for (k, model_curve) in [(0usize, &e_model), (1, &e1_model)] {
         let out = search_curve(model_curve, &curve_limits);
@@ -458,7 +451,7 @@ pub(crate) fn descend_via_isogeny(
             if sides[k].found.contains(v) {
                 continue;
             }
-            if budget.exhausted() {
+            if work.exhausted() {
                 search_complete = false;
                 break;
             }
@@ -466,8 +459,8 @@ pub(crate) fn descend_via_isogeny(
             let limits = SearchLimits {
                 height: options.search_height,
                 first_only: true,
-                deadline: budget.deadline,
-                cancel: budget.cancel.clone(),
+                deadline: work.deadline(),
+                cancel: work.cancel_flag().cloned(),
             };
             let out = search_quartic(&g, &limits);
             search_complete &= out.complete;
@@ -483,7 +476,7 @@ pub(crate) fn descend_via_isogeny(
                 let pt = Point::Affine(&dq * &m * &m / (&e * &e), &dq * &m * &n / (&e * &e * &e));
                 let side_curve = if k == 0 { &e_model } else { &e1_model };
                 if !side_curve.contains(&pt) {
-                    return Err(internal("covering point does not map onto the curve"));
+                    return Err(Error::internal("the 2-isogeny descent", "covering point does not map onto the curve"));
                 }
                 let Some(vv) = sides[k].classes.vector_of(&alpha(&pt, &sides[k].b)) else { continue };
                 if sides[k].found.insert(vv) {
@@ -498,7 +491,7 @@ pub(crate) fn descend_via_isogeny(
     let upper = if complete_selmer { Some(sides.iter().map(|w| w.selmer.dim() - w.torsion.dim()).sum()) } else { None };
     if let Some(u) = upper {
         if u < lower {
-            return Err(internal("lower bound exceeds the Selmer bound"));
+            return Err(Error::internal("the 2-isogeny descent", "lower bound exceeds the Selmer bound"));
         }
     }
     let mut points = Vec::new();
@@ -506,18 +499,18 @@ pub(crate) fn descend_via_isogeny(
         let _ = d;
         let q = model.to_user(curve, p);
         if !curve.contains(&q) {
-            return Err(internal("point does not lie on the input model"));
+            return Err(Error::internal("the 2-isogeny descent", "point does not lie on the input model"));
         }
         points.push(q);
     }
     for (_, p) in &sides[1].points {
         let on_e = dual_map(p, &b1);
         if !e_model.contains(&on_e) {
-            return Err(internal("dual isogeny image not on the curve"));
+            return Err(Error::internal("the 2-isogeny descent", "dual isogeny image not on the curve"));
         }
         let q = model.to_user(curve, &on_e);
         if !curve.contains(&q) {
-            return Err(internal("point does not lie on the input model"));
+            return Err(Error::internal("the 2-isogeny descent", "point does not lie on the input model"));
         }
         points.push(q);
     }

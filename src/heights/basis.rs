@@ -12,6 +12,8 @@ use crate::search::{search_curve, SearchLimits};
 use crate::torsion::TorsionGroup;
 use malachite::base::num::arithmetic::traits::Abs;
 use malachite::{Float, Natural};
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::Arc;
 use std::time::Instant;
 
 /// Budgets for [`mordell_weil_basis`].
@@ -34,11 +36,28 @@ pub struct SaturationOptions {
     pub max_saturation_prime: u64,
     /// Stop (with an unproven result) once this instant has passed.
     pub deadline: Option<Instant>,
+    /// Stop (with an unproven result) once this flag is set.
+    pub cancel: Option<Arc<AtomicBool>>,
+}
+
+impl SaturationOptions {
+    /// The default options within the deadline and cancellation flag of `work`.
+    ///
+    /// ```
+    /// use twofold::{heights::SaturationOptions, Work};
+    /// assert!(SaturationOptions::within(&Work::unlimited()).cancel.is_none());
+    /// ```
+    pub fn within(work: &crate::budget::Work) -> SaturationOptions {
+        SaturationOptions { deadline: work.deadline(), cancel: work.cancel_flag().cloned(), ..SaturationOptions::default() }
+    }
+    fn out_of_time(&self) -> bool {
+        self.cancel.as_ref().is_some_and(|c| c.load(Ordering::Relaxed)) || self.deadline.is_some_and(|d| Instant::now() >= d)
+    }
 }
 
 impl Default for SaturationOptions {
     fn default() -> Self {
-        SaturationOptions { max_search_height: 200_000, max_aux_prime: 20_000, max_saturation_prime: 1_000, deadline: None }
+        SaturationOptions { max_search_height: 200_000, max_aux_prime: 20_000, max_saturation_prime: 1_000, deadline: None, cancel: None }
     }
 }
 
@@ -258,8 +277,8 @@ fn hermite_power(r: usize) -> f64 {
 }
 
 /// Points of naive height at most `height`, with a completeness flag.
-fn small_points(curve: &Curve, height: u64, deadline: Option<Instant>) -> (Vec<Point>, bool) {
-    let limits = SearchLimits { deadline, ..SearchLimits::new(height) };
+fn small_points(curve: &Curve, height: u64, options: &SaturationOptions) -> (Vec<Point>, bool) {
+    let limits = SearchLimits { deadline: options.deadline, cancel: options.cancel.clone(), ..SearchLimits::new(height) };
     let out = search_curve(curve, &limits);
     let pts = out.points.into_iter().map(|(x, y)| Point::Affine(x, y)).filter(|p| curve.contains(p)).collect();
     (pts, out.complete)
@@ -344,7 +363,7 @@ pub fn mordell_weil_basis(
             return Ok(finish(sat, gens));
         }
         let hsearch = l.exp().floor() as u64;
-        let (found, complete) = small_points(curve, hsearch, options.deadline);
+        let (found, complete) = small_points(curve, hsearch, options);
         if !complete {
             let sat = Saturation::unbounded(divisions, "point search for the height lower bound did not finish");
             return Ok(finish(sat, gens));
@@ -378,7 +397,7 @@ pub fn mordell_weil_basis(
                     vecs.push(g.clone());
                 }
             }
-            match siksek_test(curve, &vecs, p, options.max_aux_prime.min(1 << 31), options.deadline)? {
+            match siksek_test(curve, &vecs, p, options.max_aux_prime.min(1 << 31), &|| options.out_of_time())? {
                 SiksekOutcome::Saturated { primes_used } => {
                     proven.push(p);
                     note.push_str(&format!("p = {p}: proven with {primes_used} auxiliary primes; "));
@@ -448,7 +467,7 @@ fn divide(
     if l > (options.max_search_height as f64).ln() {
         return Ok(None);
     }
-    let (found, _) = small_points(curve, l.exp().floor() as u64, options.deadline);
+    let (found, _) = small_points(curve, l.exp().floor() as u64, options);
     for qpt in found {
         let h = to_f64(&height_unchecked(curve, local, &qpt, 64)?);
         if (h - target).abs() > 1e-6 * (1.0 + target) {
@@ -500,5 +519,5 @@ pub fn is_p_saturated(curve: &Curve, local: &[LocalData], points: &[Point], p: u
             vecs.push(g.clone());
         }
     }
-    Ok(matches!(siksek_test(curve, &vecs, p, max_aux_prime.min(1 << 31), None)?, SiksekOutcome::Saturated { .. }))
+    Ok(matches!(siksek_test(curve, &vecs, p, max_aux_prime.min(1 << 31), &|| false)?, SiksekOutcome::Saturated { .. }))
 }

@@ -13,7 +13,6 @@ use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
 use malachite::base::num::arithmetic::traits::UnsignedAbs;
 use malachite::{Integer, Rational};
-use std::time::Instant;
 
 /// A point of E(F_q): `None` is the point at infinity.
 pub(crate) type ModPt = Option<(u64, u64)>;
@@ -308,7 +307,7 @@ pub(crate) enum SiksekOutcome {
 
 /// Runs Siksek's test for p on the list `pts` (generators modulo torsion
 /// followed by the torsion generators whose order p divides).
-pub(crate) fn siksek_test(curve: &Curve, pts: &[Point], p: u64, max_q: u64, deadline: Option<Instant>) -> Result<SiksekOutcome, Error> {
+pub(crate) fn siksek_test(curve: &Curve, pts: &[Point], p: u64, max_q: u64, out_of_time: &dyn Fn() -> bool) -> Result<SiksekOutcome, Error> {
     let s = pts.len();
     if s == 0 {
         return Ok(SiksekOutcome::Saturated { primes_used: 0 });
@@ -323,10 +322,8 @@ pub(crate) fn siksek_test(curve: &Curve, pts: &[Point], p: u64, max_q: u64, dead
         if !is_prime_u64(q) || q == p || residue(disc, q) == 0 {
             continue;
         }
-        if let Some(d) = deadline {
-            if Instant::now() > d {
-                return Ok(SiksekOutcome::OutOfTime);
-            }
+        if out_of_time() {
+            return Ok(SiksekOutcome::OutOfTime);
         }
         let Some(rows) = functionals(curve, q, p, pts) else { continue };
         used += 1;

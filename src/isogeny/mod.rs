@@ -24,7 +24,7 @@ mod kernel;
 mod poly;
 
 use crate::curve::{Curve, ModelChange, Point};
-use crate::error::{Error, ErrorKind};
+use crate::error::Error;
 use malachite::{Natural, Rational};
 
 /// The odd primes searched for rational isogenies.
@@ -139,7 +139,7 @@ fn build(curve: &Curve, l: u64, k: Vec<Rational>, bad: &[Natural]) -> Result<Odd
     let (reduced, to_red) = minimal.reduced_form();
     let to_target = scale.compose(&to_min).compose(&to_red);
     if reduced.discriminant() == &malachite::Integer::from(0) {
-        return Err(Error::new(ErrorKind::InvalidValue, "internal check failed: singular isogenous curve"));
+        return Err(Error::internal("the isogeny class", "an isogenous curve came out singular"));
     }
     let map = std::sync::Arc::new(kernel::VeluMap::new(curve, &k));
     Ok(OddIsogeny { degree: l, kernel_polynomial: k, velu_model: velu, target: reduced, to_target, map })
@@ -152,7 +152,7 @@ fn build(curve: &Curve, l: u64, k: Vec<Rational>, bad: &[Natural]) -> Result<Odd
 /// ```
 /// use twofold::{isogeny::odd_isogeny_class, Curve};
 /// use malachite::Natural;
-/// // the class the isogeny class of conductor 11 has three curves linked by 5-isogenies (Cremona 1997, Table 1)
+/// // the isogeny class of conductor 11 has three curves linked by 5-isogenies (Cremona 1997, Table 1)
 /// let e = Curve::from_coefficients([0, -1, 1, -7820, -263580]).unwrap();
 /// let class = odd_isogeny_class(&e, &[Natural::from(11u32)]).unwrap();
 /// assert_eq!(class.curves.len(), 3);

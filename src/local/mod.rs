@@ -4,13 +4,20 @@
 //! Curves*, IV.9; Cremona, *Algorithms for Modular Elliptic Curves*, 3.2),
 //! and the conductor and Tamagawa product built from them.
 //!
-//! Until the crate factors discriminants itself, callers pass the primes to
-//! treat; functions that need all bad primes check that the list covers the
-//! discriminant and return an error otherwise.
+//! [`CurveData`] holds all of it for one curve, built once per analysis; it
+//! also owns the minimal model and the change to it (minimal models are
+//! decided by Tate's algorithm, so they live here). The free functions take
+//! a list of primes: those that need every bad prime check that the list
+//! covers the discriminant and return an error otherwise.
 
+mod data;
+mod minimal;
 mod modp;
+#[cfg(feature = "serde")]
+mod serde_forms;
 mod tate;
 
+pub use data::CurveData;
 pub(crate) use tate::tate;
 
 use crate::arith::is_prime_u64;

@@ -2,10 +2,10 @@
 //! local data, with a readable `Display` and a JSON rendering.
 
 mod json;
-mod analyse;
 mod evidence;
+#[cfg(feature = "serde")]
+mod serde_forms;
 
-pub use analyse::analyse;
 pub use json::{error_json, JsonWriter};
 pub use evidence::{Evidence, Standing, Statement, EVIDENCE_MAX_CONDUCTOR};
 
@@ -144,11 +144,6 @@ impl RankReport {
     pub fn to_json(&self, input_text: &str) -> String {
         json::report_json(self, input_text)
     }
-}
-
-fn coefficients_text(c: &Curve) -> String {
-    let a: Vec<String> = c.coefficients().iter().map(|x| x.to_string()).collect();
-    format!("[{}]", a.join(","))
 }
 
 impl fmt::Display for RankReport {

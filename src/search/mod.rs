@@ -68,6 +68,17 @@ impl SearchLimits {
     pub fn new(height: u64) -> SearchLimits {
         SearchLimits { height, ..SearchLimits::default() }
     }
+
+    /// Limits with the given height, all points wanted, within the deadline
+    /// and cancellation flag of `work`.
+    ///
+    /// ```
+    /// use twofold::{search::SearchLimits, Work};
+    /// assert_eq!(SearchLimits::within(&Work::unlimited(), 50).height, 50);
+    /// ```
+    pub fn within(work: &crate::budget::Work, height: u64) -> SearchLimits {
+        SearchLimits { height, deadline: work.deadline(), cancel: work.cancel_flag().cloned(), first_only: false }
+    }
 }
 
 /// A point `(x : z : y)` on `y^2 = g(x, z)` with coprime integers `x`, `z`,

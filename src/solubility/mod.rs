@@ -393,5 +393,10 @@ fn degenerate_witness(g: &[Integer; 5], place: &Place) -> Option<LocalWitness> {
     }
 }
 
+#[cfg(feature = "serde")]
+crate::decimal_serde::place_form!(solubility);
+#[cfg(feature = "serde")]
+crate::decimal_serde::plain!(LocalWitness);
+
 #[cfg(test)]
 mod tests;

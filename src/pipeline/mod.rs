@@ -1,15 +1,26 @@
-//! The pipeline from a curve to its report.
+//! The pipeline from a curve to its report: one [`CurveData`] (minimal
+//! model, bad primes, local data, conductor) and one [`Work`] (deadline,
+//! cancellation, progress) are built once and handed to every stage in
+//! turn; the report, the evidence and the certificate are built from what
+//! the stages returned.
+//!
+//! ```text
+//! curve -> CurveData -> torsion -> 2-isogeny descents -> quartic descent
+//!       (on the odd-isogenous curve of smallest c4) -> combine -> evidence
+//!       -> certificate -> RankReport
+//! ```
 
-use super::{RankReport, Route, ShaSuspect};
-use crate::arith::{factor, FactorLimits};
-use crate::budget::{Budget, RankOptions, Stage};
+mod evidence;
+
+use crate::budget::{RankOptions, Stage, Work};
 use crate::curve::{Curve, Point};
 use crate::descent::full::{full_two_descent, FullDescent};
 use crate::descent::isogeny::{covering_quartic, descend_via_isogeny, IsogenyDescent};
 use crate::error::Error;
-use crate::local::{conductor, local_data};
+use crate::local::CurveData;
+use crate::report::{RankReport, Route, ShaSuspect, Standing, Statement};
 use crate::torsion::TorsionGroup;
-use malachite::Natural;
+use malachite::{Integer, Natural};
 
 /// Computes everything twofold can prove about the rank of `curve`:
 /// minimal model, conductor and local data, torsion, and rank bounds from
@@ -29,36 +40,28 @@ use malachite::Natural;
 /// assert_eq!(r.conductor.to_string(), "32");
 /// ```
 pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error> {
-    let budget = Budget::from_options(options);
-    let progress = |s: Stage, m: &str| {
-        if let Some(f) = &options.progress {
-            f(s, m)
-        }
+    let work = Work::new(options);
+    work.report(Stage::LocalData, "factoring the discriminant");
+    let data = match &options.known_primes {
+        Some(ps) => CurveData::with_known_primes(curve, ps)?,
+        None => CurveData::new(curve, &work)?,
     };
-    progress(Stage::LocalData, "factoring the discriminant");
-    let limits = FactorLimits { deadline: budget.deadline, cancel: budget.cancel.clone() };
-    let primes: Vec<Natural> = match &options.known_primes {
-        Some(ps) => check_known_primes(curve, ps)?,
-        None => factor(curve.discriminant(), &limits)?.primes().cloned().collect(),
-    };
-    let (minimal, change) = curve.minimal_model(&primes)?;
-    let min_primes: Vec<Natural> = primes
-        .iter()
-        .filter(|p| crate::arith::valuation(minimal.discriminant(), p).unwrap_or(0) > 0)
-        .cloned()
-        .collect();
-    let local: Vec<_> = min_primes.iter().map(|p| local_data(&minimal, p)).collect::<Result<_, _>>()?;
-    let cond = conductor(&minimal, &min_primes)?;
-    progress(Stage::Torsion, "torsion subgroup");
-    let torsion = TorsionGroup::compute(&minimal, &min_primes);
-    let to_input = |p: &Point| unmap(&change, p);
+    analyse_data(&data, options, &work)
+}
+
+/// The pipeline after the curve's data is known (see [`analyse`]).
+pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Result<RankReport, Error> {
+    let minimal = data.minimal();
+    let primes = data.bad_primes();
+    work.report(Stage::Torsion, "torsion subgroup");
+    let torsion = TorsionGroup::compute(minimal, primes);
     let mut report = RankReport {
-        input: curve.clone(),
+        input: data.input().clone(),
         minimal: minimal.clone(),
-        conductor: cond,
-        local,
+        conductor: Integer::from(data.conductor().clone()),
+        local: data.local().to_vec(),
         torsion: torsion.invariants(),
-        torsion_points: torsion.points().iter().map(to_input).collect(),
+        torsion_points: torsion.points().iter().map(|p| data.to_input(p)).collect(),
         rank_lower: None,
         rank_upper: None,
         route: Route::None,
@@ -72,48 +75,62 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
         descent_curve: None,
         evidence: None,
         certificate: None,
-        change: change.clone(),
+        change: data.change().clone(),
         budget_exhausted: false,
-        elapsed: budget.elapsed(),
+        elapsed: work.elapsed(),
     };
     let twos = torsion.two_torsion();
     let mut runs: Vec<IsogenyDescent> = Vec::new();
     for t in &twos {
-        if budget.exhausted() {
+        if work.exhausted() {
             report.budget_exhausted = true;
             break;
         }
-        runs.push(descend_via_isogeny(&minimal, t, &torsion, &min_primes, options, &budget)?);
+        runs.push(descend_via_isogeny(minimal, t, &torsion, primes, options, work).map_err(|e| e.in_stage("the 2-isogeny descent"))?);
     }
     // the full 2-descent runs on every curve, except where the isogeny
     // route has already proven the rank (unless a cross-check is asked for)
     let settled = runs.iter().any(|r| r.upper == Some(r.lower))
         || (runs.iter().filter_map(|r| r.upper).min() == runs.iter().map(|r| r.lower).max());
     let settled = settled && !runs.is_empty();
-    let full: Option<FullDescent> = if budget.exhausted() {
+    let full: Option<FullDescent> = if work.exhausted() {
         report.budget_exhausted = true;
         None
     } else if settled && !options.cross_check_routes {
         None
     } else {
-        Some(quartic_route(&minimal, &torsion, &min_primes, options, &budget, &mut report)?)
+        Some(quartic_route(minimal, &torsion, primes, options, work, &mut report).map_err(|e| e.in_stage("the quartic descent"))?)
     };
-    combine(&mut report, &runs, full.as_ref(), options)?;
+    combine(&mut report, data, &runs, full.as_ref(), options)?;
     report.isogeny_runs = runs;
     report.full_descent = full;
     for p in &report.points {
-        if !curve.contains(p) {
-            return Err(Error::new(crate::ErrorKind::InvalidValue, "internal check failed: reported point not on the input curve"));
+        if !data.input().contains(p) {
+            return Err(Error::internal("the report", "a reported point is not on the input curve"));
         }
     }
-    if options.evidence && !budget.exhausted() {
-        report.evidence = Some(super::evidence::compute(&report, &budget));
+    if options.evidence && !work.exhausted() {
+        report.evidence = Some(evidence::compute(&report, data, work));
     }
     if options.certificate {
-        report.certificate = crate::certificate::Certificate::from_report(&report).ok().map(|c| c.to_text());
+        work.report(Stage::Certificate, "certificate of the rank proof");
+        match crate::certificate::Certificate::from_report(&report) {
+            Ok(c) => report.certificate = Some(c.to_text()),
+            Err(e) => {
+                if let Some(ev) = report.evidence.as_mut() {
+                    ev.statements.push(Statement {
+                        claim: format!("the certificate was not built: {e}"),
+                        standing: Standing::Unfinished,
+                    });
+                }
+            }
+        }
     }
-    progress(Stage::Report, "done");
-    report.elapsed = budget.elapsed();
+    if work.exhausted() {
+        report.budget_exhausted = true;
+    }
+    work.report(Stage::Report, "done");
+    report.elapsed = work.elapsed();
     Ok(report)
 }
 
@@ -132,22 +149,23 @@ fn quartic_route(
     torsion: &TorsionGroup,
     primes: &[Natural],
     options: &RankOptions,
-    budget: &Budget,
+    work: &Work,
     report: &mut RankReport,
 ) -> Result<FullDescent, Error> {
     use malachite::base::num::arithmetic::traits::UnsignedAbs;
     if minimal.c4().unsigned_abs() < ISOGENY_SHORTCUT_C4 {
-        return full_two_descent(minimal, torsion, primes, options, budget);
+        return full_two_descent(minimal, torsion, primes, options, work);
     }
+    work.report(Stage::IsogenyClass, "odd-degree isogeny class");
     let class = crate::isogeny::odd_isogeny_class(minimal, primes)?;
     let best = class.smallest_c4();
     if best == 0 || class.curves[best].c4().unsigned_abs() * Natural::from(2u32) > minimal.c4().unsigned_abs() {
-        return full_two_descent(minimal, torsion, primes, options, budget);
+        return full_two_descent(minimal, torsion, primes, options, work);
     }
     let other = &class.curves[best];
     let degree = class.degree(0, best).unwrap_or(0);
     let other_torsion = TorsionGroup::compute(other, primes);
-    let mut f = full_two_descent(other, &other_torsion, primes, options, budget)?;
+    let mut f = full_two_descent(other, &other_torsion, primes, options, work)?;
     let mut mapped = Vec::new();
     for p in &f.points {
         match class.map_point(best, 0, p) {
@@ -164,8 +182,14 @@ fn quartic_route(
 /// Keeps the tightest bounds of the routes that ran, checks that they do not
 /// contradict each other, and takes points and Sha suspects from the routes
 /// that gave the bounds.
-fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullDescent>, options: &RankOptions) -> Result<(), Error> {
-    let to_input = |p: &Point| unmap(&report.change, p);
+fn combine(
+    report: &mut RankReport,
+    data: &CurveData,
+    runs: &[IsogenyDescent],
+    full: Option<&FullDescent>,
+    options: &RankOptions,
+) -> Result<(), Error> {
+    let to_input = |p: &Point| data.to_input(p);
     let mut lower: Option<(usize, Vec<Point>, String)> = None;
     let mut upper: Option<usize> = None;
     let consider_lower = |l: usize, pts: Vec<Point>, why: String, lower: &mut Option<(usize, Vec<Point>, String)>| {
@@ -207,7 +231,7 @@ fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullD
     let ups: Vec<usize> = runs.iter().filter_map(|r| r.upper).chain(full.and_then(|f| f.upper)).collect();
     if let (Some(&l), Some(&u)) = (lows.iter().max(), ups.iter().min()) {
         if l > u {
-            return Err(Error::new(crate::ErrorKind::InvalidValue, "internal check failed: the descent routes contradict each other"));
+            return Err(Error::internal("the report", "the descent routes contradict each other"));
         }
     }
     report.route = match (runs.is_empty(), full.is_some()) {
@@ -232,7 +256,7 @@ fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullD
                 None => "quartic 2-covering of E (an element of Sel^2(E))".to_string(),
                 Some((c, d)) => format!(
                     "quartic 2-covering of the {d}-isogenous curve {} (an element of its Sel^2, isomorphic to Sel^2(E) since {d} is odd)",
-                    super::coefficients_text(c)
+                    c
                 ),
             };
             for q in &f.unexplained {
@@ -260,44 +284,4 @@ fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullD
         report.budget_exhausted = true;
     }
     Ok(())
-}
-
-/// A point on the minimal model, taken back to the input model.
-pub(crate) fn unmap(change: &crate::ModelChange, p: &Point) -> Point {
-    match p {
-        Point::Infinity => Point::Infinity,
-        Point::Affine(x, y) => {
-            let (x, y) = change.unmap_point(&(x.clone(), y.clone()));
-            Point::Affine(x, y)
-        }
-    }
-}
-
-/// Checks caller-supplied primes: each a probable prime (BPSW), and together
-/// accounting for the whole discriminant.
-fn check_known_primes(curve: &Curve, ps: &[Natural]) -> Result<Vec<Natural>, Error> {
-    use malachite::base::num::arithmetic::traits::{Abs, DivisibleBy};
-    use malachite::Integer;
-    let mut rest = curve.discriminant().clone().abs();
-    let mut out = Vec::new();
-    for p in ps {
-        if !crate::arith::is_probable_prime(p) {
-            return Err(Error::new(crate::ErrorKind::InvalidValue, format!("{p} is not prime")));
-        }
-        let pi = Integer::from(p.clone());
-        while (&rest).divisible_by(&pi) {
-            rest /= &pi;
-        }
-        if !out.contains(p) {
-            out.push(p.clone());
-        }
-    }
-    if rest != 1 {
-        return Err(Error::new(
-            crate::ErrorKind::InvalidValue,
-            format!("the given primes do not account for the discriminant: cofactor {rest} remains"),
-        ));
-    }
-    out.sort();
-    Ok(out)
 }

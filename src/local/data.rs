@@ -1,0 +1,148 @@
+//! One value for a curve and everything local about it: the model the
+//! caller gave, the global minimal model and the change between them, the
+//! primes of bad reduction (the factored discriminant), the local data at
+//! each of them and the conductor. Built once per analysis; every stage
+//! reads it instead of factoring or running Tate's algorithm again.
+
+use super::{local_data, LocalData};
+use crate::arith::{factor, is_probable_prime, valuation, FactorLimits};
+use crate::budget::Work;
+use crate::curve::{Curve, ModelChange, Point};
+use crate::error::{Error, ErrorKind};
+use malachite::base::num::arithmetic::traits::{Abs, DivisibleBy, Pow};
+use malachite::base::num::basic::traits::One;
+use malachite::{Integer, Natural};
+
+/// A curve with its global minimal model, its bad primes, the local data
+/// at each and its conductor (Tate's algorithm; Cremona 1997, §3.2 for the
+/// minimal model by Laska-Kraus-Connell).
+///
+/// ```
+/// use twofold::{Curve, CurveData, Work};
+/// // y^2 = x^3 - 16 * 64 is y^2 = x^3 - 16 scaled by u = 1/2; y^2 = x^3 - 16
+/// // is a model of the conductor-27 curve y^2 + y = x^3 - 7 (Cremona 1997, Table 1).
+/// let e = Curve::from_coefficients([0, 0, 0, 0, -1024]).unwrap();
+/// let d = CurveData::new(&e, &Work::unlimited()).unwrap();
+/// assert_eq!(d.minimal(), &Curve::from_coefficients([0, 0, 1, 0, -7]).unwrap());
+/// assert_eq!(d.conductor().to_string(), "27");
+/// assert_eq!(d.bad_primes().len(), 1);
+/// assert_eq!(d.local()[0].kodaira.to_string(), "IV*");
+/// ```
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct CurveData {
+    input: Curve,
+    minimal: Curve,
+    change: ModelChange,
+    primes: Vec<Natural>,
+    local: Vec<LocalData>,
+    conductor: Natural,
+}
+
+impl CurveData {
+    /// Factors the discriminant of `curve` (within the limits of `work`:
+    /// an error of kind [`ErrorKind::FactorBudget`] when it cannot), then
+    /// finds the minimal model, the local data and the conductor.
+    pub fn new(curve: &Curve, work: &Work) -> Result<CurveData, Error> {
+        let primes: Vec<Natural> = factor(curve.discriminant(), &FactorLimits::within(work))?.primes().cloned().collect();
+        CurveData::from_primes(curve, primes)
+    }
+
+    /// As [`CurveData::new`], with the primes dividing the discriminant given
+    /// by the caller (for discriminants too hard to factor): each must be a
+    /// (probable) prime (BPSW) and together they must account for the
+    /// whole discriminant, else an error of kind [`ErrorKind::InvalidValue`].
+    ///
+    /// ```
+    /// use malachite::Natural;
+    /// use twofold::{Curve, CurveData};
+    /// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // discriminant 37
+    /// assert!(CurveData::with_known_primes(&e, &[Natural::from(37u32)]).is_ok());
+    /// assert!(CurveData::with_known_primes(&e, &[Natural::from(2u32)]).is_err());
+    /// ```
+    pub fn with_known_primes(curve: &Curve, primes: &[Natural]) -> Result<CurveData, Error> {
+        let mut rest = curve.discriminant().clone().abs();
+        let mut out = Vec::new();
+        for p in primes {
+            if !is_probable_prime(p) {
+                return Err(Error::new(ErrorKind::InvalidValue, format!("{p} is not prime")));
+            }
+            let pi = Integer::from(p.clone());
+            while (&rest).divisible_by(&pi) {
+                rest /= &pi;
+            }
+            if !out.contains(p) {
+                out.push(p.clone());
+            }
+        }
+        if rest != 1 {
+            return Err(Error::new(
+                ErrorKind::InvalidValue,
+                format!("the given primes do not account for the discriminant: cofactor {rest} remains"),
+            ));
+        }
+        out.sort();
+        CurveData::from_primes(curve, out)
+    }
+
+    fn from_primes(curve: &Curve, primes: Vec<Natural>) -> Result<CurveData, Error> {
+        let (minimal, change) = curve.minimal_model(&primes)?;
+        let primes: Vec<Natural> =
+            primes.into_iter().filter(|p| valuation(minimal.discriminant(), p).unwrap_or(0) > 0).collect();
+        let local: Vec<LocalData> = primes.iter().map(|p| local_data(&minimal, p)).collect::<Result<_, _>>()?;
+        let mut conductor = Natural::ONE;
+        for d in &local {
+            conductor *= (&d.prime).pow(u64::from(d.conductor_exponent));
+        }
+        Ok(CurveData { input: curve.clone(), minimal, change, primes, local, conductor })
+    }
+
+    /// The model the caller gave.
+    pub fn input(&self) -> &Curve {
+        &self.input
+    }
+    /// The global minimal model in reduced form.
+    pub fn minimal(&self) -> &Curve {
+        &self.minimal
+    }
+    /// The change of model from [`input`](Self::input) to [`minimal`](Self::minimal).
+    pub fn change(&self) -> &ModelChange {
+        &self.change
+    }
+    /// The primes dividing the minimal discriminant, increasing.
+    pub fn bad_primes(&self) -> &[Natural] {
+        &self.primes
+    }
+    /// The local data at each bad prime, in the order of [`bad_primes`](Self::bad_primes).
+    pub fn local(&self) -> &[LocalData] {
+        &self.local
+    }
+    /// The local data at `p`, if `p` is a bad prime.
+    pub fn local_at(&self, p: &Natural) -> Option<&LocalData> {
+        self.local.iter().find(|d| &d.prime == p)
+    }
+    /// The conductor.
+    pub fn conductor(&self) -> &Natural {
+        &self.conductor
+    }
+    /// A point of the minimal model, on the input model.
+    pub fn to_input(&self, p: &Point) -> Point {
+        match p {
+            Point::Infinity => Point::Infinity,
+            Point::Affine(x, y) => {
+                let (x, y) = self.change.unmap_point(&(x.clone(), y.clone()));
+                Point::Affine(x, y)
+            }
+        }
+    }
+    /// A point of the input model, on the minimal model (an error when it
+    /// is not on the input model).
+    pub fn to_minimal(&self, p: &Point) -> Result<Point, Error> {
+        if !self.input.contains(p) {
+            return Err(Error::new(ErrorKind::InvalidValue, format!("{p} is not on the curve {}", self.input)));
+        }
+        match p {
+            Point::Infinity => Ok(Point::Infinity),
+            Point::Affine(x, y) => self.change.map_point(&(x.clone(), y.clone())).map(|(x, y)| Point::Affine(x, y)),
+        }
+    }
+}
