@@ -104,15 +104,20 @@ impl<T: DecimalForm> DecimalForm for Vec<T> {
     }
 }
 
-impl<T: DecimalForm> DecimalForm for [T; 5] {
-    fn write<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        s.collect_seq(self.iter().map(Out))
-    }
-    fn read<'de, D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-        let v = <[In<T>; 5]>::deserialize(d)?;
-        Ok(v.map(|x| x.0))
-    }
+macro_rules! array_form {
+    ($($n:literal),*) => {$(
+        impl<T: DecimalForm> DecimalForm for [T; $n] {
+            fn write<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+                s.collect_seq(self.iter().map(Out))
+            }
+            fn read<'de, D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+                let v = <[In<T>; $n]>::deserialize(d)?;
+                Ok(v.map(|x| x.0))
+            }
+        }
+    )*};
 }
+array_form!(3, 5);
 
 impl<A: DecimalForm, B: DecimalForm> DecimalForm for (A, B) {
     fn write<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {

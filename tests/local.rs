@@ -13,34 +13,17 @@ use twofold::arith::{kronecker_i64, primes_up_to};
 use twofold::local::{bad_primes_data, conductor, local_data, tamagawa_product, Kodaira, LocalData, Reduction};
 use twofold::{Curve, ModelChange};
 
-/// A curve from one of the published tables.
-#[derive(Clone, Debug)]
-struct Row {
-    conductor: u64,
-    coefficients: [i64; 5],
-}
-
-fn read_table(name: &str, skip: usize) -> Vec<Row> {
-    let path = format!("{}/tests/data/{name}", env!("CARGO_MANIFEST_DIR"));
-    let text = std::fs::read_to_string(&path).unwrap_or_else(|e| panic!("reading {path}: {e}"));
-    text.lines()
-        .filter(|l| !l.starts_with('#') && !l.trim().is_empty())
-        .map(|l| {
-            let f: Vec<&str> = l.split('\t').collect();
-            let a: Vec<i64> = f[1 + skip..6 + skip].iter().map(|x| x.parse().unwrap()).collect();
-            Row { conductor: f[0].parse().unwrap(), coefficients: [a[0], a[1], a[2], a[3], a[4]] }
-        })
-        .collect()
-}
+mod common;
+use common::{read_table, Row};
 
 /// Both published tables: 572 curves of conductor 11..162 and 23 curves with
 /// non-trivial Sha of conductor up to 390.
 fn table() -> &'static [Row] {
     static T: OnceLock<Vec<Row>> = OnceLock::new();
     T.get_or_init(|| {
-        let mut v = read_table("curves-small-conductor.tsv", 1);
+        let mut v = read_table("curves-small-conductor.tsv");
         assert_eq!(v.len(), 572, "Table 1 lists 572 curves of conductor up to 162");
-        let w = read_table("curves-with-sha.tsv", 0);
+        let w = read_table("curves-with-sha.tsv");
         assert_eq!(w.len(), 23);
         v.extend(w);
         v

@@ -1,6 +1,7 @@
 //! Torsion orders against the published table (Cremona, Algorithms for
 //! Modular Elliptic Curves, 2nd ed., Table 1, via tests/data/).
 
+mod common;
 use twofold::torsion::TorsionGroup;
 use twofold::Curve;
 use malachite::Natural;
@@ -27,14 +28,12 @@ fn small_primes_of(n: &malachite::Integer) -> Vec<Natural> {
 
 #[test]
 fn torsion_orders_match_published_table() {
-    let text = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/../shared/data/curves-small-conductor.tsv")).unwrap();
+    // Cremona 1997, Table 1 (tests/data/curves-small-conductor.tsv)
     let mut n = 0;
-    for line in text.lines().filter(|l| !l.starts_with('#') && !l.trim().is_empty()) {
-        let f: Vec<&str> = line.split('\t').collect();
-        let a: Vec<i64> = f[2..7].iter().map(|s| s.parse().unwrap()).collect();
-        let e = Curve::from_coefficients([a[0], a[1], a[2], a[3], a[4]]).unwrap();
+    for row in common::read_table("curves-small-conductor.tsv") {
+        let e = Curve::from_coefficients(row.coefficients).unwrap();
         let t = TorsionGroup::compute(&e, &small_primes_of(e.discriminant()));
-        assert_eq!(t.order().to_string(), f[8], "curve {line}");
+        assert_eq!(t.order().to_string(), row.torsion_order.to_string(), "curve {:?}", row.coefficients);
         for p in t.points() {
             assert!(e.contains(p));
         }

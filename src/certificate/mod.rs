@@ -41,6 +41,7 @@ mod verify;
 
 pub use verify::{verify, CertificateError, UpperBoundBasis, VerifiedClaims};
 
+use crate::budget::Work;
 use crate::curve::{Curve, Point};
 use crate::error::Error;
 use crate::report::RankReport;
@@ -340,6 +341,14 @@ impl Certificate {
     /// Errors: an internal inconsistency in the report (a Selmer class
     /// without a local point, a point off its curve).
     pub fn from_report(report: &RankReport) -> Result<Certificate, Error> {
+        Certificate::from_report_within(report, &Work::unlimited())
+    }
+
+    /// As [`Certificate::from_report`], with the short searches for points
+    /// on the Selmer classes explained by points of E (the only computation
+    /// not read from the report) held to the deadline and cancel flag of
+    /// `work`; a class left without a point is recorded without one.
+    pub fn from_report_within(report: &RankReport, work: &Work) -> Result<Certificate, Error> {
         let change = &report.change;
         let minimal = &report.minimal;
         let to_min = |p: &Point| -> Result<Option<(Rational, Rational)>, Error> {
@@ -358,10 +367,16 @@ impl Certificate {
         for p in &report.points {
             if let Some((x, y)) = to_min(p)? {
                 // the canonical height (numerical, BSD normalisation; not checked by verify)
+                // (read from the report's evidence where it has the point)
+                let recorded = report
+                    .evidence
+                    .as_ref()
+                    .and_then(|ev| ev.reduced_points.iter().position(|q| q == p).and_then(|i| ev.heights.get(i).copied()));
                 let pt = crate::curve::Point::Affine(x.clone(), y.clone());
-                let height = crate::heights::canonical_height(minimal, &report.local, &pt, 64)
-                    .ok()
-                    .map(|h| crate::heights::float_to_f64(&h))
+                let height = recorded
+                    .or_else(|| {
+                        crate::heights::canonical_height(minimal, &report.local, &pt, 64).ok().map(|h| crate::heights::float_to_f64(&h))
+                    })
                     .filter(|h| h.is_finite())
                     .map(|h| format!("{h:.12e}"));
                 points.push(CertPoint { x, y, height });
@@ -373,8 +388,8 @@ impl Certificate {
             isogeny.push(isogeny_proof(minimal, run, &primes)?);
         }
         let quartic = match (&report.full_descent, &report.descent_curve) {
-            (Some(f), None) => Some(quartic_proof(minimal, f, None)?),
-            (Some(f), Some((other, d))) => Some(quartic_proof(other, f, Some(*d))?),
+            (Some(f), None) => Some(quartic_proof(minimal, f, None, work)?),
+            (Some(f), Some((other, d))) => Some(quartic_proof(other, f, Some(*d), work)?),
             (None, _) => None,
         };
         Ok(Certificate {
@@ -382,8 +397,10 @@ impl Certificate {
             minimal: minimal.coefficients().clone(),
             change: [change.u.clone(), change.r.clone(), change.s.clone(), change.t.clone()],
             primes,
-            rank_lower: report.rank_lower,
-            rank_upper: report.rank_upper,
+            // the certificate records what the descent proved; an analytic
+            // proof of the rank is not part of it
+            rank_lower: report.descent_bounds.0,
+            rank_upper: report.descent_bounds.1,
             torsion,
             points,
             isogeny,
@@ -481,16 +498,27 @@ fn isogeny_proof(
 
 /// `curve` is the curve the quartics cover: the minimal model, or the
 /// odd-degree isogenous curve of degree `degree` the descent ran on.
-fn quartic_proof(curve: &Curve, f: &crate::descent::full::FullDescent, degree: Option<u64>) -> Result<QuarticProof, Error> {
+fn quartic_proof(curve: &Curve, f: &crate::descent::full::FullDescent, degree: Option<u64>, work: &Work) -> Result<QuarticProof, Error> {
     let mut classes = Vec::new();
     for sq in &f.classes {
         let g = sq.quartic.coeffs();
         let local_points = sq.witnesses.iter().map(|(pl, w)| local_point(&g, pl, w)).collect();
-        // a class explained by a point found on the covering gets that point
-        // again; the others get a short search (points found on E itself
+        // a class explained by a point found on the covering records that
+        // point (read from the descent, not searched again); the others get a
+        // short search within the work's budget (points found on E itself
         // usually have small preimages)
-        let height = if sq.point.is_some() { crate::RankOptions::default().search_height } else { LIFT_SEARCH_HEIGHT };
-        let lift = find_lift(curve, &sq.quartic, height)?;
+        let lift = match &sq.covering_point {
+            Some([x, z, y]) => {
+                let (xr, zr, yr) = (Rational::from(x.clone()), Rational::from(z.clone()), Rational::from(y.clone()));
+                let image = sq
+                    .quartic
+                    .image_on_curve(curve, &xr, &zr, &yr)?
+                    .ok_or_else(|| Error::internal("the certificate builder", "a recorded covering point has no image on the curve"))?;
+                Some(Lift { x: x.clone(), z: z.clone(), y: y.clone(), image })
+            }
+            None if work.exhausted() => None,
+            None => find_lift(curve, &sq.quartic, LIFT_SEARCH_HEIGHT, work)?,
+        };
         classes.push(SelmerClass { label: None, quartic: g, local_points, lift });
     }
     Ok(QuarticProof {
@@ -511,10 +539,10 @@ const LIFT_SEARCH_HEIGHT: u64 = 64;
 
 /// Searches the reduced form of `g` for a rational point with `y != 0`
 /// and moves it back to `g` itself.
-fn find_lift(curve: &Curve, g: &crate::quartic::Quartic, height: u64) -> Result<Option<Lift>, Error> {
+fn find_lift(curve: &Curve, g: &crate::quartic::Quartic, height: u64, work: &Work) -> Result<Option<Lift>, Error> {
     use crate::search::{search_quartic, SearchLimits};
     let (red, m) = crate::quartic::reduce(g);
-    let out = search_quartic(&red.coeffs(), &SearchLimits { height, first_only: true, deadline: None, cancel: None });
+    let out = search_quartic(&red.coeffs(), &SearchLimits { first_only: true, ..SearchLimits::within(work, height) });
     let coeffs = g.coeffs();
     for qp in out.points.iter().take(32) {
         if qp.y == 0u32 {

@@ -38,6 +38,10 @@ pub struct SelmerQuartic {
     pub witnesses: Vec<(Place, LocalWitness)>,
     /// A rational point found on it, mapped to E, if any.
     pub point: Option<Point>,
+    /// That rational point on the covering itself, `[x, z, y]` with
+    /// `y^2 = g(x, z)` for the quartic `g` of this class, if one was found.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+    pub covering_point: Option<[Integer; 3]>,
 }
 
 /// The result of the full 2-descent.
@@ -178,7 +182,7 @@ pub(crate) fn full_two_descent(
                     Ok(witnesses) => {
                         let c = covering_class(&g)?;
                         if !distinct.iter().any(|(d, _)| d.same_as(&c)) {
-                            distinct.push((c, SelmerQuartic { quartic: g, witnesses, point: None }));
+                            distinct.push((c, SelmerQuartic { quartic: g, witnesses, point: None, covering_point: None }));
                         }
                     }
                 }
@@ -242,19 +246,21 @@ pub(crate) fn full_two_descent(
             out.search_complete = false;
             break;
         }
-        let (red, _) = reduce(&sq.quartic);
-        let limits = SearchLimits {
-            height: options.search_height,
-            first_only: true,
-            deadline: work.deadline(),
-            cancel: work.cancel_flag().cloned(),
-        };
+        let (red, [[al, be], [ga, de]]) = reduce(&sq.quartic);
+        let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, options.search_height) };
         let res = search_quartic(&red.coeffs(), &limits);
         out.search_complete &= res.complete || !res.points.is_empty();
         for qp in res.points {
-            let (x, z, y) = (Rational::from(qp.x), Rational::from(qp.z), Rational::from(qp.y));
+            let (x, z, y) = (Rational::from(qp.x.clone()), Rational::from(qp.z.clone()), Rational::from(qp.y.clone()));
             if let Some((px, py)) = red.image_on_curve(curve, &x, &z, &y)? {
                 let pt = Point::Affine(px, py);
+                // the same point on the class's own quartic: (x, z) = M (x', z')
+                let gx = &al * &qp.x + &be * &qp.z;
+                let gz = &ga * &qp.x + &de * &qp.z;
+                if sq.quartic.eval(&gx, &gz) != &qp.y * &qp.y {
+                    return Err(Error::internal("the quartic descent", "a covering point does not map back to its class's quartic"));
+                }
+                sq.covering_point = Some([gx, gz, qp.y]);
                 sq.point = Some(pt.clone());
                 add_point(pt, &mut span, &mut out)?;
                 break;

@@ -18,15 +18,18 @@ use malachite::{Integer, Natural};
 /// minimal model by Laska-Kraus-Connell).
 ///
 /// ```
-/// use twofold::{Curve, CurveData, Work};
-/// // y^2 = x^3 - 16 * 64 is y^2 = x^3 - 16 scaled by u = 1/2; y^2 = x^3 - 16
-/// // is a model of the conductor-27 curve y^2 + y = x^3 - 7 (Cremona 1997, Table 1).
-/// let e = Curve::from_coefficients([0, 0, 0, 0, -1024]).unwrap();
-/// let d = CurveData::new(&e, &Work::unlimited()).unwrap();
-/// assert_eq!(d.minimal(), &Curve::from_coefficients([0, 0, 1, 0, -7]).unwrap());
-/// assert_eq!(d.conductor().to_string(), "27");
+/// use malachite::Rational;
+/// use twofold::{Curve, CurveData, ModelChange, Work};
+/// // y^2 + y = x^3 - x^2 - 10x - 20: conductor 11, split I5 at 11 (Cremona
+/// // 1997, Table 1), here given by a non-minimal model
+/// let e11 = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
+/// let q = |n: i64| Rational::from(n);
+/// let big = e11.apply_change(&ModelChange::new(Rational::from_signeds(1, 6), q(5), q(-2), q(7)).unwrap()).unwrap();
+/// let d = CurveData::new(&big, &Work::unlimited()).unwrap();
+/// assert_eq!(d.minimal(), &e11);
+/// assert_eq!(d.conductor().to_string(), "11");
 /// assert_eq!(d.bad_primes().len(), 1);
-/// assert_eq!(d.local()[0].kodaira.to_string(), "IV*");
+/// assert_eq!(d.local()[0].kodaira.to_string(), "I5");
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct CurveData {

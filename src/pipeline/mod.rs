@@ -64,6 +64,9 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         torsion_points: torsion.points().iter().map(|p| data.to_input(p)).collect(),
         rank_lower: None,
         rank_upper: None,
+        descent_bounds: (None, None),
+        rank_proven_by: vec![],
+        sha2_dim: None,
         route: Route::None,
         isogeny_selmer_dims: None,
         points: vec![],
@@ -104,6 +107,10 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     combine(&mut report, data, &runs, full.as_ref(), options)?;
     report.isogeny_runs = runs;
     report.full_descent = full;
+    report.descent_bounds = (report.rank_lower, report.rank_upper);
+    if report.rank().is_some() {
+        report.rank_proven_by.push(crate::report::ProofRoute::Descent);
+    }
     for p in &report.points {
         if !data.input().contains(p) {
             return Err(Error::internal("the report", "a reported point is not on the input curve"));
@@ -112,9 +119,10 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     if options.evidence && !work.exhausted() {
         report.evidence = Some(evidence::compute(&report, data, work));
     }
+    settle_sha2(&mut report)?;
     if options.certificate {
         work.report(Stage::Certificate, "certificate of the rank proof");
-        match crate::certificate::Certificate::from_report(&report) {
+        match crate::certificate::Certificate::from_report_within(&report, work) {
             Ok(c) => report.certificate = Some(c.to_text()),
             Err(e) => {
                 if let Some(ev) = report.evidence.as_mut() {
@@ -265,6 +273,7 @@ fn combine(
                     quartic: q.coeffs(),
                     class: None,
                     searched_height: options.search_height,
+                    in_sha: false,
                 });
             }
         } else if let Some(best) = runs.iter().find(|r| r.upper == Some(u)) {
@@ -275,6 +284,7 @@ fn combine(
                         quartic: covering_quartic(d, &side.a, &side.b),
                         class: Some(d.clone()),
                         searched_height: options.search_height,
+                        in_sha: false,
                     });
                 }
             }
@@ -282,6 +292,38 @@ fn combine(
     }
     if runs.iter().any(|r| !r.search_complete) {
         report.budget_exhausted = true;
+    }
+    Ok(())
+}
+
+/// Once the rank is proven and dim Sel^2(E) known, Sha(E)\[2\] is determined:
+/// `dim Sha[2] = dim Sel^2(E) - rank - dim E(Q)[2]` (the exact sequence
+/// `0 -> E(Q)/2E(Q) -> Sel^2(E) -> Sha[2] -> 0`). With Sha finite its order
+/// is a square (the Cassels-Tate pairing is alternating: Cassels 1962), so
+/// an odd dimension is an internal inconsistency; Sha is finite when the
+/// rank is proven by the analytic route (Kolyvagin), and `dim Sha[2] = 0`
+/// when the descent bounds meet. For rank 0 every covering left unexplained
+/// is then a proven non-trivial element of Sha.
+fn settle_sha2(report: &mut RankReport) -> Result<(), Error> {
+    let (Some(r), Some(s)) = (report.rank(), report.two_selmer_dim) else { return Ok(()) };
+    let t = report.torsion.iter().filter(|n| *n % 2 == 0).count();
+    let Some(d) = s.checked_sub(r + t) else {
+        return Err(Error::internal("the rank decision", format!("the proven rank {r} exceeds dim Sel^2(E) - dim E(Q)[2] = {}", s as i64 - t as i64)));
+    };
+    if d % 2 == 1 {
+        return Err(Error::internal(
+            "the rank decision",
+            format!("dim Sha[2] = {d} is odd, which the Cassels-Tate pairing forbids for finite Sha"),
+        ));
+    }
+    report.sha2_dim = Some(d);
+    // the unexplained quartic classes span Sel^2 modulo the image of E(Q):
+    // with the rank proven they are exactly the non-trivial part of Sha[2]
+    let from_quartics = report.sha_suspects.iter().filter(|s| s.class.is_none()).count();
+    if d > 0 && from_quartics == d {
+        for s in report.sha_suspects.iter_mut().filter(|s| s.class.is_none()) {
+            s.in_sha = true;
+        }
     }
     Ok(())
 }

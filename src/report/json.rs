@@ -93,6 +93,8 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
     w.raw("rank_lower", &opt(r.rank_lower));
     w.raw("rank_upper", &opt(r.rank_upper));
     w.raw("rank", &opt(r.rank()));
+    w.raw("rank_proven_by", &list(&r.rank_proven_by, |p| quote(p.name())));
+    w.raw("descent_bounds", &format!("[{},{}]", opt(r.descent_bounds.0), opt(r.descent_bounds.1)));
     w.string("route", r.route.name());
     w.raw(
         "isogeny_selmer_dims",
@@ -111,6 +113,7 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
             })
             .unwrap_or_else(|| "null".into()),
     );
+    w.raw("sha2_order", &r.sha2_dim.map(|d| quote(&(malachite::Natural::from(1u32) << d).to_string())).unwrap_or_else(|| "null".into()));
     w.raw("points", &list(&r.points, point_json));
     w.raw(
         "sha_suspects",
@@ -121,6 +124,7 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
             o.raw("class", &s.class.as_ref().map(|c| quote(&c.to_string())).unwrap_or_else(|| "null".into()));
             o.raw("everywhere_locally_soluble", "true");
             o.raw("searched_height", &s.searched_height.to_string());
+            o.raw("in_sha", if s.in_sha { "true" } else { "false" });
             o.finish()
         }),
     );

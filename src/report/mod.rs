@@ -41,8 +41,41 @@ impl Route {
     }
 }
 
+/// A route that proved the rank.
+///
+/// ```
+/// use twofold::report::ProofRoute;
+/// assert_eq!(ProofRoute::Descent.name(), "descent");
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
+#[non_exhaustive]
+pub enum ProofRoute {
+    /// The lower and upper bounds of the 2-descent meet.
+    Descent,
+    /// The analytic rank is 0 or 1, proven by an enclosure of L(E,1) or
+    /// L'(E,1) that excludes zero and the proven root number; the rank then
+    /// equals it and Sha is finite (Gross-Zagier 1986, Kolyvagin 1988-1990,
+    /// with the modularity of elliptic curves over Q: Wiles 1995,
+    /// Taylor-Wiles 1995, Breuil-Conrad-Diamond-Taylor 2001).
+    Analytic,
+}
+
+impl ProofRoute {
+    /// The short name used in reports and JSON.
+    pub fn name(&self) -> &'static str {
+        match self {
+            ProofRoute::Descent => "descent",
+            ProofRoute::Analytic => "analytic",
+        }
+    }
+}
+
 /// An everywhere locally soluble 2-covering with no rational point found:
-/// a place where a non-trivial element of Sha could hide.
+/// a place where a non-trivial element of Sha could hide, or, once the rank
+/// is proven and the covering lies outside the image of E(Q), a proven
+/// non-trivial element of Sha[2] (`in_sha`).
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct ShaSuspect {
@@ -57,6 +90,9 @@ pub struct ShaSuspect {
     pub class: Option<Integer>,
     /// The search height that found no point.
     pub searched_height: u64,
+    /// Proven to represent a non-trivial element of Sha (the rank is proven
+    /// and the Selmer classes outside the image of E(Q) are exactly these).
+    pub in_sha: bool,
 }
 
 /// Everything twofold proved about one curve.
@@ -85,10 +121,21 @@ pub struct RankReport {
     pub torsion: Vec<u32>,
     /// Torsion points on the input model.
     pub torsion_points: Vec<Point>,
-    /// Proven lower bound for the rank.
+    /// Proven lower bound for the rank (by any route).
     pub rank_lower: Option<usize>,
-    /// Proven upper bound for the rank.
+    /// Proven upper bound for the rank (by any route).
     pub rank_upper: Option<usize>,
+    /// The bounds the 2-descent proved on its own (independent points found;
+    /// Selmer groups), before any other route.
+    pub descent_bounds: (Option<usize>, Option<usize>),
+    /// The routes that proved the rank (empty while it is open); when two
+    /// routes ran they agreed, or the analysis stopped with an internal
+    /// error.
+    pub rank_proven_by: Vec<ProofRoute>,
+    /// The proven dimension over F2 of Sha(E)\[2\] (its order is
+    /// `2^sha2_dim`): `dim Sel^2(E) - rank - dim E(Q)[2]`, known once the rank
+    /// is proven and Sel^2(E) computed.
+    pub sha2_dim: Option<usize>,
     /// Routes that ran.
     pub route: Route,
     /// Selmer dimensions (dim over E of divisors of b, dim over E' of divisors of b') of
@@ -170,7 +217,17 @@ impl fmt::Display for RankReport {
         writeln!(f, "  E(Q)_tors = {tors}")?;
         let show = |b: Option<usize>| b.map(|x| x.to_string()).unwrap_or_else(|| "?".into());
         match self.rank() {
-            Some(r) => writeln!(f, "  rank E(Q) = {r}, proven: the lower and upper bounds meet (route: {})", self.route.name())?,
+            Some(r) => {
+                let by: Vec<&str> = self
+                    .rank_proven_by
+                    .iter()
+                    .map(|p| match p {
+                        ProofRoute::Descent => "the descent bounds meet",
+                        ProofRoute::Analytic => "analytic rank proven (Gross-Zagier, Kolyvagin)",
+                    })
+                    .collect();
+                writeln!(f, "  rank E(Q) = {r}, proven: {} (descent route: {})", by.join("; and "), self.route.name())?
+            }
             None => writeln!(
                 f,
                 "  {} <= rank E(Q) <= {}, not proven (route: {})",
@@ -185,6 +242,9 @@ impl fmt::Display for RankReport {
                 writeln!(f, "    (quartic descent run on the {d}-isogenous curve {c}, whose Sel^2 is isomorphic)")?;
             }
         }
+        if let Some(d) = self.sha2_dim {
+            writeln!(f, "  #Sha(E)[2] = {}, proven (dim Sel^2(E) - rank - dim E(Q)[2])", 1u64 << d.min(63))?;
+        }
         if let Some((s, t)) = self.isogeny_selmer_dims {
             writeln!(f, "  2-isogeny Selmer groups of dimensions {s} and {t}")?;
         }
@@ -194,13 +254,16 @@ impl fmt::Display for RankReport {
             writeln!(f, "    independent: {}", self.independence)?;
         }
         for s in &self.sha_suspects {
-            writeln!(
-                f,
-                "  Sha could hide in y^2 = {} ({}): everywhere locally soluble, no point with height <= {}",
-                crate::quartic::Quartic::new(s.quartic.clone()),
-                s.origin,
-                s.searched_height
-            )?;
+            let g = crate::quartic::Quartic::new(s.quartic.clone());
+            if s.in_sha {
+                writeln!(f, "  y^2 = {g} ({}) is a non-trivial element of Sha: everywhere locally soluble, proven to have no rational point", s.origin)?;
+            } else {
+                writeln!(
+                    f,
+                    "  Sha could hide in y^2 = {g} ({}): everywhere locally soluble, no point with height <= {}",
+                    s.origin, s.searched_height
+                )?;
+            }
         }
         if let Some(ev) = &self.evidence {
             if let Some(g) = &ev.generators {
