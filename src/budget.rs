@@ -44,6 +44,11 @@ pub struct RankOptions {
     /// Height bound for point searches on coverings: coprime pairs with
     /// both coordinates at most this in absolute value.
     pub search_height: u64,
+    /// The highest height the covering searches are raised to, step by step
+    /// (doubling from `search_height`), while the lower and upper bounds do
+    /// not meet and the work has time; set it to `search_height` for one
+    /// fixed height.
+    pub search_height_ceiling: u64,
     /// Height bound for the direct search on the curve (numerators up to
     /// this, denominators up to its square root).
     pub curve_search_height: u64,
@@ -80,6 +85,7 @@ impl Default for RankOptions {
     fn default() -> Self {
         RankOptions {
             search_height: 300,
+            search_height_ceiling: 4800,
             curve_search_height: 1000,
             time_limit: None,
             cancel: None,
@@ -106,9 +112,17 @@ impl std::fmt::Debug for RankOptions {
 }
 
 impl RankOptions {
-    /// Sets the covering search height.
+    /// Sets the covering search height (the ceiling is raised to it if it
+    /// was lower).
     pub fn with_search_height(mut self, h: u64) -> Self {
         self.search_height = h;
+        self.search_height_ceiling = self.search_height_ceiling.max(h);
+        self
+    }
+    /// Sets the ceiling of the adaptive covering search (see
+    /// [`RankOptions::search_height_ceiling`]).
+    pub fn with_search_height_ceiling(mut self, h: u64) -> Self {
+        self.search_height_ceiling = h;
         self
     }
     /// Sets the wall-clock limit.

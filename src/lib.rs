@@ -27,11 +27,20 @@
 //!   a-invariants ([`Curve::from_coefficients`]) or text ([`Curve::parse`],
 //!   [`Curve::parse_scaled`] for rational models). [`Point`] is a rational
 //!   point with the group law on the curve; [`ModelChange`] a change of model.
-//! - [`RankOptions`] (in [`budget`]): search heights, a per-curve time limit,
-//!   a cancellation flag, a progress callback and the enumeration cap.
+//! - [`RankOptions`] (in [`budget`]): search heights (a first height and the
+//!   ceiling the adaptive search may raise it to), a per-curve time limit, a
+//!   cancellation flag, a progress callback and the enumeration cap.
+//!   [`analyse`] turns them into one [`Work`] (deadline, cancel flag,
+//!   progress) that every stage receives.
+//! - [`CurveData`]: the curve with its global minimal model, the change to
+//!   it, the bad primes, the local data at each and the conductor, built
+//!   once ([`analyse_data`] takes one you built yourself, e.g. with
+//!   [`CurveData::with_known_primes`] for a discriminant too hard to factor).
 //! - [`analyse`] returns a [`RankReport`]: minimal model, conductor, local
 //!   data ([`local::LocalData`], with its [`local::Kodaira`] symbol), torsion,
-//!   proven rank bounds, independent points on the input model, the
+//!   proven rank bounds and the routes that proved the rank
+//!   ([`report::ProofRoute`]), the proven order of Sha\[2\] when the rank
+//!   and Sel^2 are known, independent points on the input model, the
 //!   [`Route`] taken, Selmer dimensions, the isogeny descents
 //!   ([`descent::isogeny::IsogenyDescent`]) and the full 2-descent
 //!   ([`descent::full::FullDescent`]) with their local witnesses, and the

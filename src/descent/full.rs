@@ -75,6 +75,10 @@ pub struct FullDescent {
     pub unexplained: Vec<Quartic>,
     /// Whether the searches ran to their height bounds.
     pub search_complete: bool,
+    /// The height reached by the search on the coverings left unexplained
+    /// (raised step by step from `RankOptions::search_height` while the
+    /// bounds did not meet).
+    pub searched_height: u64,
 }
 
 
@@ -113,6 +117,7 @@ pub(crate) fn full_two_descent(
     bad_primes: &[Natural],
     options: &RankOptions,
     work: &Work,
+    enough: Option<usize>,
 ) -> Result<FullDescent, Error> {
     work.report(Stage::Solubility, "enumerating quartic 2-coverings");
     let i = curve.c4().clone();
@@ -135,6 +140,7 @@ pub(crate) fn full_two_descent(
         points: vec![],
         unexplained: vec![],
         search_complete: true,
+        searched_height: options.search_height,
     };
     // the places: R, 2, 3 and the primes of the discriminant (the quartics'
     // discriminant is 256 Delta; elsewhere solubility is automatic)
@@ -237,7 +243,11 @@ pub(crate) fn full_two_descent(
         }
         add_point(Point::Affine(x, y), &mut span, &mut out)?;
     }
-    // points on the coverings not yet explained
+    // points on the coverings not yet explained, at heights raised step by
+    // step (doubling from `search_height` up to `search_height_ceiling`)
+    // while the bounds do not meet and the work has time
+    let mut height = options.search_height;
+    loop {
     for (c, sq) in distinct.iter_mut() {
         if span.contains(c) {
             continue;
@@ -247,7 +257,7 @@ pub(crate) fn full_two_descent(
             break;
         }
         let (red, [[al, be], [ga, de]]) = reduce(&sq.quartic);
-        let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, options.search_height) };
+        let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, height) };
         let res = search_quartic(&red.coeffs(), &limits);
         out.search_complete &= res.complete || !res.points.is_empty();
         for qp in res.points {
@@ -266,6 +276,18 @@ pub(crate) fn full_two_descent(
                 break;
             }
         }
+    }
+    out.searched_height = height;
+    // a rank proven by another route (`enough`) also ends the ladder
+    let target = match (out.upper, enough) {
+        (Some(u), Some(e)) => Some(u.min(e)),
+        (u, e) => u.or(e),
+    };
+    let met = target.is_some_and(|u| span.dim() - two_torsion_dim >= u);
+    if met || target.is_none() || work.exhausted() || height >= options.search_height_ceiling {
+        break;
+    }
+    height = height.saturating_mul(2).min(options.search_height_ceiling);
     }
     out.found_dim = span.dim();
     out.lower = span.dim() - two_torsion_dim;
@@ -303,5 +325,5 @@ pub fn full_descent(curve: &Curve, options: &RankOptions) -> Result<FullDescent,
     let work = Work::new(options);
     let data = crate::local::CurveData::new(curve, &work)?;
     let torsion = TorsionGroup::compute(data.minimal(), data.bad_primes());
-    full_two_descent(data.minimal(), &torsion, data.bad_primes(), options, &work)
+    full_two_descent(data.minimal(), &torsion, data.bad_primes(), options, &work, None)
 }

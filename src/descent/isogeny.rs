@@ -108,6 +108,10 @@ pub struct IsogenyDescent {
     pub points: Vec<Point>,
     /// Whether the search was cut short by the budget.
     pub search_complete: bool,
+    /// The height reached by the search on the coverings of Selmer classes
+    /// left unexplained (raised step by step from
+    /// `RankOptions::search_height` while the bounds did not meet).
+    pub searched_height: u64,
 }
 
 /// The change between the curve's own model and `y^2 = x(x^2 + a x + b)`:
@@ -343,6 +347,7 @@ pub(crate) fn descend_via_isogeny(
     bad_primes: &[Natural],
     options: &RankOptions,
     work: &Work,
+    enough: Option<usize>,
 ) -> Result<IsogenyDescent, Error> {
     let model = TwoTorsionModel::new(curve, t).ok_or_else(|| Error::internal("the 2-isogeny descent", "2-torsion point is not integral on the short model"))?;
     let (a, b) = (model.a.clone(), model.b.clone());
@@ -439,7 +444,17 @@ pub(crate) fn descend_via_isogeny(
             }
         }
     }
-    // search on the coverings of Selmer classes not yet explained
+    // search on the coverings of Selmer classes not yet explained, at
+    // heights doubled from `search_height` up to `search_height_ceiling`
+    // while the bounds do not meet and the work has time
+    let selmer_bound: Option<usize> = if complete_selmer { Some(sides.iter().map(|w| w.selmer.dim() - w.torsion.dim()).sum()) } else { None };
+    // a rank proven by another route (`enough`) also ends the ladder
+    let upper_now = match (selmer_bound, enough) {
+        (Some(u), Some(e)) => Some(u.min(e)),
+        (u, e) => u.or(e),
+    };
+    let mut height = options.search_height;
+    loop {
     for k in 0..2 {
         let sel_elems = if sides[k].selmer.dim() <= 16 { sides[k].selmer.elements() } else { sides[k].selmer.basis().to_vec() };
         let mut order: Vec<(Integer, u64)> = sel_elems.into_iter().map(|v| (sides[k].classes.integer_of(v), v)).collect();
@@ -456,12 +471,7 @@ pub(crate) fn descend_via_isogeny(
                 break;
             }
             let g = covering_quartic(&d, &sides[k].a, &sides[k].b);
-            let limits = SearchLimits {
-                height: options.search_height,
-                first_only: true,
-                deadline: work.deadline(),
-                cancel: work.cancel_flag().cloned(),
-            };
+            let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, height) };
             let out = search_quartic(&g, &limits);
             search_complete &= out.complete;
             for qp in out.points {
@@ -485,6 +495,13 @@ pub(crate) fn descend_via_isogeny(
                 break;
             }
         }
+    }
+    let lower_now: usize = sides.iter().map(|w| w.found.dim() - w.torsion.dim()).sum();
+    let met = upper_now.is_some_and(|u| lower_now >= u);
+    if met || upper_now.is_none() || work.exhausted() || height >= options.search_height_ceiling {
+        break;
+    }
+    height = height.saturating_mul(2).min(options.search_height_ceiling);
     }
     // bounds and points
     let lower = sides.iter().map(|w| w.found.dim() - w.torsion.dim()).sum();
@@ -542,6 +559,7 @@ pub(crate) fn descend_via_isogeny(
         upper,
         points,
         search_complete,
+        searched_height: height,
     })
 }
 

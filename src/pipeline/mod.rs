@@ -82,6 +82,8 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         budget_exhausted: false,
         elapsed: work.elapsed(),
     };
+    // a rank proven by another route before the descents (none yet)
+    let enough: Option<usize> = None;
     let twos = torsion.two_torsion();
     let mut runs: Vec<IsogenyDescent> = Vec::new();
     for t in &twos {
@@ -89,7 +91,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
             report.budget_exhausted = true;
             break;
         }
-        runs.push(descend_via_isogeny(minimal, t, &torsion, primes, options, work).map_err(|e| e.in_stage("the 2-isogeny descent"))?);
+        runs.push(descend_via_isogeny(minimal, t, &torsion, primes, options, work, enough).map_err(|e| e.in_stage("the 2-isogeny descent"))?);
     }
     // the full 2-descent runs on every curve, except where the isogeny
     // route has already proven the rank (unless a cross-check is asked for)
@@ -102,9 +104,9 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     } else if settled && !options.cross_check_routes {
         None
     } else {
-        Some(quartic_route(minimal, &torsion, primes, options, work, &mut report).map_err(|e| e.in_stage("the quartic descent"))?)
+        Some(quartic_route(minimal, &torsion, primes, options, work, enough, &mut report).map_err(|e| e.in_stage("the quartic descent"))?)
     };
-    combine(&mut report, data, &runs, full.as_ref(), options)?;
+    combine(&mut report, data, &runs, full.as_ref())?;
     report.isogeny_runs = runs;
     report.full_descent = full;
     report.descent_bounds = (report.rank_lower, report.rank_upper);
@@ -158,22 +160,23 @@ fn quartic_route(
     primes: &[Natural],
     options: &RankOptions,
     work: &Work,
+    enough: Option<usize>,
     report: &mut RankReport,
 ) -> Result<FullDescent, Error> {
     use malachite::base::num::arithmetic::traits::UnsignedAbs;
     if minimal.c4().unsigned_abs() < ISOGENY_SHORTCUT_C4 {
-        return full_two_descent(minimal, torsion, primes, options, work);
+        return full_two_descent(minimal, torsion, primes, options, work, enough);
     }
     work.report(Stage::IsogenyClass, "odd-degree isogeny class");
     let class = crate::isogeny::odd_isogeny_class(minimal, primes)?;
     let best = class.smallest_c4();
     if best == 0 || class.curves[best].c4().unsigned_abs() * Natural::from(2u32) > minimal.c4().unsigned_abs() {
-        return full_two_descent(minimal, torsion, primes, options, work);
+        return full_two_descent(minimal, torsion, primes, options, work, enough);
     }
     let other = &class.curves[best];
     let degree = class.degree(0, best).unwrap_or(0);
     let other_torsion = TorsionGroup::compute(other, primes);
-    let mut f = full_two_descent(other, &other_torsion, primes, options, work)?;
+    let mut f = full_two_descent(other, &other_torsion, primes, options, work, enough)?;
     let mut mapped = Vec::new();
     for p in &f.points {
         match class.map_point(best, 0, p) {
@@ -195,7 +198,6 @@ fn combine(
     data: &CurveData,
     runs: &[IsogenyDescent],
     full: Option<&FullDescent>,
-    options: &RankOptions,
 ) -> Result<(), Error> {
     let to_input = |p: &Point| data.to_input(p);
     let mut lower: Option<(usize, Vec<Point>, String)> = None;
@@ -272,7 +274,7 @@ fn combine(
                     origin: origin.clone(),
                     quartic: q.coeffs(),
                     class: None,
-                    searched_height: options.search_height,
+                    searched_height: f.searched_height,
                     in_sha: false,
                 });
             }
@@ -283,7 +285,7 @@ fn combine(
                         origin: format!("2-isogeny with kernel {}, covering of {name}", best.kernel_point),
                         quartic: covering_quartic(d, &side.a, &side.b),
                         class: Some(d.clone()),
-                        searched_height: options.search_height,
+                        searched_height: best.searched_height,
                         in_sha: false,
                     });
                 }
