@@ -357,6 +357,62 @@ pub(crate) fn real_negative(g: &[Integer; 5]) -> Option<bool> {
     Some(*a < 0u32 && *e < 0u32 && (*c <= 0u32 || c * c <= Integer::from(4) * a * e))
 }
 
+// ---- modular arithmetic in machine words (moved from verify.rs) ----
+
+pub(crate) fn small_primes(limit: u64) -> impl Iterator<Item = u64> {
+    (3..limit).filter(|&n| (2..).take_while(|d| d * d <= n).all(|d| n % d != 0))
+}
+
+pub(crate) fn modq(n: &Integer, q: u64) -> u64 {
+    u64::try_from(&n.mod_op(Integer::from(q))).expect("reduced")
+}
+
+pub(crate) fn cubic_mod(b: &[Integer; 3], q: u64) -> [u64; 4] {
+    // f(x) = 4x^3 + b2 x^2 + 2 b4 x + b6 mod q, high to low
+    [4 % q, modq(&b[0], q), modq(&(Integer::from(2) * &b[1]), q), modq(&b[2], q)]
+}
+
+pub(crate) fn eval_cubic(f: &[u64; 4], x: u64, q: u64) -> u64 {
+    let mut acc = 0u128;
+    for &c in f {
+        acc = (acc * x as u128 + c as u128) % q as u128;
+    }
+    acc as u64
+}
+
+/// Whether the 2-division cubic has no root modulo some good prime below 3000
+/// (then it has no rational root).
+pub(crate) fn cubic_rootless_somewhere(b: &[Integer; 3], disc: &Integer) -> bool {
+    for q in small_primes(3000) {
+        if disc.mod_op(Integer::from(q)) == 0u32 {
+            continue;
+        }
+        let f = cubic_mod(b, q);
+        if (0..q).all(|x| eval_cubic(&f, x, q) != 0) {
+            return true;
+        }
+    }
+    false
+}
+
+pub(crate) fn legendre_u64(a: u64, q: u64) -> i8 {
+    legendre(&Integer::from(a), &Integer::from(q))
+}
+
+pub(crate) fn pow_mod(mut a: u64, mut e: u64, q: u64) -> u64 {
+    let mut r = 1u128;
+    let mut b = a as u128 % q as u128;
+    while e > 0 {
+        if e & 1 == 1 {
+            r = r * b % q as u128;
+        }
+        b = b * b % q as u128;
+        e >>= 1;
+    }
+    a = r as u64;
+    a
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -4,6 +4,7 @@ use super::check::{
     eval4, f2_rank, invariants4, is_padic_square, is_prime_small, is_rational_square, legendre, padic_point_search,
     real_negative, split, square_class_vector, LocalAnswer, Model,
 };
+use super::check::{cubic_mod, cubic_rootless_somewhere, eval_cubic, legendre_u64, modq, pow_mod, small_primes};
 use super::{Certificate, IsogenyProof, LocalPoint, QuarticProof, SideProof};
 use crate::solubility::Place;
 use malachite::base::num::arithmetic::traits::{Gcd, Mod, UnsignedAbs};
@@ -439,46 +440,6 @@ pub fn verify(c: &Certificate) -> Result<VerifiedClaims, CertificateError> {
     })
 }
 
-fn small_primes(limit: u64) -> impl Iterator<Item = u64> {
-    (3..limit).filter(|&n| (2..).take_while(|d| d * d <= n).all(|d| n % d != 0))
-}
-
-fn modq(n: &Integer, q: u64) -> u64 {
-    u64::try_from(&n.mod_op(Integer::from(q))).expect("reduced")
-}
-
-fn cubic_mod(b: &[Integer; 3], q: u64) -> [u64; 4] {
-    // f(x) = 4x^3 + b2 x^2 + 2 b4 x + b6 mod q, high to low
-    [4 % q, modq(&b[0], q), modq(&(Integer::from(2) * &b[1]), q), modq(&b[2], q)]
-}
-
-fn eval_cubic(f: &[u64; 4], x: u64, q: u64) -> u64 {
-    let mut acc = 0u128;
-    for &c in f {
-        acc = (acc * x as u128 + c as u128) % q as u128;
-    }
-    acc as u64
-}
-
-/// Whether the 2-division cubic has no root modulo some good prime below 3000
-/// (then it has no rational root).
-fn cubic_rootless_somewhere(b: &[Integer; 3], disc: &Integer) -> bool {
-    for q in small_primes(3000) {
-        if disc.mod_op(Integer::from(q)) == 0u32 {
-            continue;
-        }
-        let f = cubic_mod(b, q);
-        if (0..q).all(|x| eval_cubic(&f, x, q) != 0) {
-            return true;
-        }
-    }
-    false
-}
-
-fn legendre_u64(a: u64, q: u64) -> i8 {
-    legendre(&Integer::from(a), &Integer::from(q))
-}
-
 /// The F2 rank of the images of `rows` under the quadratic characters
 /// at good odd primes.
 fn character_rank(rows: &[(Rational, Rational)], coefficients: &[Integer; 5], disc: &Integer) -> usize {
@@ -526,20 +487,6 @@ fn character_rank(rows: &[(Rational, Rational)], coefficients: &[Integer; 5], di
         }
     }
     f2_rank(&columns)
-}
-
-fn pow_mod(mut a: u64, mut e: u64, q: u64) -> u64 {
-    let mut r = 1u128;
-    let mut b = a as u128 % q as u128;
-    while e > 0 {
-        if e & 1 == 1 {
-            r = r * b % q as u128;
-        }
-        b = b * b % q as u128;
-        e >>= 1;
-    }
-    a = r as u64;
-    a
 }
 
 /// F2 coordinates of a non-zero integer in `Q_v*/Q_v*^2`: 1 bit at R,

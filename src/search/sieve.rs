@@ -622,35 +622,3 @@ mod tests {
     }
 }
 
-#[cfg(test)]
-mod timing {
-    use super::*;
-    #[test]
-    #[ignore]
-    fn time_parts() {
-        let form = Form::new(vec![(Integer::from(-34), 4, 0), (Integer::from(2), 0, 4)]);
-        let t = Instant::now();
-        for _ in 0..100 {
-            std::hint::black_box(Sieve::new(form.clone(), 1, 100));
-        }
-        eprintln!("build 100: {:?} {:?}", t.elapsed() / 100, Sieve::new(form.clone(), 1, 100).moduli());
-        let t = Instant::now();
-        for _ in 0..100 {
-            std::hint::black_box(Sieve::new(form.clone(), 1, 100000));
-        }
-        eprintln!("build 1e5: {:?} {:?}", t.elapsed() / 100, Sieve::new(form.clone(), 1, 100000).moduli());
-        let sv = Sieve::new(form.clone(), 1, 100);
-        let lim = SearchLimits::new(100);
-        let t = Instant::now();
-        for _ in 0..100 {
-            let mut clock = Clock::new(&lim);
-            std::hint::black_box(sv.run(100, &mut clock, &mut |_, _, _| false));
-        }
-        eprintln!("run 100: {:?}", t.elapsed() / 100);
-        let t = Instant::now();
-        for _ in 0..100 {
-            std::hint::black_box(FastForm::new(&form, 100, 100));
-        }
-        eprintln!("fast: {:?}", t.elapsed() / 100);
-    }
-}
