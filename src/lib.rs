@@ -115,6 +115,7 @@ pub mod enclosure;
 pub mod heights;
 pub mod isogeny;
 pub mod local;
+pub mod lproof;
 pub mod lseries;
 pub mod quartic;
 pub mod report;

@@ -275,10 +275,20 @@ impl Interval {
         Interval { lo: lo.max(0.0), hi }
     }
 
-    /// `e^x E_1(x)` for a point `x > 2` (the scaled continued fraction),
-    /// without the factor `e^{-x}`.
-    pub(crate) fn scaled_e1_point_cf(x: f64) -> Interval {
-        e1_scaled_cf(x)
+    /// `E_1` on a narrow interval `x > 0` with one evaluation: the value at
+    /// `lo`, widened downwards by `(hi - lo) e^{-lo}/lo`, a bound for the
+    /// decrease of `E_1` (whose derivative is `-e^{-t}/t`) over `[lo, hi]`.
+    pub(crate) fn exp_integral_e1_narrow(&self) -> Interval {
+        if !(self.lo > 0.0) || !self.hi.is_finite() {
+            return self.exp_integral_e1();
+        }
+        let at = e1_point(self.lo);
+        let w = self.width();
+        if w == 0.0 {
+            return at;
+        }
+        let slope = up(exp_point(-self.lo).hi / self.lo);
+        Interval { lo: down(at.lo - up(w * slope)).max(0.0), hi: at.hi }
     }
 }
 
