@@ -364,6 +364,69 @@ fn sanitize(lo: f64, hi: f64) -> Interval {
     }
 }
 
+/// `C(x) = e^x E_1(x) = ∫_0^∞ e^{-xu} du/(1+u)` near a base point `x0 >= 2`
+/// by its Taylor polynomial, for many nearby arguments at the cost of one
+/// continued fraction. `C' = C - 1/x` gives the coefficients
+/// `d_{k+1} = (d_k - (-1)^k x0^{-k-1}) / (k+1)`, and `C` is completely
+/// monotone with `|C^{(k)}(x)| <= k!/x^{k+1}`, so the remainder after
+/// degree `K` at `x0 + δ` is at most `δ^{K+1} / x0^{K+2}`.
+#[derive(Clone, Debug)]
+pub(crate) struct ScaledE1Taylor {
+    coef: Vec<Interval>,
+    /// `δ_max^{K+1} / x0_lo^{K+2}` (upper bound).
+    remainder: f64,
+}
+
+impl ScaledE1Taylor {
+    /// An expansion at `x0` (an interval, `x0.lo >= 2`) valid for
+    /// `0 <= δ <= delta_max`, or `None` if `delta_max / x0` is too large for
+    /// a degree up to 40 to reach `1e-18` relative.
+    pub(crate) fn new(x0: Interval, delta_max: f64) -> Option<ScaledE1Taylor> {
+        if !(x0.lo >= 2.0) || !x0.hi.is_finite() {
+            return None;
+        }
+        let ratio = up(delta_max / x0.lo);
+        if ratio > 0.5 {
+            return None;
+        }
+        // degree: ratio^{K+1} <= 1e-18
+        let mut k = 1usize;
+        let mut r = ratio;
+        while r > 1e-18 && k < 40 {
+            r = up(r * ratio);
+            k += 1;
+        }
+        if r > 1e-18 {
+            return None;
+        }
+        // C(x0): decreasing, so between C(hi) and C(lo)
+        let c_at = e1_scaled_cf(x0.lo).hull(&e1_scaled_cf(x0.hi));
+        let inv = Interval::point(1.0) / x0;
+        let mut coef = Vec::with_capacity(k + 1);
+        coef.push(c_at);
+        let mut pw = inv; // x0^{-k-1}
+        for j in 0..k {
+            let prev = coef[j];
+            let t = if j % 2 == 0 { prev - pw } else { prev + pw };
+            coef.push(t / Interval::point((j + 1) as f64));
+            pw = pw * inv;
+        }
+        // remainder δ^{K+1}/x0^{K+2} = (δ/x0)^{K+1} / x0
+        let remainder = up(r / x0.lo);
+        Some(ScaledE1Taylor { coef, remainder })
+    }
+
+    /// `C(x0 + δ)` for an enclosure `δ` of the offset (`0 <= δ <= delta_max`).
+    #[inline]
+    pub(crate) fn eval(&self, delta: Interval) -> Interval {
+        let mut acc = self.coef[self.coef.len() - 1];
+        for c in self.coef[..self.coef.len() - 1].iter().rev() {
+            acc = *c + acc * delta;
+        }
+        acc + Interval::symmetric(self.remainder)
+    }
+}
+
 /// `π`: `std::f64::consts::PI = 3.141592653589793115997963…` is below
 /// `π = 3.14159265358979323846…` and the next `f64` above it
 /// (A&S Table 1.1; checked in the unit tests with exact rationals and by
@@ -693,6 +756,22 @@ mod tests {
             assert!(v.lo() < (1.0 + 1.0 / x).ln() * (1.0 + 1e-12) && v.hi() > 0.5 * (1.0 + 2.0 / x).ln() * (1.0 - 1e-12), "x = {x}");
             assert!(v.width() < 1e-14 * (x + 10.0) * v.hi(), "x = {x}: {v:?}");
         }
+    }
+
+    #[test]
+    fn taylor_expansion_of_the_scaled_e1_matches_the_fraction() {
+        for x0 in [2.0, 3.5, 10.0, 33.0] {
+            let t = ScaledE1Taylor::new(Interval::point(x0), 0.05).unwrap();
+            for j in 0..=10 {
+                let d = 0.005 * j as f64;
+                let x = x0 + d; // rounded; compare with the enclosure at the rounded point
+                let direct = e1_scaled_cf(x);
+                let via = t.eval(Interval::point(x) - Interval::point(x0));
+                assert!(via.overlaps(&direct), "x0 = {x0}, d = {d}: {via:?} {direct:?}");
+                assert!(via.width() < 3e-13 * via.hi(), "{via:?}");
+            }
+        }
+        assert!(ScaledE1Taylor::new(Interval::point(2.0), 1.5).is_none());
     }
 
     #[test]

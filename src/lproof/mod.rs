@@ -48,7 +48,7 @@ mod trace;
 
 use crate::arith::FactorLimits;
 use crate::curve::Curve;
-use crate::enclosure::{pi, Interval};
+use crate::enclosure::{pi, Interval, ScaledE1Taylor};
 use crate::error::{Error, ErrorKind};
 use malachite::Natural;
 use std::sync::atomic::Ordering;
@@ -302,12 +302,33 @@ fn l_value_from(src: &mut CoefficientSource, n: u64, order: u8, limits: &FactorL
                     w = w * q;
                 }
             } else {
-                for (j, &an) in a.iter().enumerate().take(end).skip(i) {
-                    if an != 0 {
-                        let kf = (lo + j as u64) as f64;
-                        let x = c * Interval::point(kf);
-                        let g = x.exp_integral_e1_narrow();
-                        block = block + Interval::from_i64(an) * g / Interval::point(kf);
+                let n0 = lo + i as u64;
+                let x0 = c * Interval::point(n0 as f64);
+                let span = (end - i - 1) as f64;
+                let taylor = if x0.lo() >= 2.0 { ScaledE1Taylor::new(x0, (c * Interval::point(span)).hi()) } else { None };
+                match taylor {
+                    Some(t) => {
+                        // E_1(x_n) = e^{-x_n} C(x_n), e^{-x_n} by the ratio q
+                        let mut w = weight_at(c, n0);
+                        for (j, &an) in a.iter().enumerate().take(end).skip(i) {
+                            if an != 0 {
+                                let kf = (lo + j as u64) as f64;
+                                let delta = c * Interval::point((j - i) as f64);
+                                let g = w * t.eval(delta);
+                                block = block + Interval::from_i64(an) * g / Interval::point(kf);
+                            }
+                            w = w * q;
+                        }
+                    }
+                    None => {
+                        for (j, &an) in a.iter().enumerate().take(end).skip(i) {
+                            if an != 0 {
+                                let kf = (lo + j as u64) as f64;
+                                let x = c * Interval::point(kf);
+                                let g = x.exp_integral_e1_narrow();
+                                block = block + Interval::from_i64(an) * g / Interval::point(kf);
+                            }
+                        }
                     }
                 }
             }
