@@ -480,6 +480,16 @@ pub fn prove_root_number(minimal: &Curve, conductor: &Natural, limits: &FactorLi
     root_number_from(&mut src, n, limits)
 }
 
+/// [`prove_root_number`] for callers that already have the bad primes
+/// with their `a_p` (and have checked the conductor).
+pub(crate) fn root_number_with_bad(minimal: &Curve, n: u64, bad_ap: Vec<(u64, i64)>, limits: &FactorLimits) -> Result<RootNumberProof, Error> {
+    if n > PROOF_MAX_CONDUCTOR {
+        return Err(bad(ErrorKind::TooLarge, format!("conductor {n} above the limit {PROOF_MAX_CONDUCTOR}")));
+    }
+    let mut src = CoefficientSource::new(minimal, bad_ap);
+    root_number_from(&mut src, n, limits)
+}
+
 /// The root number by [`prove_root_number`], then the leading value of its
 /// parity by [`prove_l_value`], sharing the table of `a_p` (the second pass
 /// costs only the sieve and the series). `rank` is `Some(0)` or `Some(1)`

@@ -222,6 +222,7 @@ mod tests {
             let mut again = vec![0i64];
             src.run(m, &|| false, &mut |_, a| again.extend_from_slice(a)).unwrap();
             assert_eq!(again, direct);
+            assert!(src.fallbacks() <= 2);
         }
     }
 }
