@@ -119,3 +119,23 @@ fn wrong_input_and_budget() {
     let v = prove_l_value(&e, &Natural::from(37u32), -1, &expired).unwrap();
     assert!(!v.complete && v.low <= 0.3059997738340523 && 0.3059997738340523 <= v.high);
 }
+
+/// Larger conductors (curves of our own choosing, prime conductor computed
+/// by the library): the proven enclosure contains the f64 value of lseries
+/// (an independent computation: the old point counter and the f64 G-functions
+/// with a hand-derived error bound).
+#[test]
+fn larger_conductors_against_the_f64_path() {
+    let lim = FactorLimits::default();
+    for (a, n) in [([0, 0, 1, -23, 1], 778013u64), ([0, 0, 1, 26, 1], 1125539), ([0, 0, 1, -119, 1], 107849501)] {
+        let e = Curve::from_coefficients(a).unwrap();
+        let nn = Natural::from(n);
+        let p = prove_analytic_rank(&e, &nn, &lim).unwrap();
+        let w = p.root_number.sign.unwrap();
+        let v = p.value.unwrap();
+        let f = special_values(&e, &nn, w, 1).unwrap();
+        let fv = &f[v.order as usize];
+        assert!(v.low <= fv.value + fv.error && fv.value - fv.error <= v.high, "{a:?}: {v:?} vs {fv:?}");
+        assert!(v.nonzero_proven() && v.high - v.low < 1e-9);
+    }
+}

@@ -222,9 +222,9 @@ fn weight_at(c: Interval, n: u64) -> Interval {
 }
 
 /// The least `M` (by an `f64` search) with `bound(M) <= TAIL_GOAL`.
-fn terms_for(bound: &dyn Fn(u64) -> f64) -> u64 {
+fn terms_for(bound: &dyn Fn(u64) -> f64, goal: f64) -> u64 {
     let (mut lo, mut hi) = (1u64, 2u64);
-    while bound(hi) > TAIL_GOAL {
+    while bound(hi) > goal {
         lo = hi;
         hi *= 2;
         if hi > 1 << 40 {
@@ -233,7 +233,7 @@ fn terms_for(bound: &dyn Fn(u64) -> f64) -> u64 {
     }
     while hi - lo > 1 {
         let mid = (lo + hi) / 2;
-        if bound(mid) > TAIL_GOAL {
+        if bound(mid) > goal {
             lo = mid;
         } else {
             hi = mid;
@@ -269,12 +269,12 @@ fn l_terms(c: f64, order: u8) -> u64 {
         } else {
             base / x
         }
-    })
+    }, TAIL_GOAL)
 }
 
-fn theta_terms(c: f64) -> u64 {
+fn theta_terms(c: f64, goal: f64) -> u64 {
     let one_minus = -(-c).exp_m1();
-    terms_for(&|m| 2.0 * (m + 1) as f64 * (-((m + 1) as f64) * c).exp() / (one_minus * one_minus))
+    terms_for(&|m| 2.0 * (m + 1) as f64 * (-((m + 1) as f64) * c).exp() / (one_minus * one_minus), goal)
 }
 
 /// Sums `2 Σ a_n/n G(cn)` with `G = exp(-x)` (order 0) or `E_1` (order 1).
@@ -381,18 +381,20 @@ pub fn prove_l_value(minimal: &Curve, conductor: &Natural, root_number: i8, limi
     l_value_from(&mut src, n, order, limits)
 }
 
-/// The values of `t` tried in turn (exact binary fractions).
-const TS: [f64; 5] = [1.125, 1.25, 1.0625, 1.375, 1.5];
+/// The values of `t` tried in turn (exact binary fractions) with the tail
+/// aimed at: a loose tail first (the wrong sign is off by `2|F(1/t)|`,
+/// rarely tiny), a tight one if that does not separate the signs.
+const TS: [(f64, f64); 6] = [(1.0625, 1e-8), (1.125, 1e-8), (1.25, 1e-8), (1.125, 1e-13), (1.375, 1e-13), (1.5, 1e-13)];
 
 fn root_number_from(src: &mut CoefficientSource, n: u64, limits: &FactorLimits) -> Result<RootNumberProof, Error> {
     let c = step(n);
     let stop = stopper(limits);
     let mut last = None;
-    for t in TS {
+    for (t, goal) in TS {
         let ti = Interval::point(t);
         let c_small = c / ti; // F(1/t)
         let c_large = c * ti; // F(t)
-        let m = theta_terms(c_small.mid());
+        let m = theta_terms(c_small.mid(), goal);
         if m > stream::MAX_TERMS {
             return Err(bad(ErrorKind::TooLarge, format!("{m} terms needed, above the table limit")));
         }
@@ -532,7 +534,7 @@ mod tests {
             let m1 = l_terms(cf, 1);
             let direct1: f64 = ((m1 + 1)..(m1 + 400_000)).map(|k| 4.0 * (-(k as f64) * cf).exp() / (k as f64 * cf)).sum();
             assert!(direct1 <= tail_value(c, m1, 1), "{cf}");
-            let mt = theta_terms(cf);
+            let mt = theta_terms(cf, TAIL_GOAL);
             let direct_t: f64 = ((mt + 1)..(mt + 400_000)).map(|k| 2.0 * k as f64 * (-(k as f64) * cf).exp()).sum();
             assert!(direct_t <= theta_tail(c, mt), "{cf}");
         }
