@@ -120,9 +120,11 @@ pub mod curve;
 #[cfg(feature = "serde")]
 pub mod decimal_serde;
 pub mod descent;
+pub mod enclosure;
 pub mod heights;
 pub mod isogeny;
 pub mod local;
+pub mod lproof;
 pub mod lseries;
 mod pipeline;
 pub mod quartic;

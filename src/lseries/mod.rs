@@ -221,7 +221,7 @@ fn checked_conductor(conductor: &Natural) -> Result<u64, Error> {
 
 /// `(p, a_p)` at the primes dividing the conductor, after checking the
 /// conductor exponents and that the model has good reduction elsewhere.
-fn bad_primes(curve: &Curve, n: u64) -> Result<Vec<(u64, i64)>, Error> {
+pub(crate) fn bad_primes(curve: &Curve, n: u64) -> Result<Vec<(u64, i64)>, Error> {
     let f = factor_u64(n)?;
     let mut out = Vec::new();
     let mut disc = curve.discriminant().clone();

@@ -47,14 +47,19 @@
 //!   `Λ(s) = N^{s/2} (2π)^{-s} Γ(s) L(E, s) = ∫ F(y) y^{s-1} dy`; J. E.
 //!   Cremona, *Algorithms for Modular Elliptic Curves*, 2nd ed., §2.11–2.13;
 //!   T. Dokchitser, "Computing special values of motivic L-functions",
-//!   Experiment. Math. 13, 2004). Both sides are summed in `f64` at
-//!   `y = t > 1` and `1/t`, with an explicit bound on the truncation error
-//!   (from `|a_n| ≤ d(n) sqrt(n) ≤ 2n`) and on the rounding error. The
-//!   sign is accepted only when the wrong candidate is excluded by the bound
-//!   and the right one fits inside it. This is a proof given the modularity
-//!   theorem, exact `a_n` and conductor (computed exactly here) and the
-//!   platform's `exp` being accurate to a few ulps (which IEEE-754 does not
-//!   require); treat it as numerical evidence of that strength.
+//!   Experiment. Math. 13, 2004). Both sides are enclosed in interval
+//!   arithmetic at `y = t > 1` and `1/t` (our own enclosures of `π` and
+//!   `exp`, every rounding outward, see [`crate::enclosure`]) with a proven
+//!   truncation bound (from `|a_n| ≤ d(n) sqrt(n) ≤ 2n`); a sign is
+//!   accepted when the enclosure for the other sign excludes 0, and both
+//!   excluded is reported as an internal inconsistency. This is a proof
+//!   given the modularity theorem (Wiles 1995; Taylor and Wiles 1995;
+//!   Breuil, Conrad, Diamond and Taylor 2001) and the exact `a_n` and
+//!   conductor (computed exactly here); the method is
+//!   [`crate::lproof::prove_root_number`]. It honours the deadline and
+//!   cancel flag of the [`FactorLimits`] passed in: when they end it, a
+//!   sign that only it could decide is reported as "cut short" (an error
+//!   of kind [`ErrorKind::Budget`]).
 //!
 //! [`root_number`] combines them: if every local root number is known the
 //! global one follows, and for conductors up to [`NUMERIC_CHECK_CONDUCTOR`]
@@ -218,14 +223,14 @@ pub fn root_number_with_limits(curve: &Curve, limits: &FactorLimits) -> Result<R
     if unknown.is_empty() {
         let global = -product;
         let method = if *n <= NUMERIC_CHECK_CONDUCTOR {
-            match numeric::decide(&setup)? {
+            match numeric::decide(&setup, limits)? {
                 numeric::Verdict::Sign(s) if s == global => RootNumberMethod::LocalAndNumerical,
                 numeric::Verdict::Sign(s) => {
                     return Err(internal(&format!(
                         "local formulas give w = {global} but the functional equation gives {s} (conductor {n})"
                     )))
                 }
-                numeric::Verdict::Inconclusive => RootNumberMethod::LocalFormulas,
+                numeric::Verdict::Inconclusive | numeric::Verdict::CutShort(_) => RootNumberMethod::LocalFormulas,
             }
         } else {
             RootNumberMethod::LocalFormulas
@@ -242,8 +247,18 @@ pub fn root_number_with_limits(curve: &Curve, limits: &FactorLimits) -> Result<R
             ),
         ));
     }
-    let global = match numeric::decide(&setup)? {
+    let global = match numeric::decide(&setup, limits)? {
         numeric::Verdict::Sign(s) => s,
+        numeric::Verdict::CutShort(terms) => {
+            return Err(Error::new(
+                ErrorKind::Budget,
+                format!(
+                    "cut short: the budget ended the test of the functional equation after {terms} coefficients \
+                     (conductor {n}); the local root number at {} is not covered by the local formulas",
+                    unknown.iter().map(|p| p.to_string()).collect::<Vec<_>>().join(" and ")
+                ),
+            ))
+        }
         numeric::Verdict::Inconclusive => {
             return Err(Error::new(
                 ErrorKind::Budget,
@@ -283,9 +298,9 @@ pub fn root_number_numerical(curve: &Curve) -> Option<i8> {
     if setup.conductor > NUMERIC_MAX_CONDUCTOR {
         return None;
     }
-    match numeric::decide(&setup).ok()? {
+    match numeric::decide(&setup, &FactorLimits::default()).ok()? {
         numeric::Verdict::Sign(s) => Some(s),
-        numeric::Verdict::Inconclusive => None,
+        _ => None,
     }
 }
 

@@ -1,0 +1,141 @@
+//! Proven L-values and root numbers against the published tables and an
+//! independent f64 computation.
+
+use malachite::Natural;
+use twofold::arith::FactorLimits;
+use twofold::lproof::{prove_analytic_rank, prove_l_value, prove_root_number};
+use twofold::lseries::special_values;
+use twofold::Curve;
+
+fn rows(path: &str, with_class: bool) -> Vec<(u64, u32, [i64; 5], u32)> {
+    let text = std::fs::read_to_string(path).expect("table in ../shared/data");
+    let mut out = Vec::new();
+    for line in text.lines().filter(|l| !l.starts_with('#') && !l.trim().is_empty()) {
+        let f: Vec<i64> = line.split_whitespace().map(|x| x.parse().unwrap()).collect();
+        let (n, class, k) = if with_class { (f[0] as u64, f[1] as u32, 2) } else { (f[0] as u64, 0, 1) };
+        let a = [f[k], f[k + 1], f[k + 2], f[k + 3], f[k + 4]];
+        out.push((n, class, a, f[k + 5] as u32));
+    }
+    out
+}
+
+fn all_table_curves() -> Vec<(u64, u32, [i64; 5], u32)> {
+    let mut v = rows("../shared/data/curves-small-conductor.tsv", true);
+    v.extend(rows("../shared/data/curves-with-sha.tsv", false));
+    v
+}
+
+/// Every curve of both tables (J. E. Cremona, Algorithms for Modular
+/// Elliptic Curves, 2nd ed., 1997, Table 1, and the list of curves with
+/// non-trivial Sha in ../shared/data): the proven root number is
+/// (-1)^rank, the proven leading value excludes 0 (every curve there has
+/// analytic rank 0 or 1), and contains the f64 value of lseries (an
+/// independent computation with its own error bound).
+#[test]
+fn every_table_curve_gets_its_rank_proven() {
+    let lim = FactorLimits::default();
+    let curves = all_table_curves();
+    assert_eq!(curves.len(), 595);
+    for (n, _, a, rank) in curves {
+        let e = Curve::from_coefficients(a).unwrap();
+        let nn = Natural::from(n);
+        let p = prove_analytic_rank(&e, &nn, &lim).unwrap();
+        let w = if rank % 2 == 0 { 1 } else { -1 };
+        assert_eq!(p.root_number.sign, Some(w), "{a:?}");
+        assert_eq!(p.rank, Some(rank as u8), "{a:?}");
+        let v = p.value.unwrap();
+        assert!(v.complete && v.high - v.low < 1e-9, "{a:?}: {v:?}");
+        let f = special_values(&e, &nn, w, 1).unwrap();
+        let fv = &f[rank as usize];
+        assert!(v.low <= fv.value + fv.error && fv.value - fv.error <= v.high, "{a:?}: {v:?} vs {fv:?}");
+    }
+}
+
+/// Curves of one isogeny class have the same L-function (Faltings'
+/// isogeny theorem the other way round: isogenous curves have equal a_p),
+/// so their enclosures must be equal; a change of model leaves them equal.
+#[test]
+fn equal_for_isogenous_curves_and_invariant_under_change_of_model() {
+    let lim = FactorLimits::default();
+    let curves = rows("../shared/data/curves-small-conductor.tsv", true);
+    let mut prev: Option<((u64, u32), twofold::lproof::ProvenLValue)> = None;
+    for (n, class, a, rank) in curves.into_iter().take(200) {
+        let e = Curve::from_coefficients(a).unwrap();
+        let w = if rank % 2 == 0 { 1 } else { -1 };
+        let v = prove_l_value(&e, &Natural::from(n), w, &lim).unwrap();
+        if let Some((key, pv)) = &prev {
+            if *key == (n, class) {
+                assert_eq!(pv, &v, "{a:?}");
+            }
+        }
+        prev = Some(((n, class), v.clone()));
+    }
+    // a non-minimal model (x -> 4x, y -> 8y) of y^2 + y = x^3 - x^2 - 10x - 20 reduces
+    // to the same minimal model, hence the same enclosure
+    let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
+    let big = Curve::from_coefficients([0, -4, 8, -160, -1280]).unwrap();
+    let (m, _) = big.minimal_model(&[Natural::from(2u32), Natural::from(11u32)]).unwrap();
+    let lim = FactorLimits::default();
+    assert_eq!(prove_l_value(&m, &Natural::from(11u32), 1, &lim).unwrap(), prove_l_value(&e, &Natural::from(11u32), 1, &lim).unwrap());
+    // the non-minimal model itself is refused (its discriminant has a factor 2^12 prime to the conductor)
+    assert!(prove_l_value(&big, &Natural::from(11u32), 1, &lim).is_err());
+}
+
+/// Published values (from memory): L(E,1) of y^2 + y = x^3 - x^2 - 10x - 20
+/// and L'(E,1) of y^2 + y = x^3 - x.
+#[test]
+fn known_values_inside_the_enclosures() {
+    let lim = FactorLimits::default();
+    let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
+    let v = prove_l_value(&e, &Natural::from(11u32), 1, &lim).unwrap();
+    assert!(v.low <= 0.2538418608559106 && 0.2538418608559106 <= v.high, "{v:?}");
+    let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
+    let v = prove_l_value(&e, &Natural::from(37u32), -1, &lim).unwrap();
+    assert!(v.low <= 0.3059997738340523 && 0.3059997738340523 <= v.high, "{v:?}");
+    assert!(v.high - v.low < 5e-12, "{v:?}");
+    // the rank-2 curve y^2 + y = x^3 + x^2 - 2x (conductor 389): w = +1 and
+    // L(E,1) = 0, so the enclosure must contain 0 and the rank stays undecided
+    let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap();
+    let a = prove_analytic_rank(&e, &Natural::from(389u32), &lim).unwrap();
+    assert_eq!(a.root_number.sign, Some(1));
+    assert!(a.value.as_ref().unwrap().low <= 0.0 && 0.0 <= a.value.as_ref().unwrap().high);
+    assert_eq!(a.rank, None);
+    // the rank-3 curve y^2 + y = x^3 - 7x + 6 (conductor 5077): w = -1, L'(E,1) = 0
+    let e = Curve::from_coefficients([0, 0, 1, -7, 6]).unwrap();
+    let a = prove_analytic_rank(&e, &Natural::from(5077u32), &lim).unwrap();
+    assert_eq!((a.root_number.sign, a.rank), (Some(-1), None));
+}
+
+/// A wrong conductor is refused; the budget is honoured.
+#[test]
+fn wrong_input_and_budget() {
+    let lim = FactorLimits::default();
+    let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
+    assert!(prove_root_number(&e, &Natural::from(74u32), &lim).is_err());
+    assert!(prove_l_value(&e, &Natural::from(37u32), 0, &lim).is_err());
+    let expired = FactorLimits { deadline: Some(std::time::Instant::now()), ..Default::default() };
+    let r = prove_root_number(&e, &Natural::from(37u32), &expired).unwrap();
+    assert!(!r.complete && r.sign.is_none());
+    let v = prove_l_value(&e, &Natural::from(37u32), -1, &expired).unwrap();
+    assert!(!v.complete && v.low <= 0.3059997738340523 && 0.3059997738340523 <= v.high);
+}
+
+/// Larger conductors (curves of our own choosing, prime conductor computed
+/// by the library): the proven enclosure contains the f64 value of lseries
+/// (an independent computation: the old point counter and the f64 G-functions
+/// with a hand-derived error bound).
+#[test]
+fn larger_conductors_against_the_f64_path() {
+    let lim = FactorLimits::default();
+    for (a, n) in [([0, 0, 1, -23, 1], 778013u64), ([0, 0, 1, 26, 1], 1125539), ([0, 0, 1, -119, 1], 107849501)] {
+        let e = Curve::from_coefficients(a).unwrap();
+        let nn = Natural::from(n);
+        let p = prove_analytic_rank(&e, &nn, &lim).unwrap();
+        let w = p.root_number.sign.unwrap();
+        let v = p.value.unwrap();
+        let f = special_values(&e, &nn, w, 1).unwrap();
+        let fv = &f[v.order as usize];
+        assert!(v.low <= fv.value + fv.error && fv.value - fv.error <= v.high, "{a:?}: {v:?} vs {fv:?}");
+        assert!(v.nonzero_proven() && v.high - v.low < 1e-9);
+    }
+}
