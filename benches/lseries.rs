@@ -4,7 +4,8 @@
 use criterion::{criterion_group, criterion_main, Criterion};
 use std::hint::black_box;
 use twofold::curve::PointCounter;
-use twofold::lseries::{minimal_conductor_sign, special_values};
+use twofold::lseries::special_values;
+use twofold::rootno::minimal_conductor_sign;
 use twofold::Curve;
 
 fn bench(c: &mut Criterion) {

@@ -10,7 +10,8 @@
 //! 100000), the output file (default `bsd_plot.svg`).
 
 use std::fmt::Write as _;
-use twofold::lseries::{euler_product_growth, minimal_conductor_sign, FIT_FROM};
+use twofold::lseries::{euler_product_growth, FIT_FROM};
+use twofold::rootno::minimal_conductor_sign;
 use twofold::Curve;
 
 fn main() {

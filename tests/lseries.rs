@@ -4,8 +4,9 @@
 mod common;
 
 use malachite::Natural;
+use twofold::rootno::minimal_conductor_sign;
 use twofold::lseries::{
-    analytic_rank, bsd_sha, dirichlet_coefficients, minimal_conductor_sign, special_values, BsdInputs, RankBasis,
+    analytic_rank, bsd_sha, dirichlet_coefficients, special_values, BsdInputs, RankBasis,
 };
 use twofold::{Curve, ErrorKind};
 

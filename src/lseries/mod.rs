@@ -46,7 +46,7 @@ mod gfun;
 
 pub(crate) use coeffs::coefficients_from;
 
-use crate::arith::{factor, factor_u64, primes_up_to, FactorLimits};
+use crate::arith::{factor_u64, primes_up_to};
 use crate::curve::{Curve, PointCounter};
 use crate::error::{Error, ErrorKind};
 use crate::local::{local_data, Reduction};
@@ -445,28 +445,6 @@ pub fn rank_from_values(values: &[SpecialValue]) -> Result<AnalyticRank, Error> 
 /// ```
 pub fn analytic_rank(curve: &Curve, conductor: &Natural, w: i8) -> Result<AnalyticRank, Error> {
     rank_from_values(&special_values(curve, conductor, w, 3)?)
-}
-
-/// A global minimal model of any integral `curve`, with its conductor and
-/// global root number (factoring the discriminant without a time limit;
-/// root number by [`crate::rootno::root_number`]). For callers that have
-/// none of these at hand.
-///
-/// ```
-/// use twofold::{Curve, lseries::{minimal_conductor_sign, analytic_rank}};
-/// // a non-minimal model of y^2 + y = x^3 - x: u = 2 scaling of y^2 + y = x^3 - x
-/// let e = Curve::from_coefficients([0, 0, 8, -16, 0]).unwrap();
-/// let (m, n, w) = minimal_conductor_sign(&e).unwrap();
-/// assert_eq!(m, Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap());
-/// assert_eq!((&n, w), (&37u32.into(), -1));
-/// assert_eq!(analytic_rank(&m, &n, w).unwrap().rank, 1);
-/// ```
-pub fn minimal_conductor_sign(curve: &Curve) -> Result<(Curve, Natural, i8), Error> {
-    let f = factor(curve.discriminant(), &FactorLimits::default())?;
-    let primes: Vec<Natural> = f.primes().cloned().collect();
-    let (minimal, _) = curve.minimal_model(&primes)?;
-    let rn = crate::rootno::root_number(&minimal)?;
-    Ok((minimal, rn.conductor, rn.global))
 }
 
 /// The inputs of the Birch–Swinnerton-Dyer formula, as plain numbers.

@@ -408,6 +408,28 @@ fn twist_has_good_reduction(c4: &Integer, c6: &Integer, d: i64, p: &Natural) -> 
     }
 }
 
+/// A global minimal model of any integral `curve`, with its conductor and
+/// global root number (factoring the discriminant without a time limit;
+/// root number by [`root_number`]). For callers that have
+/// none of these at hand.
+///
+/// ```
+/// use twofold::{Curve, lseries::analytic_rank, rootno::minimal_conductor_sign};
+/// // a non-minimal model of y^2 + y = x^3 - x: u = 2 scaling of y^2 + y = x^3 - x
+/// let e = Curve::from_coefficients([0, 0, 8, -16, 0]).unwrap();
+/// let (m, n, w) = minimal_conductor_sign(&e).unwrap();
+/// assert_eq!(m, Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap());
+/// assert_eq!((&n, w), (&37u32.into(), -1));
+/// assert_eq!(analytic_rank(&m, &n, w).unwrap().rank, 1);
+/// ```
+pub fn minimal_conductor_sign(curve: &Curve) -> Result<(Curve, Natural, i8), Error> {
+    let f = factor(curve.discriminant(), &FactorLimits::default())?;
+    let primes: Vec<Natural> = f.primes().cloned().collect();
+    let (minimal, _) = curve.minimal_model(&primes)?;
+    let rn = root_number(&minimal)?;
+    Ok((minimal, rn.conductor, rn.global))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
