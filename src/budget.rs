@@ -19,6 +19,8 @@ pub enum Stage {
     /// Finding the odd-degree isogeny class (to run the quartic descent
     /// where c4 is smallest).
     IsogenyClass,
+    /// The analytic route: proven root number and L-value.
+    Analytic,
     /// Root number, heights and saturation, periods, L-values.
     Evidence,
     /// Building the certificate of the rank proof.
@@ -69,6 +71,14 @@ pub struct RankOptions {
     /// (probable) prime and that they account for the whole discriminant,
     /// instead of factoring it.
     pub known_primes: Option<Vec<malachite::Natural>>,
+    /// Run the analytic route: the root number and `L(E,1)` or `L'(E,1)`
+    /// proven by interval arithmetic; when the value is proven non-zero the
+    /// rank is 0 or 1 by Gross-Zagier and Kolyvagin (see
+    /// [`crate::lproof`]). Default `true`.
+    pub analytic_route: bool,
+    /// The largest conductor for which the analytic route runs (its cost
+    /// grows like the square root of the conductor). Default `10^10`.
+    pub analytic_max_conductor: u64,
     /// Also compute the evidence beyond the rank bounds (root number,
     /// heights and saturation, real period, L-values, the Birch and
     /// Swinnerton-Dyer quotient): [`crate::RankReport::evidence`]. Default
@@ -92,6 +102,8 @@ impl Default for RankOptions {
             progress: None,
             max_quartic_candidates: 1_000_000_000,
             cross_check_routes: false,
+            analytic_route: true,
+            analytic_max_conductor: 10_000_000_000,
             evidence: true,
             certificate: false,
             known_primes: None,

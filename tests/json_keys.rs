@@ -29,6 +29,7 @@ fn json_keys_of_a_full_report() {
         "isogeny_selmer_dims",
         "two_selmer_dim",
         "descent_curve",
+        "analytic_route",
         "sha2_order",
         "points",
         "sha_suspects",

@@ -519,6 +519,45 @@ pub fn prove_analytic_rank(minimal: &Curve, conductor: &Natural, limits: &Factor
     Ok(AnalyticRankProof { root_number: root, value: Some(value), rank })
 }
 
+/// [`prove_analytic_rank`] for a curve whose data is known: the minimal
+/// model, the conductor and the reduction type at each bad prime come from
+/// `data` (no factoring, no second run of Tate's algorithm), and the work's
+/// deadline and cancel flag bound the sums.
+///
+/// ```
+/// use twofold::{Curve, CurveData, Work, lproof::prove_analytic_rank_of};
+/// // y^2 + y = x^3 - x (conductor 37): rank 1
+/// let d = CurveData::new(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(), &Work::unlimited()).unwrap();
+/// assert_eq!(prove_analytic_rank_of(&d, &Work::unlimited()).unwrap().rank, Some(1));
+/// ```
+pub fn prove_analytic_rank_of(data: &crate::local::CurveData, work: &crate::budget::Work) -> Result<AnalyticRankProof, Error> {
+    use crate::local::Reduction;
+    let n = u64::try_from(data.conductor())
+        .ok()
+        .filter(|&n| n <= PROOF_MAX_CONDUCTOR)
+        .ok_or_else(|| bad(ErrorKind::TooLarge, format!("conductor {} above the limit {PROOF_MAX_CONDUCTOR}", data.conductor())))?;
+    let mut bad_ap = Vec::new();
+    for d in data.local() {
+        let p = u64::try_from(&d.prime).map_err(|_| bad(ErrorKind::TooLarge, "a bad prime above 2^64 with the conductor below it"))?;
+        let ap = match d.reduction {
+            Reduction::SplitMultiplicative => 1,
+            Reduction::NonSplitMultiplicative => -1,
+            Reduction::Additive => 0,
+            Reduction::Good => continue,
+        };
+        bad_ap.push((p, ap));
+    }
+    let limits = FactorLimits::within(work);
+    let mut src = CoefficientSource::new(data.minimal(), bad_ap);
+    let root = root_number_from(&mut src, n, &limits)?;
+    let Some(w) = root.sign else {
+        return Ok(AnalyticRankProof { root_number: root, value: None, rank: None });
+    };
+    let value = l_value_from(&mut src, n, if w == 1 { 0 } else { 1 }, &limits)?;
+    let rank = value.nonzero_proven().then_some(value.order);
+    Ok(AnalyticRankProof { root_number: root, value: Some(value), rank })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

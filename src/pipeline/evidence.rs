@@ -22,7 +22,7 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
     let mut st: Vec<Statement> = Vec::new();
     let proven = |claim: String| Statement { claim, standing: Standing::Proven };
     // rank
-    match (report.rank_lower, report.rank_upper) {
+    match report.descent_bounds {
         (Some(l), Some(u)) if l == u => st.push(proven(format!("the rank is {l} (2-descent: the lower and upper bounds meet)"))),
         (Some(l), Some(u)) => st.push(proven(format!("{l} <= rank <= {u} (2-descent)"))),
         (Some(l), None) => st.push(proven(format!("rank >= {l} (independent points; no upper bound finished)"))),
@@ -32,11 +32,32 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
         st.push(proven(format!("dim Sel^2(E) = {s}")));
     }
     // root number and parity
-    let rn = crate::rootno::root_number_with_limits(data.minimal(), &crate::arith::FactorLimits::within(work));
+    let rn = crate::rootno::root_number_of(data, &crate::arith::FactorLimits::within(work));
     if let Err(e) = &rn {
         st.push(unfinished("the root number was not computed", e));
     }
     let w = rn.as_ref().ok().map(|r| r.global);
+    // the analytic route's proven L-value and what it proves
+    if let Some(v) = report.analytic.as_ref().and_then(|a| a.value.as_ref()) {
+        let what = if v.order == 0 { "L(E,1)" } else { "L'(E,1)" };
+        let (lo, hi) = v.decimal_bounds();
+        if v.nonzero_proven() {
+            st.push(proven(format!(
+                "{what} lies in [{lo}, {hi}] (interval arithmetic with outward rounding, {} terms and a proven tail bound), so it is not zero",
+                v.terms
+            )));
+            st.push(proven(format!(
+                "the rank is {} and Sha is finite (analytic rank {}: Gross-Zagier 1986, Kolyvagin 1988-1990, with the modularity of \
+                 elliptic curves over Q: Wiles 1995, Taylor-Wiles 1995, Breuil-Conrad-Diamond-Taylor 2001)",
+                v.order, v.order
+            )));
+        } else {
+            st.push(Statement {
+                claim: format!("{what} lies in [{lo}, {hi}], which contains zero: the analytic route proves nothing here (analytic rank >= 2, or not separated)"),
+                standing: Standing::Unfinished,
+            });
+        }
+    }
     if let Ok(r) = &rn {
         use crate::rootno::RootNumberMethod;
         let w = r.global;
@@ -47,10 +68,10 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
             RootNumberMethod::LocalAndNumerical => {
                 proven(format!("the root number is {w} ({local}; the functional equation tested numerically agrees)"))
             }
-            _ => Statement {
-                claim: format!("the root number is {w} (functional equation tested numerically; no local formula at 2 or 3 here)"),
-                standing: Standing::Conditional("the f64 error bound of the numerical test, which assumes the platform's exp is accurate to a few ulps".into()),
-            },
+            _ => proven(format!(
+                "the root number is {w} (the functional equation tested in interval arithmetic, which excludes the other sign; \
+                 modularity: Wiles 1995, Breuil-Conrad-Diamond-Taylor 2001; no local formula at 2 or 3 here)"
+            )),
         });
         if let Some(s) = report.two_selmer_dim {
             let t = report.torsion.iter().filter(|n| *n % 2 == 0).count();
@@ -188,7 +209,7 @@ fn analytic(report: &RankReport, data: &CurveData, n: &Natural, w: i8, ev: &mut 
         ),
         standing: standing.clone(),
     });
-    if ar.rank <= 1 && ar.basis == RankBasis::NonZeroValue {
+    if ar.rank <= 1 && ar.basis == RankBasis::NonZeroValue && report.analytic.as_ref().and_then(|a| a.rank).is_none() {
         st.push(Statement {
             claim: format!(
                 "rank = {0} and Sha is finite (Gross-Zagier 1986 and Kolyvagin 1988 with modularity, from analytic rank {0})",

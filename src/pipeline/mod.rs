@@ -66,6 +66,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         rank_upper: None,
         descent_bounds: (None, None),
         rank_proven_by: vec![],
+        analytic: None,
         sha2_dim: None,
         route: Route::None,
         isogeny_selmer_dims: None,
@@ -82,8 +83,11 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         budget_exhausted: false,
         elapsed: work.elapsed(),
     };
-    // a rank proven by another route before the descents (none yet)
-    let enough: Option<usize> = None;
+    // the analytic route first: a rank it proves tells the descents' point
+    // searches when to stop
+    let analytic = analytic_route(data, options, work);
+    let enough: Option<usize> = analytic.as_ref().and_then(|a| a.rank);
+    report.analytic = analytic;
     let twos = torsion.two_torsion();
     let mut runs: Vec<IsogenyDescent> = Vec::new();
     for t in &twos {
@@ -113,6 +117,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     if report.rank().is_some() {
         report.rank_proven_by.push(crate::report::ProofRoute::Descent);
     }
+    decide_rank(&mut report)?;
     for p in &report.points {
         if !data.input().contains(p) {
             return Err(Error::internal("the report", "a reported point is not on the input curve"));
@@ -121,6 +126,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     if options.evidence && !work.exhausted() {
         report.evidence = Some(evidence::compute(&report, data, work));
     }
+    cross_check_analytic(&report)?;
     settle_sha2(&mut report)?;
     if options.certificate {
         work.report(Stage::Certificate, "certificate of the rank proof");
@@ -319,12 +325,97 @@ fn settle_sha2(report: &mut RankReport) -> Result<(), Error> {
         ));
     }
     report.sha2_dim = Some(d);
+    // the order of Sha[2] divides #Sha, whose value the Birch and
+    // Swinnerton-Dyer formula predicts: a clash is a statement, not an error
+    if let Some(ev) = report.evidence.as_mut() {
+        if let Some(est) = ev.sha_bsd_estimate.filter(|v| v.is_finite() && *v >= 0.5) {
+            let nearest = est.round() as u64;
+            let order = 1u64 << d.min(62);
+            ev.statements.push(Statement {
+                claim: if nearest % order == 0 {
+                    format!("#Sha[2] = {order} divides the analytic order of Sha, {nearest}")
+                } else {
+                    format!("#Sha[2] = {order} does NOT divide the analytic order of Sha, {nearest}: the formula's prediction and the descent clash")
+                },
+                standing: Standing::Conditional("the Birch and Swinnerton-Dyer conjecture (its exact formula)".into()),
+            });
+        }
+        ev.statements.push(Statement {
+            claim: format!("#Sha(E)[2] = {} (dim Sel^2(E) - rank - dim E(Q)[2] = {d})", 1u64 << d.min(62)),
+            standing: Standing::Proven,
+        });
+    }
     // the unexplained quartic classes span Sel^2 modulo the image of E(Q):
     // with the rank proven they are exactly the non-trivial part of Sha[2]
     let from_quartics = report.sha_suspects.iter().filter(|s| s.class.is_none()).count();
     if d > 0 && from_quartics == d {
         for s in report.sha_suspects.iter_mut().filter(|s| s.class.is_none()) {
             s.in_sha = true;
+        }
+    }
+    Ok(())
+}
+
+/// The analytic route (when switched on and the conductor is within its
+/// limit): the proven root number and leading value, within half of the
+/// time left (the descents need the rest). A failure of the route is not
+/// an answer: it leaves the route out.
+fn analytic_route(data: &CurveData, options: &RankOptions, work: &Work) -> Option<crate::report::AnalyticProof> {
+    if !options.analytic_route || *data.conductor() > options.analytic_max_conductor || work.exhausted() {
+        return None;
+    }
+    work.report(Stage::Analytic, "proving the root number and the leading L-value");
+    let proof = crate::lproof::prove_analytic_rank_of(data, &work.share(0.5)).ok()?;
+    Some(crate::report::AnalyticProof {
+        root_number: proof.root_number.sign,
+        value: proof.value,
+        rank: proof.rank.map(usize::from),
+    })
+}
+
+/// The rank decision: the descent bounds and the analytic rank, when both
+/// are known, must agree (an internal inconsistency otherwise, never
+/// resolved silently); a proven analytic rank fixes the rank.
+fn decide_rank(report: &mut RankReport) -> Result<(), Error> {
+    let Some(r) = report.analytic.as_ref().and_then(|a| a.rank) else { return Ok(()) };
+    let (lo, up) = report.descent_bounds;
+    if lo.is_some_and(|l| l > r) || up.is_some_and(|u| u < r) {
+        return Err(Error::internal(
+            "the rank decision",
+            format!(
+                "the descent bounds [{}, {}] exclude the analytic rank {r} proven by an L-value enclosure",
+                lo.map_or("?".into(), |v| v.to_string()),
+                up.map_or("?".into(), |v| v.to_string())
+            ),
+        ));
+    }
+    report.rank_lower = Some(r);
+    report.rank_upper = Some(r);
+    report.rank_proven_by.push(crate::report::ProofRoute::Analytic);
+    Ok(())
+}
+
+/// The f64 values of the evidence and the proven enclosure of the analytic
+/// route must agree: the f64 leading value (with its error bound) meets the
+/// enclosure, and the root numbers are equal. Two routes that disagree are
+/// an internal inconsistency.
+fn cross_check_analytic(report: &RankReport) -> Result<(), Error> {
+    let (Some(a), Some(ev)) = (report.analytic.as_ref(), report.evidence.as_ref()) else { return Ok(()) };
+    if let (Some(w1), Some(w2)) = (a.root_number, ev.root_number) {
+        if w1 != w2 {
+            return Err(Error::internal("the root number", format!("the proven functional-equation test gives {w1}, the local formulas {w2}")));
+        }
+    }
+    if let (Some(v), Some(order), Some(lead)) = (a.value.as_ref(), ev.vanishing_order, ev.leading_value) {
+        if order == usize::from(v.order) {
+            // the f64 path's own error bound is far below 1e-6 at these sizes
+            let slack = 1e-6 * (1.0 + lead.abs());
+            if lead < v.low - slack || lead > v.high + slack {
+                return Err(Error::internal(
+                    "the L-value",
+                    format!("the f64 value {lead} lies outside the proven enclosure [{}, {}]", v.low, v.high),
+                ));
+            }
         }
     }
     Ok(())

@@ -113,6 +113,31 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
             })
             .unwrap_or_else(|| "null".into()),
     );
+    w.raw(
+        "analytic_route",
+        &r.analytic
+            .as_ref()
+            .map(|a| {
+                let mut o = JsonWriter::new();
+                o.raw("root_number", &a.root_number.map(|w| w.to_string()).unwrap_or_else(|| "null".into()));
+                match &a.value {
+                    Some(v) => {
+                        let (lo, hi) = v.decimal_bounds();
+                        o.raw("order", &v.order.to_string());
+                        o.raw("enclosure", &format!("[{},{}]", quote(&lo), quote(&hi)));
+                        o.raw("terms", &v.terms.to_string());
+                    }
+                    None => {
+                        o.raw("order", "null");
+                        o.raw("enclosure", "null");
+                        o.raw("terms", "null");
+                    }
+                }
+                o.raw("rank", &opt(a.rank));
+                o.finish()
+            })
+            .unwrap_or_else(|| "null".into()),
+    );
     w.raw("sha2_order", &r.sha2_dim.map(|d| quote(&(malachite::Natural::from(1u32) << d).to_string())).unwrap_or_else(|| "null".into()));
     w.raw("points", &list(&r.points, point_json));
     w.raw(

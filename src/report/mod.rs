@@ -72,6 +72,22 @@ impl ProofRoute {
     }
 }
 
+/// What the analytic route proved (see [`crate::lproof`]).
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
+pub struct AnalyticProof {
+    /// The global root number, proven by the functional-equation test in
+    /// interval arithmetic (given modularity); `None` when the test did not
+    /// separate the signs within the budget.
+    pub root_number: Option<i8>,
+    /// The enclosure of `L(E,1)` (root number +1) or `L'(E,1)` (root
+    /// number -1), when computed.
+    pub value: Option<crate::lproof::ProvenLValue>,
+    /// The rank this proves: 0 or 1 when the enclosure excludes zero.
+    pub rank: Option<usize>,
+}
+
 /// An everywhere locally soluble 2-covering with no rational point found:
 /// a place where a non-trivial element of Sha could hide, or, once the rank
 /// is proven and the covering lies outside the image of E(Q), a proven
@@ -132,6 +148,11 @@ pub struct RankReport {
     /// routes ran they agreed, or the analysis stopped with an internal
     /// error.
     pub rank_proven_by: Vec<ProofRoute>,
+    /// The analytic route, when it ran: the proven root number (if the
+    /// functional-equation test separated the signs), the enclosure of
+    /// `L(E,1)` or `L'(E,1)`, and the rank it proves (0 or 1) when the
+    /// enclosure excludes zero.
+    pub analytic: Option<AnalyticProof>,
     /// The proven dimension over F2 of Sha(E)\[2\] (its order is
     /// `2^sha2_dim`): `dim Sel^2(E) - rank - dim E(Q)[2]`, known once the rank
     /// is proven and Sel^2(E) computed.

@@ -206,7 +206,28 @@ pub fn root_number(curve: &Curve) -> Result<RootNumber, Error> {
 /// assert_eq!(r.conductor, 36u32);
 /// ```
 pub fn root_number_with_limits(curve: &Curve, limits: &FactorLimits) -> Result<RootNumber, Error> {
-    let setup = Setup::new(curve, limits)?;
+    root_number_from_setup(&Setup::new(curve, limits)?, limits)
+}
+
+/// [`root_number_with_limits`] for a curve whose data is known: the
+/// minimal model, bad primes and local data come from `data` (nothing is
+/// factored or recomputed).
+///
+/// ```
+/// use twofold::{Curve, CurveData, Work, arith::FactorLimits, rootno::root_number_of};
+/// // y^2 + y = x^3 - x (conductor 37, rank 1): w = -1
+/// let d = CurveData::new(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(), &Work::unlimited()).unwrap();
+/// assert_eq!(root_number_of(&d, &FactorLimits::default()).unwrap().global, -1);
+/// ```
+pub fn root_number_of(data: &crate::local::CurveData, limits: &FactorLimits) -> Result<RootNumber, Error> {
+    // local_sign reads only c4, c6 and the discriminant at p, which the
+    // global minimal model shares with any model minimal at p
+    let bad = data.local().iter().map(|d| (d.prime.clone(), data.minimal().clone(), d.clone())).collect();
+    let setup = Setup { minimal: data.minimal().clone(), bad, conductor: data.conductor().clone() };
+    root_number_from_setup(&setup, limits)
+}
+
+fn root_number_from_setup(setup: &Setup, limits: &FactorLimits) -> Result<RootNumber, Error> {
     let mut local = Vec::new();
     let mut unknown = Vec::new();
     let mut product: i8 = 1;
@@ -223,7 +244,7 @@ pub fn root_number_with_limits(curve: &Curve, limits: &FactorLimits) -> Result<R
     if unknown.is_empty() {
         let global = -product;
         let method = if *n <= NUMERIC_CHECK_CONDUCTOR {
-            match numeric::decide(&setup, limits)? {
+            match numeric::decide(setup, limits)? {
                 numeric::Verdict::Sign(s) if s == global => RootNumberMethod::LocalAndNumerical,
                 numeric::Verdict::Sign(s) => {
                     return Err(internal(&format!(
@@ -247,7 +268,7 @@ pub fn root_number_with_limits(curve: &Curve, limits: &FactorLimits) -> Result<R
             ),
         ));
     }
-    let global = match numeric::decide(&setup, limits)? {
+    let global = match numeric::decide(setup, limits)? {
         numeric::Verdict::Sign(s) => s,
         numeric::Verdict::CutShort(terms) => {
             return Err(Error::new(
