@@ -101,10 +101,14 @@ fn congruent_numbers_against_tunnell() {
         let o = RankOptions { max_quartic_candidates: 200_000, evidence: false, ..RankOptions::default().with_search_height(100) };
         let r = analyse(&e, &o).unwrap();
         if a != 2 * b {
-            assert_eq!(r.rank_lower, Some(0), "n = {n}: Tunnell says rank 0");
-            let up = r.rank_upper.unwrap();
-            if up > 0 {
+            // twofold now proves rank 0 itself: by the descent, or by the
+            // analytic route (L(E,1) enclosed away from zero)
+            assert_eq!(r.rank(), Some(0), "n = {n}: Tunnell says rank 0; twofold must prove it");
+            assert!(!r.rank_proven_by.is_empty(), "n = {n}");
+            let (_, up) = r.descent_bounds;
+            if up.is_some_and(|u| u > 0) {
                 assert!(!r.sha_suspects.is_empty(), "n = {n}");
+                assert_eq!(r.rank_proven_by, vec![twofold::report::ProofRoute::Analytic], "n = {n}");
             }
         }
     }
