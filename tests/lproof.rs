@@ -139,3 +139,18 @@ fn larger_conductors_against_the_f64_path() {
         assert!(v.nonzero_proven() && v.high - v.low < 1e-9);
     }
 }
+
+/// The cancel flag stops the sum; the partial enclosure still holds.
+#[test]
+fn cancel_flag_cuts_short() {
+    use std::sync::atomic::AtomicBool;
+    use std::sync::Arc;
+    let flag = Arc::new(AtomicBool::new(true));
+    let lim = FactorLimits { cancel: Some(flag), ..Default::default() };
+    // y^2 + y = x^3 - x^2 - 10x - 20: L(E,1) = 0.2538418608559106 (from memory)
+    let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
+    let v = prove_l_value(&e, &Natural::from(11u32), 1, &lim).unwrap();
+    assert!(!v.complete && v.low <= 0.2538418608559106 && 0.2538418608559106 <= v.high);
+    let r = prove_root_number(&e, &Natural::from(11u32), &lim).unwrap();
+    assert!(!r.complete && r.sign.is_none());
+}

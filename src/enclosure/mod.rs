@@ -774,6 +774,25 @@ mod tests {
         assert!(ScaledE1Taylor::new(Interval::point(2.0), 1.5).is_none());
     }
 
+    proptest::proptest! {
+        /// The enclosures contain std's values (not trusted, but within an
+        /// ulp or two) at random points.
+        #[test]
+        fn random_points_contain_std_values(x in -700.0f64..700.0, y in 1e-300f64..1e300, z in 0.001f64..600.0) {
+            let e = Interval::point(x).exp();
+            let s = x.exp();
+            proptest::prop_assert!(e.lo() <= s.next_up().next_up() && s.next_down().next_down() <= e.hi());
+            let l = Interval::point(y).ln();
+            let t = y.ln();
+            proptest::prop_assert!(l.lo() <= t.next_up() && t.next_down() <= l.hi());
+            // E_1 against the f64 G_1 of lseries (its own series and continued
+            // fraction with a hand-derived error bound): an independent computation
+            let g = crate::lseries::g_values_for_tests(z);
+            let v = Interval::point(z).exp_integral_e1();
+            proptest::prop_assert!(v.lo() <= g.0 + g.1 && g.0 - g.1 <= v.hi(), "z = {}: {:?} vs {:?}", z, v, g);
+        }
+    }
+
     #[test]
     fn arithmetic_is_outward() {
         let a = Interval::point(0.1);
