@@ -56,7 +56,10 @@
 //!   the isogeny class (the quartic descent runs on the member with the
 //!   smallest `c4`); [`heights`]: periods, canonical heights, regulators,
 //!   LLL and saturation; [`lseries`]: `L^(k)(E,1)`, analytic rank and the
-//!   Birch and Swinnerton-Dyer quotient.
+//!   Birch and Swinnerton-Dyer quotient (f64, hand-derived error bounds);
+//!   [`lproof`]: `L(E,1)`, `L'(E,1)` and the root number proven in interval
+//!   arithmetic ([`enclosure`]) up to conductor `10^13`, the analytic route
+//!   to a proven rank 0 or 1.
 //! - [`batch`]: [`analyse_batch`] over an iterator of curves or text lines
 //!   ([`CurveInput`]), with [`BatchOptions`] (threads, observer), giving a
 //!   [`BatchOutcome`] of [`batch::BatchItem`]s and a [`batch::BatchSummary`].

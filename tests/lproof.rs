@@ -139,3 +139,49 @@ fn larger_conductors_against_the_f64_path() {
         assert!(v.nonzero_proven() && v.high - v.low < 1e-9);
     }
 }
+
+/// The cancel flag stops the sum; the partial enclosure still holds.
+#[test]
+fn cancel_flag_cuts_short() {
+    use std::sync::atomic::AtomicBool;
+    use std::sync::Arc;
+    let flag = Arc::new(AtomicBool::new(true));
+    let lim = FactorLimits { cancel: Some(flag), ..Default::default() };
+    // y^2 + y = x^3 - x^2 - 10x - 20: L(E,1) = 0.2538418608559106 (from memory)
+    let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
+    let v = prove_l_value(&e, &Natural::from(11u32), 1, &lim).unwrap();
+    assert!(!v.complete && v.low <= 0.2538418608559106 && 0.2538418608559106 <= v.high);
+    let r = prove_root_number(&e, &Natural::from(11u32), &lim).unwrap();
+    assert!(!r.complete && r.sign.is_none());
+}
+
+/// Local formulas and the proven functional-equation test agree: on 1500
+/// pseudo-random small curves, `rootno::root_number` (which runs both for
+/// conductors up to 10^7 and returns an error if they disagree) never
+/// errs except for a conductor beyond the numerical limit, and the test
+/// decides the sign for every curve it is run on.
+#[test]
+fn local_formulas_and_the_proven_test_agree_on_random_curves() {
+    use twofold::rootno::{root_number, RootNumberMethod};
+    let mut state = 0x2545_f491_4f6c_dd1du64;
+    let mut next = |m: i64| {
+        state ^= state << 13;
+        state ^= state >> 7;
+        state ^= state << 17;
+        (state % (2 * m as u64 + 1)) as i64 - m
+    };
+    let (mut both, mut numeric_only) = (0, 0);
+    for _ in 0..1500 {
+        let a = [next(1).abs(), next(1), next(1).abs(), next(60), next(60)];
+        let Ok(e) = Curve::from_coefficients(a) else { continue };
+        match root_number(&e) {
+            Ok(r) => match r.method {
+                RootNumberMethod::LocalAndNumerical => both += 1,
+                RootNumberMethod::Numerical { .. } => numeric_only += 1,
+                _ => {}
+            },
+            Err(err) => assert_eq!(err.kind(), &twofold::ErrorKind::TooLarge, "{a:?}: {err}"),
+        }
+    }
+    assert!(both > 1000, "{both} {numeric_only}");
+}

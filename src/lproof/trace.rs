@@ -23,8 +23,8 @@ use malachite::base::num::arithmetic::traits::Mod;
 use malachite::Integer;
 
 /// Below this prime the `O(p)` count of [`PointCounter`] is faster
-/// (measured; see `benches/lproof.rs`).
-pub(crate) const BSGS_FROM: u64 = 1500;
+/// (measured by the ignored test `threshold_timing`: 1.6 µs each at 600).
+pub(crate) const BSGS_FROM: u64 = 600;
 
 /// `a_p` at good primes: the exact count below [`BSGS_FROM`] (and at 2, 3),
 /// baby-step giant-step above.
@@ -51,7 +51,7 @@ impl TraceOracle {
 
     /// `a_p` for a prime `p < 2^32` of good reduction.
     pub(crate) fn trace(&mut self, p: u64) -> i64 {
-        if p < BSGS_FROM.max(300) {
+        if p < BSGS_FROM {
             return self.naive.trace(p);
         }
         let (a, b) = (residue(&self.a, p), residue(&self.b, p));
@@ -87,15 +87,6 @@ fn addm(a: u64, b: u64, p: u64) -> u64 {
     }
 }
 
-#[inline]
-fn subm(a: u64, b: u64, p: u64) -> u64 {
-    if a >= b {
-        a - b
-    } else {
-        a + p - b
-    }
-}
-
 fn invm(a: u64, p: u64) -> u64 {
     let (mut r0, mut r1) = (p as i64, a as i64);
     let (mut t0, mut t1) = (0i64, 1i64);
@@ -112,68 +103,110 @@ fn invm(a: u64, p: u64) -> u64 {
     }
 }
 
-/// An affine point or the point at infinity (`inf`).
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-struct Pt {
+/// Projective points `(X : Y : Z)` on `Y^2 Z = X^3 + a X Z^2 + b Z^3` with
+/// coordinates in Montgomery form modulo `p`; `Z = 0` is the point at
+/// infinity. Formulas: H. Cohen, A. Miyaji and T. Ono, "Efficient elliptic
+/// curve exponentiation using mixed coordinates", ASIACRYPT 1998.
+#[derive(Clone, Copy, Debug)]
+struct Proj {
     x: u64,
     y: u64,
-    inf: bool,
+    z: u64,
 }
 
-const INF: Pt = Pt { x: 0, y: 0, inf: true };
-
-/// The curve `y^2 = x^3 + a x + b` over `F_p`.
-#[derive(Clone, Copy)]
-struct Weier {
+struct MCurve {
+    m: crate::arith::Mont64,
+    /// `a` in Montgomery form.
     a: u64,
-    p: u64,
 }
 
-impl Weier {
-    fn neg(&self, q: Pt) -> Pt {
-        if q.inf {
-            q
-        } else {
-            Pt { x: q.x, y: subm(0, q.y, self.p), inf: false }
-        }
+impl MCurve {
+    #[inline]
+    fn mul(&self, u: u64, v: u64) -> u64 {
+        self.m.mul(u, v)
+    }
+    #[inline]
+    fn add(&self, u: u64, v: u64) -> u64 {
+        self.m.add(u, v)
+    }
+    #[inline]
+    fn sub(&self, u: u64, v: u64) -> u64 {
+        self.m.sub(u, v)
     }
 
-    fn add(&self, s: Pt, t: Pt) -> Pt {
-        let p = self.p;
-        if s.inf {
-            return t;
+    fn double(&self, p: Proj) -> Proj {
+        if p.z == 0 {
+            return p;
         }
-        if t.inf {
-            return s;
-        }
-        let lambda = if s.x == t.x {
-            if addm(s.y, t.y, p) == 0 {
-                return INF;
-            }
-            let num = addm(mulm(3, mulm(s.x, s.x, p), p), self.a, p);
-            mulm(num, invm(addm(s.y, s.y, p), p), p)
-        } else {
-            mulm(subm(t.y, s.y, p), invm(subm(t.x, s.x, p), p), p)
+        let xx = self.mul(p.x, p.x);
+        let zz = self.mul(p.z, p.z);
+        let w = self.add(self.mul(self.a, zz), self.add(xx, self.add(xx, xx)));
+        let s = self.mul(p.y, p.z);
+        let bb = self.mul(self.mul(p.x, p.y), s); // B = X Y s
+        let b4 = self.add(self.add(bb, bb), self.add(bb, bb));
+        let b8 = self.add(b4, b4);
+        let h = self.sub(self.mul(w, w), b8);
+        let hs = self.mul(h, s);
+        let x3 = self.add(hs, hs);
+        let ys = self.mul(p.y, s);
+        let ys2 = self.mul(ys, ys);
+        let ys2_8 = {
+            let t = self.add(ys2, ys2);
+            let t = self.add(t, t);
+            self.add(t, t)
         };
-        let x3 = subm(subm(mulm(lambda, lambda, p), s.x, p), t.x, p);
-        let y3 = subm(mulm(lambda, subm(s.x, x3, p), p), s.y, p);
-        Pt { x: x3, y: y3, inf: false }
+        let y3 = self.sub(self.mul(w, self.sub(b4, h)), ys2_8);
+        let ss = self.mul(s, s);
+        let sss = self.mul(ss, s);
+        let z3 = {
+            let t = self.add(sss, sss);
+            let t = self.add(t, t);
+            self.add(t, t)
+        };
+        Proj { x: x3, y: y3, z: z3 }
     }
 
-    fn mul(&self, q: Pt, k: u64) -> Pt {
-        let mut r = INF;
-        let mut base = q;
-        let mut k = k;
-        while k > 0 {
-            if k & 1 == 1 {
-                r = self.add(r, base);
-            }
-            k >>= 1;
-            if k > 0 {
-                base = self.add(base, base);
+    /// `p + q` (both projective).
+    fn add_proj(&self, p: Proj, q: Proj) -> Proj {
+        if p.z == 0 {
+            return q;
+        }
+        if q.z == 0 {
+            return p;
+        }
+        let y1z2 = self.mul(p.y, q.z);
+        let x1z2 = self.mul(p.x, q.z);
+        let z1z2 = self.mul(p.z, q.z);
+        let u = self.sub(self.mul(q.y, p.z), y1z2);
+        let v = self.sub(self.mul(q.x, p.z), x1z2);
+        if v == 0 {
+            return if u == 0 { self.double(p) } else { Proj { x: 0, y: self.m.one, z: 0 } };
+        }
+        let uu = self.mul(u, u);
+        let vv = self.mul(v, v);
+        let vvv = self.mul(v, vv);
+        let r = self.mul(vv, x1z2);
+        let a = self.sub(self.sub(self.mul(uu, z1z2), vvv), self.add(r, r));
+        Proj { x: self.mul(v, a), y: self.sub(self.mul(u, self.sub(r, a)), self.mul(vvv, y1z2)), z: self.mul(vvv, z1z2) }
+    }
+
+    fn scalar(&self, p: Proj, k: u64) -> Proj {
+        let mut r = Proj { x: 0, y: self.m.one, z: 0 };
+        if k == 0 {
+            return r;
+        }
+        let bits = 64 - k.leading_zeros();
+        for i in (0..bits).rev() {
+            r = self.double(r);
+            if (k >> i) & 1 == 1 {
+                r = self.add_proj(r, p);
             }
         }
         r
+    }
+
+    fn neg(&self, p: Proj) -> Proj {
+        Proj { x: p.x, y: self.sub(0, p.y), z: p.z }
     }
 }
 
@@ -182,6 +215,8 @@ impl Weier {
 struct Bsgs {
     baby: Vec<(u64, u32)>,
     baby_y: Vec<u64>,
+    points: Vec<Proj>,
+    prefix: Vec<u64>,
     found: Vec<i64>,
     cands: Vec<i64>,
 }
@@ -199,13 +234,40 @@ fn isqrt(n: u64) -> u64 {
 }
 
 impl Bsgs {
-    /// `a_p` of `y^2 = x^3 + a x + b` over `F_p` (non-singular, `p >= 5`),
-    /// or `None` if 64 points leave more than one candidate.
+    /// Replaces every point with `Z != 0` by its affine form `(x/z, y/z, 1)`
+    /// with one inversion (Montgomery's simultaneous inversion).
+    fn normalize(&mut self, c: &MCurve, r3: u64, p: u64) {
+        self.prefix.clear();
+        let mut acc = c.m.one;
+        for q in &self.points {
+            self.prefix.push(acc);
+            if q.z != 0 {
+                acc = c.mul(acc, q.z);
+            }
+        }
+        // acc = ∏ z (Montgomery form zR); its inverse in Montgomery form
+        let mut inv = c.mul(invm(acc, p), r3);
+        for i in (0..self.points.len()).rev() {
+            let q = self.points[i];
+            if q.z == 0 {
+                continue;
+            }
+            let zi = c.mul(inv, self.prefix[i]);
+            inv = c.mul(inv, q.z);
+            self.points[i] = Proj { x: c.mul(q.x, zi), y: c.mul(q.y, zi), z: c.m.one };
+        }
+    }
+
+    /// `a_p` of `y^2 = x^3 + a x + b` over `F_p` (non-singular, `p >= 5`
+    /// odd), or `None` if 64 values of `x0` leave more than one candidate.
     fn trace(&mut self, a: u64, b: u64, p: u64) -> Option<i64> {
         let h = isqrt(4 * p) as i64; // |a_p| <= h (Hasse)
-        let m = (isqrt(2 * h as u64) + 1).max(2);
+        let m = isqrt(h as u64) + 1;
         let stride = 2 * m + 1;
         let kmax = (h as u64 + m) / stride + 1;
+        let mont = crate::arith::Mont64::new(p);
+        let r2 = mont.to_mont(mont.one);
+        let r3 = mont.to_mont(r2);
         let mut have_cands = false;
         for x0 in 0..64u64.min(p) {
             let v = addm(addm(mulm(mulm(x0, x0, p), x0, p), mulm(a, x0, p), p), b, p);
@@ -214,45 +276,58 @@ impl Bsgs {
             }
             let chi: i64 = if crate::arith::jacobi_u64(v, p) == 1 { 1 } else { -1 };
             let v2 = mulm(v, v, p);
-            let curve = Weier { a: mulm(a, v2, p), p };
-            let pt = Pt { x: mulm(v, x0, p), y: v2, inf: false };
-            // baby steps j P, j = 1..=m
-            self.baby.clear();
-            self.baby_y.clear();
-            let mut r = INF;
-            let mut small = false;
-            for j in 1..=m {
-                r = curve.add(r, pt);
-                if r.inf {
-                    small = true;
-                    break;
-                }
-                self.baby.push((r.x, j as u32));
-                self.baby_y.push(r.y);
+            let c = MCurve { m: mont, a: mont.to_mont(mulm(a, v2, p)) };
+            let one = mont.one;
+            let pt = Proj { x: mont.to_mont(mulm(v, x0, p)), y: mont.to_mont(v2), z: one };
+            // baby steps j P (j = 1..=m), then the giant steps, all projective
+            self.points.clear();
+            let mut r = pt;
+            self.points.push(r);
+            for _ in 2..=m {
+                r = c.add_proj(r, pt);
+                self.points.push(r);
             }
-            if small {
+            if self.points.iter().any(|q| q.z == 0) {
+                continue; // order at most m
+            }
+            let q = c.scalar(pt, p + 1);
+            let g = c.scalar(pt, stride);
+            if g.z == 0 {
                 continue;
             }
+            // T_k = Q - k G for k = kmax down to -kmax
+            let mut t = c.add_proj(q, c.neg(c.scalar(g, kmax)));
+            for _ in 0..(2 * kmax + 1) {
+                self.points.push(t);
+                t = c.add_proj(t, g);
+            }
+            self.normalize(&c, r3, p);
+            self.baby.clear();
+            self.baby_y.clear();
+            for (j, q) in self.points[..m as usize].iter().enumerate() {
+                self.baby.push((q.x, j as u32 + 1));
+                self.baby_y.push(q.y);
+            }
             self.baby.sort_unstable();
-            if self.baby.windows(2).any(|w| w[0].0 == w[1].0) {
+            // Distinct x and y != 0 among jP (1 <= j <= m) exclude
+            // (j ± j')P = O and 2jP = O, so the order of P exceeds 2m: then
+            // each window k·stride + [-m, m] holds at most one valid b, and
+            // the matches below list every b. (Without the y check an order
+            // of exactly 2m slipped through and gave a wrong unique b.)
+            if self.baby.windows(2).any(|w| w[0].0 == w[1].0) || self.baby_y.contains(&0) {
                 continue; // order at most 2m: useless here
             }
-            let q = curve.mul(pt, p + 1);
-            let g = curve.mul(pt, stride);
-            let neg_g = curve.neg(g);
-            // T_k = Q - k G for k = kmax down to -kmax
-            let mut t = curve.add(q, curve.mul(neg_g, kmax));
             self.found.clear();
-            let mut k = kmax as i64;
-            loop {
+            for (i, tk) in self.points[m as usize..].iter().enumerate() {
+                let k = kmax as i64 - i as i64;
                 let base = k * stride as i64;
-                let b_opt = if t.inf {
+                let b_opt = if tk.z == 0 {
                     Some(base)
                 } else {
-                    match self.baby.binary_search_by(|e| e.0.cmp(&t.x)) {
-                        Ok(i) => {
-                            let j = self.baby[i].1 as i64;
-                            Some(if self.baby_y[j as usize - 1] == t.y { base + j } else { base - j })
+                    match self.baby.binary_search_by(|e| e.0.cmp(&tk.x)) {
+                        Ok(ix) => {
+                            let j = self.baby[ix].1 as i64;
+                            Some(if self.baby_y[j as usize - 1] == tk.y { base + j } else { base - j })
                         }
                         Err(_) => None,
                     }
@@ -262,11 +337,6 @@ impl Bsgs {
                         self.found.push(chi * bv);
                     }
                 }
-                if k == -(kmax as i64) {
-                    break;
-                }
-                t = curve.add(t, g);
-                k -= 1;
             }
             if self.found.is_empty() {
                 // impossible for a correct curve: give up, the caller counts exactly
@@ -301,13 +371,15 @@ mod tests {
     #[test]
     fn bsgs_agrees_with_the_exact_count() {
         // an independent second computation: the O(p) character sum
-        for coeffs in [[0, 0, 1, -1, 0], [0, -1, 1, -10, -20], [1, -1, 1, -29, 53], [0, 0, 0, 0, 1000003], [0, 0, 1, -7, 6]] {
+        // [1, 1, 0, 31, -4] at p = 823 has a point of order exactly 2m = 16,
+        // which once gave a wrong answer (caught by the functional equation)
+        for coeffs in [[1, 1, 0, 31, -4], [0, 0, 1, -1, 0], [0, -1, 1, -10, -20], [1, -1, 1, -29, 53], [0, 0, 0, 0, 1000003], [0, 0, 1, -7, 6], [0, 0, 0, -1, 0], [1, 0, 0, -45, 81]] {
             let e = Curve::from_coefficients(coeffs).unwrap();
             let disc = e.discriminant().clone();
             let mut o = TraceOracle::new(&e);
             let mut naive = PointCounter::new(&e);
             let mut undecided = 0;
-            for p in primes_up_to(20_000).into_iter().filter(|&p| p > 230) {
+            for p in primes_up_to(20_000).into_iter().filter(|&p| p > 290) {
                 if (&disc % Integer::from(p)) == 0 {
                     continue;
                 }
@@ -319,6 +391,54 @@ mod tests {
             // undecided primes fall back to the exact count (seen: one, p = 947 on the first curve)
             assert!(undecided <= 2, "{coeffs:?}: {undecided}");
         }
+    }
+
+    /// Timing of the two counters near the threshold (run by hand with --ignored --nocapture).
+    #[test]
+    #[ignore]
+    fn threshold_timing() {
+        let e = Curve::from_coefficients([0, 0, 1, -29, 4026]).unwrap();
+        let mut o = TraceOracle::new(&e);
+        let mut naive = PointCounter::new(&e);
+        for lo in [300u64, 600, 1000, 1500, 2500, 5000, 500_000, 5_000_000] {
+            let ps: Vec<u64> = primes_up_to(lo + lo / 5).into_iter().filter(|&p| p >= lo).take(200).collect();
+            let t = std::time::Instant::now();
+            let s1: i64 = ps.iter().map(|&p| naive.trace(p)).sum();
+            let tn = t.elapsed() / ps.len() as u32;
+            let t = std::time::Instant::now();
+            let s2: i64 = ps.iter().map(|&p| o.trace_bsgs(p).unwrap_or(0)).sum();
+            let tb = t.elapsed() / ps.len() as u32;
+            eprintln!("p ~ {lo}: exact {tn:?}, bsgs {tb:?} ({s1} {s2})");
+        }
+    }
+
+    #[test]
+    fn bsgs_agrees_with_the_exact_count_on_random_curves() {
+        let mut state = 0x9e37_79b9_7f4a_7c15u64;
+        let mut next = |m: i64| {
+            state ^= state << 13;
+            state ^= state >> 7;
+            state ^= state << 17;
+            (state % (2 * m as u64 + 1)) as i64 - m
+        };
+        let mut undecided = 0;
+        for _ in 0..60 {
+            let a = [next(1).abs(), next(1), next(1).abs(), next(200), next(200)];
+            let Ok(e) = Curve::from_coefficients(a) else { continue };
+            let disc = e.discriminant().clone();
+            let mut o = TraceOracle::new(&e);
+            let mut naive = PointCounter::new(&e);
+            for p in primes_up_to(4000).into_iter().filter(|&p| p > 290) {
+                if (&disc % Integer::from(p)) == 0 {
+                    continue;
+                }
+                match o.trace_bsgs(p) {
+                    Some(t) => assert_eq!(t, naive.trace(p), "{a:?} p = {p}"),
+                    None => undecided += 1,
+                }
+            }
+        }
+        assert!(undecided < 20, "{undecided}");
     }
 
     #[test]

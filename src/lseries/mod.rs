@@ -34,6 +34,10 @@
 //! * a few units of rounding per term and the error of compensated
 //!   (Neumaier) summation.
 //!
+//! For values that are proofs (interval arithmetic, every rounding
+//! directed, conductors up to `10^13`) see [`crate::lproof`]; this module
+//! stays the fast path for the evidence and for orders 2 and 3.
+//!
 //! The bound is "rigorous-ish": it follows the operations in `f64` with the
 //! standard model of rounding, but is not machine-checked interval
 //! arithmetic. Measured in `tests/lseries.rs`: for conductors up to about
@@ -180,6 +184,14 @@ const CLEARLY: f64 = 1000.0;
 
 fn bad(kind: ErrorKind, msg: impl Into<String>) -> Error {
     Error::new(kind, msg)
+}
+
+/// `(G_1(x), error)` of the f64 path, for the cross-checks of
+/// [`crate::enclosure`].
+#[cfg(test)]
+pub(crate) fn g_values_for_tests(x: f64) -> (f64, f64) {
+    let g = gfun::g_values(x);
+    (g.value[1], g.error[1])
 }
 
 /// The Dirichlet coefficients `a_0 = 0, a_1, ..., a_m` of `L(E, s)` for a
