@@ -175,6 +175,7 @@ pub(crate) fn full_two_descent(
             for g in list {
                 if budget.exhausted() {
                     finished = false;
+                    out.search_complete = false;
                     break;
                 }
                 let coeffs = g.coeffs();
@@ -190,7 +191,14 @@ pub(crate) fn full_two_descent(
             }
             finished
         }
-        Err(e) if *e.kind() == ErrorKind::Budget || *e.kind() == ErrorKind::TooLarge => false,
+        Err(e) if *e.kind() == ErrorKind::Budget || *e.kind() == ErrorKind::TooLarge => {
+            // cut short by the clock or the cancellation flag (not refused
+            // by its size estimate): the report says so
+            if budget.exhausted() {
+                out.search_complete = false;
+            }
+            false
+        }
         Err(e) => return Err(e),
     };
     if complete {

@@ -70,7 +70,8 @@ pub(crate) fn resolvent_roots(i: f64, j: f64, three_real: bool) -> CubicRoots {
         for v in r.iter_mut() {
             *v = polish(*v);
         }
-        r.sort_by(|a, b| a.partial_cmp(b).unwrap());
+        // total order: a NaN (from non-finite input) sorts last instead of panicking
+        r.sort_by(|a, b| a.total_cmp(b));
         CubicRoots::Three(r)
     } else {
         // Cardano: t = u + v, u^3 + v^3 = -j, u v = i

@@ -38,7 +38,7 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
     progress(Stage::LocalData, "factoring the discriminant");
     let limits = FactorLimits { deadline: budget.deadline, cancel: budget.cancel.clone() };
     let primes: Vec<Natural> = match &options.known_primes {
-        Some(ps) => check_known_primes(curve, ps)?,
+        Some(ps) => check_known_primes(curve, ps, &limits)?,
         None => factor(curve.discriminant(), &limits)?.primes().cloned().collect(),
     };
     let (minimal, change) = curve.minimal_model(&primes)?;
@@ -275,13 +275,13 @@ pub(crate) fn unmap(change: &crate::ModelChange, p: &Point) -> Point {
 
 /// Checks caller-supplied primes: each a probable prime (BPSW), and together
 /// accounting for the whole discriminant.
-fn check_known_primes(curve: &Curve, ps: &[Natural]) -> Result<Vec<Natural>, Error> {
+fn check_known_primes(curve: &Curve, ps: &[Natural], limits: &FactorLimits) -> Result<Vec<Natural>, Error> {
     use malachite::base::num::arithmetic::traits::{Abs, DivisibleBy};
     use malachite::Integer;
     let mut rest = curve.discriminant().clone().abs();
     let mut out = Vec::new();
     for p in ps {
-        if !crate::arith::is_probable_prime(p) {
+        if !crate::arith::is_probable_prime_within(p, limits)? {
             return Err(Error::new(crate::ErrorKind::InvalidValue, format!("{p} is not prime")));
         }
         let pi = Integer::from(p.clone());
