@@ -151,6 +151,18 @@ fn parse_equation(t: &str) -> Result<[Rational; 5], Error> {
 }
 
 fn parse_polynomial(s: &str) -> Result<Vec<(Mono, Rational)>, Error> {
+    // spaces separate tokens but may not split a number: "2 362" is an
+    // error, not 2362
+    let chars: Vec<char> = s.chars().collect();
+    for (k, w) in chars.windows(2).enumerate() {
+        if w[0].is_ascii_digit() && w[1].is_whitespace() {
+            if let Some(next) = chars[k + 1..].iter().find(|c| !c.is_whitespace()) {
+                if next.is_ascii_digit() {
+                    return Err(perr(format!("a space splits a number in {:?}", s.trim())));
+                }
+            }
+        }
+    }
     let s: String = s.chars().filter(|c| !c.is_whitespace()).collect();
     if s.is_empty() {
         return Err(perr("one side of the equation is empty"));
@@ -294,10 +306,20 @@ mod tests {
             ("y^2 = x^3 + -", ErrorKind::Parse),
             ("[0,0,0,0,0]", ErrorKind::Singular),
             ("[0,0,0,1/2,0]", ErrorKind::InvalidValue),
+            // a space inside a number is an error, not a joined number
+            // (issue 12: this was read as -2362x)
+            ("y^2 = x^3 - 2 362x", ErrorKind::Parse),
+            ("y^2 = x^3 - 2\t362*x + 1", ErrorKind::Parse),
+            ("[0,0,0,-2 362,0]", ErrorKind::Parse),
         ] {
             let e = crate::Curve::parse(t).unwrap_err();
             assert_eq!(e.kind(), &k, "input {t:?}: {e}");
         }
+        // spaces between tokens stay allowed
+        assert_eq!(
+            crate::Curve::parse("y ^ 2 = x ^ 3 - 2 x + 1").unwrap(),
+            crate::Curve::parse("[0,0,0,-2,1]").unwrap()
+        );
         let huge = "9".repeat(MAX_INPUT_LEN + 1);
         assert_eq!(crate::Curve::parse(&format!("[{huge},0]")).unwrap_err().kind(), &ErrorKind::TooLarge);
     }
