@@ -132,7 +132,8 @@ pub(crate) struct Budget {
 impl Budget {
     pub(crate) fn from_options(o: &RankOptions) -> Budget {
         let start = Instant::now();
-        Budget { start, deadline: o.time_limit.map(|d| start + d), cancel: o.cancel.clone() }
+        // a limit beyond the clock's range (say `Duration::MAX`) is no limit
+        Budget { start, deadline: o.time_limit.and_then(|d| start.checked_add(d)), cancel: o.cancel.clone() }
     }
     /// Whether the budget is spent or the work cancelled.
     pub(crate) fn exhausted(&self) -> bool {

@@ -224,11 +224,24 @@ fn eval_at(p: &[Integer], t: &Integer) -> Integer {
     acc
 }
 
-/// `1 + ceil(max_k |c_k| / |c_n|)`: every real root has absolute value below it.
+/// A bound on the absolute values of all roots (Fujiwara's bound,
+/// `|z| <= 2 max_k |c_k / c_n|^{1/(n-k)}`, M. Fujiwara, Tohoku Math. J. 10
+/// (1916)), rounded up to an integer and increased by 2 so that the roots lie
+/// strictly inside `(-B, B)`.
 fn cauchy_bound(p: &[Integer]) -> Integer {
-    let lead = (&p[p.len() - 1]).unsigned_abs();
-    let m = p[..p.len() - 1].iter().map(|c| c.unsigned_abs_ref()).max().cloned().unwrap_or(Natural::ZERO);
-    Integer::from((m + &lead - Natural::ONE) / lead) + Integer::from(2)
+    use malachite::base::num::arithmetic::traits::CeilingRoot;
+    let n = p.len() - 1;
+    let lead = (&p[n]).unsigned_abs();
+    let mut m = Natural::ZERO;
+    for (k, c) in p[..n].iter().enumerate() {
+        // ceil(|c_k| / |c_n|), then its ceiling (n - k)-th root
+        let q: Natural = (c.unsigned_abs_ref() + &lead - Natural::ONE) / &lead;
+        let r = q.ceiling_root((n - k) as u64);
+        if r > m {
+            m = r;
+        }
+    }
+    Integer::from(m) * Integer::from(2) + Integer::from(2)
 }
 
 /// For a monotone polynomial on `[u, v]`: its integer root there, if any.
@@ -247,26 +260,88 @@ fn root_in_monotone(p: &[Integer], u: &Integer, v: &Integer) -> Option<Integer> 
     (fk == 0).then_some(k)
 }
 
-/// Bisection over the integers of `[lo, hi]` for a polynomial with sign
-/// `lo_positive` at `lo` and the other sign at `hi`: an integer where it
-/// vanishes (with value 0), or the `k` with a sign change in `(k, k + 1)`.
+/// Search over the integers of `[lo, hi]` for a polynomial that is monotone
+/// there, with sign `lo_positive` at `lo` and the other sign at `hi`: an
+/// integer where it vanishes (with value 0), or the `k` with a sign change in
+/// `(k, k + 1)` (with `p(k)`).
+///
+/// Newton steps with a bisection safeguard (the bracket always holds the
+/// sign change; a Newton point outside it, or a step after which the bracket
+/// did not halve, is replaced by the midpoint). Every answer rests on exact
+/// signs at integer points, so the speed-up cannot change the result.
 fn bisect(p: &[Integer], lo: &Integer, hi: &Integer, lo_positive: bool) -> (Integer, Integer) {
+    use malachite::base::num::arithmetic::traits::DivRound;
+    let dp = derivative(p);
     let (mut lo, mut hi) = (lo.clone(), hi.clone());
     let mut flo = eval_at(p, &lo);
+    let mut t: Integer = split_point(&lo, &hi);
+    let mut last_width = &hi - &lo;
     while &hi - &lo > 1 {
-        let mid: Integer = (&lo + &hi) >> 1u32;
-        let fm = eval_at(p, &mid);
-        if fm == 0 {
-            return (mid, fm);
+        let ft = eval_at(p, &t);
+        if ft == 0 {
+            return (t, ft);
         }
-        if (fm > 0) == lo_positive {
-            lo = mid;
-            flo = fm;
+        let below = (ft > 0) == lo_positive; // the sign change is above t
+        if below {
+            lo = t.clone();
+            flo = ft.clone();
         } else {
-            hi = mid;
+            hi = t.clone();
         }
+        // Newton's point from t, and its neighbour towards the sign change,
+        // so that a converged step closes the bracket at once
+        let width = &hi - &lo;
+        if width <= 1 {
+            break;
+        }
+        let halved = width.clone() * Integer::from(2) <= last_width;
+        last_width = width;
+        let d = eval_at(&dp, &t);
+        let mut next = None;
+        if halved && d != 0 {
+            let (step, _) = ft.div_round(d, RoundingMode::Nearest);
+            let c = &t - step;
+            if c > lo && c < hi {
+                next = Some(c);
+            }
+        }
+        t = match next {
+            Some(c) if c != t => c,
+            // Newton stays at t: the sign change is next to it
+            Some(_) => {
+                let nb = if below { &t + Integer::ONE } else { &t - Integer::ONE };
+                if nb > lo && nb < hi {
+                    nb
+                } else {
+                    split_point(&lo, &hi)
+                }
+            }
+            None => split_point(&lo, &hi),
+        };
     }
     (lo, flo)
+}
+
+/// A point strictly between `lo` and `hi` (`hi - lo >= 2`): 0 when the
+/// interval straddles it, the geometric mean (a power of 2) when the ends
+/// differ by more than a factor 4, else the midpoint. Roots of very
+/// different sizes are so located in `O(log log B)` steps instead of
+/// `O(log B)`.
+fn split_point(lo: &Integer, hi: &Integer) -> Integer {
+    let mid = || -> Integer { (lo + hi) >> 1u32 };
+    if *lo < 0 && *hi > 0 {
+        return Integer::ZERO;
+    }
+    let (a, b, neg) = if *lo >= 0 { (lo.clone(), hi.clone(), false) } else { (-hi.clone(), -lo.clone(), true) };
+    // 0 <= a < b
+    if b > (&a + Integer::ONE) * Integer::from(4) {
+        let e = (significant_bits(&a) + significant_bits(&b)) / 2;
+        let g = Integer::ONE << e;
+        if g > a && g < b {
+            return if neg { -g } else { g };
+        }
+    }
+    mid()
 }
 
 /// Integers `k` such that every real point where `q` changes sign lies in
