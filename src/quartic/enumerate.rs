@@ -216,6 +216,9 @@ impl<'a> Search<'a> {
         }
         let filt = fast.then(|| if work > 20000.0 { ResidueFilter::new(&Integer::from(a), self.i, self.j) } else { ResidueFilter::trivial() });
         for b in 0..=2 * a.abs() {
+            // one unit of set-up work per b: the clock is looked at even when
+            // most ranges below are empty
+            self.setup_work(1)?;
             let b2 = 3.0 * (b as f64) * (b as f64);
             let (lo, hi) = if a > 0 {
                 (((hlo + b2) / (8.0 * a as f64)).ceil(), ((hhi + b2) / (8.0 * a as f64)).floor())
@@ -231,7 +234,12 @@ impl<'a> Search<'a> {
                 continue;
             }
             if fast {
-                self.scan_fast(a as i128, b as i128, clo, chi, ii, jj, small, filt.as_ref().unwrap());
+                // `filt` is Some whenever `fast` holds (built just above)
+                let trivial = ResidueFilter::trivial();
+                let f = filt.as_ref().unwrap_or(&trivial);
+                if !self.scan_fast(a as i128, b as i128, clo, chi, ii, jj, small, f) {
+                    return Err(self.stopped_error());
+                }
             } else {
                 for c in clo..=chi {
                     self.candidate_big(&Integer::from(a), &Integer::from(b), &Integer::from(c));
@@ -313,6 +321,14 @@ impl<'a> Search<'a> {
         let m8a2 = 8 * a2;
         let a12 = 12 * aa;
         let mut hits: Vec<[i128; 5]> = Vec::new();
+        // the scan below can be long for one `a` (its work was charged in
+        // one tick above): it looks at the clock itself
+        let (deadline, cancel) = (self.deadline, self.cancel.clone());
+        let stop = move || {
+            cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed))
+                || deadline.is_some_and(|d| std::time::Instant::now() >= d)
+        };
+        let mut spin = 0u64;
         let mut k = 0;
         while k < pairs.len() {
             let r = pairs[k].0;
@@ -324,6 +340,10 @@ impl<'a> Search<'a> {
             let mut h = hmin + (r - hmin).rem_euclid(modulus);
             let mut res = filt.start(h);
             while h <= hmax {
+                spin += 1;
+                if spin & 0xFFFF == 0 && stop() {
+                    return Err(self.stopped_error());
+                }
                 let pass = filt.pass(&res);
                 filt.advance(&mut res);
                 if pass {
@@ -361,19 +381,36 @@ impl<'a> Search<'a> {
     }
 
     #[allow(clippy::too_many_arguments)]
-    fn scan_fast(&mut self, a: i128, b: i128, clo: i128, chi: i128, ii: i128, jj: i128, small: bool, filt: &ResidueFilter) {
+    /// `false` when the deadline or the cancellation flag stopped the scan.
+    fn scan_fast(&mut self, a: i128, b: i128, clo: i128, chi: i128, ii: i128, jj: i128, small: bool, filt: &ResidueFilter) -> bool {
+        let (deadline, cancel) = (self.deadline, self.cancel.clone());
+        let stop = move || {
+            cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed))
+                || deadline.is_some_and(|d| std::time::Instant::now() >= d)
+        };
         if small {
             let mut hits: Vec<[i64; 5]> = Vec::new();
-            scan_i64(a as i64, b as i64, clo as i64, chi as i64, ii as i64, jj as i64, filt, &mut hits);
+            let done = scan_i64(a as i64, b as i64, clo as i64, chi as i64, ii as i64, jj as i64, filt, &mut hits, &stop);
             for h in hits {
                 self.push_checked(Quartic::from_coeffs(h.map(Integer::from)));
             }
+            done
         } else {
             let mut hits: Vec<[i128; 5]> = Vec::new();
-            scan_i128(a, b, clo, chi, ii, jj, filt, &mut hits);
+            let done = scan_i128(a, b, clo, chi, ii, jj, filt, &mut hits, &stop);
             for h in hits {
                 self.push_checked(Quartic::from_coeffs(h.map(Integer::from)));
             }
+            done
+        }
+    }
+
+    /// The error of a search stopped by the clock or the flag.
+    fn stopped_error(&self) -> Error {
+        if self.cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed)) {
+            Error::new(ErrorKind::Budget, "quartic search cancelled")
+        } else {
+            Error::new(ErrorKind::Budget, "quartic search ran out of time")
         }
     }
 
@@ -453,7 +490,8 @@ impl<'a> Search<'a> {
 /// `d = (R - b^3 + 4abc)/(8a^2)`, `e = (I + 3bd - c^2)/(12a)`.
 macro_rules! scanner {
     ($name:ident, $t:ty, $ut:ty, $sqrt:path) => {
-        fn $name(a: $t, b: $t, clo: $t, chi: $t, ii: $t, jj: $t, filt: &ResidueFilter, hits: &mut Vec<[$t; 5]>) {
+        /// `false` when `stop` ended the scan early (looked at every 2^16 steps).
+        fn $name(a: $t, b: $t, clo: $t, chi: $t, ii: $t, jj: $t, filt: &ResidueFilter, hits: &mut Vec<[$t; 5]>, stop: &dyn Fn() -> bool) -> bool {
             let a2 = a * a;
             let t1 = 48 * ii * a2;
             let t0 = 64 * jj * a2 * a;
@@ -467,6 +505,9 @@ macro_rules! scanner {
             let mut c = clo;
             let mut res = filt.start(h as i128);
             while c <= chi {
+                if (c - clo) & 0xFFFF == 0xFFFF && stop() {
+                    return false;
+                }
                 let pass = filt.pass(&res);
                 filt.advance(&mut res);
                 if pass {
@@ -497,6 +538,7 @@ macro_rules! scanner {
                 base += dbase;
                 c += 1;
             }
+            true
         }
     };
 }
