@@ -89,9 +89,10 @@ pub fn parse_coefficients(text: &str) -> Result<[Rational; 5], Error> {
             .map(|(i, p)| parse_rational(p).map_err(|e| Error::new(e.kind().clone(), format!("entry {} of the list: {}", i + 1, e.message()))))
             .collect::<Result<_, _>>()?;
         return match vals.len() {
-            5 => Ok(vals.try_into().unwrap()),
+            // the length is matched: the conversions cannot fail
+            5 => Ok(vals.try_into().unwrap_or_default()),
             2 => {
-                let [a4, a6]: [Rational; 2] = vals.try_into().unwrap();
+                let [a4, a6]: [Rational; 2] = vals.try_into().unwrap_or_default();
                 Ok([Rational::ZERO, Rational::ZERO, Rational::ZERO, a4, a6])
             }
             n => Err(perr(format!("expected 5 entries [a1,a2,a3,a4,a6] or 2 entries [a4,a6], found {n}"))),
@@ -269,7 +270,8 @@ impl super::Curve {
             let n = Integer::from(n);
             ints.push(if *c < Rational::ZERO { -n } else { n });
         }
-        super::Curve::new(ints.try_into().unwrap())
+        // five entries, one per a-invariant: the conversion cannot fail
+        super::Curve::new(ints.try_into().unwrap_or_default())
     }
 }
 

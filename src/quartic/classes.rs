@@ -257,7 +257,10 @@ pub fn covering_class(g: &Quartic) -> Result<CoveringClass, Error> {
             return Ok(CoveringClass { i: g.invariant_i(), j: g.invariant_j(), elt });
         }
     }
-    unreachable!("R vanishes at more than six points")
+    // R(α, γ) is a non-zero sextic form when the discriminant is not zero
+    // (the product of the three q_φ), so it vanishes at no more than six of
+    // the twelve points above: this line is never reached
+    Err(Error::new(ErrorKind::InvalidValue, format!("internal error: the seminvariant R of {g:?} vanishes at twelve points")))
 }
 
 impl CoveringClass {

@@ -561,7 +561,8 @@ impl ResidueFilter {
             let red = |x: Integer| -> u64 {
                 let r = x % &mi;
                 let r = if r < 0 { r + &mi } else { r };
-                u64::try_from(&r).unwrap()
+                // 0 <= r < 27 * 143: always a u64
+                u64::try_from(&r).unwrap_or(0)
             };
             let t1 = red(Integer::from(48) * i * a * a);
             let t0 = red(Integer::from(64) * j * a * a * a);
@@ -582,7 +583,8 @@ impl ResidueFilter {
             let modulus = Integer::from(27 * m);
             let r = (Integer::from(8) * a) % &modulus;
             let r = if r < 0 { r + modulus } else { r };
-            u64::try_from(&r).unwrap()
+            // 0 <= r < 27 * 143: always a u64
+            u64::try_from(&r).unwrap_or(0)
         });
         ResidueFilter { tables, moduli: ms.map(|m| 27 * m), steps }
     }

@@ -443,10 +443,12 @@ pub(crate) fn size_key(g: &Quartic) -> ([Integer; 5], [Integer; 5]) {
 /// ```
 pub fn reduce(q: &Quartic) -> (Quartic, Matrix) {
     match near_reduced_set(q) {
-        Some(set) => {
-            let best = set.into_iter().min_by(|x, y| size_key(&x.0).cmp(&size_key(&y.0))).unwrap();
-            best
-        }
+        // the set holds at least the reduced form itself (the identity is
+        // among the neighbours); an empty set is treated like a failure
+        Some(set) => match set.into_iter().min_by(|x, y| size_key(&x.0).cmp(&size_key(&y.0))) {
+            Some(best) => best,
+            None => (q.clone(), mat_identity()),
+        },
         None => (q.clone(), mat_identity()),
     }
 }

@@ -222,11 +222,10 @@ fn combine(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullD
         report.independence = why;
     }
     report.rank_upper = upper;
-    if let Some(best) = runs.iter().filter(|r| r.upper.is_some()).min_by_key(|r| r.upper.unwrap()) {
+    if let Some(best) = runs.iter().filter(|r| r.upper.is_some()).min_by_key(|r| r.upper.unwrap_or(usize::MAX)) {
         report.isogeny_selmer = Some((best.side_e.selmer_dim, best.side_e_prime.selmer_dim));
     }
-    if report.rank_upper.is_some() && report.rank_upper != report.rank_lower {
-        let u = report.rank_upper.unwrap();
+    if let Some(u) = report.rank_upper.filter(|&u| Some(u) != report.rank_lower) {
         if let Some(f) = full.filter(|f| f.upper == Some(u)) {
             let origin = match &report.quartic_model {
                 None => "quartic 2-covering of E (an element of Sel^2(E))".to_string(),
