@@ -197,3 +197,20 @@ fn huge_quartics_do_not_panic() {
     assert!(twofold::quartic::gl2z_equivalent(&g, &g.transform(&m)));
     let _ = twofold::quartic::reduce(&g);
 }
+
+/// (b) The numerical root-number test took no deadline: `[0,0,108,39,0]`
+/// under 0.5 s took 9.7 s and `[0,0,0,-2362,0]` under 0.2 s took 5.6 s, both
+/// with `budget_exhausted: false`. Handled with the rewrite of
+/// `rootno::numeric` (separate work): run with `--ignored` once it lands.
+#[test]
+#[ignore]
+fn root_number_test_holds_the_budget() {
+    for (c, ms) in [([0, 0, 108, 39, 0], 500u64), ([0, 0, 0, -2362, 0], 200)] {
+        let budget = Duration::from_millis(ms);
+        let e = Curve::from_coefficients(c).unwrap();
+        let (r, el) = timed(|| analyse(&e, &RankOptions::default().with_time_limit(budget)));
+        assert!(el <= allowed(budget), "{c:?}: {el:?}");
+        let r = r.unwrap();
+        assert!(r.budget_exhausted || el <= budget, "{c:?}");
+    }
+}
