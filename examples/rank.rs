@@ -14,9 +14,11 @@
 //! accepts (`[a1,a2,a3,a4,a6]`, `[a4,a6]` or an equation). With no curves
 //! and nothing on standard input it runs a demo. `--json` prints exactly one
 //! JSON object per input line, in input order (fields documented in
-//! README.md); a line that is not UTF-8 gets an error object of its own. Several curves run as a batch on `--threads` threads (default:
-//! one per core), with a progress bar on standard error when it is a
-//! terminal and a closing summary on standard error.
+//! README.md); a line that is not UTF-8 gets an error object of its own.
+//! Several curves run as a batch on `--threads` threads (default: one per
+//! core), with a progress bar on standard error when it is a terminal and a
+//! closing summary on standard error (with the slowest curves and those cut
+//! short).
 
 use std::cell::RefCell;
 use std::collections::BTreeMap;
@@ -313,7 +315,7 @@ impl Tail {
 }
 
 fn main() {
-    let cli = parse_args(std::env::args_os().skip(1).collect());
+    let mut cli = parse_args(std::env::args_os().skip(1).collect());
     let mut options = RankOptions::default();
     options.time_limit = cli.budget;
     if let Some(h) = cli.height {
@@ -332,7 +334,9 @@ fn main() {
             std::process::exit(2)
         });
         batch = true;
-        Box::new(Lines::new(std::io::BufReader::new(f)))
+        // curves given as arguments come first, then the file's lines
+        let args = std::mem::take(&mut cli.curves);
+        Box::new(args.into_iter().map(Line::Text).chain(Lines::new(std::io::BufReader::new(f))))
     } else if !cli.curves.is_empty() {
         batch = cli.curves.len() > 1;
         Box::new(cli.curves.into_iter().map(Line::Text))
