@@ -3,6 +3,10 @@
 //! Usage:
 //!   family [--curve CURVE] [--threads N] [--budget SECONDS] [--out DIR] D_MIN D_MAX
 //!
+//! Every twist gets a wall-clock budget of `--budget` seconds (default 30,
+//! at most 10^6): a twist that needs more keeps what was proven in time and
+//! is marked `budget_exhausted`.
+//!
 //! For every square-free d with D_MIN <= d <= D_MAX (negative d allowed,
 //! d = 0 skipped) it analyses the twist E_d of the base curve (default
 //! y^2 = x^3 + x^2 - 2x, full rational 2-torsion, chosen for this example)
@@ -61,16 +65,17 @@ struct Row {
 fn main() {
     let mut base = "y^2 = x^3 + x^2 - 2x".to_string();
     let mut threads = 0usize;
-    let mut options = RankOptions::default();
+    // the default budget per curve (see the module documentation)
+    let mut options = RankOptions::default().with_time_limit(Duration::from_secs(30));
     let mut out_dir = std::path::PathBuf::from("target/family");
     let mut range: Vec<i64> = Vec::new();
     let mut args = std::env::args().skip(1);
     while let Some(a) = args.next() {
         match a.as_str() {
             "--curve" => base = args.next().unwrap_or_else(|| usage()),
-            "--threads" => threads = args.next().and_then(|v| v.parse().ok()).filter(|&n| n >= 1).unwrap_or_else(|| usage()),
+            "--threads" => threads = args.next().and_then(|v| v.parse().ok()).filter(|&n| (1..=1024).contains(&n)).unwrap_or_else(|| usage()),
             "--budget" => {
-                let s: f64 = args.next().and_then(|v| v.parse().ok()).filter(|s: &f64| *s >= 0.0 && s.is_finite()).unwrap_or_else(|| usage());
+                let s: f64 = args.next().and_then(|v| v.parse().ok()).filter(|s: &f64| s.is_finite() && (0.0..=1e6).contains(s)).unwrap_or_else(|| usage());
                 options.time_limit = Some(Duration::from_secs_f64(s));
             }
             "--out" => out_dir = args.next().unwrap_or_else(|| usage()).into(),

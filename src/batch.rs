@@ -197,8 +197,10 @@ pub struct BatchOptions {
     /// say `budget_exhausted`), and no further curve starts. Its per-stage
     /// `progress` callback, if any, is called from the worker threads.
     pub rank: RankOptions,
-    /// Worker threads; `0` means one per available core. Without the
-    /// `parallel` feature the batch always runs on the calling thread.
+    /// Worker threads; `0` means one per available core, at most
+    /// [`MAX_THREADS`]. Without the `parallel` feature the batch always runs
+    /// on the calling thread. When the system refuses to start a thread the
+    /// batch runs on those it has (on the calling thread if none started).
     pub threads: usize,
     /// Called after every finished curve.
     pub observer: Option<Arc<dyn BatchObserver>>,
@@ -241,10 +243,13 @@ impl BatchOptions {
         }
         match self.threads {
             0 => std::thread::available_parallelism().map(|n| n.get()).unwrap_or(1),
-            n => n,
+            n => n.min(MAX_THREADS),
         }
     }
 }
+
+/// The most worker threads a batch starts, whatever [`BatchOptions::threads`] says.
+pub const MAX_THREADS: usize = 1024;
 
 /// What a batch did, in totals.
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
@@ -437,10 +442,11 @@ fn run_parallel<It, F, G>(
     let (done_tx, done_rx) = mpsc::channel::<(usize, Option<BatchItem>)>();
     let rank = &options.rank;
     std::thread::scope(|scope| {
+        let mut started = 0usize;
         for _ in 0..threads {
             let done_tx = done_tx.clone();
             let work_rx = &work_rx;
-            scope.spawn(move || loop {
+            let spawned = std::thread::Builder::new().spawn_scoped(scope, move || loop {
                 let next = match work_rx.lock() {
                     Ok(rx) => rx.recv(),
                     Err(_) => return,
@@ -457,8 +463,26 @@ fn run_parallel<It, F, G>(
                     return;
                 }
             });
+            match spawned {
+                Ok(_) => started += 1,
+                // the system refuses more threads: run on those started
+                Err(_) => break,
+            }
         }
         drop(done_tx);
+        if started == 0 {
+            // no worker at all: the calling thread runs the batch in order
+            for (index, x) in iter.by_ref().enumerate() {
+                if cancelled() {
+                    *was_cancelled = true;
+                    break;
+                }
+                let input: CurveInput = x.into();
+                let item = BatchItem { index, label: input.label(), result: run_one(&input, rank) };
+                sink(on_done(item));
+            }
+            return;
+        }
         let mut next_index = 0usize; // next input to hand out
         let mut next_out = 0usize; // next index to release
         let mut exhausted = false;

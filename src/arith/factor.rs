@@ -10,7 +10,9 @@
 //! sieve", Math. Comp. 48 (1987).
 
 use super::mont::{ModRing, Mont64, MontN, NatRing};
-use super::primality::{is_probable_prime, rem_u64};
+use super::primality::{probable_prime_until, rem_u64};
+#[cfg(test)]
+use super::primality::is_probable_prime;
 use super::siqs::{SiqsSplitter, SIQS_MAX_BITS};
 use super::word::{gcd_u64, is_prime_u64, primes_up_to};
 use crate::{Error, ErrorKind};
@@ -279,7 +281,8 @@ pub(crate) fn factor_with(
     let m = n.unsigned_abs();
     let budget = Budget { limits };
     let mut found: BTreeMap<Natural, u32> = BTreeMap::new();
-    let rest = trial_divide(&m, &mut found);
+    let stop = || budget.stop();
+    let rest = trial_divide(&m, &mut found, &stop).ok_or_else(|| budget_error("deadline passed or cancelled"))?;
     let mut stack: Vec<(Natural, u32)> = Vec::new();
     if rest > 1u32 {
         stack.push((rest, 1));
@@ -294,11 +297,12 @@ pub(crate) fn factor_with(
             }
             continue;
         }
-        if is_probable_prime(&c) {
+        let prime = probable_prime_until(&c, &stop).ok_or_else(|| budget_error("deadline passed or cancelled"))?;
+        if prime {
             *found.entry(c).or_insert(0) += e;
             continue;
         }
-        if let Some((r, k)) = perfect_power(&c) {
+        if let Some((r, k)) = perfect_power(&c, &stop).ok_or_else(|| budget_error("deadline passed or cancelled"))? {
             stack.push((r, e * k));
             continue;
         }
@@ -309,7 +313,7 @@ pub(crate) fn factor_with(
     }
     let factors: Vec<(Natural, u32)> = found.into_iter().collect();
     let f = Factorization { sign, factors };
-    verify(&f, n)?;
+    verify(&f, n, &stop)?;
     Ok(f)
 }
 
@@ -318,16 +322,16 @@ fn budget_error(what: &str) -> Error {
 }
 
 /// Check the answer: primes increasing and prime, exponents positive, product `n`.
-fn verify(f: &Factorization, n: &Integer) -> Result<(), Error> {
-    let ok_primes = f.factors.windows(2).all(|w| w[0].0 < w[1].0)
-        && f.factors.iter().all(|(p, e)| {
-            *e >= 1
-                && if p.limb_count() <= 1 {
-                    is_prime_u64(u64::saturating_from(p))
-                } else {
-                    is_probable_prime(p)
-                }
-        });
+fn verify(f: &Factorization, n: &Integer, stop: &dyn Fn() -> bool) -> Result<(), Error> {
+    let mut ok_primes = f.factors.windows(2).all(|w| w[0].0 < w[1].0);
+    for (p, e) in &f.factors {
+        ok_primes &= *e >= 1
+            && if p.limb_count() <= 1 {
+                is_prime_u64(u64::saturating_from(p))
+            } else {
+                probable_prime_until(p, stop).ok_or_else(|| budget_error("deadline passed or cancelled"))?
+            };
+    }
     if ok_primes && f.product() == *n {
         Ok(())
     } else {
@@ -343,11 +347,18 @@ fn trial_primes() -> &'static [u64] {
 }
 
 /// Remove all prime factors below 2^16 from `m`, recording them; returns the cofactor.
-fn trial_divide(m: &Natural, found: &mut BTreeMap<Natural, u32>) -> Natural {
+/// `None` when `stop` says so (looked at every 64 groups on numbers of more
+/// than 64 limbs, where one group costs a pass over the limbs).
+fn trial_divide(m: &Natural, found: &mut BTreeMap<Natural, u32>, stop: &dyn Fn() -> bool) -> Option<Natural> {
     let mut m = m.clone();
     let primes = trial_primes();
     let mut i = 0;
+    let mut groups = 0u32;
     while i < primes.len() && m > 1u32 {
+        groups += 1;
+        if groups % 64 == 0 && m.limb_count() > 64 && stop() {
+            return None;
+        }
         // group primes so their product fits a word
         let mut prod: u64 = 1;
         let mut j = i;
@@ -373,19 +384,23 @@ fn trial_divide(m: &Natural, found: &mut BTreeMap<Natural, u32>) -> Natural {
             break;
         }
     }
-    m
+    Some(m)
 }
 
 /// `Some((r, k))` with `n = r^k`, `k > 1` maximal-ish (a prime `k`), for `n`
 /// without prime factors below 2^16.
-fn perfect_power(n: &Natural) -> Option<(Natural, u32)> {
+/// The outer `None` when `stop` said so first (looked at before each root).
+fn perfect_power(n: &Natural, stop: &dyn Fn() -> bool) -> Option<Option<(Natural, u32)>> {
     let bits = n.significant_bits();
     for k in primes_up_to(bits / 16 + 1) {
+        if bits > 4096 && stop() {
+            return None;
+        }
         if let Some(r) = n.checked_root(k) {
-            return Some((r, k as u32));
+            return Some(Some((r, k as u32)));
         }
     }
-    None
+    Some(None)
 }
 
 /// Split an odd composite without small factors that is not a perfect power

@@ -50,6 +50,117 @@ pub fn is_probable_prime(n: &Natural) -> bool {
     bpsw(n)
 }
 
+/// [`is_probable_prime`] under a deadline and a cancellation flag:
+/// `Err` of kind [`crate::ErrorKind::FactorBudget`] when either stops the
+/// test first. The test is the same (Baillie-PSW); for numbers of more than
+/// 2048 bits the base-2 power is computed in slices of 12 exponent bits and
+/// the Lucas chain checks the limits every 16 steps, so it stops within a
+/// few multiplications of the deadline (a 10,000-digit number takes seconds
+/// in all).
+///
+/// ```
+/// use malachite::Natural;
+/// use std::time::{Duration, Instant};
+/// use twofold::arith::{is_probable_prime_within, FactorLimits};
+/// let m127 = (Natural::from(1u32) << 127u32) - Natural::from(1u32);
+/// assert_eq!(is_probable_prime_within(&m127, &FactorLimits::default()).unwrap(), true);
+/// let past = FactorLimits { deadline: Some(Instant::now() - Duration::from_millis(1)), ..Default::default() };
+/// let big = (Natural::from(1u32) << 9689u32) - Natural::from(1u32); // a Mersenne prime (Gillies, 1963)
+/// assert!(is_probable_prime_within(&big, &past).is_err());
+/// ```
+pub fn is_probable_prime_within(n: &Natural, limits: &super::FactorLimits) -> Result<bool, crate::Error> {
+    let stop = || {
+        limits.cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed))
+            || limits.deadline.is_some_and(|d| std::time::Instant::now() >= d)
+    };
+    probable_prime_until(n, &stop)
+        .ok_or_else(|| crate::Error::new(crate::ErrorKind::FactorBudget, "probable-prime test stopped: deadline passed or cancelled"))
+}
+
+/// [`is_probable_prime`] that looks at `stop` while it works on numbers of
+/// more than 2048 bits: `None` when `stop` said so first.
+pub(crate) fn probable_prime_until(n: &Natural, stop: &dyn Fn() -> bool) -> Option<bool> {
+    if n.limb_count() <= 1 {
+        return Some(is_prime_u64(u64::saturating_from(n)));
+    }
+    if n.significant_bits() <= SLICED_BITS {
+        return Some(bpsw(n));
+    }
+    if stop() {
+        return None;
+    }
+    if !small_prime_screen(n)? {
+        return Some(false);
+    }
+    if !strong_base2_until(n, stop)? {
+        return Some(false);
+    }
+    lucas_until(n, stop)
+}
+
+/// Above this size the probable-prime test looks at the clock while it
+/// works (below it the whole test takes under about 10 ms).
+const SLICED_BITS: u64 = 2048;
+
+/// Trial division by the small primes (for `n > 97^2`): `Some(false)` when
+/// one divides `n`, `Some(true)` otherwise.
+fn small_prime_screen(n: &Natural) -> Option<bool> {
+    if rem_u64(n, 2) == 0 {
+        return Some(false);
+    }
+    let (lo, hi) = SMALL_PRIMES.split_at(15);
+    for group in [lo, hi] {
+        let prod: u64 = group.iter().product();
+        let r = rem_u64(n, prod);
+        if group.iter().any(|&p| r % p == 0) {
+            return Some(false);
+        }
+    }
+    Some(true)
+}
+
+/// The strong base-2 test with the power computed in slices: `x ↦ x^(2^12)`
+/// by one modular power, then `x ↦ 2^c x` by a shift and one reduction.
+fn strong_base2_until(n: &Natural, stop: &dyn Fn() -> bool) -> Option<bool> {
+    const W: u64 = 12;
+    let n1 = n - Natural::ONE;
+    let s = n1.trailing_zeros().unwrap_or(0);
+    let d = &n1 >> s;
+    let bits = d.significant_bits();
+    let slices = bits.div_ceil(W);
+    let mut x = Natural::ONE;
+    let step = Natural::from(1u64 << W);
+    for k in (0..slices).rev() {
+        if stop() {
+            return None;
+        }
+        let mut c = 0u64;
+        for b in (0..W).rev() {
+            c = (c << 1) | u64::from(d.get_bit(k * W + b));
+        }
+        if x != Natural::ONE {
+            x = x.mod_pow(&step, n);
+        }
+        x = (x << c) % n;
+    }
+    if x == Natural::ONE || x == n1 {
+        return Some(true);
+    }
+    for t in 1..s {
+        if t % 16 == 0 && stop() {
+            return None;
+        }
+        x = (&x * &x) % n;
+        if x == n1 {
+            return Some(true);
+        }
+        if x == Natural::ONE {
+            return Some(false);
+        }
+    }
+    Some(false)
+}
+
 /// The Baillie-PSW test on any `n` (no word-size dispatch), so that it can be
 /// checked against the deterministic word test.
 pub(crate) fn bpsw(n: &Natural) -> bool {
@@ -140,9 +251,16 @@ fn selfridge_d(n: &Natural) -> Result<i64, bool> {
 /// The strong Lucas probable-prime test with Selfridge parameters
 /// `P = 1, Q = (1 - D)/4` for odd `n` not divisible by small primes.
 pub(crate) fn strong_lucas_selfridge(n: &Natural) -> bool {
+    // without a stop condition the chain always finishes
+    lucas_until(n, &|| false).unwrap_or(false)
+}
+
+/// [`strong_lucas_selfridge`], looking at `stop` every 16 steps of the chain:
+/// `None` when it said stop.
+fn lucas_until(n: &Natural, stop: &dyn Fn() -> bool) -> Option<bool> {
     let d = match selfridge_d(n) {
         Ok(d) => d,
-        Err(_) => return false,
+        Err(_) => return Some(false),
     };
     let q = (1 - d) / 4;
     let reduce = |v: i64| -> Natural {
@@ -162,7 +280,10 @@ pub(crate) fn strong_lucas_selfridge(n: &Natural) -> bool {
     let mut v = Natural::ONE; // V_1 = P = 1
     let mut qk = qm.clone();
     let bits = k.significant_bits();
-    for i in (0..bits - 1).rev() {
+    for i in (0..bits.saturating_sub(1)).rev() {
+        if i % 16 == 0 && stop() {
+            return None;
+        }
         // j -> 2j
         u = (&u * &v) % n;
         v = (&v * &v + &two_n - (&qk << 1u32)) % n;
@@ -177,16 +298,19 @@ pub(crate) fn strong_lucas_selfridge(n: &Natural) -> bool {
         }
     }
     if u == Natural::ZERO || v == Natural::ZERO {
-        return true;
+        return Some(true);
     }
-    for _ in 1..s {
+    for t in 1..s {
+        if t % 16 == 0 && stop() {
+            return None;
+        }
         v = (&v * &v + &two_n - (&qk << 1u32)) % n;
         if v == Natural::ZERO {
-            return true;
+            return Some(true);
         }
         qk = (&qk * &qk) % n;
     }
-    false
+    Some(false)
 }
 
 use malachite::base::num::logic::traits::{BitAccess, SignificantBits};

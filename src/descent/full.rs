@@ -180,6 +180,7 @@ pub(crate) fn full_two_descent(
             for g in list {
                 if work.exhausted() {
                     finished = false;
+                    out.search_complete = false;
                     break;
                 }
                 let coeffs = g.coeffs();
@@ -195,7 +196,14 @@ pub(crate) fn full_two_descent(
             }
             finished
         }
-        Err(e) if *e.kind() == ErrorKind::Budget || *e.kind() == ErrorKind::TooLarge => false,
+        Err(e) if *e.kind() == ErrorKind::Budget || *e.kind() == ErrorKind::TooLarge => {
+            // cut short by the clock or the cancellation flag (not refused
+            // by its size estimate): the report says so
+            if work.exhausted() {
+                out.search_complete = false;
+            }
+            false
+        }
         Err(e) => return Err(e),
     };
     if complete {

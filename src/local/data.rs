@@ -5,7 +5,7 @@
 //! reads it instead of factoring or running Tate's algorithm again.
 
 use super::{local_data, LocalData};
-use crate::arith::{factor, is_probable_prime, valuation, FactorLimits};
+use crate::arith::{factor, is_probable_prime_within, valuation, FactorLimits};
 use crate::budget::Work;
 use crate::curve::{Curve, ModelChange, Point};
 use crate::error::{Error, ErrorKind};
@@ -63,10 +63,18 @@ impl CurveData {
     /// assert!(CurveData::with_known_primes(&e, &[Natural::from(2u32)]).is_err());
     /// ```
     pub fn with_known_primes(curve: &Curve, primes: &[Natural]) -> Result<CurveData, Error> {
+        CurveData::with_known_primes_within(curve, primes, &Work::unlimited())
+    }
+
+    /// [`CurveData::with_known_primes`] with the primality tests held to
+    /// the deadline and cancel flag of `work` (an error of kind
+    /// [`ErrorKind::FactorBudget`] when they end it).
+    pub fn with_known_primes_within(curve: &Curve, primes: &[Natural], work: &Work) -> Result<CurveData, Error> {
+        let limits = FactorLimits::within(work);
         let mut rest = curve.discriminant().clone().abs();
         let mut out = Vec::new();
         for p in primes {
-            if !is_probable_prime(p) {
+            if !is_probable_prime_within(p, &limits)? {
                 return Err(Error::new(ErrorKind::InvalidValue, format!("{p} is not prime")));
             }
             let pi = Integer::from(p.clone());

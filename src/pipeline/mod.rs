@@ -43,7 +43,7 @@ pub fn analyse(curve: &Curve, options: &RankOptions) -> Result<RankReport, Error
     let work = Work::new(options);
     work.report(Stage::LocalData, "factoring the discriminant");
     let data = match &options.known_primes {
-        Some(ps) => CurveData::with_known_primes(curve, ps)?,
+        Some(ps) => CurveData::with_known_primes_within(curve, ps, &work)?,
         None => CurveData::new(curve, &work)?,
     };
     analyse_data(&data, options, &work)
@@ -262,11 +262,10 @@ fn combine(
         report.independence = why;
     }
     report.rank_upper = upper;
-    if let Some(best) = runs.iter().filter(|r| r.upper.is_some()).min_by_key(|r| r.upper.unwrap()) {
+    if let Some(best) = runs.iter().filter(|r| r.upper.is_some()).min_by_key(|r| r.upper.unwrap_or(usize::MAX)) {
         report.isogeny_selmer_dims = Some((best.side_e.selmer_dim, best.side_e_prime.selmer_dim));
     }
-    if report.rank_upper.is_some() && report.rank_upper != report.rank_lower {
-        let u = report.rank_upper.unwrap();
+    if let Some(u) = report.rank_upper.filter(|&u| Some(u) != report.rank_lower) {
         if let Some(f) = full.filter(|f| f.upper == Some(u)) {
             let origin = match &report.descent_curve {
                 None => "quartic 2-covering of E (an element of Sel^2(E))".to_string(),

@@ -33,11 +33,12 @@
 //!   `(t^2 - s1)^2 - 8 p3 t - 4 s2` (`s1, s2` the first two symmetric functions
 //!   of the conjugates of `x`). Conversely such a rational `ψ` has a root
 //!   `γ` with `γ^2` a conjugate of `x`, and `γ` lies in the cubic field
-//!   because `Q(γ) ⊇ Q(x)` has degree at most 3. Integer roots are located
-//!   numerically and confirmed by exact evaluation.
+//!   because `Q(γ) ⊇ Q(x)` has degree at most 3. Integer roots are found
+//!   exactly (bisection over the integers between the sign changes of the
+//!   derivatives, no floating point), so the test is exact at any size.
 
 use super::core::{Matrix, Quartic};
-use super::numeric::{isqrt_exact, resolvent_roots, to_f64, CubicRoots};
+use super::numeric::{integer_roots, isqrt_exact};
 use crate::curve::Curve;
 use crate::error::{Error, ErrorKind};
 use malachite::base::num::arithmetic::traits::{Abs, Lcm, Pow};
@@ -111,118 +112,11 @@ fn cubic_at(i: &Integer, j: &Integer, t: &Integer) -> Integer {
     t * t * t - Integer::from(3) * i * t + j
 }
 
-/// Integer Newton refinement of an approximate root of an integer polynomial
-/// (coefficients low to high), followed by an exact check of nearby integers.
-fn integer_roots_near(poly: &[Integer], approx: f64, out: &mut Vec<Integer>) {
-    if !approx.is_finite() {
-        return;
-    }
-    let eval = |t: &Integer| -> Integer {
-        let mut acc = Integer::ZERO;
-        for c in poly.iter().rev() {
-            acc = acc * t + c;
-        }
-        acc
-    };
-    let deriv = |t: &Integer| -> Integer {
-        let mut acc = Integer::ZERO;
-        for (k, c) in poly.iter().enumerate().skip(1).rev() {
-            acc = acc * t + c * Integer::from(k as u64);
-        }
-        acc
-    };
-    let mut t = Integer::rounding_from(approx, RoundingMode::Nearest).0;
-    for _ in 0..200 {
-        let fv = eval(&t);
-        if fv == 0 {
-            break;
-        }
-        let dv = deriv(&t);
-        if dv == 0 {
-            break;
-        }
-        let step = Rational::from_integers(fv, dv);
-        let st = Integer::rounding_from(step, RoundingMode::Nearest).0;
-        if st == 0 {
-            break;
-        }
-        t -= st;
-    }
-    for k in -2i64..=2 {
-        let c = &t + Integer::from(k);
-        if eval(&c) == 0 && !out.contains(&c) {
-            out.push(c);
-        }
-    }
-}
-
-/// The integer (= rational) roots of `t^3 - 3It + J`, exactly.
+/// The integer (= rational) roots of `t^3 - 3It + J`, exactly (see
+/// [`integer_roots`]: no floating point, any size).
 pub(crate) fn integer_roots_of_resolvent(i: &Integer, j: &Integer) -> Vec<Integer> {
-    let mut out = Vec::new();
     let poly = [j.clone(), Integer::from(-3) * i, Integer::ZERO, Integer::ONE];
-    let delta = Integer::from(4) * i * i * i - j * j;
-    let (fi, fj) = (to_f64(i), to_f64(j));
-    match resolvent_roots(fi, fj, delta > 0) {
-        CubicRoots::Three(r) => {
-            for v in r {
-                integer_roots_near(&poly, v, &mut out);
-            }
-        }
-        CubicRoots::One { real, .. } => integer_roots_near(&poly, real, &mut out),
-    }
-    out.retain(|t| cubic_at(i, j, t) == 0);
-    out.sort();
-    out
-}
-
-/// Real roots of a monic integer quartic given by `(t^2 - s1)^2 - 8 p3 t - 4 s2`,
-/// approximately, by bisection between the critical points.
-fn real_roots_special_quartic(s1: f64, s2: f64, p3: f64) -> Vec<f64> {
-    let p = |t: f64| (t * t - s1).powi(2) - 8.0 * p3 * t - 4.0 * s2;
-    // critical points: t^3 - s1 t - 2 p3 = 0, i.e. resolvent form with i = s1/3, j = -2 p3
-    let (ci, cj) = (s1 / 3.0, -2.0 * p3);
-    let crit: Vec<f64> = if 4.0 * ci * ci * ci > cj * cj {
-        match resolvent_roots(ci, cj, true) {
-            CubicRoots::Three(r) => r.to_vec(),
-            _ => vec![],
-        }
-    } else {
-        match resolvent_roots(ci, cj, false) {
-            CubicRoots::One { real, .. } => vec![real],
-            _ => vec![],
-        }
-    };
-    let big = 2.0 * (1.0 + s1.abs().sqrt() + s2.abs().powf(0.25) + p3.abs().powf(1.0 / 3.0)) + 1.0;
-    let mut pts = vec![-big * 4.0];
-    pts.extend(crit.iter().copied());
-    pts.push(big * 4.0);
-    let mut roots = Vec::new();
-    for w in pts.windows(2) {
-        let (mut lo, mut hi) = (w[0], w[1]);
-        let (flo, fhi) = (p(lo), p(hi));
-        if flo == 0.0 {
-            roots.push(lo);
-        }
-        if flo.signum() == fhi.signum() {
-            // a double root or none: keep the endpoint as a candidate
-            roots.push(lo);
-            continue;
-        }
-        for _ in 0..200 {
-            let mid = 0.5 * (lo + hi);
-            if mid <= lo || mid >= hi {
-                break;
-            }
-            if p(mid).signum() == flo.signum() {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-        }
-        roots.push(0.5 * (lo + hi));
-    }
-    roots.extend(crit);
-    roots
+    integer_roots(&poly)
 }
 
 /// Whether `x` (integer coordinates, not rational) is a square in the cubic
@@ -249,14 +143,8 @@ fn is_square_cubic_field(u: &[Integer; 3], i: &Integer, j: &Integer) -> bool {
         Integer::ZERO,
         Integer::ONE,
     ];
-    let mut found = Vec::new();
-    for r in real_roots_special_quartic(to_f64(&s1), to_f64(&s2), to_f64(&p3)) {
-        integer_roots_near(&poly, r, &mut found);
-        if !found.is_empty() {
-            return true;
-        }
-    }
-    false
+    // exact integer roots: no floating-point step can miss one
+    !integer_roots(&poly).is_empty()
 }
 
 /// Whether `w0 + w1 φ` is a square in `Q[φ]/(φ^2 + rφ + s)` (irreducible).
@@ -369,7 +257,10 @@ pub fn covering_class(g: &Quartic) -> Result<CoveringClass, Error> {
             return Ok(CoveringClass { i: g.invariant_i(), j: g.invariant_j(), elt });
         }
     }
-    unreachable!("R vanishes at more than six points")
+    // R(α, γ) is a non-zero sextic form when the discriminant is not zero
+    // (the product of the three q_φ), so it vanishes at no more than six of
+    // the twelve points above: this line is never reached
+    Err(Error::new(ErrorKind::InvalidValue, format!("internal error: the seminvariant R of {g:?} vanishes at twelve points")))
 }
 
 impl CoveringClass {

@@ -154,7 +154,7 @@ impl<'a> Search<'a> {
     /// units of `work`.
     fn check_clock(&mut self) -> Result<(), Error> {
         if self.work >= self.next_check {
-            self.next_check = self.work + (1 << 20);
+            self.next_check = self.work.saturating_add(1 << 20);
             if self.cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed)) {
                 return Err(Error::new(ErrorKind::Budget, "quartic search cancelled"));
             }
@@ -165,9 +165,27 @@ impl<'a> Search<'a> {
         Ok(())
     }
 
+    /// Called once per value of `a`, before its box is scanned or
+    /// estimated: charges one unit of set-up work (so that the deadline and
+    /// the cancellation flag are looked at even when most boxes are empty or
+    /// only estimated), and in estimation mode stops as soon as the running
+    /// estimate already exceeds the candidate limit (the loop over `a` alone
+    /// can be of length `|I|^{1/2}`).
+    fn next_a(&mut self) -> Result<(), Error> {
+        if let (Some((st, wk)), Some(l)) = (self.estimate, self.limit) {
+            if too_big(st, wk, l) {
+                return Err(refusal(st, l));
+            }
+        }
+        self.setup_work(1)
+    }
+
     /// Charges set-up work that is not a candidate (see `work`).
     fn setup_work(&mut self, n: u64) -> Result<(), Error> {
-        self.work += n;
+        self.work = self.work.saturating_add(n);
+        if self.estimate.is_some() {
+            return self.check_clock();
+        }
         if let Some(l) = self.limit {
             if self.work > l.saturating_mul(4) {
                 return Err(Error::new(ErrorKind::Budget, format!("quartic search exceeded its work limit (4 x {l})")));
@@ -198,6 +216,9 @@ impl<'a> Search<'a> {
         }
         let filt = fast.then(|| if work > 20000.0 { ResidueFilter::new(&Integer::from(a), self.i, self.j) } else { ResidueFilter::trivial() });
         for b in 0..=2 * a.abs() {
+            // one unit of set-up work per b: the clock is looked at even when
+            // most ranges below are empty
+            self.setup_work(1)?;
             let b2 = 3.0 * (b as f64) * (b as f64);
             let (lo, hi) = if a > 0 {
                 (((hlo + b2) / (8.0 * a as f64)).ceil(), ((hhi + b2) / (8.0 * a as f64)).floor())
@@ -213,7 +234,12 @@ impl<'a> Search<'a> {
                 continue;
             }
             if fast {
-                self.scan_fast(a as i128, b as i128, clo, chi, ii, jj, small, filt.as_ref().unwrap());
+                // `filt` is Some whenever `fast` holds (built just above)
+                let trivial = ResidueFilter::trivial();
+                let f = filt.as_ref().unwrap_or(&trivial);
+                if !self.scan_fast(a as i128, b as i128, clo, chi, ii, jj, small, f) {
+                    return Err(self.stopped_error());
+                }
             } else {
                 for c in clo..=chi {
                     self.candidate_big(&Integer::from(a), &Integer::from(b), &Integer::from(c));
@@ -242,9 +268,14 @@ impl<'a> Search<'a> {
         }
         let aa = a as i128;
         let modulus = 8 * aa.abs();
+        // the residue table below holds 2|a| + 1 pairs: charge it (and check
+        // the clock) before allocating it
+        if aa.abs() > MAX_TABLE_A {
+            return Err(Error::new(ErrorKind::TooLarge, format!("quartic search box too large (leading coefficient up to {a})")));
+        }
+        self.setup_work((2 * aa.unsigned_abs() + 1) as u64)?;
         // residues -3b^2 mod 8|a| for 0 <= b <= 2|a|, grouped
         let mut pairs: Vec<(i128, i128)> = (0..=2 * aa.abs()).map(|b| ((-3 * b * b).rem_euclid(modulus), b)).collect();
-        self.setup_work(pairs.len() as u64)?;
         // grouping equal residues saves repeated square tests only when a
         // residue class meets the H-interval more than once; otherwise the
         // unsorted list (runs of length one) does the same work without the sort
@@ -290,6 +321,14 @@ impl<'a> Search<'a> {
         let m8a2 = 8 * a2;
         let a12 = 12 * aa;
         let mut hits: Vec<[i128; 5]> = Vec::new();
+        // the scan below can be long for one `a` (its work was charged in
+        // one tick above): it looks at the clock itself
+        let (deadline, cancel) = (self.deadline, self.cancel.clone());
+        let stop = move || {
+            cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed))
+                || deadline.is_some_and(|d| std::time::Instant::now() >= d)
+        };
+        let mut spin = 0u64;
         let mut k = 0;
         while k < pairs.len() {
             let r = pairs[k].0;
@@ -301,6 +340,10 @@ impl<'a> Search<'a> {
             let mut h = hmin + (r - hmin).rem_euclid(modulus);
             let mut res = filt.start(h);
             while h <= hmax {
+                spin += 1;
+                if spin & 0xFFFF == 0 && stop() {
+                    return Err(self.stopped_error());
+                }
                 let pass = filt.pass(&res);
                 filt.advance(&mut res);
                 if pass {
@@ -338,19 +381,36 @@ impl<'a> Search<'a> {
     }
 
     #[allow(clippy::too_many_arguments)]
-    fn scan_fast(&mut self, a: i128, b: i128, clo: i128, chi: i128, ii: i128, jj: i128, small: bool, filt: &ResidueFilter) {
+    /// `false` when the deadline or the cancellation flag stopped the scan.
+    fn scan_fast(&mut self, a: i128, b: i128, clo: i128, chi: i128, ii: i128, jj: i128, small: bool, filt: &ResidueFilter) -> bool {
+        let (deadline, cancel) = (self.deadline, self.cancel.clone());
+        let stop = move || {
+            cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed))
+                || deadline.is_some_and(|d| std::time::Instant::now() >= d)
+        };
         if small {
             let mut hits: Vec<[i64; 5]> = Vec::new();
-            scan_i64(a as i64, b as i64, clo as i64, chi as i64, ii as i64, jj as i64, filt, &mut hits);
+            let done = scan_i64(a as i64, b as i64, clo as i64, chi as i64, ii as i64, jj as i64, filt, &mut hits, &stop);
             for h in hits {
                 self.push_checked(Quartic::from_coeffs(h.map(Integer::from)));
             }
+            done
         } else {
             let mut hits: Vec<[i128; 5]> = Vec::new();
-            scan_i128(a, b, clo, chi, ii, jj, filt, &mut hits);
+            let done = scan_i128(a, b, clo, chi, ii, jj, filt, &mut hits, &stop);
             for h in hits {
                 self.push_checked(Quartic::from_coeffs(h.map(Integer::from)));
             }
+            done
+        }
+    }
+
+    /// The error of a search stopped by the clock or the flag.
+    fn stopped_error(&self) -> Error {
+        if self.cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed)) {
+            Error::new(ErrorKind::Budget, "quartic search cancelled")
+        } else {
+            Error::new(ErrorKind::Budget, "quartic search ran out of time")
         }
     }
 
@@ -430,7 +490,8 @@ impl<'a> Search<'a> {
 /// `d = (R - b^3 + 4abc)/(8a^2)`, `e = (I + 3bd - c^2)/(12a)`.
 macro_rules! scanner {
     ($name:ident, $t:ty, $ut:ty, $sqrt:path) => {
-        fn $name(a: $t, b: $t, clo: $t, chi: $t, ii: $t, jj: $t, filt: &ResidueFilter, hits: &mut Vec<[$t; 5]>) {
+        /// `false` when `stop` ended the scan early (looked at every 2^16 steps).
+        fn $name(a: $t, b: $t, clo: $t, chi: $t, ii: $t, jj: $t, filt: &ResidueFilter, hits: &mut Vec<[$t; 5]>, stop: &dyn Fn() -> bool) -> bool {
             let a2 = a * a;
             let t1 = 48 * ii * a2;
             let t0 = 64 * jj * a2 * a;
@@ -444,6 +505,9 @@ macro_rules! scanner {
             let mut c = clo;
             let mut res = filt.start(h as i128);
             while c <= chi {
+                if (c - clo) & 0xFFFF == 0xFFFF && stop() {
+                    return false;
+                }
                 let pass = filt.pass(&res);
                 filt.advance(&mut res);
                 if pass {
@@ -474,6 +538,7 @@ macro_rules! scanner {
                 base += dbase;
                 c += 1;
             }
+            true
         }
     };
 }
@@ -496,7 +561,8 @@ impl ResidueFilter {
             let red = |x: Integer| -> u64 {
                 let r = x % &mi;
                 let r = if r < 0 { r + &mi } else { r };
-                u64::try_from(&r).unwrap()
+                // 0 <= r < 27 * 143: always a u64
+                u64::try_from(&r).unwrap_or(0)
             };
             let t1 = red(Integer::from(48) * i * a * a);
             let t0 = red(Integer::from(64) * j * a * a * a);
@@ -517,7 +583,8 @@ impl ResidueFilter {
             let modulus = Integer::from(27 * m);
             let r = (Integer::from(8) * a) % &modulus;
             let r = if r < 0 { r + modulus } else { r };
-            u64::try_from(&r).unwrap()
+            // 0 <= r < 27 * 143: always a u64
+            u64::try_from(&r).unwrap_or(0)
         });
         ResidueFilter { tables, moduli: ms.map(|m| 27 * m), steps }
     }
@@ -552,6 +619,23 @@ impl ResidueFilter {
 scanner!(scan_i64, i64, u64, sqrt_if_square_u64);
 scanner!(scan_i128, i128, u128, sqrt_if_square_u128);
 
+/// The largest `|a|` whose residue table (`2|a| + 1` pairs of `i128`) the
+/// search builds: beyond it the box is far too large to finish anyway (its
+/// candidates number at least `|a|^3`), and the table would need gigabytes.
+const MAX_TABLE_A: i128 = 1 << 26;
+
+/// Whether an estimated search (`st` candidates, `wk` set-up work) is beyond
+/// the candidate limit `l`. The estimate runs about 1.5 times below the true
+/// count on the tables' large cases, so a search predicted beyond the limit
+/// would end at the limit anyway, after the whole budget.
+fn too_big(st: f64, wk: f64, l: u64) -> bool {
+    1.6 * st > l as f64 || st + wk > 4.0 * l as f64
+}
+
+fn refusal(st: f64, l: u64) -> Error {
+    Error::new(ErrorKind::Budget, format!("quartic search would take about {st:.2e} candidates, beyond the limit of {l}"))
+}
+
 fn int_range(lo: f64, hi: f64, scale: f64) -> (i64, i64) {
     let tol = 1e-7 * (1.0 + scale);
     ((lo - tol).ceil() as i64, (hi + tol).floor() as i64)
@@ -571,6 +655,7 @@ fn search_three_real(s: &mut Search<'_>, r: [f64; 3], i: f64, positive_definite_
         let fp2 = (p2 - p1) * (p3 - p2); // |F'(φ_2)|
         let (alo, ahi) = int_range(-(p2 - p1) / 9.0, (p3 - p2) / 9.0, scale);
         for a in alo..=ahi {
+            s.next_a()?;
             let af = a as f64;
             if a == 0 {
                 s.zero_a(4.0 / 9.0 * fp2 * (1.0 + 1e-9) + 1e-6)?;
@@ -584,6 +669,7 @@ fn search_three_real(s: &mut Search<'_>, r: [f64; 3], i: f64, positive_definite_
     let fp1 = (p2 - p1) * (p3 - p1);
     let (_, ahi) = int_range(0.0, (p3 - p1) / 9.0, scale);
     for a in 1..=ahi {
+        s.next_a()?;
         let af = a as f64;
         let (hlo, hhi) = widen(4.0 * af * p2, (4.0 * af * p3).min(4.0 * af * p1 + 4.0 / 9.0 * fp1), sc2);
         s.fixed_a(a, hlo, hhi)?;
@@ -599,6 +685,7 @@ fn search_two_real(s: &mut Search<'_>, phi: f64, kappa: f64, i: f64) -> Result<(
     let sq = fp.sqrt();
     let (alo, ahi) = int_range((3.0 * phi - 2.0 * sq) / 9.0, (3.0 * phi + 2.0 * sq) / 9.0, scale);
     for a in alo..=ahi {
+        s.next_a()?;
         let af = a as f64;
         if a == 0 {
             s.zero_a(k2 * (1.0 + 1e-9) + 1e-6)?;
@@ -653,7 +740,9 @@ fn raw_search(i: &Integer, j: &Integer, positive_definite_only: bool, steps: &mu
     // refuse at once a search that would clearly exceed the limit
     if let Some(l) = limit {
         if !MODE.with(|m| m.get()).reference {
-            let mut e = Search { estimate: Some((0.0, 0.0)), limit: None, found: Vec::new(), cancel: None, deadline: None, ..s.clone_settings() };
+            // the estimate keeps the deadline and the cancellation flag, and
+            // stops as soon as it passes the limit (see `Search::next_a`)
+            let mut e = Search { estimate: Some((0.0, 0.0)), found: Vec::new(), ..s.clone_settings() };
             if delta > 0 {
                 if let CubicRoots::Three(r) = resolvent_roots(fi, fj, true) {
                     search_three_real(&mut e, r, fi, positive_definite_only)?;
@@ -663,27 +752,28 @@ fn raw_search(i: &Integer, j: &Integer, positive_definite_only: bool, steps: &mu
                     search_two_real(&mut e, real, complex.1, fi)?;
                 }
             }
-            let (st, wk) = e.estimate.unwrap();
-            // the estimate runs about 1.5 times below the true count on the
-            // tables' large cases, so a search predicted beyond the limit
-            // would end at the limit anyway, after the whole budget
-            if 1.6 * st > l as f64 || st + wk > 4.0 * l as f64 {
-                return Err(Error::new(
-                    ErrorKind::Budget,
-                    format!("quartic search would take about {st:.2e} candidates, beyond the limit of {l}"),
-                ));
+            let (st, wk) = e.estimate.unwrap_or((0.0, 0.0));
+            if too_big(st, wk, l) {
+                return Err(refusal(st, l));
             }
         }
     }
+    // the box comes from floating-point roots: refuse (never search a wrong
+    // box) when they are not finite
+    let not_finite = || Error::new(ErrorKind::TooLarge, "the resolvent roots of the quartic search are not finite in f64");
     if delta > 0 {
         match resolvent_roots(fi, fj, true) {
-            CubicRoots::Three(r) => search_three_real(&mut s, r, fi, positive_definite_only)?,
-            _ => unreachable!(),
+            CubicRoots::Three(r) if r.iter().all(|v| v.is_finite()) => search_three_real(&mut s, r, fi, positive_definite_only)?,
+            // resolvent_roots(.., true) always gives three roots
+            _ => return Err(not_finite()),
         }
     } else if !positive_definite_only {
         match resolvent_roots(fi, fj, false) {
-            CubicRoots::One { real, complex } => search_two_real(&mut s, real, complex.1, fi)?,
-            _ => unreachable!(),
+            CubicRoots::One { real, complex } if real.is_finite() && complex.1.is_finite() => {
+                search_two_real(&mut s, real, complex.1, fi)?
+            }
+            // resolvent_roots(.., false) always gives one real root
+            _ => return Err(not_finite()),
         }
     }
     *steps = s.steps;

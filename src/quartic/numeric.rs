@@ -2,6 +2,7 @@
 //! integer square roots and square filters.
 
 use malachite::base::num::arithmetic::traits::{CheckedSqrt, UnsignedAbs};
+use malachite::base::num::basic::traits::{One, Zero};
 use malachite::base::num::conversion::traits::RoundingFrom;
 use malachite::base::rounding_modes::RoundingMode;
 use malachite::{Integer, Natural};
@@ -70,7 +71,8 @@ pub(crate) fn resolvent_roots(i: f64, j: f64, three_real: bool) -> CubicRoots {
         for v in r.iter_mut() {
             *v = polish(*v);
         }
-        r.sort_by(|a, b| a.partial_cmp(b).unwrap());
+        // total order: a NaN (from non-finite input) sorts last instead of panicking
+        r.sort_by(|a, b| a.total_cmp(b));
         CubicRoots::Three(r)
     } else {
         // Cardano: t = u + v, u^3 + v^3 = -j, u v = i
@@ -160,6 +162,244 @@ pub(crate) fn isqrt_exact(n: &Integer) -> Option<Integer> {
     m.checked_sqrt().map(Integer::from)
 }
 
+/// All integer roots of a non-zero integer polynomial (coefficients from the
+/// constant term up), exactly and at any size, sorted.
+///
+/// Method: every real root lies in `(-B, B)` with Cauchy's bound
+/// `B = 1 + max |c_k / c_n|`. Between two consecutive real points where the
+/// derivative changes sign the polynomial is monotone, so it has at most one
+/// root there, found by bisection over the integers (a sign test at each
+/// step). The sign changes of the derivative are bracketed between
+/// consecutive integers in the same way, recursively (degree 1: exact
+/// division). Cost: `O(deg^2 log B)` evaluations; no floating point, so no
+/// size limit and no root is missed.
+pub(crate) fn integer_roots(poly: &[Integer]) -> Vec<Integer> {
+    let p = trimmed(poly);
+    let mut out = Vec::new();
+    if p.len() < 2 {
+        return out;
+    }
+    let b = cauchy_bound(p);
+    // monotone pieces: split at both neighbours of every sign change of p'
+    let mut pts: Vec<Integer> = vec![-b.clone(), b.clone()];
+    for k in sign_changes(&derivative(p)) {
+        if k > -b.clone() && k < b {
+            pts.push(k.clone());
+        }
+        let k1 = k + Integer::ONE;
+        if k1 > -b.clone() && k1 < b {
+            pts.push(k1);
+        }
+    }
+    pts.sort();
+    pts.dedup();
+    for w in pts.windows(2) {
+        if let Some(r) = root_in_monotone(p, &w[0], &w[1]) {
+            if !out.contains(&r) {
+                out.push(r);
+            }
+        }
+    }
+    out.sort();
+    out
+}
+
+fn trimmed(p: &[Integer]) -> &[Integer] {
+    let mut n = p.len();
+    while n > 0 && p[n - 1] == 0 {
+        n -= 1;
+    }
+    &p[..n]
+}
+
+fn derivative(p: &[Integer]) -> Vec<Integer> {
+    p.iter().enumerate().skip(1).map(|(k, c)| c * Integer::from(k as u64)).collect()
+}
+
+fn eval_at(p: &[Integer], t: &Integer) -> Integer {
+    let mut acc = Integer::ZERO;
+    for c in p.iter().rev() {
+        acc = acc * t + c;
+    }
+    acc
+}
+
+/// A bound on the absolute values of all roots (Fujiwara's bound,
+/// `|z| <= 2 max_k |c_k / c_n|^{1/(n-k)}`, M. Fujiwara, Tohoku Math. J. 10
+/// (1916)), rounded up to an integer and increased by 2 so that the roots lie
+/// strictly inside `(-B, B)`.
+fn cauchy_bound(p: &[Integer]) -> Integer {
+    use malachite::base::num::arithmetic::traits::CeilingRoot;
+    let n = p.len() - 1;
+    let lead = (&p[n]).unsigned_abs();
+    let mut m = Natural::ZERO;
+    for (k, c) in p[..n].iter().enumerate() {
+        // ceil(|c_k| / |c_n|), then its ceiling (n - k)-th root
+        let q: Natural = (c.unsigned_abs_ref() + &lead - Natural::ONE) / &lead;
+        let r = q.ceiling_root((n - k) as u64);
+        if r > m {
+            m = r;
+        }
+    }
+    Integer::from(m) * Integer::from(2) + Integer::from(2)
+}
+
+/// For a monotone polynomial on `[u, v]`: its integer root there, if any.
+fn root_in_monotone(p: &[Integer], u: &Integer, v: &Integer) -> Option<Integer> {
+    let (fu, fv) = (eval_at(p, u), eval_at(p, v));
+    if fu == 0 {
+        return Some(u.clone());
+    }
+    if fv == 0 {
+        return Some(v.clone());
+    }
+    if (fu > 0) == (fv > 0) {
+        return None;
+    }
+    let (k, fk) = bisect(p, u, v, fu > 0);
+    (fk == 0).then_some(k)
+}
+
+/// Search over the integers of `[lo, hi]` for a polynomial that is monotone
+/// there, with sign `lo_positive` at `lo` and the other sign at `hi`: an
+/// integer where it vanishes (with value 0), or the `k` with a sign change in
+/// `(k, k + 1)` (with `p(k)`).
+///
+/// Newton steps with a bisection safeguard (the bracket always holds the
+/// sign change; a Newton point outside it, or a step after which the bracket
+/// did not halve, is replaced by the midpoint). Every answer rests on exact
+/// signs at integer points, so the speed-up cannot change the result.
+fn bisect(p: &[Integer], lo: &Integer, hi: &Integer, lo_positive: bool) -> (Integer, Integer) {
+    use malachite::base::num::arithmetic::traits::DivRound;
+    let dp = derivative(p);
+    let (mut lo, mut hi) = (lo.clone(), hi.clone());
+    let mut flo = eval_at(p, &lo);
+    let mut t: Integer = split_point(&lo, &hi);
+    let mut last_width = &hi - &lo;
+    while &hi - &lo > 1 {
+        let ft = eval_at(p, &t);
+        if ft == 0 {
+            return (t, ft);
+        }
+        let below = (ft > 0) == lo_positive; // the sign change is above t
+        if below {
+            lo = t.clone();
+            flo = ft.clone();
+        } else {
+            hi = t.clone();
+        }
+        // Newton's point from t, and its neighbour towards the sign change,
+        // so that a converged step closes the bracket at once
+        let width = &hi - &lo;
+        if width <= 1 {
+            break;
+        }
+        let halved = width.clone() * Integer::from(2) <= last_width;
+        last_width = width;
+        let d = eval_at(&dp, &t);
+        let mut next = None;
+        if halved && d != 0 {
+            let (step, _) = ft.div_round(d, RoundingMode::Nearest);
+            let c = &t - step;
+            if c > lo && c < hi {
+                next = Some(c);
+            }
+        }
+        t = match next {
+            Some(c) if c != t => c,
+            // Newton stays at t: the sign change is next to it
+            Some(_) => {
+                let nb = if below { &t + Integer::ONE } else { &t - Integer::ONE };
+                if nb > lo && nb < hi {
+                    nb
+                } else {
+                    split_point(&lo, &hi)
+                }
+            }
+            None => split_point(&lo, &hi),
+        };
+    }
+    (lo, flo)
+}
+
+/// A point strictly between `lo` and `hi` (`hi - lo >= 2`): 0 when the
+/// interval straddles it, the geometric mean (a power of 2) when the ends
+/// differ by more than a factor 4, else the midpoint. Roots of very
+/// different sizes are so located in `O(log log B)` steps instead of
+/// `O(log B)`.
+fn split_point(lo: &Integer, hi: &Integer) -> Integer {
+    let mid = || -> Integer { (lo + hi) >> 1u32 };
+    if *lo < 0 && *hi > 0 {
+        return Integer::ZERO;
+    }
+    let (a, b, neg) = if *lo >= 0 { (lo.clone(), hi.clone(), false) } else { (-hi.clone(), -lo.clone(), true) };
+    // 0 <= a < b
+    if b > (&a + Integer::ONE) * Integer::from(4) {
+        let e = (significant_bits(&a) + significant_bits(&b)) / 2;
+        let g = Integer::ONE << e;
+        if g > a && g < b {
+            return if neg { -g } else { g };
+        }
+    }
+    mid()
+}
+
+/// Integers `k` such that every real point where `q` changes sign lies in
+/// `[k, k + 1]` for one of them (more points are harmless).
+fn sign_changes(q: &[Integer]) -> Vec<Integer> {
+    let q = trimmed(q);
+    let mut out = Vec::new();
+    match q.len() {
+        0 | 1 => return out,
+        2 => {
+            // c0 + c1 t: the root -c0/c1, rounded down
+            use malachite::base::num::arithmetic::traits::DivRound;
+            let (t, _) = (-q[0].clone()).div_round(q[1].clone(), RoundingMode::Floor);
+            out.push(t);
+            return out;
+        }
+        _ => {}
+    }
+    let b = cauchy_bound(q);
+    let mut pts: Vec<Integer> = vec![-b.clone(), b.clone()];
+    for k in sign_changes(&derivative(q)) {
+        let k1 = &k + Integer::ONE;
+        for x in [k, k1] {
+            if x > -b.clone() && x < b {
+                pts.push(x);
+            }
+        }
+    }
+    pts.sort();
+    pts.dedup();
+    for w in pts.windows(2) {
+        if &w[1] - &w[0] == 1 {
+            // a piece between the neighbours of a sign change of q' need not
+            // be monotone (q may cross zero twice inside): report it whole
+            out.push(w[0].clone());
+            continue;
+        }
+        // on a longer piece q is monotone: one sign change at most
+        let (fu, fv) = (eval_at(q, &w[0]), eval_at(q, &w[1]));
+        if fu == 0 {
+            out.push(w[0].clone());
+        }
+        if fv == 0 {
+            out.push(w[1].clone());
+        }
+        if fu != 0 && fv != 0 && (fu > 0) != (fv > 0) {
+            out.push(bisect(q, &w[0], &w[1], fu > 0).0);
+        }
+        // a zero at an end point is a possible sign change on either side
+        if fu == 0 {
+            out.push(&w[0] - Integer::ONE);
+        }
+    }
+    out.sort();
+    out.dedup();
+    out
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -180,6 +420,59 @@ mod tests {
                 assert_eq!(sqrt_if_square_u64((k * k - 1) as u64), None);
             }
         }
+    }
+
+    #[test]
+    fn integer_roots_exact_against_brute_force() {
+        // products of linear factors (with repeats and a quadratic without
+        // real roots), checked against a scan of every integer in the
+        // Cauchy bound: an independent second computation
+        let mut seed = 7u64;
+        let mut rnd = |m: i64| {
+            seed = seed.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            ((seed >> 33) % (2 * m as u64 + 1)) as i64 - m
+        };
+        for _ in 0..400 {
+            let deg = 1 + (rnd(2).unsigned_abs() as usize);
+            let mut p = vec![Integer::from(rnd(3).max(1))];
+            for _ in 0..deg {
+                let r = rnd(30);
+                // multiply by (t - r)
+                let mut q = vec![Integer::ZERO; p.len() + 1];
+                for (k, c) in p.iter().enumerate() {
+                    q[k + 1] += c;
+                    q[k] -= c * Integer::from(r);
+                }
+                p = q;
+            }
+            if rnd(1) == 0 {
+                // times t^2 + t + 5 (no real roots), or plus a constant
+                let mut q = vec![Integer::ZERO; p.len() + 2];
+                for (k, c) in p.iter().enumerate() {
+                    q[k] += c * Integer::from(5);
+                    q[k + 1] += c;
+                    q[k + 2] += c;
+                }
+                p = q;
+            } else if rnd(1) == 0 {
+                p[0] += Integer::from(rnd(50));
+            }
+            let brute: Vec<Integer> = (-200i64..=200).map(Integer::from).filter(|t| eval_at(&p, t) == 0).collect();
+            assert_eq!(integer_roots(&p), brute, "{p:?}");
+        }
+        // 100-digit roots far beyond f64 (a scaled cubic t^3 - 3It + J with roots r, s, -(r + s))
+        let r: Integer = "1234567890123456789012345678901234567890123456789012345678901234567890123456789012345678901234567890".parse().unwrap();
+        let s2: Integer = -Integer::from(987654321) * &r + Integer::from(17);
+        let t = -(&r + &s2);
+        let e2 = &r * &s2 + &r * &t + &s2 * &t;
+        let e3 = &r * &s2 * &t;
+        let p = [-e3, e2, Integer::ZERO, Integer::ONE];
+        let mut want = vec![r.clone(), s2.clone(), t.clone()];
+        want.sort();
+        assert_eq!(integer_roots(&p), want);
+        // a double root (no sign change) is still found
+        let p = [Integer::from(4), Integer::from(-4), Integer::ONE]; // (t - 2)^2
+        assert_eq!(integer_roots(&p), vec![Integer::from(2)]);
     }
 
     #[test]

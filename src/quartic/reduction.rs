@@ -148,7 +148,12 @@ pub(crate) fn definite_covariant(g: &Quartic) -> Option<(f64, f64, f64)> {
 pub(crate) fn tau(g: &Quartic) -> Option<(f64, f64)> {
     // nearly coincident resolvent roots (4I^3 - J^2 tiny beside J^2) make the
     // double-precision covariant unreliable anywhere in the domain
-    if ill_conditioned(g) {
+    // so do coefficients beyond 2^40: the terms of 4φ g - g_H then cancel
+    // far beyond double precision without τ coming near the boundary (found
+    // by the fuzz harness: about 1% of random 20-digit quartics were left
+    // unreduced, and `gl2z_equivalent` said "not equivalent" to a unimodular
+    // transform)
+    if ill_conditioned(g) || g.coeff_refs().iter().any(|c| significant_bits(c) > 40) {
         if let Some(t) = precise::tau(g) {
             return Some(t);
         }
@@ -208,6 +213,27 @@ mod precise {
         t
     }
 
+    /// The root of `φ^3 - 3Iφ + J` in `[lo, hi]`, where the cubic is
+    /// monotone and changes sign, by bisection to the working precision.
+    fn bisect_root(mut lo: Float, mut hi: Float, i: &Float, j: &Float, prec: u64) -> Float {
+        let three = fi(3, prec);
+        let f = |t: &Float| &(&(t * t) - &(&three * i)) * t + j;
+        let lo_neg = f(&lo) < 0u32;
+        let half = Float::from(0.5f64);
+        for _ in 0..prec + 8 {
+            let mid = &(&lo + &hi) * &half;
+            if mid == lo || mid == hi {
+                break;
+            }
+            if (f(&mid) < 0u32) == lo_neg {
+                lo = mid;
+            } else {
+                hi = mid;
+            }
+        }
+        lo
+    }
+
     pub(super) fn tau(g: &Quartic) -> Option<(f64, f64)> {
         let rt = g.root_type()?;
         let coeffs = g.coeff_refs();
@@ -224,11 +250,28 @@ mod precise {
         let gh = g.hessian();
         let hc = gh.coeff_refs();
         let (two, three, four) = (fi(2, prec), fi(3, prec), fi(4, prec));
-        let real_root = |r: f64| Cx::real(polish(r * up, &i, &j, prec));
+        // three real roots: each found by bisection in its own interval
+        // (-2√I, -√I), (-√I, √I), (√I, 2√I) between the critical points of
+        // φ^3 - 3Iφ + J, where the cubic is monotone; Newton's method from a
+        // double-precision start could land on a neighbouring root when two
+        // roots are close
+        let isolated = |k: usize| -> Option<Cx> {
+            if i <= 0u32 {
+                return None;
+            }
+            let s = sqrt(&i, prec);
+            let two_s = &two * &s;
+            let (lo, hi) = match k {
+                0 => (-two_s.clone(), -s.clone()),
+                1 => (-s.clone(), s.clone()),
+                _ => (s.clone(), two_s.clone()),
+            };
+            Some(Cx::real(bisect_root(lo, hi, &i, &j, prec)))
+        };
         let (phi, sign) = match (rt, resolvent_roots(fi_, fj_, rt != RootType::TwoReal)) {
-            (RootType::FourReal, CubicRoots::Three(r)) => (real_root(r[1]), 1),
-            (RootType::PositiveDefinite, CubicRoots::Three(r)) => (real_root(r[0]), -1),
-            (RootType::NegativeDefinite, CubicRoots::Three(r)) => (real_root(r[2]), -1),
+            (RootType::FourReal, CubicRoots::Three(_)) => (isolated(1)?, 1),
+            (RootType::PositiveDefinite, CubicRoots::Three(_)) => (isolated(0)?, -1),
+            (RootType::NegativeDefinite, CubicRoots::Three(_)) => (isolated(2)?, -1),
             (RootType::TwoReal, CubicRoots::One { real, .. }) => {
                 let r = polish(real * up, &i, &j, prec);
                 // the complex roots: -r/2 ± iκ with κ^2 = 3r^2/4 - 3I
@@ -400,10 +443,12 @@ pub(crate) fn size_key(g: &Quartic) -> ([Integer; 5], [Integer; 5]) {
 /// ```
 pub fn reduce(q: &Quartic) -> (Quartic, Matrix) {
     match near_reduced_set(q) {
-        Some(set) => {
-            let best = set.into_iter().min_by(|x, y| size_key(&x.0).cmp(&size_key(&y.0))).unwrap();
-            best
-        }
+        // the set holds at least the reduced form itself (the identity is
+        // among the neighbours); an empty set is treated like a failure
+        Some(set) => match set.into_iter().min_by(|x, y| size_key(&x.0).cmp(&size_key(&y.0))) {
+            Some(best) => best,
+            None => (q.clone(), mat_identity()),
+        },
         None => (q.clone(), mat_identity()),
     }
 }
@@ -464,6 +509,19 @@ mod tests {
 
     fn q(v: [i64; 5]) -> Quartic {
         Quartic::from_coeffs(v)
+    }
+
+    #[test]
+    fn unimodular_image_of_a_skewed_form_is_recognised() {
+        // found by the fuzz harness (random, invented data): the quick
+        // double-precision covariant of h was wrong without lying near the
+        // boundary, and Newton's method from a double-precision start could
+        // reach the wrong resolvent root; h = g∘U for a unimodular U
+        let g = Quartic::new(["-7621", "-9119563602643672", "46673113006267800310", "87036377284326", "-161378808"].map(|x| x.parse::<Integer>().unwrap()));
+        let h = Quartic::new(["-161378808", "-87035731769094", "46673374114431380440", "-93337367557419294694", "46664080478881054535"].map(|x| x.parse::<Integer>().unwrap()));
+        let m = gl2z_equivalence(&g, &h).expect("equivalent forms");
+        assert_eq!(g.transform(&m), h);
+        assert_eq!(reduce(&g).0, reduce(&h).0);
     }
 
     #[test]

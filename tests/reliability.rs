@@ -1,0 +1,216 @@
+//! Regression tests for issue 12 (reliability under hostile input and long
+//! work): every reproducer of the issue, with short budgets so the tests
+//! stay fast. A budgeted call must return within 1.5 times its budget plus
+//! 50 ms, with what it proved so far. The curves are the issue's own
+//! reproducers (invented or random inputs, not table data); the expected
+//! answers are the exact checks named beside each test.
+
+use malachite::{Integer, Natural};
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::Arc;
+use std::time::{Duration, Instant};
+use twofold::batch::{analyse_batch, analyse_text, BatchOptions};
+use twofold::quartic::{covering_class, quartics_with_invariants, same_covering, Quartic, SearchOptions};
+use twofold::{analyse, Curve, ErrorKind, RankOptions};
+
+fn allowed(budget: Duration) -> Duration {
+    budget.mul_f64(1.5) + Duration::from_millis(50)
+}
+
+fn timed<T>(f: impl FnOnce() -> T) -> (T, Duration) {
+    let t = Instant::now();
+    let r = f();
+    (r, t.elapsed())
+}
+
+/// (a) The quartic enumeration's size estimate and set-up: these two curves
+/// ran for minutes under `--budget 0.2` (the loop over the leading
+/// coefficient of the estimate had no clock). Now they return in time.
+#[test]
+fn quartic_setup_holds_the_budget() {
+    let budget = Duration::from_millis(200);
+    for c in [[341240, 0, 1, -1, 0], [87672989, 1, 1, -2, 0]] {
+        let e = Curve::from_coefficients(c).unwrap();
+        let opts = RankOptions { evidence: false, ..RankOptions::default() }.with_time_limit(budget);
+        let (r, el) = timed(|| analyse(&e, &opts));
+        assert!(el <= allowed(budget), "{c:?}: {el:?}");
+        let r = r.unwrap();
+        if let (Some(l), Some(u)) = (r.rank_lower, r.rank_upper) {
+            assert!(l <= u);
+        }
+    }
+}
+
+/// (a) The same curves with no time limit but a cancellation flag set after
+/// 100 ms: the batch stops promptly.
+#[test]
+fn quartic_setup_honours_the_cancel_flag() {
+    let flag = Arc::new(AtomicBool::new(false));
+    // a large enumeration limit, so that only the flag can stop the search
+    let rank = RankOptions { evidence: false, max_quartic_candidates: u64::MAX / 8, ..RankOptions::default() };
+    let opts = BatchOptions::new(rank).with_threads(1).with_cancel(flag.clone());
+    let f2 = flag.clone();
+    let setter = std::thread::spawn(move || {
+        std::thread::sleep(Duration::from_millis(100));
+        f2.store(true, Ordering::Relaxed);
+    });
+    let (run, el) = timed(|| analyse_batch(["[341240,0,1,-1,0]", "[87672989,1,1,-2,0]"], &opts));
+    setter.join().unwrap();
+    assert!(el <= Duration::from_millis(100) + allowed(Duration::ZERO) + Duration::from_millis(100), "{el:?}");
+    for it in &run.items {
+        if let Ok(r) = &it.result {
+            assert!(r.rank_upper.is_none() || r.budget_exhausted || r.rank().is_some());
+        }
+    }
+}
+
+/// (a) The public enumeration with a hopeless box and a candidate limit:
+/// refused by the size estimate at once, even though the loop over the
+/// leading coefficient alone would be of length about 10^11.
+#[test]
+fn hopeless_enumeration_is_refused_at_once() {
+    let e = Curve::from_coefficients([341240, 0, 1, -1, 0]).unwrap();
+    let (i, j) = (e.c4().clone(), Integer::from(2) * e.c6());
+    let opts = SearchOptions { max_candidates: Some(1_000_000_000), ..Default::default() };
+    let (r, el) = timed(|| quartics_with_invariants(&i, &j, &opts));
+    assert!(el < Duration::from_millis(250), "{el:?}");
+    assert!(matches!(r.unwrap_err().kind(), ErrorKind::Budget | ErrorKind::TooLarge));
+    // and with no candidate limit, a deadline alone stops it
+    let opts = SearchOptions { deadline: Some(Instant::now() + Duration::from_millis(100)), ..Default::default() };
+    let (r, el) = timed(|| quartics_with_invariants(&i, &j, &opts));
+    assert!(el <= allowed(Duration::from_millis(100)), "{el:?}");
+    assert!(r.is_err());
+}
+
+fn random_digits(n: usize, seed: u64) -> String {
+    let mut x = seed | 1;
+    let mut s = String::with_capacity(n);
+    for k in 0..n {
+        x ^= x << 13;
+        x ^= x >> 7;
+        x ^= x << 17;
+        let d = (x % 10) as u8;
+        s.push(char::from(b'0' + if k == 0 { 1 + d % 9 } else { d }));
+    }
+    s
+}
+
+/// (c) Probable-prime tests and factorisation of huge numbers: `[0,0,0,1,1/d]`
+/// with `d` of 1,000 and 3,000 digits took 5.6 s and 56 s under a 2 s
+/// budget; now the budget holds (here 0.2 s).
+#[test]
+fn huge_discriminants_hold_the_budget() {
+    let budget = Duration::from_millis(200);
+    for (n, seed) in [(1000, 1u64), (3000, 2)] {
+        let text = format!("[0,0,0,1,1/{}]", random_digits(n, seed));
+        let opts = RankOptions::default().with_time_limit(budget);
+        let (r, el) = timed(|| analyse_text(&text, &opts));
+        assert!(el <= allowed(budget), "{n} digits: {el:?}");
+        match r {
+            Ok(r) => assert!(r.budget_exhausted || r.rank().is_some()),
+            Err(e) => assert!(matches!(e.kind(), ErrorKind::FactorBudget | ErrorKind::Budget), "{e}"),
+        }
+    }
+}
+
+/// (c) The probable-prime test itself under a deadline: a 9,689-bit Mersenne
+/// prime (Gillies, 1963) is recognised without a limit and stopped by one.
+#[test]
+fn probable_prime_test_stops_at_the_deadline() {
+    use twofold::arith::{is_probable_prime, is_probable_prime_within, FactorLimits};
+    let m = (Natural::from(1u32) << 9689u32) - Natural::from(1u32);
+    assert!(is_probable_prime_within(&m, &FactorLimits::default()).unwrap());
+    assert!(is_probable_prime(&m));
+    // 2^9689 + 1 is divisible by 3: composite, found by the small-prime screen
+    let c = (Natural::from(1u32) << 9689u32) + Natural::from(1u32);
+    assert!(!is_probable_prime_within(&c, &FactorLimits::default()).unwrap());
+    // 2^9941 - 1 is prime too (Gillies, 1963); 10^4 bits with a 20 ms deadline
+    let m2 = (Natural::from(1u32) << 9941u32) - Natural::from(1u32);
+    let budget = Duration::from_millis(20);
+    let limits = FactorLimits { deadline: Some(Instant::now() + budget), cancel: None };
+    let (r, el) = timed(|| is_probable_prime_within(&m2, &limits));
+    assert!(el <= allowed(budget), "{el:?}");
+    if let Err(e) = r {
+        assert_eq!(e.kind(), &ErrorKind::FactorBudget);
+    }
+}
+
+/// A limit beyond the clock's range is no limit, not a panic (`--budget
+/// 1e19` made every curve an internal error).
+#[test]
+fn enormous_time_limit_is_no_limit() {
+    let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
+    for d in [Duration::MAX, Duration::from_secs_f64(1e19)] {
+        let r = analyse(&e, &RankOptions::default().with_time_limit(d)).unwrap();
+        // y^2 + y = x^3 - x has rank 1 (Cremona, Algorithms for Modular
+        // Elliptic Curves, 2nd ed., 1997, Table 1: the rank-1 curve of conductor 37)
+        assert_eq!(r.rank(), Some(1));
+    }
+}
+
+/// A batch asked for absurdly many threads runs (capped), in input order.
+#[test]
+fn absurd_thread_count_is_capped() {
+    let opts = BatchOptions::default().with_threads(100_000);
+    assert!(opts.effective_threads() <= twofold::batch::MAX_THREADS);
+    let run = analyse_batch(["[0,0,1,-1,0]", "not a curve", "[0,-1,1,-10,-20]"], &BatchOptions::default().with_threads(3));
+    assert_eq!(run.items.iter().map(|i| i.index).collect::<Vec<_>>(), vec![0, 1, 2]);
+}
+
+fn q(v: [&str; 5]) -> Quartic {
+    Quartic::new(v.map(|x| x.parse::<Integer>().unwrap()))
+}
+
+/// `same_covering(g, g)` was `false` for this 12-digit quartic (floating
+/// point roots of the resolvent missed an integer root); it must be `true`,
+/// and so must be the test against a transform of determinant 2 times a
+/// square (the covering is unchanged: Cremona, *Classical invariants and
+/// 2-descent on elliptic curves*, J. Symbolic Comput. 31 (2001)).
+#[test]
+fn same_covering_is_exact_on_the_reported_quartic() {
+    let g = Quartic::from_coeffs([-6821176i64, 7464, -7, -762661, -516301012545]);
+    assert!(same_covering(&g, &g));
+    let c = covering_class(&g).unwrap();
+    assert!(c.same_as(&c));
+    let m = [[Integer::from(1), Integer::from(1)], [Integer::from(-1), Integer::from(1)]];
+    let h = Quartic::new(g.transform(&m).coeffs().map(|x| x * Integer::from(9)));
+    assert!(same_covering(&g, &h));
+    // and a class is not the same as its product with a non-square
+    // (x^4 - z^4 is the trivial class; x^4 - 5x^2 z^2 + 4z^4 has invariants of
+    // another algebra: compared classes must agree on the algebra)
+    assert!(!same_covering(&Quartic::from_coeffs([1, 0, 0, 0, -1]), &Quartic::from_coeffs([1, 0, 0, 0, 1])));
+}
+
+/// A 154-digit quartic panicked in the resolvent sort (NaN); now every
+/// covering test on it decides, and it is the same covering as itself and
+/// as its transforms.
+#[test]
+fn huge_quartics_do_not_panic() {
+    let d = |n: usize, s: u64| random_digits(n, s);
+    let (a, b, c, dd, e) = (d(154, 3), d(150, 4), d(154, 5), d(152, 6), d(154, 7));
+    let g = q([&a, &format!("-{b}"), &c, &dd, &format!("-{e}")]);
+    assert!(same_covering(&g, &g));
+    let cl = covering_class(&g).unwrap();
+    assert!(cl.same_as(&cl));
+    let m = [[Integer::from(2), Integer::from(1)], [Integer::from(1), Integer::from(1)]];
+    assert!(same_covering(&g, &g.transform(&m)));
+    assert!(twofold::quartic::gl2z_equivalent(&g, &g.transform(&m)));
+    let _ = twofold::quartic::reduce(&g);
+}
+
+/// (b) The numerical root-number test took no deadline: `[0,0,108,39,0]`
+/// under 0.5 s took 9.7 s and `[0,0,0,-2362,0]` under 0.2 s took 5.6 s, both
+/// with `budget_exhausted: false`. Handled with the rewrite of
+/// `rootno::numeric` (separate work): run with `--ignored` once it lands.
+#[test]
+#[ignore]
+fn root_number_test_holds_the_budget() {
+    for (c, ms) in [([0, 0, 108, 39, 0], 500u64), ([0, 0, 0, -2362, 0], 200)] {
+        let budget = Duration::from_millis(ms);
+        let e = Curve::from_coefficients(c).unwrap();
+        let (r, el) = timed(|| analyse(&e, &RankOptions::default().with_time_limit(budget)));
+        assert!(el <= allowed(budget), "{c:?}: {el:?}");
+        let r = r.unwrap();
+        assert!(r.budget_exhausted || el <= budget, "{c:?}");
+    }
+}
