@@ -72,11 +72,9 @@ fn random_curves_hold_their_budget_and_invariants() {
     random_curves(false);
 }
 
-/// The same with the evidence stage, whose numerical root-number test does
-/// not take the deadline yet (issue 12 (b), being rewritten separately):
-/// run with `--ignored` once that lands.
+/// The same with the evidence stage and the analytic route, whose
+/// root-number test and L-value sums take the deadline.
 #[test]
-#[ignore]
 fn random_curves_with_evidence_hold_their_budget() {
     random_curves(true);
 }
