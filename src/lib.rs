@@ -111,6 +111,7 @@ pub mod curve;
 #[cfg(feature = "serde")]
 pub mod decimal_serde;
 pub mod descent;
+pub mod heegner;
 pub mod heights;
 pub mod isogeny;
 pub mod local;
