@@ -61,6 +61,11 @@ pub(crate) fn log2_abs(x: &Float) -> i64 {
 /// (Hasse; `d(n) <= 2 sqrt n`) as `2 |q|^{M+1} / (1 - |q|)`). Horner's rule,
 /// one complex product per term. Honours the budget every 4096 terms.
 pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &Budget) -> Result<Cx, Error> {
+    let total_terms: usize = forms.iter().map(|f| terms_needed(f.a as f64, (-d) as f64, prec)).sum();
+    let loss = (total_terms.max(2) as f64).log2().ceil() as u64;
+    if prec + loss + 8 <= 104 {
+        return modular_sum_dd(a, forms, d, prec, budget);
+    }
     let wp = prec + 24 + (a.len().max(2) as f64).log2().ceil() as u64;
     let pi = pi(wp);
     let sd = sqrt(&fi(-d, wp), wp);
@@ -94,6 +99,132 @@ pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64,
     Ok(total)
 }
 
+/// A double-double number `hi + lo` (about 106 bits), with Dekker's exact
+/// products (no fused multiply-add needed): T. J. Dekker, A floating-point
+/// technique for extending the available precision, Numer. Math. 18 (1971).
+#[derive(Clone, Copy, Debug, Default)]
+struct Dd {
+    hi: f64,
+    lo: f64,
+}
+
+#[inline(always)]
+fn two_sum(a: f64, b: f64) -> (f64, f64) {
+    let s = a + b;
+    let bb = s - a;
+    (s, (a - (s - bb)) + (b - bb))
+}
+
+#[inline(always)]
+fn quick_two_sum(a: f64, b: f64) -> (f64, f64) {
+    let s = a + b;
+    (s, b - (s - a))
+}
+
+#[inline(always)]
+fn split(a: f64) -> (f64, f64) {
+    let c = 134_217_729.0 * a;
+    let h = c - (c - a);
+    (h, a - h)
+}
+
+#[inline(always)]
+fn two_prod(a: f64, b: f64) -> (f64, f64) {
+    let p = a * b;
+    let (ah, al) = split(a);
+    let (bh, bl) = split(b);
+    (p, ((ah * bh - p) + ah * bl + al * bh) + al * bl)
+}
+
+impl Dd {
+    #[inline(always)]
+    fn add(self, y: Dd) -> Dd {
+        let (s, e) = two_sum(self.hi, y.hi);
+        let (t, f) = two_sum(self.lo, y.lo);
+        let (s, e) = quick_two_sum(s, e + t);
+        let (hi, lo) = quick_two_sum(s, e + f);
+        Dd { hi, lo }
+    }
+    #[inline(always)]
+    fn neg(self) -> Dd {
+        Dd { hi: -self.hi, lo: -self.lo }
+    }
+    #[inline(always)]
+    fn mul(self, y: Dd) -> Dd {
+        let (p, e) = two_prod(self.hi, y.hi);
+        let (hi, lo) = quick_two_sum(p, e + (self.hi * y.lo + self.lo * y.hi));
+        Dd { hi, lo }
+    }
+    fn from_float(x: &Float) -> Dd {
+        let hi = to_f64(x);
+        let lo = to_f64(&(x - Float::from(hi)));
+        Dd { hi, lo }
+    }
+    fn to_float(self, prec: u64) -> Float {
+        Float::from_primitive_float_prec(self.hi, prec).0 + Float::from_primitive_float_prec(self.lo, prec).0
+    }
+    /// `a / n` for integers below 2^53.
+    #[inline(always)]
+    fn ratio(a: i64, n: i64) -> Dd {
+        let (af, nf) = (a as f64, n as f64);
+        let hi = af / nf;
+        let (p, e) = two_prod(hi, nf);
+        let lo = ((af - p) - e) / nf;
+        let (hi, lo) = quick_two_sum(hi, lo);
+        Dd { hi, lo }
+    }
+}
+
+/// [`modular_sum`] in double-double arithmetic, for precisions up to
+/// about 90 bits: the same Horner scheme, about 30 times faster than
+/// multiple precision at this size.
+fn modular_sum_dd(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &Budget) -> Result<Cx, Error> {
+    let wp = 160;
+    let pi = pi(wp);
+    let sd = sqrt(&fi(-d, wp), wp);
+    let (mut tre, mut tim) = (Dd::default(), Dd::default());
+    for f in forms {
+        let m = terms_needed(f.a as f64, (-d) as f64, prec);
+        if m + 1 > a.len() {
+            return Err(Error::new(ErrorKind::InvalidValue, "not enough coefficients for the series"));
+        }
+        let af = fz(&Integer::from(f.a), wp);
+        let r = exp(&-(&pi * &sd / &af), wp);
+        let theta = -(&pi * fz(&Integer::from(f.b), wp)) / &af;
+        let e = expi(&theta, wp);
+        let (qr, qi) = (Dd::from_float(&(&r * &e.re)), Dd::from_float(&(&r * &e.im)));
+        let (mut sr, mut si) = (Dd::default(), Dd::default());
+        for n in (1..=m).rev() {
+            if n % 65536 == 0 && budget.exhausted() {
+                return Err(Error::new(ErrorKind::Budget, "time budget spent in the modular parametrisation"));
+            }
+            if n < m {
+                let nr = sr.mul(qr).add(si.mul(qi).neg());
+                let ni = sr.mul(qi).add(si.mul(qr));
+                sr = nr;
+                si = ni;
+            }
+            let an = a[n];
+            if an != 0 {
+                sr = sr.add(Dd::ratio(an, n as i64));
+            }
+        }
+        let nr = sr.mul(qr).add(si.mul(qi).neg());
+        let ni = sr.mul(qi).add(si.mul(qr));
+        tre = tre.add(nr);
+        tim = tim.add(ni);
+    }
+    Ok(Cx::new(tre.to_float(wp), tim.to_float(wp)))
+}
+
+/// The largest precision the double-double sum reaches for these forms
+/// (106 bits less the rounding growth over the terms and a margin).
+pub(crate) fn double_double_capacity(forms: &[QuadraticForm], d: i64) -> u64 {
+    let total: usize = forms.iter().map(|f| terms_needed(f.a as f64, (-d) as f64, 90)).sum();
+    let loss = (total.max(2) as f64).log2().ceil() as u64;
+    104u64.saturating_sub(loss + 8).max(32)
+}
+
 /// The number of terms for an absolute error below `2^-(prec+8)` at a
 /// Heegner point with first coefficient `a` and discriminant `-abs_d`.
 pub(crate) fn terms_needed(a: f64, abs_d: f64, prec: u64) -> usize {
@@ -124,6 +255,12 @@ impl Lattice {
     /// The working precision in bits.
     pub(crate) fn precision(&self) -> u64 {
         self.prec
+    }
+
+    /// `z + i w1 + j w2`.
+    pub(crate) fn shifted(&self, z: &Cx, i: i64, j: i64) -> Cx {
+        let fi_ = |k: i64| fi(k, self.prec);
+        z.add(&scale(&self.w1, &fi_(i))).add(&scale(&self.w2, &fi_(j)))
     }
 
     /// The real coordinates `(s, t)` of `z = s w1 + t w2` (`w1` real).

@@ -283,6 +283,8 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
     let Some(s) = setup(minimal, conductor)? else { return Ok(None) };
     let discs = heegner_discriminants(s.n, opts.max_discriminants)?;
     let mut coeffs: Vec<i64> = Vec::new();
+    let primes: Vec<Natural> = s.local.iter().map(|d| d.prime.clone()).collect();
+    let tors: Vec<Point> = TorsionGroup::compute(minimal, &primes).points().to_vec();
     let b2 = Rational::from(minimal.b_invariants()[0].clone());
     for h in &discs {
         // bits for x = a/d^2 of height about hhat + slack, with the loss
@@ -293,8 +295,8 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
             if budget.exhausted() {
                 return Err(err(ErrorKind::Budget, "time budget spent in the Heegner point search"));
             }
-            let bits = ((target_height / std::f64::consts::LN_2) * 2.6 + 64.0).ceil() as u64;
-            let bits = bits.min(opts.max_precision.max(64));
+            let bits = ((target_height / std::f64::consts::LN_2) * 2.6 + 24.0).ceil() as u64;
+            let bits = bits.min(opts.max_precision.max(64)).max(analytic::double_double_capacity(&h.forms, h.discriminant));
             let m = h
                 .forms
                 .iter()
@@ -330,15 +332,9 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
                 }
                 let p = lat.weierstrass_p(&zr);
                 let x = &p.re - Float::from_rational_prec_ref(&b2, bits + 32).0 / fi(12, bits + 32);
-                let mag = analytic::log2_abs(&x).max(0);
-                let tol_exp = (bits as i64 / 2 - mag).max(8);
-                let tol = Rational::from_signeds(1i64, 1i64) / Rational::from(malachite::Integer::from(2).pow_u(tol_exp as u64));
-                for c in analytic::square_denominator_convergents(&x, &tol, 4 * bits as usize) {
-                    if let Some(pt) = analytic::point_with_x(minimal, &c) {
-                        if minimal.torsion_order_of(&pt).is_none() {
-                            return finish(minimal, &s, h, pt, mult, bits, coeffs.len() - 1, &budget, start).map(Some);
-                        }
-                    }
+                if let Some(pt) = recognise(minimal, &x, bits) {
+                    let (q, _) = divide_out(minimal, &tors, &lat, &b2, zr, pt.clone(), bits, &budget);
+                    return finish(minimal, &s, h, pt, q, mult, bits, coeffs.len() - 1, &budget, start).map(Some);
                 }
             }
             if bits >= opts.max_precision {
@@ -348,6 +344,72 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
         }
     }
     Ok(None)
+}
+
+/// The point of infinite order with x-coordinate near `x` (a convergent
+/// of its continued fraction with a square denominator, within about
+/// `2^-(bits/2)` relative), verified exactly on the curve.
+fn recognise(curve: &Curve, x: &Float, bits: u64) -> Option<Point> {
+    let mag = analytic::log2_abs(x).max(0);
+    let tol_exp = (bits as i64 / 2 - mag).max(8);
+    let tol = Rational::from_signeds(1i64, 1i64) / Rational::from(malachite::Integer::from(2).pow_u(tol_exp as u64));
+    for c in analytic::square_denominator_convergents(x, &tol, 4 * bits as usize) {
+        if let Some(pt) = analytic::point_with_x(curve, &c) {
+            if curve.torsion_order_of(&pt).is_none() {
+                return Some(pt);
+            }
+        }
+    }
+    None
+}
+
+/// Divides the verified point `pt` (with real elliptic logarithm `z`) by
+/// small primes `l` as often as possible: the candidates for `Q` with
+/// `l Q = ± pt + T` have logarithms `(z + i w1 + j w2) / l`; those on the
+/// real locus are mapped by `℘`, recognised, and `l Q` is compared with
+/// `± pt + T` exactly (T running over the rational torsion). Returns the
+/// final point and the product of the primes divided out.
+#[allow(clippy::too_many_arguments)]
+fn divide_out(curve: &Curve, tors: &[Point], lat: &Lattice, b2: &Rational, z: Cx, pt: Point, bits: u64, budget: &Budget) -> (Point, u64) {
+    let wp = lat.precision();
+    let (mut cur, mut zc, mut k) = (pt, z, 1u64);
+    'primes: for l in [2u64, 3, 5, 7, 11, 13] {
+        loop {
+            if budget.exhausted() {
+                break 'primes;
+            }
+            let mut found = None;
+            'cand: for i in 0..l {
+                for j in 0..l {
+                    let w = lat.shifted(&zc, i as i64, j as i64);
+                    let w = Cx::new(&w.re / fi(l as i64, wp), &w.im / fi(l as i64, wp));
+                    let Some(wr) = lat.on_real_locus(&w, bits / 3) else { continue };
+                    let p = lat.weierstrass_p(&wr);
+                    let x = &p.re - Float::from_rational_prec_ref(b2, wp).0 / fi(12, wp);
+                    let Some(q) = recognise(curve, &x, bits) else { continue };
+                    let lq = curve.multiple(&q, l as i64);
+                    let neg = curve.negate(&cur);
+                    let hit = lq == cur || lq == neg || tors.iter().any(|t| {
+                        let s = curve.add(&lq, t);
+                        s == cur || s == neg
+                    });
+                    if hit {
+                        found = Some((q, wr));
+                        break 'cand;
+                    }
+                }
+            }
+            match found {
+                Some((q, wr)) => {
+                    cur = q;
+                    zc = wr;
+                    k *= l;
+                }
+                None => break,
+            }
+        }
+    }
+    (cur, k)
 }
 
 trait PowU {
@@ -367,6 +429,7 @@ fn finish(
     s: &Setup,
     h: &HeegnerData,
     pt: Point,
+    divided: Point,
     mult: u32,
     bits: u64,
     terms: usize,
@@ -375,7 +438,7 @@ fn finish(
 ) -> Result<HeegnerResult, Error> {
     let sat_opts = SaturationOptions { deadline: budget.deadline, ..SaturationOptions::default() };
     let prec = 128u64.max(bits / 4);
-    let basis = mordell_weil_basis(curve, std::slice::from_ref(&pt), &s.local, prec, &sat_opts)?;
+    let basis = mordell_weil_basis(curve, std::slice::from_ref(&divided), &s.local, prec, &sat_opts)?;
     let generator = basis.generators.first().cloned().ok_or_else(|| err(ErrorKind::InvalidValue, "the point found is torsion"))?;
     if !curve.contains(&generator) || curve.torsion_order_of(&generator).is_some() {
         return Err(err(ErrorKind::InvalidValue, "internal check failed: the generator is not a point of infinite order"));

@@ -62,3 +62,36 @@ fn all_rank_one_curves_of_small_conductor() {
     eprintln!("{count} curves in {:?}", t0.elapsed());
     assert_eq!(count, 79);
 }
+
+/// The congruent-number curves y^2 = x^3 - n^2 x for n = 5, 6, 7 (rank 1;
+/// Koblitz, Introduction to Elliptic Curves and Modular Forms, ch. I: the
+/// triangles (3/2, 20/3, 41/6), (3, 4, 5) and (35/12, 24/5, 337/60)).
+/// Conductors from the library's local data (32 n^2 for odd n).
+#[test]
+fn congruent_numbers_small() {
+    for n in [5i64, 6, 7] {
+        let e = Curve::from_coefficients([0, 0, 0, -n * n, 0]).unwrap();
+        let (_, cond, _) = crate::lseries::minimal_conductor_sign(&e).unwrap();
+        let t = Instant::now();
+        let r = run([0, 0, 0, -n * n, 0], u32::try_from(&cond).unwrap());
+        eprintln!("n = {n}: {:?} D = {} bits = {} index {:?} height {} predicted {} in {:?}", r.generator, r.discriminant, r.precision, r.index, r.height, r.predicted_height, t.elapsed());
+        // the generator is a point of infinite order; its x gives a triangle:
+        // x = (c/2)^2 with c the hypotenuse of a rational right triangle of area n
+        assert!((r.height / r.predicted_height - 1.0).abs() < 1e-6, "Sha = 1 for these curves (BSD quotient)");
+    }
+}
+
+/// n = 157 (Zagier's example, quoted in Koblitz, Introduction to Elliptic
+/// Curves and Modular Forms, ch. I): the generator of y^2 = x^3 - 157^2 x
+/// has an x-coordinate whose numerator has about 50 digits (from memory);
+/// the exact check on the curve is the real test.
+#[test]
+fn congruent_number_157() {
+    let n = 157i64;
+    let t = Instant::now();
+    let r = run([0, 0, 0, -n * n, 0], 32 * 157 * 157);
+    eprintln!("n = 157: {} D = {} h = {} bits = {} terms = {} index {:?} height {} predicted {} in {:?}", r.generator, r.discriminant, r.class_number, r.precision, r.terms, r.index, r.height, r.predicted_height, t.elapsed());
+    let x = r.generator.x().unwrap().clone();
+    let digits = x.numerator_ref().to_string().len();
+    assert!((45..=56).contains(&digits), "{digits}");
+}

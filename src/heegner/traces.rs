@@ -104,55 +104,70 @@ impl ShortCurve {
         acc
     }
 
-    /// Some `m` in `[lo, hi]` with `m P = O` (the least one), by baby steps
-    /// `jP` (`0 <= j <= s`) and giant steps of `2s + 1`.
-    fn multiple_in(&self, pt: Pt, lo: u64, hi: u64, baby: &mut Vec<(u64, u64)>) -> Option<u64> {
+    /// Every `m` in `[lo, hi]` with `m P = O`, pushed to `hits`, by baby
+    /// steps `jP` (`1 <= j <= s`) and giant steps of `2s + 1` over the
+    /// whole interval.
+    fn multiples_in(&self, pt: Pt, lo: u64, hi: u64, baby: &mut Vec<(u64, u64, u64)>, hits: &mut Vec<u64>) {
+        hits.clear();
         let w = hi - lo;
         let s = (((w + 1) as f64 / 2.0).sqrt().ceil() as u64).max(1);
         baby.clear();
         let mut q = pt;
+        let mut small: Option<u64> = None;
         for j in 1..=s {
             match q {
                 None => {
-                    // the order of P is j <= s: use its multiples directly
-                    let m = lo.div_ceil(j) * j;
-                    return if m <= hi { Some(m) } else { None };
+                    small = Some(j);
+                    break;
                 }
-                Some((x, _)) => baby.push((x, j)),
+                Some((x, y)) => baby.push((x, y, j)),
             }
             q = self.add(q, pt);
         }
-        baby.sort_unstable();
+        if small.is_none() {
+            baby.sort_unstable();
+            // a repeated x means jP = ±j'P: small order
+            for k in 1..baby.len() {
+                if baby[k].0 == baby[k - 1].0 {
+                    let (j1, j2) = (baby[k].2, baby[k - 1].2);
+                    small = Some(if baby[k].1 == baby[k - 1].1 { j1.abs_diff(j2) } else { j1 + j2 });
+                    break;
+                }
+            }
+        }
+        if let Some(mult) = small {
+            let ord = self.order_from_multiple(pt, mult.max(1));
+            let mut m = lo.div_ceil(ord) * ord;
+            while m <= hi {
+                hits.push(m);
+                m += ord;
+            }
+            return;
+        }
         let step = self.mul(pt, 2 * s + 1);
         let mut centre = lo + s;
         let mut r = self.mul(pt, centre);
-        let mut best: Option<u64> = None;
         while centre <= hi + s {
             match r {
                 None => {
                     if centre >= lo && centre <= hi {
-                        best = Some(best.map_or(centre, |b: u64| b.min(centre)));
+                        hits.push(centre);
                     }
                 }
                 Some((x, y)) => {
                     if let Ok(i) = baby.binary_search_by(|e| e.0.cmp(&x)) {
-                        let j = baby[i].1;
-                        // r = ±jP: which sign
-                        let jp = self.mul(pt, j);
-                        let m = if jp == Some((x, y)) { centre - j } else { centre + j };
+                        let (_, by, j) = baby[i];
+                        // r = ±jP
+                        let m = if by == y { centre - j } else { centre + j };
                         if m >= lo && m <= hi {
-                            best = Some(best.map_or(m, |b: u64| b.min(m)));
+                            hits.push(m);
                         }
                     }
                 }
             }
-            if best.is_some() {
-                return best;
-            }
             r = self.add(r, step);
             centre += 2 * s + 1;
         }
-        best
     }
 
     /// The exact order of `pt`, given a multiple `m` of it.
@@ -182,10 +197,6 @@ impl ShortCurve {
     }
 }
 
-fn gcd(a: u64, b: u64) -> u64 {
-    crate::arith::gcd_u64(a, b)
-}
-
 fn residue(n: &Integer, p: u64) -> u64 {
     let r: Integer = n.mod_op(Integer::from(p));
     u64::try_from(&r).unwrap_or(0)
@@ -198,12 +209,13 @@ pub(crate) struct TraceCounter {
     c4: Integer,
     c6: Integer,
     slow: PointCounter,
-    baby: Vec<(u64, u64)>,
+    baby: Vec<(u64, u64, u64)>,
+    hits: Vec<u64>,
 }
 
 impl TraceCounter {
     pub(crate) fn new(curve: &Curve) -> TraceCounter {
-        TraceCounter { c4: curve.c4().clone(), c6: curve.c6().clone(), slow: PointCounter::new(curve), baby: Vec::new() }
+        TraceCounter { c4: curve.c4().clone(), c6: curve.c6().clone(), slow: PointCounter::new(curve), baby: Vec::new(), hits: Vec::new() }
     }
 
     /// `a_p = p + 1 - #E(F_p)` at a prime `p` of good reduction (`p < 2^32`).
@@ -217,9 +229,11 @@ impl TraceCounter {
         let root = (p as f64).sqrt();
         let lo = (p as f64 + 1.0 - 2.0 * root).ceil().max(1.0) as u64;
         let hi = (p as f64 + 1.0 + 2.0 * root).floor() as u64;
-        let (mut l_e, mut l_t) = (1u64, 1u64);
+        // candidates for #E(F_p): intersect the multiples found on E and,
+        // reflected by n -> 2p + 2 - n, on the twist
+        let mut cand: Option<Vec<u64>> = None;
         let mut x0 = 0u64;
-        for _ in 0..60 {
+        for _ in 0..40 {
             x0 += 1;
             if x0 >= p {
                 break;
@@ -233,30 +247,23 @@ impl TraceCounter {
             let f2 = mulm(f, f, p);
             let curve = ShortCurve { a: mulm(a, f2, p), p };
             let pt = Some((mulm(f, x0, p), f2));
-            let Some(m) = curve.multiple_in(pt, lo, hi, &mut self.baby) else { continue };
-            let ord = curve.order_from_multiple(pt, m);
-            if chi == 1 {
-                l_e = l_e / gcd(l_e, ord) * ord;
-            } else {
-                l_t = l_t / gcd(l_t, ord) * ord;
-            }
-            // candidates n in [lo, hi] with l_e | n and l_t | 2p + 2 - n
-            let mut found = None;
-            let mut count = 0;
-            let mut n = lo.div_ceil(l_e) * l_e;
-            while n <= hi {
-                if (2 * p + 2 - n) % l_t == 0 {
-                    count += 1;
-                    found = Some(n);
-                    if count > 1 {
-                        break;
-                    }
+            curve.multiples_in(pt, lo, hi, &mut self.baby, &mut self.hits);
+            if chi != 1 {
+                for h in self.hits.iter_mut() {
+                    *h = 2 * p + 2 - *h;
                 }
-                n += l_e;
             }
-            if count == 1 {
-                return p as i64 + 1 - found.unwrap_or(0) as i64;
+            let next: Vec<u64> = match cand.take() {
+                None => self.hits.clone(),
+                Some(c) => c.into_iter().filter(|n| self.hits.contains(n)).collect(),
+            };
+            if next.len() == 1 {
+                return p as i64 + 1 - next[0] as i64;
             }
+            if next.is_empty() {
+                break; // impossible for a correct count: fall back
+            }
+            cand = Some(next);
         }
         self.slow.trace(p)
     }
@@ -339,6 +346,21 @@ mod tests {
                 }
                 assert_eq!(fast.trace(p), slow.trace(p), "{c:?} at {p}");
             }
+        }
+    }
+}
+
+#[cfg(test)]
+mod timing {
+    use super::*;
+    #[test]
+    #[ignore]
+    fn coefficient_timing() {
+        let e = Curve::from_coefficients([0, 0, 0, 6, 1]).unwrap();
+        for m in [100_000usize, 250_000, 1_000_000] {
+            let t = std::time::Instant::now();
+            let a = dirichlet_coefficients_fast(&e, &[(2, 0), (3, 0), (11, 1)], m);
+            eprintln!("{m}: {:?} ({})", t.elapsed(), a[m]);
         }
     }
 }
