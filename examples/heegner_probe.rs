@@ -23,7 +23,8 @@ fn main() {
         let c = [2, 3, 4, 5, 6].map(|i| f[i].parse::<i64>().unwrap());
         let e = Curve::from_coefficients(c).unwrap();
         let t = Instant::now();
-        let r = point_of_rank_one(&e, &Natural::from(n), &HeegnerOptions::default());
+        let opts = HeegnerOptions { time_limit: Some(std::time::Duration::from_secs(20)), ..HeegnerOptions::default() };
+        let r = point_of_rank_one(&e, &Natural::from(n), &opts);
         match r {
             Ok(Some(r)) => println!(
                 "{n} {c:?}: D={} h={} bits={} terms={} m={} index={:?} height={:.6} pred={:.6} {:?} [{}]",

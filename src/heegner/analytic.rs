@@ -61,9 +61,7 @@ pub(crate) fn log2_abs(x: &Float) -> i64 {
 /// (Hasse; `d(n) <= 2 sqrt n`) as `2 |q|^{M+1} / (1 - |q|)`). Horner's rule,
 /// one complex product per term. Honours the budget every 4096 terms.
 pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &Budget) -> Result<Cx, Error> {
-    let total_terms: usize = forms.iter().map(|f| terms_needed(f.a as f64, (-d) as f64, prec)).sum();
-    let loss = (total_terms.max(2) as f64).log2().ceil() as u64;
-    if prec + loss + 8 <= 104 {
+    if prec <= double_double_capacity(forms, d) {
         return modular_sum_dd(a, forms, d, prec, budget);
     }
     let wp = prec + 24 + (a.len().max(2) as f64).log2().ceil() as u64;
@@ -221,7 +219,10 @@ fn modular_sum_dd(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget:
 /// (106 bits less the rounding growth over the terms and a margin).
 pub(crate) fn double_double_capacity(forms: &[QuadraticForm], d: i64) -> u64 {
     let total: usize = forms.iter().map(|f| terms_needed(f.a as f64, (-d) as f64, 90)).sum();
-    let loss = (total.max(2) as f64).log2().ceil() as u64;
+    // rounding errors of the Horner steps add up like a random walk in
+    // practice (sqrt of the count); a shortfall only costs a retry, as
+    // every point is verified exactly
+    let loss = ((total.max(2) as f64).log2() / 2.0).ceil() as u64 + 4;
     104u64.saturating_sub(loss + 8).max(32)
 }
 

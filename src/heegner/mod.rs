@@ -98,6 +98,10 @@ pub struct HeegnerOptions {
     /// The largest multiplier `m` tried for `m z` on curves that are not
     /// the optimal member of their isogeny class.
     pub max_multiplier: u32,
+    /// The largest `k` for which the `k`-th parts of the Heegner trace are
+    /// tried before raising the precision (the trace is the index times a
+    /// generator, and its parts need fewer bits).
+    pub max_divisor: u64,
 }
 
 impl Default for HeegnerOptions {
@@ -108,7 +112,8 @@ impl Default for HeegnerOptions {
             max_precision: 16_384,
             max_discriminants: 4,
             max_terms: 60_000_000,
-            max_multiplier: 12,
+            max_multiplier: 4,
+            max_divisor: 12,
         }
     }
 }
@@ -137,7 +142,7 @@ impl HeegnerOptions {
 /// // y^2 = x^3 - 25x: n = 5 is congruent; conductor 800 (Koblitz, ch. I)
 /// let e = Curve::from_coefficients([0, 0, 0, -25, 0]).unwrap();
 /// let r = point_of_rank_one(&e, &Natural::from(800u32), &HeegnerOptions::default()).unwrap().unwrap();
-/// assert!(e.contains(&r.generator) && e.contains(&r.heegner_point));
+/// assert!(e.contains(&r.generator) && e.contains(&r.recognised_point));
 /// assert!(r.discriminant < -4 && r.precision >= 64);
 /// ```
 #[derive(Clone, Debug)]
@@ -145,13 +150,17 @@ pub struct HeegnerResult {
     /// A generator of `E(Q)` modulo torsion (saturated as `saturation`
     /// says), verified exactly on the curve, of infinite order.
     pub generator: Point,
-    /// The rational point recognised from the Heegner sum (the trace of
-    /// the Heegner point, or twice it when that was the rational part),
-    /// verified exactly; it is `± index · generator + torsion`.
-    pub heegner_point: Point,
-    /// `k` with `heegner_point = ± k generator + T`, `T` torsion, checked
-    /// exactly; `None` if that check did not succeed.
+    /// The rational point recognised first, verified exactly: a
+    /// `divisor`-th part `(z + λ) / divisor` (`λ` a period) of the trace
+    /// `z` of the Heegner points (or of twice the trace when only that is
+    /// real); it is `± index · generator + torsion`.
+    pub recognised_point: Point,
+    /// `k` with `recognised_point = ± k generator + T`, `T` torsion,
+    /// checked exactly; `None` if that check did not succeed.
     pub index: Option<u64>,
+    /// The `k` with which `(z + λ) / k` gave `recognised_point`: the Heegner
+    /// trace is (numerically) `k` times it up to torsion.
+    pub divisor: u64,
     /// The multiplier `m` with which `m z` gave the point (1 on the optimal
     /// curve of the isogeny class).
     pub multiplier: u32,
@@ -237,23 +246,42 @@ fn setup(curve: &Curve, conductor: &Natural) -> Result<Option<Setup>, Error> {
 }
 
 /// The candidate discriminants for level `n`, cheapest series first.
+///
+/// The cost of the series for `D` is proportional to `Σ a / sqrt|D|` over
+/// the reduced forms `[a, b, c]` of discriminant `D`: the least `A / N` in
+/// the Heegner class `[n] c` is the least norm in the class `c` shifted by
+/// the fixed ideal `n` of norm `N`, so the sum over all classes is the sum
+/// of the first coefficients of the reduced forms. This ranks every
+/// fundamental `D` with `|D| <= 20000` satisfying the Heegner hypothesis
+/// without computing `beta`; the forms are then built for the best `count`.
+///
+/// ```
+/// use twofold::heegner::heegner_discriminants;
+/// // level 37: D = -7 and -11 fail (37 is inert there), D = -67 and -163 have h = 1
+/// let d = heegner_discriminants(37, 3).unwrap();
+/// assert!(d.iter().all(|h| h.forms.iter().all(|f| f.a % 37 == 0)));
+/// ```
 pub fn heegner_discriminants(n: u64, count: usize) -> Result<Vec<HeegnerData>, Error> {
-    let mut found = Vec::new();
-    let mut d: i64 = -5;
-    let limit = -((4 * n as i64).max(4000)).min(200_000);
-    while d > limit {
-        if forms::is_fundamental(d) {
-            if let Some(h) = forms::heegner_data(d, n)? {
-                found.push(h);
-                if found.len() >= 40 {
-                    break;
-                }
-            }
+    let primes: Vec<u64> = crate::arith::factor_u64(n)?.into_iter().map(|(p, _)| p).collect();
+    let mut ranked: Vec<(f64, i64)> = Vec::new();
+    for d in (5i64..=20_000).map(|k| -k) {
+        if !forms::heegner_hypothesis(d, &primes) || !forms::is_fundamental(d) {
+            continue;
         }
-        d -= 1;
+        let sum: i128 = forms::reduced_forms(d).iter().map(|f| f.a).sum();
+        ranked.push((sum as f64 / ((-d) as f64).sqrt(), d));
+    }
+    ranked.sort_by(|a, b| a.0.partial_cmp(&b.0).unwrap_or(std::cmp::Ordering::Equal));
+    let mut found = Vec::new();
+    for &(_, d) in &ranked {
+        if found.len() >= count {
+            break;
+        }
+        if let Some(h) = forms::heegner_data(d, n)? {
+            found.push(h);
+        }
     }
     found.sort_by(|a, b| a.cost(n).partial_cmp(&b.cost(n)).unwrap_or(std::cmp::Ordering::Equal));
-    found.truncate(count);
     Ok(found)
 }
 
@@ -289,7 +317,7 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
     for h in &discs {
         // bits for x = a/d^2 of height about hhat + slack, with the loss
         // near the pole of ℘ (see the module documentation)
-        let mut target_height = 4.0 * s.predicted.max(0.5) + s.slack;
+        let mut target_height = s.predicted.max(0.5) + s.slack;
         let mut tried_torsion = false;
         loop {
             if budget.exhausted() {
@@ -307,10 +335,8 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
                 return Err(err(ErrorKind::TooLarge, format!("the series needs {m} coefficients, above the limit {}", opts.max_terms)));
             }
             if coeffs.len() < m + 1 {
-                coeffs = traces::dirichlet_coefficients_fast(minimal, &s.bad_ap, m + m / 8);
-            }
-            if budget.exhausted() {
-                return Err(err(ErrorKind::Budget, "time budget spent on the coefficients"));
+                coeffs = traces::dirichlet_coefficients_fast(minimal, &s.bad_ap, m + m / 8, &|| budget.exhausted())
+                    .ok_or_else(|| err(ErrorKind::Budget, "time budget spent on the coefficients"))?;
             }
             let z = analytic::modular_sum(&coeffs, &h.forms, h.discriminant, bits, &budget)?;
             let pl = PeriodLattice::compute(minimal, bits + 32)?;
@@ -321,20 +347,39 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
                     break; // this D gives a torsion point: next discriminant
                 }
             }
+            let wp = bits + 32;
             for mult in 1..=opts.max_multiplier.max(1) {
-                let zm = Cx::new(&z.re * fi(mult as i64, bits + 32), &z.im * fi(mult as i64, bits + 32));
-                let zr = match lat.on_real_locus(&zm, bits / 3) {
+                let zm = Cx::new(&z.re * fi(mult as i64, wp), &z.im * fi(mult as i64, wp));
+                let zt = match lat.on_real_locus(&zm, bits / 3) {
                     Some(w) => w,
-                    None => Cx::real(&zm.re * fi(2, bits + 32)),
+                    None => Cx::real(&zm.re * fi(2, wp)),
                 };
-                if lat.is_near_torsion(&zr, bits / 2, 1) {
+                if lat.is_near_torsion(&zt, bits / 2, 1) {
                     continue;
                 }
-                let p = lat.weierstrass_p(&zr);
-                let x = &p.re - Float::from_rational_prec_ref(&b2, bits + 32).0 / fi(12, bits + 32);
-                if let Some(pt) = recognise(minimal, &x, bits) {
-                    let (q, _) = divide_out(minimal, &tors, &lat, &b2, zr, pt.clone(), bits, &budget);
-                    return finish(minimal, &s, h, pt, q, mult, bits, coeffs.len() - 1, &budget, start).map(Some);
+                // the trace is (index) times a generator up to torsion: try
+                // its k-th parts (zt + i w1 + j w2) / k on the real locus,
+                // which need fewer bits than the trace itself
+                for k in 1..=opts.max_divisor.max(1) {
+                    for i in 0..k {
+                        for j in 0..k {
+                            if budget.exhausted() {
+                                return Err(err(ErrorKind::Budget, "time budget spent recognising the point"));
+                            }
+                            let w = lat.shifted(&zt, i as i64, j as i64);
+                            let w = Cx::new(&w.re / fi(k as i64, wp), &w.im / fi(k as i64, wp));
+                            let Some(zr) = lat.on_real_locus(&w, bits / 3) else { continue };
+                            if lat.is_near_torsion(&zr, bits / 2, 1) {
+                                continue;
+                            }
+                            let p = lat.weierstrass_p(&zr);
+                            let x = &p.re - Float::from_rational_prec_ref(&b2, wp).0 / fi(12, wp);
+                            if let Some(pt) = recognise(minimal, &x, bits) {
+                                let (q, _) = divide_out(minimal, &tors, &lat, &b2, zr, pt.clone(), bits, &budget);
+                                return finish(minimal, &s, h, pt, q, mult, k, bits, coeffs.len() - 1, &budget, start).map(Some);
+                            }
+                        }
+                    }
                 }
             }
             if bits >= opts.max_precision {
@@ -431,6 +476,7 @@ fn finish(
     pt: Point,
     divided: Point,
     mult: u32,
+    divisor: u64,
     bits: u64,
     terms: usize,
     budget: &Budget,
@@ -463,9 +509,10 @@ fn finish(
     let _ = s.torsion_order;
     Ok(HeegnerResult {
         generator,
-        heegner_point: pt,
+        recognised_point: pt,
         index,
         multiplier: mult,
+        divisor,
         discriminant: h.discriminant,
         beta: h.beta,
         class_number: h.forms.len(),

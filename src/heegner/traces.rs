@@ -46,12 +46,13 @@ fn subm(a: u64, b: u64, p: u64) -> u64 {
 }
 
 fn invm(a: u64, p: u64) -> u64 {
-    let (mut r0, mut r1) = (p as i64, a as i64);
+    // p < 2^32: the remainders fit 32-bit words (cheaper divisions)
+    let (mut r0, mut r1) = (p as u32, a as u32);
     let (mut t0, mut t1) = (0i64, 1i64);
     while r1 != 0 {
         let q = r0 / r1;
         (r0, r1) = (r1, r0 - q * r1);
-        (t0, t1) = (t1, t0 - q * t1);
+        (t0, t1) = (t1, t0 - i64::from(q) * t1);
     }
     t0.rem_euclid(p as i64) as u64
 }
@@ -273,7 +274,12 @@ impl TraceCounter {
 /// traces at the good primes and `bad = [(p, a_p)]` (`a_p` in `{-1, 0, 1}`)
 /// at the primes dividing the conductor, by the Hecke recursion at prime
 /// powers and multiplicativity.
-pub(crate) fn dirichlet_coefficients_fast(curve: &Curve, bad: &[(u64, i64)], m: usize) -> Vec<i64> {
+pub(crate) fn dirichlet_coefficients_fast(
+    curve: &Curve,
+    bad: &[(u64, i64)],
+    m: usize,
+    stop: &dyn Fn() -> bool,
+) -> Option<Vec<i64>> {
     let mut counter = TraceCounter::new(curve);
     let mut ap = vec![0i64; m + 1];
     let mut is_bad = vec![false; m + 1];
@@ -284,7 +290,10 @@ pub(crate) fn dirichlet_coefficients_fast(curve: &Curve, bad: &[(u64, i64)], m: 
         }
     }
     let primes = primes_up_to(m as u64);
-    for &p in &primes {
+    for (i, &p) in primes.iter().enumerate() {
+        if i % 1024 == 1023 && stop() {
+            return None;
+        }
         if !is_bad[p as usize] {
             ap[p as usize] = counter.trace(p);
         }
@@ -324,7 +333,7 @@ pub(crate) fn dirichlet_coefficients_fast(curve: &Curve, bad: &[(u64, i64)], m: 
             ap[p] * a[n / p] - (p as i64) * a[n / p / p]
         };
     }
-    a
+    Some(a)
 }
 
 #[cfg(test)]
@@ -359,7 +368,7 @@ mod timing {
         let e = Curve::from_coefficients([0, 0, 0, 6, 1]).unwrap();
         for m in [100_000usize, 250_000, 1_000_000] {
             let t = std::time::Instant::now();
-            let a = dirichlet_coefficients_fast(&e, &[(2, 0), (3, 0), (11, 1)], m);
+            let a = dirichlet_coefficients_fast(&e, &[(2, 0), (3, 0), (11, 1)], m, &|| false).unwrap();
             eprintln!("{m}: {:?} ({})", t.elapsed(), a[m]);
         }
     }
