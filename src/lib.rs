@@ -124,6 +124,7 @@ pub mod curve;
 pub mod decimal_serde;
 pub mod descent;
 pub mod enclosure;
+pub mod heegner;
 pub mod heights;
 pub mod isogeny;
 pub mod local;

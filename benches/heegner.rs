@@ -1,0 +1,37 @@
+//! Heegner point route (issue 16): a generator of a rank-one curve from
+//! the modular parametrisation, verified exactly, by conductor.
+//!
+//! Curves (J. E. Cremona, Algorithms for Modular Elliptic Curves, 2nd ed.,
+//! Table 1, and the wider tables in ../shared/data/curves-wider.tsv):
+//! y^2 + y = x^3 - x (conductor 37); y^2 = x^3 - 25x (conductor 800);
+//! [1,0,1,-104,-3594] (conductor 7130); [1,-1,0,2781,114151] (conductor
+//! 130014). The congruent-number curve for n = 157 (conductor 788768) and
+//! conductors near 10^6 are not benchmarked: the direct series needs about
+//! 10^8 (n = 157) or several 10^6 terms (see README / the report).
+use criterion::{criterion_group, criterion_main, Criterion};
+use malachite::Natural;
+use std::hint::black_box;
+use twofold::heegner::{point_of_rank_one, HeegnerOptions};
+use twofold::Curve;
+
+fn bench(c: &mut Criterion) {
+    let mut g = c.benchmark_group("heegner");
+    g.sample_size(10);
+    let cases: [(&str, [i64; 5], u32); 4] = [
+        ("conductor 37", [0, 0, 1, -1, 0], 37),
+        ("congruent n=5, conductor 800", [0, 0, 0, -25, 0], 800),
+        ("conductor 7130", [1, 0, 1, -104, -3594], 7130),
+        ("conductor 130014", [1, -1, 0, 2781, 114151], 130014),
+    ];
+    for (name, coeffs, n) in cases {
+        let e = Curve::from_coefficients(coeffs).unwrap();
+        let n = Natural::from(n);
+        g.bench_function(name, |b| {
+            b.iter(|| point_of_rank_one(black_box(&e), &n, &HeegnerOptions::default()).unwrap().unwrap())
+        });
+    }
+    g.finish();
+}
+
+criterion_group!(benches, bench);
+criterion_main!(benches);

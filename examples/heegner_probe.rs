@@ -1,0 +1,40 @@
+//! Runs the Heegner point route on curves read from a table file
+//! (conductor, class, a1..a6, rank, ...) and prints timings: a developer's
+//! probe, not part of the API.
+use malachite::Natural;
+use std::time::Instant;
+use twofold::heegner::{point_of_rank_one, HeegnerOptions};
+use twofold::Curve;
+
+fn main() {
+    let args: Vec<String> = std::env::args().collect();
+    let path = &args[1];
+    let lo: u64 = args.get(2).map_or(0, |s| s.parse().unwrap());
+    let hi: u64 = args.get(3).map_or(u64::MAX, |s| s.parse().unwrap());
+    let max: usize = args.get(4).map_or(usize::MAX, |s| s.parse().unwrap());
+    let text = std::fs::read_to_string(path).unwrap();
+    let mut done = 0;
+    for line in text.lines().filter(|l| !l.starts_with('#')) {
+        let f: Vec<&str> = line.split('\t').collect();
+        let n: u64 = f[0].parse().unwrap();
+        if n < lo || n > hi || f[7] != "1" {
+            continue;
+        }
+        let c = [2, 3, 4, 5, 6].map(|i| f[i].parse::<i64>().unwrap());
+        let e = Curve::from_coefficients(c).unwrap();
+        let t = Instant::now();
+        let opts = HeegnerOptions { time_limit: Some(std::time::Duration::from_secs(20)), ..HeegnerOptions::default() };
+        let r = point_of_rank_one(&e, &Natural::from(n), &opts);
+        match r {
+            Ok(Some(r)) => println!(
+                "{n} {c:?}: D={} h={} bits={} terms={} m={} index={:?} height={:.6} pred={:.6} {:?} [{}]",
+                r.discriminant, r.class_number, r.precision, r.terms, r.multiplier, r.index, r.height, r.predicted_height, t.elapsed(), r.saturation
+            ),
+            other => println!("{n} {c:?}: {other:?} {:?}", t.elapsed()),
+        }
+        done += 1;
+        if done >= max {
+            break;
+        }
+    }
+}

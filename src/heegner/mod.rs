@@ -1,0 +1,553 @@
+//! Generators of rank-one curves by the Heegner point method (issue 16).
+//!
+//! For a global minimal model `E` of conductor `N` with root number `-1`
+//! and `L'(E, 1) != 0`, Gross and Zagier (Heegner points and derivatives of
+//! L-series, Invent. Math. 84, 1986) together with Kolyvagin show that
+//! `E(Q)` has rank one and that the trace of a Heegner point has infinite
+//! order. The computation follows H. Cohen, A Course in Computational
+//! Algebraic Number Theory (1993), §7.5, J. E. Cremona, Algorithms for
+//! Modular Elliptic Curves (2nd ed., 1997), and M. Watkins, Some remarks on
+//! Heegner point computations (2006):
+//!
+//! 1. a fundamental discriminant `D < -4` with every `p | N` split in
+//!    `Q(sqrt D)` and `beta^2 = D mod 4N` ([`forms`]), chosen to keep the
+//!    series short (`Σ A_i / sqrt|D|` small);
+//! 2. one Heegner point `tau_i = (-B_i + sqrt D) / (2 A_i)` with `N | A_i`,
+//!    `B_i = beta mod 2N`, per class of forms of discriminant `D`;
+//! 3. the modular parametrisation `z(tau) = Σ a_n / n q^n` with the
+//!    coefficients `a_n` of `L(E, s)` (counted here by baby-step giant-step,
+//!    see `traces.rs`), summed over the `tau_i` in multiple precision;
+//! 4. `z` reduced modulo the period lattice; if it is not on the real
+//!    locus, its trace `z + conj(z)` to `E(Q)` is used; `x = ℘(z) - b2/12`
+//!    by the q-expansion of `℘`, recognised as a rational by continued
+//!    fractions, and the point checked **exactly** on the curve;
+//! 5. the point divided by its index with the saturation machinery of
+//!    [`crate::heights`].
+//!
+//! The modular parametrisation lands on the optimal curve of the isogeny
+//! class; for another member the values `m z` for small `m` are tried too
+//! (the pull-back of the Néron differential is `m` times that of the
+//! optimal curve). The Manin constant is taken to be 1 in the precision
+//! guess only.
+//!
+//! # What is proven
+//!
+//! Every returned point is verified exactly on the input model and is of
+//! infinite order (checked exactly). The numerical parts (the series, `℘`,
+//! the precision guess from the Birch and Swinnerton-Dyer formula with Sha
+//! assumed trivial) only propose candidates; a wrong guess costs time, not
+//! correctness. The saturation of the returned generator is as described
+//! in [`crate::heights::Saturation`] (exact p-saturation tests up to a
+//! numerical index bound).
+//!
+//! # Example
+//!
+//! ```
+//! use malachite::Natural;
+//! use twofold::Curve;
+//! use twofold::heegner::{point_of_rank_one, HeegnerOptions};
+//! // y^2 + y = x^3 - x, conductor 37, rank 1 (Cremona, Table 1)
+//! let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
+//! let r = point_of_rank_one(&e, &Natural::from(37u32), &HeegnerOptions::default()).unwrap().unwrap();
+//! assert!(e.contains(&r.generator));
+//! // canonical height 0.0511114082 (from memory)
+//! assert!((r.height - 0.0511114082).abs() < 1e-8);
+//! ```
+
+mod analytic;
+pub mod forms;
+mod traces;
+
+use crate::budget::{RankOptions, Work};
+use crate::curve::{Curve, Point};
+use crate::error::{Error, ErrorKind};
+use crate::heights::real::{fi, to_f64, Cx};
+use crate::heights::{canonical_height, height_difference_bound, mordell_weil_basis, PeriodLattice, Saturation, SaturationOptions};
+use crate::local::{bad_primes_data, LocalData, Reduction};
+use crate::torsion::TorsionGroup;
+use analytic::Lattice;
+use malachite::base::num::arithmetic::traits::Abs;
+use malachite::{Float, Natural, Rational};
+use std::sync::atomic::AtomicBool;
+use std::sync::Arc;
+use std::time::{Duration, Instant};
+
+pub use forms::{HeegnerData, QuadraticForm};
+
+/// Budgets for [`point_of_rank_one`].
+///
+/// ```
+/// use twofold::heegner::HeegnerOptions;
+/// let o = HeegnerOptions::default();
+/// assert!(o.max_precision >= 4096 && o.max_discriminants >= 1);
+/// ```
+#[derive(Clone, Debug)]
+pub struct HeegnerOptions {
+    /// Wall-clock limit for the whole computation.
+    pub time_limit: Option<Duration>,
+    /// Set to `true` from another thread to stop promptly.
+    pub cancel: Option<Arc<AtomicBool>>,
+    /// The largest working precision in bits (the precision starts from
+    /// the guess of the Birch and Swinnerton-Dyer formula and doubles while
+    /// recognition fails).
+    pub max_precision: u64,
+    /// How many discriminants to try before giving up.
+    pub max_discriminants: usize,
+    /// The most coefficients `a_n` to compute (memory: 8 bytes each).
+    pub max_terms: usize,
+    /// The largest multiplier `m` tried for `m z` on curves that are not
+    /// the optimal member of their isogeny class.
+    pub max_multiplier: u32,
+    /// The largest `k` for which the `k`-th parts of the Heegner trace are
+    /// tried before raising the precision (the trace is the index times a
+    /// generator, and its parts need fewer bits).
+    pub max_divisor: u64,
+}
+
+impl Default for HeegnerOptions {
+    fn default() -> Self {
+        HeegnerOptions {
+            time_limit: None,
+            cancel: None,
+            max_precision: 16_384,
+            max_discriminants: 4,
+            max_terms: 60_000_000,
+            max_multiplier: 4,
+            max_divisor: 12,
+        }
+    }
+}
+
+impl HeegnerOptions {
+    /// The time limit and cancel flag of a rank computation, other fields
+    /// at their defaults.
+    ///
+    /// ```
+    /// use std::time::Duration;
+    /// use twofold::{RankOptions, heegner::HeegnerOptions};
+    /// let o = HeegnerOptions::from_rank_options(&RankOptions::default().with_time_limit(Duration::from_secs(3)));
+    /// assert_eq!(o.time_limit, Some(Duration::from_secs(3)));
+    /// ```
+    pub fn from_rank_options(o: &RankOptions) -> HeegnerOptions {
+        HeegnerOptions { time_limit: o.time_limit, cancel: o.cancel.clone(), ..HeegnerOptions::default() }
+    }
+}
+
+/// A generator of `E(Q)` modulo torsion found from a Heegner point.
+///
+/// ```
+/// use malachite::Natural;
+/// use twofold::Curve;
+/// use twofold::heegner::{point_of_rank_one, HeegnerOptions};
+/// // y^2 = x^3 - 25x: n = 5 is congruent; conductor 800 (Koblitz, ch. I)
+/// let e = Curve::from_coefficients([0, 0, 0, -25, 0]).unwrap();
+/// let r = point_of_rank_one(&e, &Natural::from(800u32), &HeegnerOptions::default()).unwrap().unwrap();
+/// assert!(e.contains(&r.generator) && e.contains(&r.recognised_point));
+/// assert!(r.discriminant < -4 && r.precision >= 64);
+/// ```
+#[derive(Clone, Debug)]
+pub struct HeegnerResult {
+    /// A generator of `E(Q)` modulo torsion (saturated as `saturation`
+    /// says), verified exactly on the curve, of infinite order.
+    pub generator: Point,
+    /// The rational point recognised first, verified exactly: a
+    /// `divisor`-th part `(z + λ) / divisor` (`λ` a period) of the trace
+    /// `z` of the Heegner points (or of twice the trace when only that is
+    /// real); it is `± index · generator + torsion`.
+    pub recognised_point: Point,
+    /// `k` with `recognised_point = ± k generator + T`, `T` torsion,
+    /// checked exactly; `None` if that check did not succeed.
+    pub index: Option<u64>,
+    /// The `k` with which `(z + λ) / k` gave `recognised_point`: the Heegner
+    /// trace is (numerically) `k` times it up to torsion.
+    pub divisor: u64,
+    /// The multiplier `m` with which `m z` gave the point (1 on the optimal
+    /// curve of the isogeny class).
+    pub multiplier: u32,
+    /// The discriminant `D` used.
+    pub discriminant: i64,
+    /// `beta` with `beta^2 = D mod 4N`.
+    pub beta: i64,
+    /// The class number of `D` (the number of Heegner points summed).
+    pub class_number: usize,
+    /// The working precision in bits that succeeded.
+    pub precision: u64,
+    /// The number of coefficients `a_n` computed.
+    pub terms: usize,
+    /// The canonical height of the generator (numerical; the normalisation
+    /// of [`crate::heights`]).
+    pub height: f64,
+    /// `L'(E, 1) #E(Q)_tors^2 / (Ω ∏ c_p)`: the height of a generator that
+    /// the Birch and Swinnerton-Dyer formula predicts if Sha is trivial.
+    /// A heuristic guide for the precision only; `height / predicted_height`
+    /// is `1 / #Sha` if the conjecture holds.
+    pub predicted_height: f64,
+    /// `L'(E, 1)` (numerical, with the error bound of [`crate::lseries`]).
+    pub derivative: f64,
+    /// The saturation status of `generator` (see [`Saturation`]).
+    pub saturation: Saturation,
+    /// Wall-clock time spent.
+    pub elapsed: Duration,
+}
+
+fn err(kind: ErrorKind, msg: impl Into<String>) -> Error {
+    Error::new(kind, msg)
+}
+
+/// The curve invariants the search needs, computed once.
+struct Setup {
+    n: u64,
+    local: Vec<LocalData>,
+    bad_ap: Vec<(u64, i64)>,
+    torsion_order: u64,
+    derivative: f64,
+    predicted: f64,
+    slack: f64,
+}
+
+fn setup(curve: &Curve, conductor: &Natural) -> Result<Option<Setup>, Error> {
+    let n = u64::try_from(conductor)
+        .ok()
+        .filter(|&n| n > 0 && n <= crate::lseries::MAX_CONDUCTOR)
+        .ok_or_else(|| err(ErrorKind::TooLarge, format!("conductor {conductor} out of range for the Heegner method")))?;
+    let rn = crate::rootno::root_number(curve)?;
+    if rn.conductor != *conductor {
+        return Err(err(ErrorKind::InvalidValue, format!("the conductor of the curve is {}, not {conductor}", rn.conductor)));
+    }
+    if rn.global != -1 {
+        return Ok(None);
+    }
+    let primes: Vec<Natural> = crate::arith::factor_u64(n)?.into_iter().map(|(p, _)| Natural::from(p)).collect();
+    let local = bad_primes_data(curve, &primes)?;
+    let bad_ap = local
+        .iter()
+        .map(|d| {
+            let ap = match d.reduction {
+                Reduction::SplitMultiplicative => 1,
+                Reduction::NonSplitMultiplicative => -1,
+                _ => 0,
+            };
+            (u64::try_from(&d.prime).unwrap_or(0), ap)
+        })
+        .collect();
+    let v = crate::lseries::special_values(curve, conductor, -1, 1)?;
+    let d1 = &v[1];
+    if d1.value.abs() <= 1000.0 * d1.error {
+        // analytic rank >= 3 (numerically): the Heegner points are torsion
+        return Ok(None);
+    }
+    let torsion_order = TorsionGroup::compute(curve, &primes).order() as u64;
+    let omega = PeriodLattice::compute(curve, 64)?.real_period_f64();
+    let tam: u64 = local.iter().map(|d| u64::from(d.tamagawa)).product();
+    let t = torsion_order as f64;
+    let predicted = d1.value * t * t / (omega * tam as f64);
+    let slack = height_difference_bound(curve).max(1.0);
+    Ok(Some(Setup { n, local, bad_ap, torsion_order, derivative: d1.value, predicted, slack }))
+}
+
+/// The candidate discriminants for level `n`, cheapest series first.
+///
+/// The cost of the series for `D` is proportional to `Σ a / sqrt|D|` over
+/// the reduced forms `[a, b, c]` of discriminant `D`: the least `A / N` in
+/// the Heegner class `[n] c` is the least norm in the class `c` shifted by
+/// the fixed ideal `n` of norm `N`, so the sum over all classes is the sum
+/// of the first coefficients of the reduced forms. This ranks every
+/// fundamental `D` with `|D| <= 20000` satisfying the Heegner hypothesis
+/// without computing `beta`; the forms are then built for the best `count`.
+///
+/// ```
+/// use twofold::heegner::heegner_discriminants;
+/// // level 37: D = -7 and -11 fail (37 is inert there), D = -67 and -163 have h = 1
+/// let d = heegner_discriminants(37, 3).unwrap();
+/// assert!(d.iter().all(|h| h.forms.iter().all(|f| f.a % 37 == 0)));
+/// ```
+pub fn heegner_discriminants(n: u64, count: usize) -> Result<Vec<HeegnerData>, Error> {
+    let primes: Vec<u64> = crate::arith::factor_u64(n)?.into_iter().map(|(p, _)| p).collect();
+    let mut ranked: Vec<(f64, i64)> = Vec::new();
+    for d in (5i64..=20_000).map(|k| -k) {
+        if !forms::heegner_hypothesis(d, &primes) || !forms::is_fundamental(d) {
+            continue;
+        }
+        let sum: i128 = forms::reduced_forms(d).iter().map(|f| f.a).sum();
+        ranked.push((sum as f64 / ((-d) as f64).sqrt(), d));
+    }
+    ranked.sort_by(|a, b| a.0.partial_cmp(&b.0).unwrap_or(std::cmp::Ordering::Equal));
+    let mut found = Vec::new();
+    for &(_, d) in &ranked {
+        if found.len() >= count {
+            break;
+        }
+        if let Some(h) = forms::heegner_data(d, n)? {
+            found.push(h);
+        }
+    }
+    found.sort_by(|a, b| a.cost(n).partial_cmp(&b.cost(n)).unwrap_or(std::cmp::Ordering::Equal));
+    Ok(found)
+}
+
+/// A generator of `E(Q)` for a global minimal model `minimal` of conductor
+/// `conductor` with root number `-1` and `L'(E, 1) != 0`, by the Heegner
+/// point method (see the module documentation).
+///
+/// Returns `Ok(None)` when the method does not apply (root number `+1`, or
+/// `L'(E, 1)` numerically zero) or when no point was recognised within the
+/// precision and discriminant budgets; an error of kind
+/// [`ErrorKind::Budget`] when the time limit passed or the work was
+/// cancelled, [`ErrorKind::TooLarge`] for conductors above
+/// [`crate::lseries::MAX_CONDUCTOR`] or series longer than
+/// [`HeegnerOptions::max_terms`], [`ErrorKind::InvalidValue`] if the
+/// conductor is not that of the curve or the model is not minimal.
+///
+/// Cost: the series has about `0.22 bits Σ A_i / sqrt|D|` terms (`A_i` a
+/// multiple of `N`), each a complex product at the working precision, and
+/// the coefficients cost `O(p^{1/4})` group operations per prime.
+pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOptions) -> Result<Option<HeegnerResult>, Error> {
+    let start = Instant::now();
+    let budget = Work::until(opts.time_limit.and_then(|d| start.checked_add(d)), opts.cancel.clone());
+    let Some(s) = setup(minimal, conductor)? else { return Ok(None) };
+    let discs = heegner_discriminants(s.n, opts.max_discriminants)?;
+    let mut coeffs: Vec<i64> = Vec::new();
+    let primes: Vec<Natural> = s.local.iter().map(|d| d.prime.clone()).collect();
+    let tors: Vec<Point> = TorsionGroup::compute(minimal, &primes).points().to_vec();
+    let b2 = Rational::from(minimal.b_invariants()[0].clone());
+    for h in &discs {
+        // bits for x = a/d^2 of height about hhat + slack, with the loss
+        // near the pole of ℘ (see the module documentation)
+        let mut target_height = s.predicted.max(0.5) + s.slack;
+        let mut tried_torsion = false;
+        loop {
+            if budget.exhausted() {
+                return Err(err(ErrorKind::Budget, "time budget spent in the Heegner point search"));
+            }
+            let bits = ((target_height / std::f64::consts::LN_2) * 2.6 + 24.0).ceil() as u64;
+            let bits = bits.min(opts.max_precision.max(64)).max(analytic::double_double_capacity(&h.forms, h.discriminant));
+            let m = h
+                .forms
+                .iter()
+                .map(|f| analytic::terms_needed(f.a as f64, (-h.discriminant) as f64, bits))
+                .max()
+                .unwrap_or(1);
+            if m > opts.max_terms {
+                return Err(err(ErrorKind::TooLarge, format!("the series needs {m} coefficients, above the limit {}", opts.max_terms)));
+            }
+            if coeffs.len() < m + 1 {
+                coeffs = traces::dirichlet_coefficients_fast(minimal, &s.bad_ap, m + m / 8, &|| budget.exhausted())
+                    .ok_or_else(|| err(ErrorKind::Budget, "time budget spent on the coefficients"))?;
+            }
+            let z = analytic::modular_sum(&coeffs, &h.forms, h.discriminant, bits, &budget)?;
+            let pl = PeriodLattice::compute(minimal, bits + 32)?;
+            let lat = Lattice::new(&pl, bits + 32);
+            if !tried_torsion {
+                tried_torsion = true;
+                if lat.is_near_torsion(&z, bits / 2, 12) {
+                    break; // this D gives a torsion point: next discriminant
+                }
+            }
+            let wp = bits + 32;
+            for mult in 1..=opts.max_multiplier.max(1) {
+                let zm = Cx::new(&z.re * fi(mult as i64, wp), &z.im * fi(mult as i64, wp));
+                let zt = match lat.on_real_locus(&zm, bits / 3) {
+                    Some(w) => w,
+                    None => Cx::real(&zm.re * fi(2, wp)),
+                };
+                if lat.is_near_torsion(&zt, bits / 2, 1) {
+                    continue;
+                }
+                // the trace is (index) times a generator up to torsion: try
+                // its k-th parts (zt + i w1 + j w2) / k on the real locus,
+                // which need fewer bits than the trace itself
+                for k in 1..=opts.max_divisor.max(1) {
+                    for i in 0..k {
+                        for j in 0..k {
+                            if budget.exhausted() {
+                                return Err(err(ErrorKind::Budget, "time budget spent recognising the point"));
+                            }
+                            let w = lat.shifted(&zt, i as i64, j as i64);
+                            let w = Cx::new(&w.re / fi(k as i64, wp), &w.im / fi(k as i64, wp));
+                            let Some(zr) = lat.on_real_locus(&w, bits / 3) else { continue };
+                            if lat.is_near_torsion(&zr, bits / 2, 1) {
+                                continue;
+                            }
+                            let p = lat.weierstrass_p(&zr);
+                            let x = &p.re - Float::from_rational_prec_ref(&b2, wp).0 / fi(12, wp);
+                            if let Some(pt) = recognise(minimal, &x, bits) {
+                                let (q, _) = divide_out(minimal, &tors, &lat, &b2, zr, pt.clone(), bits, &budget);
+                                return finish(minimal, &s, h, pt, q, mult, k, bits, coeffs.len() - 1, &budget, start).map(Some);
+                            }
+                        }
+                    }
+                }
+            }
+            if bits >= opts.max_precision {
+                break;
+            }
+            target_height *= 2.0;
+        }
+    }
+    Ok(None)
+}
+
+/// The point of infinite order with x-coordinate near `x` (a convergent
+/// of its continued fraction with a square denominator, within about
+/// `2^-(bits/2)` relative), verified exactly on the curve.
+fn recognise(curve: &Curve, x: &Float, bits: u64) -> Option<Point> {
+    let mag = analytic::log2_abs(x).max(0);
+    let tol_exp = (bits as i64 / 2 - mag).max(8);
+    let tol = Rational::from_signeds(1i64, 1i64) / Rational::from(malachite::Integer::from(2).pow_u(tol_exp as u64));
+    for c in analytic::square_denominator_convergents(x, &tol, 4 * bits as usize) {
+        if let Some(pt) = analytic::point_with_x(curve, &c) {
+            if curve.torsion_order_of(&pt).is_none() {
+                return Some(pt);
+            }
+        }
+    }
+    None
+}
+
+/// Divides the verified point `pt` (with real elliptic logarithm `z`) by
+/// small primes `l` as often as possible: the candidates for `Q` with
+/// `l Q = ± pt + T` have logarithms `(z + i w1 + j w2) / l`; those on the
+/// real locus are mapped by `℘`, recognised, and `l Q` is compared with
+/// `± pt + T` exactly (T running over the rational torsion). Returns the
+/// final point and the product of the primes divided out.
+#[allow(clippy::too_many_arguments)]
+fn divide_out(curve: &Curve, tors: &[Point], lat: &Lattice, b2: &Rational, z: Cx, pt: Point, bits: u64, budget: &Work) -> (Point, u64) {
+    let wp = lat.precision();
+    let (mut cur, mut zc, mut k) = (pt, z, 1u64);
+    'primes: for l in [2u64, 3, 5, 7, 11, 13] {
+        loop {
+            if budget.exhausted() {
+                break 'primes;
+            }
+            let mut found = None;
+            'cand: for i in 0..l {
+                for j in 0..l {
+                    let w = lat.shifted(&zc, i as i64, j as i64);
+                    let w = Cx::new(&w.re / fi(l as i64, wp), &w.im / fi(l as i64, wp));
+                    let Some(wr) = lat.on_real_locus(&w, bits / 3) else { continue };
+                    let p = lat.weierstrass_p(&wr);
+                    let x = &p.re - Float::from_rational_prec_ref(b2, wp).0 / fi(12, wp);
+                    let Some(q) = recognise(curve, &x, bits) else { continue };
+                    let lq = curve.multiple(&q, l as i64);
+                    let neg = curve.negate(&cur);
+                    let hit = lq == cur || lq == neg || tors.iter().any(|t| {
+                        let s = curve.add(&lq, t);
+                        s == cur || s == neg
+                    });
+                    if hit {
+                        found = Some((q, wr));
+                        break 'cand;
+                    }
+                }
+            }
+            match found {
+                Some((q, wr)) => {
+                    cur = q;
+                    zc = wr;
+                    k *= l;
+                }
+                None => break,
+            }
+        }
+    }
+    (cur, k)
+}
+
+trait PowU {
+    fn pow_u(self, e: u64) -> Self;
+}
+
+impl PowU for malachite::Integer {
+    fn pow_u(self, e: u64) -> Self {
+        use malachite::base::num::arithmetic::traits::Pow;
+        self.pow(e)
+    }
+}
+
+#[allow(clippy::too_many_arguments)]
+fn finish(
+    curve: &Curve,
+    s: &Setup,
+    h: &HeegnerData,
+    pt: Point,
+    divided: Point,
+    mult: u32,
+    divisor: u64,
+    bits: u64,
+    terms: usize,
+    budget: &Work,
+    start: Instant,
+) -> Result<HeegnerResult, Error> {
+    let sat_opts = SaturationOptions::within(budget);
+    let prec = 128u64.max(bits / 4);
+    let basis = mordell_weil_basis(curve, std::slice::from_ref(&divided), &s.local, prec, &sat_opts)?;
+    let generator = basis.generators.first().cloned().ok_or_else(|| err(ErrorKind::InvalidValue, "the point found is torsion"))?;
+    if !curve.contains(&generator) || curve.torsion_order_of(&generator).is_some() {
+        return Err(err(ErrorKind::InvalidValue, "internal check failed: the generator is not a point of infinite order"));
+    }
+    let hg = canonical_height(curve, &s.local, &generator, prec)?;
+    let hp = canonical_height(curve, &s.local, &pt, prec)?;
+    let ratio = to_f64(&(&hp / &hg));
+    let k = ratio.sqrt().round();
+    let index = if k >= 1.0 && k < 1e9 {
+        let k = k as i64;
+        let kg = curve.multiple(&generator, k);
+        let torsion = TorsionGroup::compute(curve, &s.local.iter().map(|d| d.prime.clone()).collect::<Vec<_>>());
+        let ok = torsion.points().iter().any(|t| {
+            let a = curve.add(&kg, t);
+            a == pt || a == curve.negate(&pt)
+        }) || kg == pt
+            || kg == curve.negate(&pt);
+        ok.then_some(k as u64)
+    } else {
+        None
+    };
+    let _ = s.torsion_order;
+    Ok(HeegnerResult {
+        generator,
+        recognised_point: pt,
+        index,
+        multiplier: mult,
+        divisor,
+        discriminant: h.discriminant,
+        beta: h.beta,
+        class_number: h.forms.len(),
+        precision: bits,
+        terms,
+        height: to_f64(&hg),
+        predicted_height: s.predicted,
+        derivative: s.derivative,
+        saturation: basis.saturation,
+        elapsed: start.elapsed(),
+    })
+}
+
+impl Lattice {
+    /// Whether `k z` is within `2^-tol_bits` (in lattice coordinates) of a
+    /// lattice point for some `1 <= k <= max_k`: `z` is then (numerically)
+    /// a torsion point.
+    pub(crate) fn is_near_torsion(&self, z: &Cx, tol_bits: u64, max_k: i64) -> bool {
+        let (s, t) = self.coordinates(z);
+        let tol = 2f64.powi(-(tol_bits.min(1000) as i32));
+        (1..=max_k).any(|k| {
+            let kf = fi(k, self.precision());
+            let a = &s * &kf;
+            let b = &t * &kf;
+            let da = (&a - fi(round_f(&a), self.precision())).abs();
+            let db = (&b - fi(round_f(&b), self.precision())).abs();
+            to_f64(&da) < tol && to_f64(&db) < tol
+        })
+    }
+}
+
+fn round_f(x: &Float) -> i64 {
+    let v = to_f64(x);
+    if v.is_finite() && v.abs() < 1e15 {
+        v.round() as i64
+    } else {
+        0
+    }
+}
+
+#[cfg(test)]
+mod tests;
