@@ -21,6 +21,8 @@ pub enum Stage {
     IsogenyClass,
     /// The analytic route: proven root number and L-value.
     Analytic,
+    /// The Heegner point route for analytic rank one.
+    Heegner,
     /// Root number, heights and saturation, periods, L-values.
     Evidence,
     /// Building the certificate of the rank proof.
@@ -79,6 +81,10 @@ pub struct RankOptions {
     /// The largest conductor for which the analytic route runs (its cost
     /// grows like the square root of the conductor). Default `10^10`.
     pub analytic_max_conductor: u64,
+    /// When the rank is proven to be 1 analytically and the descent's search
+    /// found no point, compute one by the Heegner point method (see
+    /// [`crate::heegner`]), within half of the time left. Default `true`.
+    pub heegner_route: bool,
     /// Also compute the evidence beyond the rank bounds (root number,
     /// heights and saturation, real period, L-values, the Birch and
     /// Swinnerton-Dyer quotient): [`crate::RankReport::evidence`]. Default
@@ -104,6 +110,7 @@ impl Default for RankOptions {
             cross_check_routes: false,
             analytic_route: true,
             analytic_max_conductor: 10_000_000_000,
+            heegner_route: true,
             evidence: true,
             certificate: false,
             known_primes: None,

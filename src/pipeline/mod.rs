@@ -118,6 +118,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         report.rank_proven_by.push(crate::report::ProofRoute::Descent);
     }
     decide_rank(&mut report)?;
+    heegner_point(&mut report, data, options, work)?;
     for p in &report.points {
         if !data.input().contains(p) {
             return Err(Error::internal("the report", "a reported point is not on the input curve"));
@@ -346,6 +347,22 @@ fn settle_sha2(report: &mut RankReport) -> Result<(), Error> {
     }
     // the unexplained quartic classes span Sel^2 modulo the image of E(Q):
     // with the rank proven they are exactly the non-trivial part of Sha[2]
+    if d == 0 && !report.sha_suspects.is_empty() {
+        // Sha[2] is trivial: the coverings left unexplained have rational
+        // points that the search did not reach; they are not suspects
+        let left: Vec<String> = report.sha_suspects.iter().map(|s| crate::quartic::Quartic::new(s.quartic.clone()).to_string()).collect();
+        let height = report.sha_suspects.iter().map(|s| s.searched_height).max().unwrap_or(0);
+        report.sha_suspects.clear();
+        if let Some(ev) = report.evidence.as_mut() {
+            ev.statements.push(Statement {
+                claim: format!(
+                    "Sha[2] is trivial, so the coverings y^2 = {} have rational points, beyond the height {height} searched",
+                    left.join(" and y^2 = ")
+                ),
+                standing: Standing::Proven,
+            });
+        }
+    }
     let from_quartics = report.sha_suspects.iter().filter(|s| s.class.is_none()).count();
     if d > 0 && from_quartics == d {
         for s in report.sha_suspects.iter_mut().filter(|s| s.class.is_none()) {
@@ -416,6 +433,52 @@ fn cross_check_analytic(report: &RankReport) -> Result<(), Error> {
                 ));
             }
         }
+    }
+    Ok(())
+}
+
+/// Analytic rank one proven but no point found by the descent's search: the
+/// Heegner point method computes a generator (Gross-Zagier 1986). The point
+/// is verified exactly on the minimal and on the input model and must lie
+/// outside the torsion subgroup; it then also proves the descent's lower
+/// bound 1. A failure or a cut-short search leaves the report as it was.
+fn heegner_point(report: &mut RankReport, data: &CurveData, options: &RankOptions, work: &Work) -> Result<(), Error> {
+    let proven_one = report.analytic.as_ref().and_then(|a| a.rank) == Some(1);
+    if !options.heegner_route || !proven_one || !report.points.is_empty() || work.exhausted() {
+        return Ok(());
+    }
+    work.report(Stage::Heegner, "a generator by the Heegner point method");
+    let share = work.share(0.5);
+    let opts = crate::heegner::HeegnerOptions {
+        time_limit: share.remaining(),
+        cancel: work.cancel_flag().cloned(),
+        ..crate::heegner::HeegnerOptions::default()
+    };
+    let Ok(Some(found)) = crate::heegner::point_of_rank_one(data.minimal(), data.conductor(), &opts) else { return Ok(()) };
+    let g = &found.generator;
+    if !data.minimal().contains(g) {
+        return Err(Error::internal("the Heegner route", "the generator is not on the minimal model"));
+    }
+    let on_input = data.to_input(g);
+    if !data.input().contains(&on_input) {
+        return Err(Error::internal("the Heegner route", "the generator is not on the input model"));
+    }
+    if g.is_infinity() || report.torsion_points.contains(&on_input) {
+        return Err(Error::internal("the Heegner route", "the generator is a torsion point"));
+    }
+    report.points = vec![on_input];
+    report.independence = format!(
+        "a point of infinite order (not in the torsion subgroup), found by the Heegner point method \
+         (discriminant {}, {} bits) and verified exactly",
+        found.discriminant, found.precision
+    );
+    let (lo, up) = report.descent_bounds;
+    if up.is_some_and(|u| u < 1) {
+        return Err(Error::internal("the Heegner route", "a point of infinite order against a descent upper bound 0"));
+    }
+    report.descent_bounds = (Some(lo.unwrap_or(0).max(1)), up);
+    if report.descent_bounds.0 == up && !report.rank_proven_by.contains(&crate::report::ProofRoute::Descent) {
+        report.rank_proven_by.insert(0, crate::report::ProofRoute::Descent);
     }
     Ok(())
 }
