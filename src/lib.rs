@@ -115,6 +115,7 @@ pub mod heights;
 pub mod isogeny;
 pub mod local;
 pub mod lseries;
+pub mod numfield;
 pub mod quartic;
 pub mod report;
 pub mod rootno;
