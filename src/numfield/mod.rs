@@ -16,5 +16,7 @@ pub(crate) mod linalg;
 pub mod poly;
 mod order;
 mod field;
+mod ideal;
 
 pub use field::{Element, NumberField};
+pub use ideal::{Ideal, PrimeIdeal};
