@@ -17,6 +17,10 @@ pub mod poly;
 mod order;
 mod field;
 mod ideal;
+mod classgroup;
+mod sunits;
 
 pub use field::{Element, NumberField};
 pub use ideal::{Ideal, PrimeIdeal};
+pub use classgroup::{ClassGroup, ClassGroupOptions, CompactProduct, FactorBaseBound, EULER_PRODUCT_LIMIT, MAX_ROUNDS, MIN_FACTOR_BASE_BOUND};
+pub use sunits::SquareClasses;
