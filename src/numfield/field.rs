@@ -212,7 +212,7 @@ impl NumberField {
     /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
     /// let k = NumberField::new(&z(&[-5, 0, 1])).unwrap();
     /// let (b, d) = k.integral_basis();
-    /// assert_eq!((b, d.clone()), (vec![z(&[2, 0]), z(&[1, 1])], Integer::from(2))); // 1, (1 + sqrt 5)/2
+    /// assert_eq!((b.to_vec(), d.clone()), (vec![z(&[2, 0]), z(&[1, 1])], Integer::from(2))); // 1, (1 + sqrt 5)/2
     /// ```
     pub fn integral_basis(&self) -> (&[Vec<Integer>], &Integer) {
         (&self.basis.rows, &self.basis.den)
