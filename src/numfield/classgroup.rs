@@ -466,8 +466,13 @@ impl NumberField {
                     l -= (1.0 - 1.0 / (q.norm() as f64)).ln();
                 }
             } else {
-                let fp_: Vec<u64> = fpoly.iter().map(|c| mod_word(c, p)).collect();
-                let nr = super::fp::roots(&fp_, p).len();
+                let nr = if self.n == 2 {
+                    // quadratic: the Kronecker symbol of the polynomial discriminant
+                    (1 + crate::arith::kronecker(&self.poly_disc, &Integer::from(p))) as usize
+                } else {
+                    let fp_: Vec<u64> = fpoly.iter().map(|c| mod_word(c, p)).collect();
+                    super::fp::roots(&fp_, p).len()
+                };
                 // degree pattern from the number of roots (n <= 3)
                 let degs: Vec<u32> = match (self.n, nr) {
                     (2, 2) => vec![1, 1],
