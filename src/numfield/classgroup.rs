@@ -23,9 +23,8 @@
 use super::field::{Element, NumberField};
 use super::ideal::{Ideal, PrimeIdeal};
 use super::linalg::{mod_word, smith_invariants};
-use crate::arith::{primes_up_to, FactorLimits};
+use crate::arith::primes_up_to;
 use crate::{Error, ErrorKind};
-use malachite::base::num::arithmetic::traits::UnsignedAbs;
 use malachite::base::num::basic::traits::{One, Zero};
 use malachite::base::num::conversion::traits::RoundingFrom;
 use malachite::base::rounding_modes::RoundingMode;
@@ -207,7 +206,6 @@ fn rational_approx(x: f64, qmax: i64, tol: f64) -> Option<(i64, i64)> {
 struct UnitLattice {
     r: usize,
     basis: Vec<Row>,
-    scale: f64,
 }
 
 impl UnitLattice {
@@ -581,7 +579,7 @@ impl NumberField {
         let mut rel_logs: Vec<Vec<f64>> = Vec::new();
         let mut rel_errs: Vec<f64> = Vec::new();
         let mut pivots: Vec<Option<Row>> = (0..kfb).map(|_| None).collect();
-        let mut units = UnitLattice { r, basis: Vec::new(), scale: 1.0 };
+        let mut units = UnitLattice { r, basis: Vec::new() };
         let mut state = 0x2545f4914f6cdd1du64;
         let mut rnd = |m: u64| {
             state ^= state << 13;
@@ -590,7 +588,7 @@ impl NumberField {
             state % m
         };
         let mut round = 0usize;
-        let mut ratio = f64::INFINITY;
+        let mut ratio: f64;
         loop {
             if stop() {
                 return Err(Error::new(ErrorKind::Budget, "class group: budget exhausted"));
@@ -679,7 +677,6 @@ impl NumberField {
         let unit_list: Vec<CompactProduct> = units.basis.iter().map(|u| to_compact(&u.exps)).collect();
         let regulator = if r == 0 { 1.0 } else { units.det() };
         let echelon = pivots.iter().map(|p| p.as_ref().map(|p| (p.v.clone(), to_compact(&p.exps))).unwrap_or_else(|| (Vec::new(), CompactProduct { factors: Vec::new() }))).collect();
-        let _ = FactorLimits::default();
         Ok(ClassGroup {
             structure,
             class_number,
@@ -804,9 +801,4 @@ fn reduce_row(pivots: &[Option<Row>], row: &mut Row, from: usize) {
 
 fn row_zero(r: &Row) -> Row {
     Row { v: vec![0; r.v.len()], logs: vec![0.0; r.logs.len()], exps: Vec::new(), err: 0.0 }
-}
-
-#[allow(dead_code)]
-fn unused_abs(x: &Integer) -> malachite::Natural {
-    x.unsigned_abs()
 }

@@ -9,7 +9,7 @@
 //! Reference: H. Cohen, *A Course in Computational Algebraic Number
 //! Theory*, GTM 138, 1993, §1.6 (Algorithms 1.6.1 and 1.6.2).
 
-use crate::arith::{inv_mod, mul_mod, pow_mod, sqrt_mod_prime};
+use crate::arith::{inv_mod, mul_mod, sqrt_mod_prime};
 
 /// Drops leading zero coefficients.
 pub(crate) fn trim(f: &mut Vec<u64>) {
@@ -173,7 +173,7 @@ fn split_roots(g: &[u64], p: u64, out: &mut Vec<u64>) {
         3 => {
             // monic quadratic with two distinct roots: the quadratic formula
             let b = g[1];
-            let c = g[2 - 2];
+            let c = g[0];
             let disc = (mul_mod(b, b, p) + p - mul_mod(4 % p, c, p)) % p;
             if let Some(s) = sqrt_mod_prime(disc, p) {
                 let inv2 = inv_mod(2, p).unwrap_or(1);
@@ -245,17 +245,6 @@ pub(crate) fn factor_small(f: &[u64], p: u64) -> Option<Vec<(Vec<u64>, u32)>> {
     Some(out)
 }
 
-/// Number of distinct roots of the polynomial mod p; shortcut used by the
-/// Euler product.
-pub(crate) fn count_roots(f: &[u64], p: u64) -> usize {
-    roots(f, p).len()
-}
-
-/// `b^e mod p` re-exported for sibling files.
-#[allow(dead_code)]
-pub(crate) fn powp(b: u64, e: u64, p: u64) -> u64 {
-    pow_mod(b, e, p)
-}
 
 #[cfg(test)]
 mod tests {

@@ -12,7 +12,7 @@
 
 use super::field::{Element, NumberField};
 use super::fp;
-use super::linalg::{fdiv, hnf, left_kernel_mod_p, mod_word};
+use super::linalg::{hnf, left_kernel_mod_p, mod_word};
 use super::order::{mul_mod_p, pow_mod_p, radical, table_mod_p};
 use crate::arith::{factor, inv_mod, mul_mod, FactorLimits};
 use crate::{Error, ErrorKind};
@@ -578,11 +578,6 @@ impl NumberField {
         }
         Ok(out)
     }
-}
-
-#[allow(dead_code)]
-fn unused(x: &Integer, y: &Integer) -> Integer {
-    fdiv(x, y)
 }
 
 #[cfg(test)]

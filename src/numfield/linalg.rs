@@ -46,7 +46,7 @@ pub(crate) fn hnf(gens: &[Vec<Integer>], n: usize, modulus: Option<&Integer>) ->
         loop {
             let mut best: Option<usize> = None;
             for (i, r) in work.iter().enumerate() {
-                if r[col] != 0 && best.is_none_or(|b| r[col].unsigned_abs_ref() < work[b][col].unsigned_abs_ref()) {
+                if r[col] != 0 && best.is_none_or(|b| (&r[col]).unsigned_abs() < (&work[b][col]).unsigned_abs()) {
                     best = Some(i);
                 }
             }
@@ -112,16 +112,9 @@ pub(crate) fn hnf(gens: &[Vec<Integer>], n: usize, modulus: Option<&Integer>) ->
     Ok(h)
 }
 
-trait AbsRef {
-    fn unsigned_abs_ref(&self) -> malachite::Natural;
-}
-impl AbsRef for Integer {
-    fn unsigned_abs_ref(&self) -> malachite::Natural {
-        self.unsigned_abs()
-    }
-}
 
 /// Product of the diagonal of a triangular matrix.
+#[cfg(test)]
 pub(crate) fn diag_product(h: &[Vec<Integer>]) -> Integer {
     h.iter().enumerate().fold(Integer::ONE, |acc, (i, r)| acc * &r[i])
 }

@@ -10,7 +10,7 @@
 //! so `w_0 = 1` and `w_i` has degree `i` in `theta`.
 
 use super::linalg::{hnf, left_kernel_mod_p, mod_word};
-use crate::arith::{mul_mod, pow_mod};
+use crate::arith::mul_mod;
 use crate::{Error, ErrorKind};
 use malachite::base::num::arithmetic::traits::{Gcd, Pow, UnsignedAbs};
 use malachite::base::num::basic::traits::{One, Zero};
@@ -224,10 +224,6 @@ fn enlarge(order: &Basis, f: &[Integer], p: u64) -> Result<Option<Basis>, Error>
         rows.push(row);
     }
     let ker = left_kernel_mod_p(&rows, n * n, p);
-    if ker.len() <= 1 {
-        // U = pO + Z (1 only if ker is spanned by 1, i.e. U/pO = F_p) : O' = O
-        // (the ring of multipliers always contains O, so U/pO has dimension >= 1... )
-    }
     let pz = Integer::from(p);
     let mut gens: Vec<Vec<Integer>> = ker.iter().map(|v| v.iter().map(|&x| Integer::from(x)).collect()).collect();
     for i in 0..n {
@@ -287,7 +283,6 @@ pub(crate) fn maximal_order(f: &[Integer], primes: &[Natural]) -> Result<Basis, 
             order = o;
         }
     }
-    let _ = pow_mod(1, 1, 2);
     Ok(order)
 }
 

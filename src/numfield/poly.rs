@@ -123,7 +123,7 @@ pub fn primitive_part(f: &[Rational]) -> Vec<Integer> {
     let mut v: Vec<Integer> = f.iter().map(|c| Integer::try_from(c * &lq).unwrap_or_default()).collect();
     let mut g = malachite::Natural::ZERO;
     for c in &v {
-        g = g.gcd(c.unsigned_abs_ref());
+        g = g.gcd(malachite::base::num::arithmetic::traits::UnsignedAbs::unsigned_abs(c));
     }
     if g > 1 {
         let gi = Integer::from(g);
@@ -139,14 +139,6 @@ pub fn primitive_part(f: &[Rational]) -> Vec<Integer> {
     }
 }
 
-trait UAbs {
-    fn unsigned_abs_ref(&self) -> malachite::Natural;
-}
-impl UAbs for Integer {
-    fn unsigned_abs_ref(&self) -> malachite::Natural {
-        malachite::base::num::arithmetic::traits::UnsignedAbs::unsigned_abs(self.clone())
-    }
-}
 
 /// The distinct rational roots of a non-zero integer polynomial, sorted.
 ///
