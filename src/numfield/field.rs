@@ -429,7 +429,7 @@ impl NumberField {
         // charpoly = sum_k (-1)^k e_k x^(n-k)
         (0..=n).map(|j| {
             let k = n - j;
-            if k % 2 == 0 { e[k].clone() } else { -e[k].clone() }
+            if k.is_multiple_of(2) { e[k].clone() } else { -e[k].clone() }
         }).collect()
     }
 

@@ -55,6 +55,9 @@
 //! (never a wrong answer). Primes above 2^63 in Round 2 or decompositions
 //! give [`ErrorKind::TooLarge`](crate::ErrorKind::TooLarge).
 
+// Matrix code reads best with explicit indices.
+#![allow(clippy::needless_range_loop)]
+
 pub(crate) mod fp;
 pub(crate) mod linalg;
 pub mod poly;
