@@ -66,7 +66,9 @@
 //! - Building blocks, usable on their own: [`arith`] (word arithmetic,
 //!   factorisation, Hilbert symbols), [`torsion`], [`solubility`] (local
 //!   solubility with witnesses), [`search`] (sieved point search),
-//!   [`quartic`] (binary quartics and 2-coverings), [`rootno`] (root numbers).
+//!   [`quartic`] (binary quartics and 2-coverings), [`rootno`] (root numbers),
+//!   [`numfield`] (quadratic and cubic fields: maximal orders, ideals, class
+//!   groups, units and the groups `K(S,2)` for the descent over `Q[x]/(f)`).
 //! - [`Error`] with its [`ErrorKind`]: every failure is one of these.
 //!
 //! # Cargo features
@@ -130,6 +132,7 @@ pub mod isogeny;
 pub mod local;
 pub mod lproof;
 pub mod lseries;
+pub mod numfield;
 mod pipeline;
 pub mod quartic;
 pub mod report;

@@ -1,0 +1,804 @@
+//! Class group, regulator and fundamental units by relations (J. Buchmann,
+//! "A subexponential algorithm for the determination of class groups and
+//! regulators of algebraic number fields", Séminaire de Théorie des Nombres
+//! Paris 1988-89, 1990; H. Cohen, GTM 138, §6.5).
+//!
+//! Relations are elements of small norm found in LLL-reduced ideals
+//! (A. K. Lenstra, H. W. Lenstra, L. Lovász, "Factoring polynomials with
+//! rational coefficients", Math. Ann. 261, 1982) whose norms factor over the
+//! factor base. Each relation carries its valuation vector, its logarithmic
+//! embedding and its expression as a product of the relation elements, so
+//! units come out in compact (product) form. The relation lattice is kept
+//! in echelon form by integer Euclid steps; a relation that reduces to zero
+//! gives a unit. The result is accepted when `h* R*` agrees with the
+//! analytic class number formula (residue of the Dedekind zeta function
+//! estimated by an Euler product) to better than a factor 1.5: since
+//! `h* R*` is a positive integer multiple of `h R`, this pins down `h R`,
+//! *provided* the Euler product is that accurate (a numerical estimate, not
+//! a proof) and the factor base generates the class group (true under GRH
+//! for the bound of E. Bach, "Explicit bounds for primality testing and
+//! related problems", Math. Comp. 55, 1990; unconditional for the Minkowski
+//! bound).
+
+use super::field::{Element, NumberField};
+use super::ideal::{Ideal, PrimeIdeal};
+use super::linalg::{mod_word, smith_invariants};
+use crate::arith::primes_up_to;
+use crate::{Error, ErrorKind};
+use malachite::base::num::basic::traits::{One, Zero};
+use malachite::base::num::conversion::traits::RoundingFrom;
+use malachite::base::rounding_modes::RoundingMode;
+use malachite::{Integer, Rational};
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::Arc;
+use std::time::Instant;
+
+/// Primes up to this bound enter the Euler product of the zeta residue.
+pub const EULER_PRODUCT_LIMIT: u64 = 100_000;
+
+/// The factor base always holds the prime ideals of norm up to this
+/// (more generators than the bound needs: relations come easier).
+pub const MIN_FACTOR_BASE_BOUND: u64 = 50;
+
+/// Rounds of relation search before [`NumberField::class_group`] gives up
+/// with [`ErrorKind::Budget`] (each round reduces one ideal).
+pub const MAX_ROUNDS: usize = 3000;
+
+/// Which bound the factor base rests on.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub enum FactorBaseBound {
+    /// The Minkowski bound: every class contains an ideal of norm at most
+    /// it (unconditional).
+    Minkowski,
+    /// Bach's bound `12 (log |d_K|)^2`: the prime ideals below it generate
+    /// the class group if the generalised Riemann hypothesis holds.
+    BachGrh,
+}
+
+/// Options for [`NumberField::class_group`].
+#[derive(Clone, Debug, Default)]
+pub struct ClassGroupOptions {
+    /// Use the Minkowski bound even when it is large (unconditional result,
+    /// up to the Euler product check).
+    pub unconditional: bool,
+    /// Stop with [`ErrorKind::Budget`] after this instant.
+    pub deadline: Option<Instant>,
+    /// Stop with [`ErrorKind::Budget`] once set.
+    pub cancel: Option<Arc<AtomicBool>>,
+}
+
+/// A unit (or S-unit) as a product `prod base_i^exp_i` of field elements
+/// with integer exponents, never expanded unless asked.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct CompactProduct {
+    /// The factors and their exponents.
+    pub factors: Vec<(Element, i64)>,
+}
+
+impl CompactProduct {
+    /// The product as an explicit element (its size can be huge: the
+    /// height is the sum of `|exp| h(base)`).
+    pub fn expand(&self, k: &NumberField) -> Result<Element, Error> {
+        let mut r = k.one();
+        for (b, e) in &self.factors {
+            r = k.mul(&r, &k.pow(b, *e)?);
+        }
+        Ok(r)
+    }
+    /// The logarithmic embedding `sum exp_i log|sigma(base_i)|` (f64).
+    pub fn log_embedding(&self, k: &NumberField) -> Vec<f64> {
+        let mut v = vec![0.0; k.r1 + k.r2];
+        for (b, e) in &self.factors {
+            for (x, l) in v.iter_mut().zip(k.log_embedding(b)) {
+                *x += *e as f64 * l;
+            }
+        }
+        v
+    }
+}
+
+/// The class group and unit group of a number field.
+#[derive(Clone, Debug)]
+pub struct ClassGroup {
+    /// Cyclic factors `d_1 | d_2 | ...` (all > 1); empty for class number 1.
+    pub structure: Vec<Integer>,
+    /// The class number `h = prod d_i`.
+    pub class_number: Integer,
+    /// The regulator (f64, relative error about 1e-10 for small fields).
+    pub regulator: f64,
+    /// Fundamental units in compact form (unit rank `r1 + r2 - 1` of them).
+    pub units: Vec<CompactProduct>,
+    /// The number `w` of roots of unity.
+    pub roots_of_unity: u32,
+    /// A generator of the roots of unity.
+    pub torsion_generator: Element,
+    /// The factor base: all prime ideals of norm at most `bound` (at least 30).
+    pub factor_base: Vec<PrimeIdeal>,
+    /// Norm bound of the factor base.
+    pub bound: u64,
+    /// Which bound guarantees that the factor base generates the class group.
+    pub bound_kind: FactorBaseBound,
+    /// `h R` over the Euler-product estimate of the analytic class number
+    /// formula (close to 1 when accepted).
+    pub analytic_ratio: f64,
+    /// The relation lattice in echelon form (rows over the factor base),
+    /// with each row's element in compact form.
+    pub(crate) echelon: Vec<(Vec<i64>, CompactProduct)>,
+}
+
+struct Row {
+    v: Vec<i64>,
+    logs: Vec<f64>,
+    exps: Vec<(usize, i64)>,
+    /// bound on the f64 error of `logs`
+    err: f64,
+}
+
+fn combine(a: &[(usize, i64)], ca: i64, b: &[(usize, i64)], cb: i64) -> Option<Vec<(usize, i64)>> {
+    let mut out: Vec<(usize, i64)> = Vec::with_capacity(a.len() + b.len());
+    let (mut i, mut j) = (0, 0);
+    while i < a.len() || j < b.len() {
+        let (idx, val) = if j >= b.len() || (i < a.len() && a[i].0 < b[j].0) {
+            let r = (a[i].0, a[i].1.checked_mul(ca)?);
+            i += 1;
+            r
+        } else if i >= a.len() || b[j].0 < a[i].0 {
+            let r = (b[j].0, b[j].1.checked_mul(cb)?);
+            j += 1;
+            r
+        } else {
+            let r = (a[i].0, a[i].1.checked_mul(ca)?.checked_add(b[j].1.checked_mul(cb)?)?);
+            i += 1;
+            j += 1;
+            r
+        };
+        if val != 0 {
+            out.push((idx, val));
+        }
+    }
+    Some(out)
+}
+
+impl Row {
+    /// self <- ca self + cb other
+    fn lin(&self, ca: i64, other: &Row, cb: i64) -> Option<Row> {
+        let v = self.v.iter().zip(&other.v).map(|(x, y)| x.checked_mul(ca)?.checked_add(y.checked_mul(cb)?)).collect::<Option<Vec<i64>>>()?;
+        let logs = self.logs.iter().zip(&other.logs).map(|(x, y)| ca as f64 * x + cb as f64 * y).collect();
+        let exps = combine(&self.exps, ca, &other.exps, cb)?;
+        let err = (ca.unsigned_abs() as f64) * self.err + (cb.unsigned_abs() as f64) * other.err;
+        Some(Row { v, logs, exps, err })
+    }
+}
+
+/// Rational approximation `p/q`, `q <= qmax`, within `tol` (continued fractions).
+fn rational_approx(x: f64, qmax: i64, tol: f64) -> Option<(i64, i64)> {
+    let (mut h0, mut h1, mut k0, mut k1) = (0i64, 1i64, 1i64, 0i64);
+    let mut y = x;
+    for _ in 0..40 {
+        let a = y.floor();
+        if a.abs() > 1e15 {
+            return None;
+        }
+        let ai = a as i64;
+        let h2 = ai.checked_mul(h1)?.checked_add(h0)?;
+        let k2 = ai.checked_mul(k1)?.checked_add(k0)?;
+        if k2 > qmax {
+            return None;
+        }
+        if (x - h2 as f64 / k2 as f64).abs() < tol {
+            return Some((h2, k2));
+        }
+        h0 = h1;
+        h1 = h2;
+        k0 = k1;
+        k1 = k2;
+        let frac = y - a;
+        if frac.abs() < 1e-300 {
+            return None;
+        }
+        y = 1.0 / frac;
+    }
+    None
+}
+
+/// The unit lattice of log vectors (first `r` coordinates), with compact forms.
+struct UnitLattice {
+    r: usize,
+    basis: Vec<Row>,
+}
+
+impl UnitLattice {
+    /// Least-squares coordinates of `u` on the current basis (normal equations).
+    fn coords(&self, u: &[f64]) -> Option<Vec<f64>> {
+        let m = self.basis.len();
+        let r = self.r;
+        let mut a: Vec<Vec<f64>> = (0..m).map(|i| {
+            let bi = &self.basis[i].logs[..r];
+            let mut row: Vec<f64> = (0..m).map(|j| dot(bi, &self.basis[j].logs[..r])).collect();
+            row.push(dot(bi, u));
+            row
+        }).collect();
+        for c in 0..m {
+            let p = (c..m).max_by(|&i, &j| a[i][c].abs().partial_cmp(&a[j][c].abs()).unwrap_or(std::cmp::Ordering::Equal))?;
+            a.swap(p, c);
+            if a[c][c].abs() < 1e-300 {
+                return None;
+            }
+            for i in 0..m {
+                if i != c {
+                    let f = a[i][c] / a[c][c];
+                    for j in c..=m {
+                        a[i][j] -= f * a[c][j];
+                    }
+                }
+            }
+        }
+        Some((0..m).map(|i| a[i][m] / a[i][i]).collect())
+    }
+
+    fn det(&self) -> f64 {
+        let r = self.r;
+        let mut a: Vec<Vec<f64>> = (0..r).map(|i| (0..r).map(|j| self.basis[i].logs[j]).collect()).collect();
+        let mut d = 1.0;
+        for c in 0..r {
+            let Some(p) = (c..r).max_by(|&i, &j| a[i][c].abs().partial_cmp(&a[j][c].abs()).unwrap_or(std::cmp::Ordering::Equal)) else { return 0.0 };
+            if p != c {
+                a.swap(p, c);
+                d = -d;
+            }
+            d *= a[c][c];
+            if a[c][c] == 0.0 {
+                return 0.0;
+            }
+            for i in c + 1..r {
+                let f = a[i][c] / a[c][c];
+                for j in c..r {
+                    a[i][j] -= f * a[c][j];
+                }
+            }
+        }
+        d.abs()
+    }
+
+    /// Adds a unit; returns false if precision did not allow it.
+    fn add(&mut self, mut u: Row) -> bool {
+        if !self.basis.is_empty() {
+            // size-reduce by the current basis (integral parts of the coordinates)
+            let Some(x) = self.coords(&u.logs[..self.r]) else { return false };
+            for (xi, b) in x.iter().zip(&self.basis) {
+                let q = xi.round();
+                if q != 0.0 {
+                    if q.abs() > 1e15 {
+                        return false;
+                    }
+                    let Some(nu) = u.lin(1, b, -(q as i64)) else { return false };
+                    u = nu;
+                }
+            }
+        }
+        let norm: f64 = u.logs.iter().take(self.r).map(|x| x * x).sum::<f64>().sqrt();
+        if norm < (1e3 * u.err).max(1e-9) {
+            return true; // torsion
+        }
+        if self.basis.is_empty() {
+            self.basis.push(u);
+            return true;
+        }
+        let Some(x) = self.coords(&u.logs[..self.r]) else { return false };
+        let mut res: Vec<f64> = u.logs[..self.r].to_vec();
+        for (xi, b) in x.iter().zip(&self.basis) {
+            for (rj, bj) in res.iter_mut().zip(&b.logs[..self.r]) {
+                *rj -= xi * bj;
+            }
+        }
+        if dot(&res, &res).sqrt() > 1e-6 * norm {
+            if self.basis.len() < self.r {
+                self.basis.push(u);
+                return true;
+            }
+            return false;
+        }
+        let bmin = self.basis.iter().map(|b| dot(&b.logs[..self.r], &b.logs[..self.r]).sqrt()).fold(f64::INFINITY, f64::min);
+        let berr = self.basis.iter().map(|b| b.err).fold(0.0, f64::max);
+        let tol = (1e3 * (u.err + berr) / bmin).max(1e-12);
+        if tol > 1e-4 {
+            return false;
+        }
+        let mut fr = Vec::with_capacity(self.r);
+        let mut den = 1i64;
+        for &xi in &x {
+            let Some((p, q)) = rational_approx(xi, 1000, tol) else { return false };
+            fr.push((p, q));
+            den = num_integer_lcm(den, q);
+        }
+        if den == 1 {
+            return true;
+        }
+        // integer generators in units of b/den: den e_i for b_i, den x for u
+        let r = self.basis.len();
+        let mut gens: Vec<(Vec<i64>, Row)> = Vec::new();
+        for (i, b) in self.basis.drain(..).enumerate() {
+            let mut c = vec![0i64; r];
+            c[i] = den;
+            gens.push((c, b));
+        }
+        gens.push((fr.iter().map(|&(p, q)| p * (den / q)).collect(), u));
+        // echelon by Euclid on coordinates
+        let mut out: Vec<Row> = Vec::new();
+        for col in 0..r {
+            loop {
+                let mut idx: Vec<usize> = (0..gens.len()).filter(|&i| gens[i].0[col] != 0).collect();
+                if idx.len() <= 1 {
+                    if let Some(&i) = idx.first() {
+                        let (_, row) = gens.swap_remove(i);
+                        out.push(row);
+                    }
+                    break;
+                }
+                idx.sort_by_key(|&i| gens[i].0[col].abs());
+                let piv = idx[0];
+                let (pc, prow) = (gens[piv].0.clone(), Row { v: gens[piv].1.v.clone(), logs: gens[piv].1.logs.clone(), exps: gens[piv].1.exps.clone(), err: gens[piv].1.err });
+                for &i in &idx[1..] {
+                    let q = gens[i].0[col].div_euclid(pc[col]);
+                    let c: Vec<i64> = gens[i].0.iter().zip(&pc).map(|(a, b)| a - q * b).collect();
+                    let Some(row) = gens[i].1.lin(1, &prow, -q) else { return false };
+                    gens[i] = (c, row);
+                }
+            }
+        }
+        self.basis = out;
+        true
+    }
+}
+
+fn num_integer_lcm(a: i64, b: i64) -> i64 {
+    let (mut x, mut y) = (a, b);
+    while y != 0 {
+        let t = x % y;
+        x = y;
+        y = t;
+    }
+    a / x * b
+}
+
+fn dot(a: &[f64], b: &[f64]) -> f64 {
+    a.iter().zip(b).map(|(x, y)| x * y).sum()
+}
+
+/// LLL reduction (delta = 0.99) of real vectors, returning the integer
+/// transformation: row `i` of the result gives the combination of the
+/// inputs forming reduced vector `i`.
+pub(crate) fn lll_f64(vecs: &[Vec<f64>]) -> Vec<Vec<i64>> {
+    let n = vecs.len();
+    let mut b: Vec<Vec<f64>> = vecs.to_vec();
+    let mut t: Vec<Vec<i64>> = (0..n).map(|i| (0..n).map(|j| i64::from(i == j)).collect()).collect();
+    let gso = |b: &[Vec<f64>]| -> (Vec<Vec<f64>>, Vec<Vec<f64>>) {
+        let mut bs: Vec<Vec<f64>> = Vec::new();
+        let mut mu = vec![vec![0.0; n]; n];
+        for i in 0..n {
+            let mut v = b[i].clone();
+            for j in 0..i {
+                mu[i][j] = dot(&b[i], &bs[j]) / dot(&bs[j], &bs[j]).max(1e-300);
+                for (x, y) in v.iter_mut().zip(&bs[j]) {
+                    *x -= mu[i][j] * y;
+                }
+            }
+            bs.push(v);
+        }
+        (bs, mu)
+    };
+    let mut k = 1;
+    let mut guard = 0;
+    while k < n && guard < 10_000 {
+        guard += 1;
+        for j in (0..k).rev() {
+            let (_, mu) = gso(&b);
+            let q = mu[k][j].round();
+            if q != 0.0 {
+                let qi = q as i64;
+                for c in 0..b[k].len() {
+                    b[k][c] -= q * b[j][c];
+                }
+                for c in 0..n {
+                    t[k][c] -= qi * t[j][c];
+                }
+            }
+        }
+        let (bs, mu) = gso(&b);
+        if dot(&bs[k], &bs[k]) >= (0.99 - mu[k][k - 1] * mu[k][k - 1]) * dot(&bs[k - 1], &bs[k - 1]) {
+            k += 1;
+        } else {
+            b.swap(k, k - 1);
+            t.swap(k, k - 1);
+            k = k.max(2) - 1;
+        }
+    }
+    t
+}
+
+impl NumberField {
+    /// The Minkowski bound `sqrt|d| (4/pi)^r2 n!/n^n`.
+    pub fn minkowski_bound(&self) -> f64 {
+        let d = f64::rounding_from(&self.disc, RoundingMode::Nearest).0.abs();
+        let n = self.n as i32;
+        let fact: f64 = (1..=self.n).map(|i| i as f64).product();
+        d.sqrt() * (4.0 / std::f64::consts::PI).powi(self.r2 as i32) * fact / (n as f64).powi(n)
+    }
+
+    /// Bach's bound `12 (log |d_K|)^2` (generates the class group under GRH).
+    pub fn bach_bound(&self) -> f64 {
+        let d = f64::rounding_from(&self.disc, RoundingMode::Nearest).0.abs();
+        12.0 * d.ln().powi(2)
+    }
+
+    /// The number of roots of unity and a generator (degree 2 and 3 only).
+    pub fn roots_of_unity(&self) -> (u32, Element) {
+        let w: u32 = if self.r1 > 0 { 2 } else if self.disc == -4 { 4 } else if self.disc == -3 { 6 } else { 2 };
+        if w == 2 {
+            return (2, self.rational(&Rational::from(-1)));
+        }
+        for a in -1i64..=1 {
+            for b in -1i64..=1 {
+                let x = self.element(&[Integer::from(a), Integer::from(b)]).unwrap_or_else(|_| self.one());
+                let xw = self.pow(&x, i64::from(w)).unwrap_or_else(|_| self.one());
+                let xh = self.pow(&x, i64::from(w / 2)).unwrap_or_else(|_| self.one());
+                if xw == self.one() && xh != self.one() && (w != 6 || self.pow(&x, 3).map(|c| c != self.one()).unwrap_or(false) && self.pow(&x, 2).map(|c| c != self.one()).unwrap_or(false)) {
+                    return (w, x);
+                }
+            }
+        }
+        (2, self.rational(&Rational::from(-1)))
+    }
+
+    /// The Euler-product estimate of `h R = w sqrt|d| res / (2^r1 (2 pi)^r2)`
+    /// over the primes up to `x`.
+    pub fn analytic_class_number_formula(&self, x: u64) -> Result<f64, Error> {
+        let mut logres = 0.0f64;
+        let fpoly: Vec<Integer> = self.poly.clone();
+        for p in primes_up_to(x) {
+            let pf = p as f64;
+            let mut l = (1.0 - 1.0 / pf).ln();
+            if mod_word(&self.poly_disc, p) == 0 {
+                for q in self.primes_above(p)? {
+                    l -= (1.0 - 1.0 / (q.norm() as f64)).ln();
+                }
+            } else {
+                let nr = if self.n == 2 {
+                    // quadratic: the Kronecker symbol of the polynomial discriminant
+                    (1 + crate::arith::kronecker(&self.poly_disc, &Integer::from(p))) as usize
+                } else {
+                    let fp_: Vec<u64> = fpoly.iter().map(|c| mod_word(c, p)).collect();
+                    super::fp::roots(&fp_, p).len()
+                };
+                // degree pattern from the number of roots (n <= 3)
+                let degs: Vec<u32> = match (self.n, nr) {
+                    (2, 2) => vec![1, 1],
+                    (2, _) => vec![2],
+                    (3, 3) => vec![1, 1, 1],
+                    (3, 1) => vec![1, 2],
+                    _ => vec![3],
+                };
+                for f in degs {
+                    l -= (1.0 - pf.powi(-(f as i32))).ln();
+                }
+            }
+            logres += l;
+        }
+        let (w, _) = self.roots_of_unity();
+        let d = f64::rounding_from(&self.disc, RoundingMode::Nearest).0.abs();
+        Ok(w as f64 * d.sqrt() * logres.exp() / (2f64.powi(self.r1 as i32) * (2.0 * std::f64::consts::PI).powi(self.r2 as i32)))
+    }
+
+    /// All prime ideals of norm at most `b`, sorted by norm.
+    pub fn primes_up_to_norm(&self, b: u64) -> Result<Vec<PrimeIdeal>, Error> {
+        let mut out = Vec::new();
+        for p in primes_up_to(b) {
+            for q in self.primes_above(p)? {
+                if q.norm() <= b as u128 {
+                    out.push(q);
+                }
+            }
+        }
+        out.sort_by_key(|q| q.norm());
+        Ok(out)
+    }
+
+    /// LLL-reduced Z-basis of an ideal for the quadratic form T2.
+    pub fn reduced_basis(&self, i: &Ideal) -> Vec<Element> {
+        let basis = i.basis(self);
+        let vecs: Vec<Vec<f64>> = basis.iter().map(|e| self.minkowski(e)).collect();
+        let t = lll_f64(&vecs);
+        t.iter().map(|row| {
+            let mut acc = self.rational(&Rational::ZERO);
+            for (c, b) in row.iter().zip(&basis) {
+                if *c != 0 {
+                    acc = self.add(&acc, &self.mul(&self.rational(&Rational::from(*c)), b));
+                }
+            }
+            acc
+        }).collect()
+    }
+
+    /// The class group, regulator and fundamental units (degree 2 and 3).
+    ///
+    /// Conditional statements: the factor base generates the class group
+    /// unconditionally for [`FactorBaseBound::Minkowski`] and under GRH for
+    /// [`FactorBaseBound::BachGrh`]; in both cases the final check that
+    /// `h R` is not a proper divisor of the computed `h* R*` uses an
+    /// Euler-product estimate of the zeta residue (numerical).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::{ClassGroupOptions, NumberField};
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap(); // Q(sqrt -5): h = 2
+    /// let cg = k.class_group(&ClassGroupOptions::default()).unwrap();
+    /// assert_eq!(cg.structure, vec![Integer::from(2)]);
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap(); // Q(2^(1/3)): unit 2^(1/3) - 1, R = 1.3473...
+    /// let cg = k.class_group(&ClassGroupOptions::default()).unwrap();
+    /// assert!((cg.regulator - 1.347_377_6).abs() < 1e-6);
+    /// ```
+    pub fn class_group(&self, opts: &ClassGroupOptions) -> Result<ClassGroup, Error> {
+        self.class_group_with(opts, &[])
+    }
+
+    /// As [`NumberField::class_group`], with the prime ideals above the given
+    /// rational primes added to the factor base (for S-units).
+    pub fn class_group_with(&self, opts: &ClassGroupOptions, extra_primes: &[u64]) -> Result<ClassGroup, Error> {
+        let stop = || opts.cancel.as_ref().is_some_and(|c| c.load(Ordering::Relaxed)) || opts.deadline.is_some_and(|d| Instant::now() >= d);
+        let mink = self.minkowski_bound();
+        let bach = self.bach_bound();
+        let (bound, kind) = if opts.unconditional || mink <= bach {
+            (mink, FactorBaseBound::Minkowski)
+        } else {
+            (bach, FactorBaseBound::BachGrh)
+        };
+        if bound > 1e7 {
+            return Err(Error::new(ErrorKind::TooLarge, format!("factor base bound {bound:.3e} too large")));
+        }
+        let b = (bound.floor() as u64).max(MIN_FACTOR_BASE_BOUND);
+        let mut fb = self.primes_up_to_norm(b)?;
+        for &p in extra_primes {
+            for q in self.primes_above(p)? {
+                if !fb.contains(&q) {
+                    fb.push(q);
+                }
+            }
+        }
+        let kfb = fb.len();
+        let r = self.r1 + self.r2 - 1;
+        let mut fb_primes: Vec<u64> = fb.iter().map(|q| q.p).collect();
+        fb_primes.sort_unstable();
+        fb_primes.dedup();
+        let (w, zeta) = self.roots_of_unity();
+        let target = self.analytic_class_number_formula(EULER_PRODUCT_LIMIT)?;
+        let mut rel_elems: Vec<Element> = Vec::new();
+        let mut seen = std::collections::HashSet::new();
+        let mut by_vector: std::collections::HashMap<Vec<i64>, usize> = std::collections::HashMap::new();
+        let mut rel_logs: Vec<Vec<f64>> = Vec::new();
+        let mut rel_errs: Vec<f64> = Vec::new();
+        let mut pivots: Vec<Option<Row>> = (0..kfb).map(|_| None).collect();
+        let mut units = UnitLattice { r, basis: Vec::new() };
+        let mut state = 0x2545f4914f6cdd1du64;
+        let mut rnd = |m: u64| {
+            state ^= state << 13;
+            state ^= state >> 7;
+            state ^= state << 17;
+            state % m
+        };
+        let mut round = 0usize;
+        let mut ratio: f64;
+        loop {
+            if stop() {
+                return Err(Error::new(ErrorKind::Budget, "class group: budget exhausted"));
+            }
+            round += 1;
+            if round > MAX_ROUNDS {
+                return Err(Error::new(ErrorKind::Budget, "class group: too many rounds without completion"));
+            }
+            // an ideal: one factor-base prime times a random product, the
+            // search widening as rounds pass without completion
+            let widen = (round / (4 * kfb + 4)) as u64;
+            let mut ideal = if round == 1 { self.unit_ideal() } else { fb[(round - 2) % kfb].ideal.clone() };
+            if round > kfb + 1 {
+                for _ in 0..(1 + rnd(2 + widen.min(4))) {
+                    let q = &fb[rnd(kfb.min(8 + 4 * widen as usize) as u64) as usize];
+                    ideal = self.ideal_product(&ideal, &q.ideal)?;
+                }
+            }
+            let red = self.reduced_basis(&ideal);
+            let n = self.n;
+            let span = if round == 1 { 3i64 } else { 1 + (widen as i64).min(2) };
+            let total = (2 * span + 1).pow(n as u32);
+            for code in 0..total {
+                let mut c = Vec::with_capacity(n);
+                let mut t = code;
+                for _ in 0..n {
+                    c.push(t % (2 * span + 1) - span);
+                    t /= 2 * span + 1;
+                }
+                if c.iter().all(|&x| x == 0) {
+                    continue;
+                }
+                // normalise sign: first non-zero positive
+                if c.iter().find(|&&x| x != 0).is_some_and(|&x| x < 0) {
+                    continue;
+                }
+                let mut a = self.rational(&Rational::ZERO);
+                for (ci, bi) in c.iter().zip(&red) {
+                    if *ci != 0 {
+                        a = self.add(&a, &self.mul(&self.rational(&Rational::from(*ci)), bi));
+                    }
+                }
+                if a.is_zero() || !seen.insert(a.clone()) {
+                    continue;
+                }
+                let Some(v) = self.factor_over(&a, &fb, &fb_primes)? else { continue };
+                let idx = rel_elems.len();
+                rel_elems.push(a.clone());
+                let logs = self.log_embedding(&a);
+                let err = 1e-14 * (1.0 + logs.iter().map(|x| x.abs()).fold(0.0, f64::max));
+                // two relations with the same valuation vector give a unit of small height
+                if let Some(&j) = by_vector.get(&v) {
+                    let lj: &Vec<f64> = &rel_logs[j];
+                    let ulogs: Vec<f64> = logs.iter().zip(lj).map(|(a, b)| a - b).collect();
+                    let uerr = err + rel_errs[j];
+                    units.add(Row { v: vec![0; kfb], logs: ulogs, exps: vec![(j, -1), (idx, 1)], err: uerr });
+                } else {
+                    by_vector.insert(v.clone(), idx);
+                }
+                rel_logs.push(logs.clone());
+                rel_errs.push(err);
+                let row = Row { v, logs, exps: vec![(idx, 1)], err };
+                if let Some(u) = insert_relation(&mut pivots, row) {
+                    if !units.add(u) {
+                        continue;
+                    }
+                }
+            }
+            // complete?
+            if pivots.iter().all(|p| p.is_some()) && units.basis.len() == r {
+                let h: f64 = pivots.iter().enumerate().map(|(i, p)| p.as_ref().map_or(0.0, |p| p.v[i].abs() as f64)).product();
+                let reg = if r == 0 { 1.0 } else { units.det() };
+                ratio = h * reg / target;
+                if ratio < 1.5 {
+                    break;
+                }
+            }
+        }
+        if ratio < 0.6 {
+            return Err(Error::new(ErrorKind::InvalidValue, format!("h R below the analytic estimate (ratio {ratio}): inconsistent data")));
+        }
+        let mat: Vec<Vec<Integer>> = pivots.iter().map(|p| p.as_ref().map(|p| p.v.iter().map(|&x| Integer::from(x)).collect()).unwrap_or_default()).collect();
+        let structure = smith_invariants(&mat);
+        let class_number = structure.iter().fold(Integer::ONE, |a, d| a * d);
+        let to_compact = |exps: &[(usize, i64)]| CompactProduct { factors: exps.iter().map(|&(i, e)| (rel_elems[i].clone(), e)).collect() };
+        let unit_list: Vec<CompactProduct> = units.basis.iter().map(|u| to_compact(&u.exps)).collect();
+        let regulator = if r == 0 { 1.0 } else { units.det() };
+        let echelon = pivots.iter().map(|p| p.as_ref().map(|p| (p.v.clone(), to_compact(&p.exps))).unwrap_or_else(|| (Vec::new(), CompactProduct { factors: Vec::new() }))).collect();
+        Ok(ClassGroup {
+            structure,
+            class_number,
+            regulator,
+            units: unit_list,
+            roots_of_unity: w,
+            torsion_generator: zeta,
+            factor_base: fb,
+            bound: b,
+            bound_kind: kind,
+            analytic_ratio: ratio,
+            echelon,
+        })
+    }
+
+    /// The valuation vector of `a` over the factor base if `|N(a)|` factors
+    /// over it and the valuations account for the whole norm; else `None`.
+    pub(crate) fn factor_over(&self, a: &Element, fb: &[PrimeIdeal], fb_primes: &[u64]) -> Result<Option<Vec<i64>>, Error> {
+        let nrm = self.norm(a);
+        let mut num = Integer::from(nrm.numerator_ref().clone());
+        let mut den = Integer::from(nrm.denominator_ref().clone());
+        let mut hit = Vec::new();
+        for &p in fb_primes {
+            let pz = Integer::from(p);
+            let mut found = false;
+            while mod_word(&num, p) == 0 && num != 0 {
+                num /= &pz;
+                found = true;
+            }
+            while mod_word(&den, p) == 0 {
+                den /= &pz;
+                found = true;
+            }
+            if found {
+                hit.push(p);
+            }
+        }
+        if num != 1 || den != 1 {
+            return Ok(None);
+        }
+        let mut v = vec![0i64; fb.len()];
+        let mut check = Rational::ONE;
+        for (i, q) in fb.iter().enumerate() {
+            if hit.binary_search(&q.p).is_ok() {
+                v[i] = self.valuation(a, q)?;
+                let nq = Rational::from(Integer::from(q.norm() as u64));
+                let e = v[i];
+                if e > 0 {
+                    for _ in 0..e {
+                        check *= &nq;
+                    }
+                } else {
+                    for _ in 0..(-e) {
+                        check /= &nq;
+                    }
+                }
+            }
+        }
+        use malachite::base::num::arithmetic::traits::Abs;
+        if check != nrm.abs() {
+            return Ok(None); // a prime above a factor-base prime with norm beyond the bound
+        }
+        Ok(Some(v))
+    }
+}
+
+/// Inserts a relation into the echelon; returns the zero-reduced row (a unit) if any.
+fn insert_relation(pivots: &mut [Option<Row>], mut row: Row) -> Option<Row> {
+    let k = pivots.len();
+    for col in 0..k {
+        if row.v[col] == 0 {
+            continue;
+        }
+        match pivots[col].take() {
+            None => {
+                if row.v[col] < 0 {
+                    row = row.lin(-1, &row_zero(&row), 0)?;
+                }
+                reduce_row(pivots, &mut row, col + 1);
+                pivots[col] = Some(row);
+                return None;
+            }
+            Some(orig) => {
+                // Euclid between the pivot and the row on column col
+                let mut p = Row { v: orig.v.clone(), logs: orig.logs.clone(), exps: orig.exps.clone(), err: orig.err };
+                while row.v[col] != 0 {
+                    let q = p.v[col].div_euclid(row.v[col]);
+                    let Some(np) = p.lin(1, &row, -q) else {
+                        pivots[col] = Some(orig);
+                        return None; // overflow: drop this relation
+                    };
+                    p = row;
+                    row = np;
+                }
+                if p.v[col] < 0 {
+                    p = p.lin(-1, &row_zero(&p), 0)?;
+                }
+                reduce_row(pivots, &mut p, col + 1);
+                reduce_row(pivots, &mut row, col + 1);
+                pivots[col] = Some(p);
+            }
+        }
+    }
+    Some(row)
+}
+
+/// Reduces the entries of `row` at columns `from..` modulo the pivots there
+/// (Hermite size reduction, keeping coefficients small).
+fn reduce_row(pivots: &[Option<Row>], row: &mut Row, from: usize) {
+    for j in from..pivots.len() {
+        if let Some(pj) = &pivots[j] {
+            let d = pj.v[j];
+            if d > 0 && (row.v[j] < 0 || row.v[j] >= d) {
+                let q = row.v[j].div_euclid(d);
+                if let Some(nr) = row.lin(1, pj, -q) {
+                    *row = nr;
+                }
+            }
+        }
+    }
+}
+
+fn row_zero(r: &Row) -> Row {
+    Row { v: vec![0; r.v.len()], logs: vec![0.0; r.logs.len()], exps: Vec::new(), err: 0.0 }
+}

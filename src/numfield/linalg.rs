@@ -1,0 +1,368 @@
+//! Linear algebra over Z, Q and F_p for the small matrices of the module:
+//! Hermite normal form (modulo a known multiple of the determinant),
+//! Smith invariants, Bareiss determinants, rational solves, kernels mod p.
+//!
+//! Matrices are `Vec` of rows. The Hermite normal form here is the
+//! *row-style lower-triangular* one: row `i` has zeros after column `i`,
+//! positive diagonal, and entries left of a diagonal entry reduced into
+//! `0..diagonal` of their column.
+//!
+//! Reference: H. Cohen, GTM 138, §2.4 (Algorithms 2.4.5, 2.4.8 and 2.4.14)
+//! and §2.2 (Bareiss, Algorithm 2.2.6).
+
+use crate::{Error, ErrorKind};
+use malachite::base::num::arithmetic::traits::{DivRound, Mod, Sign, UnsignedAbs};
+use malachite::base::num::basic::traits::{One, Zero};
+use malachite::base::rounding_modes::RoundingMode;
+use malachite::{Integer, Rational};
+use std::cmp::Ordering;
+
+/// Floor division of integers (`b != 0`).
+pub(crate) fn fdiv(a: &Integer, b: &Integer) -> Integer {
+    a.div_round(b, RoundingMode::Floor).0
+}
+
+/// Hermite normal form of the lattice spanned by `gens` (rows of length
+/// `n`), which must have rank `n`. If `modulus` is `Some(d)`, then `d Z^n`
+/// must lie in the lattice (it is then used to keep entries below `d`).
+pub(crate) fn hnf(gens: &[Vec<Integer>], n: usize, modulus: Option<&Integer>) -> Result<Vec<Vec<Integer>>, Error> {
+    let d = modulus.map(|d| d.unsigned_abs()).map(Integer::from);
+    let mut work: Vec<Vec<Integer>> = gens.iter().filter(|r| r.iter().any(|x| *x != 0)).cloned().collect();
+    if let Some(d) = &d {
+        for r in work.iter_mut() {
+            for x in r.iter_mut() {
+                *x = (&*x).mod_op(d);
+            }
+        }
+    }
+    let mut piv: Vec<Option<Vec<Integer>>> = vec![None; n];
+    for col in (0..n).rev() {
+        if let Some(d) = &d {
+            let mut e = vec![Integer::ZERO; n];
+            e[col] = d.clone();
+            work.push(e);
+        }
+        // Euclid on column `col`
+        loop {
+            let mut best: Option<usize> = None;
+            for (i, r) in work.iter().enumerate() {
+                if r[col] != 0 && best.is_none_or(|b| (&r[col]).unsigned_abs() < (&work[b][col]).unsigned_abs()) {
+                    best = Some(i);
+                }
+            }
+            let Some(b) = best else { break };
+            let pivot = work[b].clone();
+            let mut others = 0;
+            for (i, r) in work.iter_mut().enumerate() {
+                if i == b || r[col] == 0 {
+                    continue;
+                }
+                let q = fdiv(&r[col], &pivot[col]);
+                for j in 0..=col {
+                    let t = &q * &pivot[j];
+                    r[j] -= t;
+                }
+                if r[col] != 0 {
+                    others += 1;
+                }
+            }
+            if others == 0 {
+                let mut p = work.swap_remove(b);
+                if p[col] < 0 {
+                    for x in p.iter_mut() {
+                        *x = -&*x;
+                    }
+                }
+                piv[col] = Some(p);
+                break;
+            }
+        }
+        work.retain(|r| r[..col].iter().any(|x| *x != 0));
+        if let Some(d) = &d {
+            for r in work.iter_mut() {
+                for x in r.iter_mut() {
+                    *x = (&*x).mod_op(d);
+                }
+            }
+            if let Some(p) = piv[col].as_mut() {
+                for x in p[..col].iter_mut() {
+                    *x = (&*x).mod_op(d);
+                }
+            }
+            work.retain(|r| r[..col].iter().any(|x| *x != 0));
+        }
+        if piv[col].is_none() {
+            return Err(Error::new(ErrorKind::InvalidValue, "lattice of deficient rank"));
+        }
+    }
+    let mut h: Vec<Vec<Integer>> = piv.into_iter().map(|r| r.unwrap_or_default()).collect();
+    // size-reduce below the diagonal, from the right
+    for i in 0..n {
+        for j in (0..i).rev() {
+            let q = fdiv(&h[i][j], &h[j][j]);
+            if q != 0 {
+                let rj = h[j].clone();
+                for k in 0..=j {
+                    let t = &q * &rj[k];
+                    h[i][k] -= t;
+                }
+            }
+        }
+    }
+    Ok(h)
+}
+
+
+/// Product of the diagonal of a triangular matrix.
+#[cfg(test)]
+pub(crate) fn diag_product(h: &[Vec<Integer>]) -> Integer {
+    h.iter().enumerate().fold(Integer::ONE, |acc, (i, r)| acc * &r[i])
+}
+
+/// Determinant of a square integer matrix by Bareiss' fraction-free elimination.
+pub(crate) fn det(m: &[Vec<Integer>]) -> Integer {
+    let n = m.len();
+    if n == 0 {
+        return Integer::ONE;
+    }
+    let mut a: Vec<Vec<Integer>> = m.to_vec();
+    let mut sign = Integer::ONE;
+    let mut prev = Integer::ONE;
+    for k in 0..n - 1 {
+        if a[k][k] == 0 {
+            match (k + 1..n).find(|&i| a[i][k] != 0) {
+                Some(i) => {
+                    a.swap(i, k);
+                    sign = -sign;
+                }
+                None => return Integer::ZERO,
+            }
+        }
+        for i in k + 1..n {
+            for j in k + 1..n {
+                let v = (&a[i][j] * &a[k][k] - &a[i][k] * &a[k][j]) / &prev;
+                a[i][j] = v;
+            }
+        }
+        prev = a[k][k].clone();
+    }
+    sign * &a[n - 1][n - 1]
+}
+
+/// Solves `x M = b` over Q for square invertible `M` (row vector `x`);
+/// `None` if `M` is singular.
+pub(crate) fn solve_left(m: &[Vec<Rational>], b: &[Rational]) -> Option<Vec<Rational>> {
+    let n = m.len();
+    // x M = b  <=>  M^T x^T = b^T
+    let mut a: Vec<Vec<Rational>> = (0..n).map(|i| {
+        let mut row: Vec<Rational> = (0..n).map(|j| m[j][i].clone()).collect();
+        row.push(b[i].clone());
+        row
+    }).collect();
+    for c in 0..n {
+        let p = (c..n).find(|&i| a[i][c] != 0)?;
+        a.swap(p, c);
+        let inv = Rational::ONE / &a[c][c];
+        for x in a[c].iter_mut() {
+            *x *= &inv;
+        }
+        for i in 0..n {
+            if i != c && a[i][c] != 0 {
+                let f = a[i][c].clone();
+                for j in c..=n {
+                    let t = &f * &a[c][j];
+                    a[i][j] -= t;
+                }
+            }
+        }
+    }
+    Some(a.into_iter().map(|r| r[n].clone()).collect())
+}
+
+/// Left kernel mod p: a basis of `{x : x A = 0}` for the `m x k` matrix `A`
+/// over F_p (entries already reduced), as rows of length `m`.
+pub(crate) fn left_kernel_mod_p(a: &[Vec<u64>], k: usize, p: u64) -> Vec<Vec<u64>> {
+    use crate::arith::{inv_mod, mul_mod};
+    let m = a.len();
+    // augmented [A | I], row reduce on the first k columns
+    let mut rows: Vec<Vec<u64>> = a.iter().enumerate().map(|(i, r)| {
+        let mut v = r.clone();
+        v.resize(k, 0);
+        v.extend((0..m).map(|j| u64::from(i == j)));
+        v
+    }).collect();
+    let mut r0 = 0;
+    for c in 0..k {
+        let Some(pr) = (r0..m).find(|&i| rows[i][c] != 0) else { continue };
+        rows.swap(pr, r0);
+        let inv = inv_mod(rows[r0][c], p).unwrap_or(1);
+        for x in rows[r0].iter_mut() {
+            *x = mul_mod(*x, inv, p);
+        }
+        let pivot = rows[r0].clone();
+        for (i, row) in rows.iter_mut().enumerate() {
+            if i != r0 && row[c] != 0 {
+                let f = row[c];
+                for (x, &y) in row.iter_mut().zip(&pivot) {
+                    *x = (*x + p - mul_mod(f, y, p)) % p;
+                }
+            }
+        }
+        r0 += 1;
+    }
+    rows[r0..].iter().map(|r| r[k..].to_vec()).collect()
+}
+
+/// Rank of a matrix over F_p.
+pub(crate) fn rank_mod_p(a: &[Vec<u64>], p: u64) -> usize {
+    let k = a.first().map_or(0, |r| r.len());
+    a.len() - left_kernel_mod_p(a, k, p).len()
+}
+
+/// The Smith invariants `d_1 | d_2 | ... ` (those > 1 only) of a square
+/// non-singular integer matrix.
+pub(crate) fn smith_invariants(m: &[Vec<Integer>]) -> Vec<Integer> {
+    let n = m.len();
+    let mut a: Vec<Vec<Integer>> = m.to_vec();
+    let mut out = Vec::new();
+    for t in 0..n {
+        loop {
+            // pivot: smallest non-zero in the remaining block
+            let mut best: Option<(usize, usize)> = None;
+            for i in t..n {
+                for j in t..n {
+                    if a[i][j] != 0 && best.is_none_or(|(bi, bj)| (&a[i][j]).unsigned_abs() < (&a[bi][bj]).unsigned_abs()) {
+                        best = Some((i, j));
+                    }
+                }
+            }
+            let Some((bi, bj)) = best else {
+                out.push(Integer::ZERO);
+                break;
+            };
+            a.swap(t, bi);
+            for r in a.iter_mut() {
+                r.swap(t, bj);
+            }
+            let mut done = true;
+            for i in t + 1..n {
+                if a[i][t] != 0 {
+                    let q = fdiv(&a[i][t], &a[t][t]);
+                    let rt = a[t].clone();
+                    for j in t..n {
+                        let v = &q * &rt[j];
+                        a[i][j] -= v;
+                    }
+                    if a[i][t] != 0 {
+                        done = false;
+                    }
+                }
+            }
+            for j in t + 1..n {
+                if a[t][j] != 0 {
+                    let q = fdiv(&a[t][j], &a[t][t]);
+                    for i in t..n {
+                        let v = &q * &a[i][t];
+                        a[i][j] -= v;
+                    }
+                    if a[t][j] != 0 {
+                        done = false;
+                    }
+                }
+            }
+            if !done {
+                continue;
+            }
+            // divisibility condition
+            let d = a[t][t].clone();
+            let mut bad = None;
+            'o: for i in t + 1..n {
+                for j in t + 1..n {
+                    if (&a[i][j]).mod_op(&d) != 0 {
+                        bad = Some(i);
+                        break 'o;
+                    }
+                }
+            }
+            if let Some(i) = bad {
+                for j in t..n {
+                    let v = a[i][j].clone();
+                    a[t][j] += v;
+                }
+                continue;
+            }
+            out.push(d.unsigned_abs().into());
+            break;
+        }
+    }
+    out.sort_by(|x: &Integer, y: &Integer| match (x.sign(), y.sign()) {
+        (Ordering::Equal, _) | (_, Ordering::Equal) => y.sign().cmp(&x.sign()),
+        _ => x.cmp(y),
+    });
+    out.into_iter().filter(|d| *d != 1).collect()
+}
+
+/// `x mod p` as a word for a word-sized prime.
+pub(crate) fn mod_word(x: &Integer, p: u64) -> u64 {
+    let r: Integer = x.mod_op(Integer::from(p));
+    u64::try_from(&r).unwrap_or(0)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn z(v: &[i64]) -> Vec<Integer> {
+        v.iter().map(|&x| Integer::from(x)).collect()
+    }
+
+    #[test]
+    fn hnf_known_and_modular_agree() {
+        // lattice spanned by (2,0),(1,3),(0,6): index 6 = |det| of any basis; worked by hand:
+        // HNF rows (2,0), (a,3) with a in 0..2, (1,3) in lattice -> a = 1
+        let g = vec![z(&[2, 0]), z(&[1, 3]), z(&[0, 6])];
+        let h = hnf(&g, 2, None).unwrap();
+        assert_eq!(h, vec![z(&[2, 0]), z(&[1, 3])]);
+        let h2 = hnf(&g, 2, Some(&Integer::from(6))).unwrap();
+        assert_eq!(h, h2);
+        // random 3x3: det(HNF) = |det|, and HNF mod |det| is the same
+        let mut s = 12345u64;
+        for _ in 0..200 {
+            let mut m = Vec::new();
+            for _ in 0..3 {
+                let mut r = Vec::new();
+                for _ in 0..3 {
+                    s = s.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+                    r.push(Integer::from((s >> 33) as i64 % 21 - 10));
+                }
+                m.push(r);
+            }
+            let d = det(&m);
+            if d == 0 {
+                assert!(hnf(&m, 3, None).is_err());
+                continue;
+            }
+            let h = hnf(&m, 3, None).unwrap();
+            assert_eq!(diag_product(&h), Integer::from((&d).unsigned_abs()));
+            assert_eq!(hnf(&m, 3, Some(&d)).unwrap(), h);
+        }
+    }
+
+    #[test]
+    fn smith_known() {
+        // diag(2,3) ~ diag(1,6) (Chinese remainder theorem)
+        let m = vec![z(&[2, 0]), z(&[0, 3])];
+        assert_eq!(smith_invariants(&m), z(&[6]));
+        let m = vec![z(&[2, 0, 0]), z(&[0, 4, 0]), z(&[0, 0, 4])];
+        assert_eq!(smith_invariants(&m), z(&[2, 4, 4]));
+    }
+
+    #[test]
+    fn kernel_mod_p_is_kernel() {
+        let a = vec![vec![1u64, 2], vec![2, 4], vec![0, 1]];
+        let k = left_kernel_mod_p(&a, 2, 7);
+        assert_eq!(k.len(), 1);
+        assert_eq!(k[0], vec![5, 1, 0]); // -2*row0 + row1 = 0
+        assert_eq!(rank_mod_p(&a, 7), 2);
+    }
+}
