@@ -1287,31 +1287,6 @@ mod tests {
         }
     }
 
-    /// Timing probe (run with `--ignored --nocapture`): the pre-sieve rho/ECM
-    /// work against the sieve alone on balanced 60-digit semiprimes.
-    #[test]
-    #[ignore]
-    fn timing_balanced_60_digits() {
-        let mut g = Gen(60);
-        for _ in 0..3 {
-            let n = Integer::from(g.prime(30) * g.prime(30));
-            let t = Instant::now();
-            let a = factor_with(&n, &lim(), Plan::SieveFirst).unwrap();
-            let t_sieve = t.elapsed();
-            let t = Instant::now();
-            let m = (&n).unsigned_abs();
-            let limits = lim();
-            let budget = Budget { limits: &limits };
-            let _ = Rho { iterations: 1 << 15 }.split(&m, &budget);
-            let t_rho = t.elapsed();
-            let t = Instant::now();
-            let _ = Ecm::level(0).split(&m, &budget);
-            let t_ecm = t.elapsed();
-            eprintln!("sieve {t_sieve:?} rho {t_rho:?} ecm15 {t_ecm:?}");
-            assert_eq!(a.product(), n);
-        }
-    }
-
     #[test]
     fn balanced_semiprimes_and_mixed_products() {
         let mut g = Gen(5);
