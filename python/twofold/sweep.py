@@ -239,8 +239,9 @@ def run_shard(shard: str, output_dir: str, options: Dict[str, Any], threads: int
     ``output_dir/<stem>.jsonl`` and its check file, unless the output is
     already complete (see the module docstring); returns the shard's counts
     (:func:`summarise`) with ``shard``, ``computed`` (False when skipped),
-    ``seconds`` (compute time) and ``worker``."""
-    start = time.perf_counter()
+    ``seconds`` (wall-clock time), ``cpu_seconds`` (CPU time of the worker
+    process) and ``worker``."""
+    start, cpu_start = time.perf_counter(), time.process_time()
     path, out_dir = Path(shard), Path(output_dir)
     out, check = _outputs(path, out_dir)
     records = read_shard(path)
@@ -279,6 +280,8 @@ def run_shard(shard: str, output_dir: str, options: Dict[str, Any], threads: int
     result: Dict[str, Any] = {"shard": path.name, "computed": computed, "reason": reason}
     result.update(summarise(items))
     result["seconds"] = time.perf_counter() - start
+    # CPU time of the worker process (all threads of the batch runner)
+    result["cpu_seconds"] = time.process_time() - cpu_start
     result["worker"] = socket.gethostname()
     return result
 
@@ -309,11 +312,15 @@ def run(
     options are those of :func:`twofold.analyse`).
 
     The summary holds the counts of :func:`summarise` over all shards,
-    ``shards``, ``shards_computed``, ``shards_skipped``, ``failed_shards``
-    (``[{"shard", "error"}]``), ``ignored_files``, ``seconds`` (wall
-    clock), ``cores`` (workers x threads per worker), ``curves_computed``
-    and ``curves_per_second_per_core`` (curves of the computed shards per
-    wall-clock second per core), and the ``options``.
+    ``shards``, ``shards_computed``, ``shards_skipped``, ``computed`` (the
+    names of the shards computed), ``failed_shards`` (``[{"shard",
+    "error"}]``), ``ignored_files``, ``seconds`` (wall clock), ``workers``,
+    ``threads_per_worker``, ``cores`` (workers x threads per worker),
+    ``curves_computed``, ``cpu_seconds`` (CPU time of the computed shards,
+    all threads), ``curves_per_second_per_core`` (curves of the computed
+    shards per wall-clock second per core: includes the cluster's start
+    and any load from other programs) and ``curves_per_cpu_second`` (the
+    same per CPU second: the cost of a curve itself), and the ``options``.
     """
     from dask.distributed import Client, LocalCluster, progress
 
@@ -376,6 +383,7 @@ def run(
             summary[k] += r[k]
     computed = [r for r in results if r["computed"]]
     curves_computed = sum(r["curves"] for r in computed)
+    cpu_seconds = sum(r["cpu_seconds"] for r in computed)
     cores = n_workers * threads_per_worker
     summary.update(
         {
@@ -391,7 +399,9 @@ def run(
             "cores": cores,
             "curves_computed": curves_computed,
             "shard_seconds": round(sum(r["seconds"] for r in computed), 3),
+            "cpu_seconds": round(cpu_seconds, 3),
             "curves_per_second_per_core": round(curves_computed / seconds / cores, 3) if seconds > 0 and cores else None,
+            "curves_per_cpu_second": round(curves_computed / cpu_seconds, 3) if cpu_seconds > 0 else None,
             "options": options,
         }
     )
@@ -406,7 +416,11 @@ def _summary_line(s: Dict[str, Any]) -> str:
         f"{s['shards_skipped']} skipped, {len(s['failed_shards'])} failed): {s['proven']} proven, "
         f"{s['open']} open (total gap {s['open_gap']}, {s['no_upper_bound']} without upper bound), "
         f"{s['errors']} errors, {s['budget_exhausted']} cut short; {s['seconds']:.1f} s on {s['cores']} core(s)"
-        + (f", {s['curves_per_second_per_core']} curves/s/core" if s["curves_computed"] else "")
+        + (
+            f", {s['curves_per_second_per_core']} curves/s/core ({s['curves_per_cpu_second']} per CPU second)"
+            if s["curves_computed"]
+            else ""
+        )
     )
 
 
