@@ -109,7 +109,7 @@ def test_sweep_matches_the_rust_batch_and_resumes(curves, tmp_path):
     # the reference: the Rust batch over all 2,000 curves in one call
     reference = twofold.analyse_many(curves, threads=2, budget=BUDGET, evidence=False)
 
-    s = sweep.run(in_dir, out_dir, workers=2, budget=BUDGET, evidence=False)
+    s = sweep.run(in_dir, out_dir, workers=2, budget=BUDGET, evidence=False, show_progress=False)
     assert s["curves"] == 2000 and s["shards"] == SHARDS and s["shards_computed"] == SHARDS
     assert s["failed_shards"] == [] and s["ignored_files"] == ["notes.md"]
     assert s["workers"] == 2 and s["errors"] == 0

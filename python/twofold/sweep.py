@@ -440,7 +440,7 @@ def main(argv: Optional[List[str]] = None) -> int:
     ap.add_argument("--no-evidence", action="store_true", help="skip root number, heights, L-series and BSD quotient (faster)")
     ap.add_argument("--certificate", action="store_true", help="include the certificate text in every report")
     ap.add_argument("--scheduler", default=None, metavar="ADDRESS", help="join the Dask scheduler at ADDRESS instead of starting a LocalCluster")
-    ap.add_argument("--no-progress", action="store_true", help="no progress bar")
+    ap.add_argument("--no-progress", action="store_true", help="no progress bar (there is none either when standard output is not a terminal)")
     a = ap.parse_args(argv)
     if a.workers < 1 or a.threads_per_worker < 1:
         ap.error("--workers and --threads-per-worker must be at least 1")
@@ -458,7 +458,8 @@ def main(argv: Optional[List[str]] = None) -> int:
         evidence=not a.no_evidence,
         certificate=a.certificate,
         scheduler=a.scheduler,
-        show_progress=not a.no_progress,
+        # the text bar redraws ten times a second: only on a terminal
+        show_progress=not a.no_progress and sys.stdout.isatty(),
     )
     print(_summary_line(s))
     for f in s["failed_shards"]:
