@@ -33,6 +33,17 @@ ShaSuspect = TypedDict(
     },
 )
 
+class AnalyticRoute(TypedDict):
+    """The analytic route: the proven root number, the enclosure of
+    L(E,1) (order 0) or L'(E,1) (order 1) as decimal strings rounded
+    outward, the number of terms, and the rank it proves (0, 1 or None)."""
+
+    root_number: Optional[int]
+    order: Optional[int]
+    enclosure: Optional[List[str]]
+    terms: Optional[int]
+    rank: Optional[int]
+
 class Report(TypedDict):
     """One report: the JSON line of ``rank --json`` (README.md lists the
     meaning of every field). Exact numbers are decimal strings."""
@@ -50,6 +61,7 @@ class Report(TypedDict):
     isogeny_selmer_dims: Optional[List[int]]
     two_selmer_dim: Optional[int]
     descent_curve: Optional[DescentCurve]
+    analytic_route: Optional[AnalyticRoute]
     sha2_order: Optional[str]
     points: List[List[str]]
     sha_suspects: List[ShaSuspect]
