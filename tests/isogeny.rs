@@ -98,7 +98,13 @@ fn congruent_numbers_against_tunnell() {
         let e = Curve::from_coefficients([0, 0, 0, -n * n, 0]).unwrap();
         // the isogeny route decides these; keep the quartic enumeration short
         // (the evidence beyond the bounds is not needed here: off, to keep the sweep short)
-        let o = RankOptions { max_quartic_candidates: 200_000, evidence: false, ..RankOptions::default().with_search_height(100) };
+        // (no Heegner points and no deeper search: only the rank-0 proofs are checked here)
+        let o = RankOptions {
+            max_quartic_candidates: 200_000,
+            evidence: false,
+            heegner_route: false,
+            ..RankOptions::default().with_search_height(100).with_search_height_ceiling(100)
+        };
         let r = analyse(&e, &o).unwrap();
         if a != 2 * b {
             // twofold now proves rank 0 itself: by the descent, or by the

@@ -213,3 +213,21 @@ fn root_number_test_holds_the_budget() {
         assert!(r.budget_exhausted || el <= budget, "{c:?}");
     }
 }
+
+/// The odd isogeny-class search took no deadline: with a 0.5 s budget these
+/// two curves of conductor 130050 (tests/data/curves-wider.tsv) ran 2.5 to
+/// 20 s (found by the Python sweep tests). The search now stops with the
+/// work and the quartic route reports no upper bound.
+#[test]
+fn isogeny_class_search_holds_the_budget() {
+    let budget = Duration::from_millis(500);
+    for c in [[1, -1, 0, -148617, 24758541], [1, -1, 1, -5945, 199257]] {
+        let e = Curve::from_coefficients(c).unwrap();
+        let opts = RankOptions::default().with_time_limit(budget);
+        let (r, el) = timed(|| analyse(&e, &opts));
+        assert!(el <= allowed(budget), "{c:?}: {el:?}");
+        let r = r.unwrap();
+        assert_eq!(r.conductor, 130050);
+        assert!(r.rank_lower.unwrap_or(0) <= r.rank_upper.unwrap_or(usize::MAX));
+    }
+}

@@ -215,7 +215,15 @@ fn symmetric(a: Integer, m: &Integer) -> Integer {
 /// Monic kernel polynomials (low to high) of the rational cyclic subgroups of
 /// order `l` found at good primes `p ≤ max_p` (at most `tries` primes with
 /// `l | #E(F_p)` are used). `bad` are the primes dividing the discriminant.
-pub(crate) fn kernel_polynomials(curve: &Curve, l: u64, bad: &[Natural], divpolys: &mut DivisionPolys, tries: usize, max_p: u64) -> Vec<QPoly> {
+pub(crate) fn kernel_polynomials(
+    curve: &Curve,
+    l: u64,
+    bad: &[Natural],
+    divpolys: &mut DivisionPolys,
+    tries: usize,
+    max_p: u64,
+    stop: &dyn Fn() -> bool,
+) -> Vec<QPoly> {
     let f = divpolys.f(l);
     let df = z_derivative(&f);
     let fq = q_from_z(&f);
@@ -228,6 +236,9 @@ pub(crate) fn kernel_polynomials(curve: &Curve, l: u64, bad: &[Natural], divpoly
     for p in primes_up_to(max_p) {
         if p < 5 || p == l || bad.iter().any(|q| *q == Natural::from(p)) {
             continue;
+        }
+        if stop() {
+            break;
         }
         let sets = subgroups_mod_p(curve, l, p);
         if sets.is_empty() {

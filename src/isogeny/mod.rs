@@ -116,12 +116,26 @@ fn possible_degrees(curve: &Curve, bad: &[Natural]) -> Vec<u64> {
 /// proven). `curve` must be integral; `bad` lists the primes dividing its
 /// discriminant (used to skip bad primes and to minimise the images).
 pub fn odd_isogenies(curve: &Curve, bad: &[Natural]) -> Result<Vec<OddIsogeny>, Error> {
+    odd_isogenies_within(curve, bad, &crate::budget::Work::unlimited())
+}
+
+/// [`odd_isogenies`] within the deadline and cancel flag of `work`: an
+/// error of kind [`crate::ErrorKind::Budget`] when they end the search (a
+/// partial list could miss an isogeny, so none is returned).
+pub fn odd_isogenies_within(curve: &Curve, bad: &[Natural], work: &crate::budget::Work) -> Result<Vec<OddIsogeny>, Error> {
     let mut out = Vec::new();
     let mut divpolys = division::DivisionPolys::new(curve);
+    let stop = || work.exhausted();
     for l in possible_degrees(curve, bad) {
-        for k in kernel::kernel_polynomials(curve, l, bad, &mut divpolys, 24, 20_000) {
+        if stop() {
+            break;
+        }
+        for k in kernel::kernel_polynomials(curve, l, bad, &mut divpolys, 24, 20_000, &stop) {
             out.push(build(curve, l, k, bad)?);
         }
+    }
+    if stop() {
+        return Err(Error::new(crate::ErrorKind::Budget, "the search for odd-degree isogenies was cut short by the budget"));
     }
     Ok(out)
 }
@@ -175,6 +189,12 @@ const MAX_CLASS: usize = 8;
 /// lists the primes dividing the discriminant of `curve`, which must be
 /// integral.
 pub fn odd_isogeny_class(curve: &Curve, bad: &[Natural]) -> Result<OddIsogenyClass, Error> {
+    odd_isogeny_class_within(curve, bad, &crate::budget::Work::unlimited())
+}
+
+/// [`odd_isogeny_class`] within the deadline and cancel flag of `work` (an
+/// error of kind [`crate::ErrorKind::Budget`] when they end it).
+pub fn odd_isogeny_class_within(curve: &Curve, bad: &[Natural], work: &crate::budget::Work) -> Result<OddIsogenyClass, Error> {
     let (start, _) = curve.minimal_model(bad)?;
     let (start, _) = start.reduced_form();
     let mut curves = vec![start];
@@ -182,7 +202,7 @@ pub fn odd_isogeny_class(curve: &Curve, bad: &[Natural]) -> Result<OddIsogenyCla
     let mut next = 0;
     while next < curves.len() {
         let here = curves[next].clone();
-        for phi in odd_isogenies(&here, bad)? {
+        for phi in odd_isogenies_within(&here, bad, work)? {
             let to = match curves.iter().position(|c| *c == phi.target) {
                 Some(i) => i,
                 None => {

@@ -175,7 +175,13 @@ fn quartic_route(
         return full_two_descent(minimal, torsion, primes, options, work, enough);
     }
     work.report(Stage::IsogenyClass, "odd-degree isogeny class");
-    let class = crate::isogeny::odd_isogeny_class(minimal, primes)?;
+    let class = match crate::isogeny::odd_isogeny_class_within(minimal, primes, work) {
+        Ok(c) => c,
+        // cut short: the descent on the curve itself, which stops at once
+        // on the spent budget and reports no upper bound
+        Err(e) if *e.kind() == crate::ErrorKind::Budget => return full_two_descent(minimal, torsion, primes, options, work, enough),
+        Err(e) => return Err(e),
+    };
     let best = class.smallest_c4();
     if best == 0 || class.curves[best].c4().unsigned_abs() * Natural::from(2u32) > minimal.c4().unsigned_abs() {
         return full_two_descent(minimal, torsion, primes, options, work, enough);
@@ -449,8 +455,9 @@ fn heegner_point(report: &mut RankReport, data: &CurveData, options: &RankOption
     }
     work.report(Stage::Heegner, "a generator by the Heegner point method");
     let share = work.share(0.5);
+    let limit = share.remaining().map_or(options.heegner_time_limit, |r| r.min(options.heegner_time_limit));
     let opts = crate::heegner::HeegnerOptions {
-        time_limit: share.remaining(),
+        time_limit: Some(limit),
         cancel: work.cancel_flag().cloned(),
         ..crate::heegner::HeegnerOptions::default()
     };
