@@ -46,6 +46,8 @@
 mod stream;
 mod trace;
 
+pub(crate) use trace::TraceOracle;
+
 use crate::arith::FactorLimits;
 use crate::curve::Curve;
 use crate::enclosure::{pi, Interval, ScaledE1Taylor};
