@@ -10,6 +10,13 @@ use crate::curve::PointCounter;
 /// bad `p`, and `a_{mn} = a_m a_n` for coprime `m, n`. One table of
 /// smallest prime factors; no allocation per `n`.
 pub(crate) fn coefficients_from(counter: &mut PointCounter, bad: &[(u64, i64)], m: usize) -> Vec<i64> {
+    coefficients_with(&mut |p| Some(counter.trace(p)), bad, m).expect("the exact counter never stops")
+}
+
+/// [`coefficients_from`] with the traces at the good primes from `trace`
+/// (any exact counter); `None` as soon as `trace` answers `None` (the
+/// caller's budget ended).
+pub(crate) fn coefficients_with(trace: &mut dyn FnMut(u64) -> Option<i64>, bad: &[(u64, i64)], m: usize) -> Option<Vec<i64>> {
     let mut ap = vec![0i64; m + 1];
     let mut is_bad = vec![false; m + 1];
     for &(p, v) in bad {
@@ -21,7 +28,7 @@ pub(crate) fn coefficients_from(counter: &mut PointCounter, bad: &[(u64, i64)], 
     let primes = primes_up_to(m as u64);
     for &p in &primes {
         if !is_bad[p as usize] {
-            ap[p as usize] = counter.trace(p);
+            ap[p as usize] = trace(p)?;
         }
     }
     // Smallest prime factors.
@@ -63,5 +70,5 @@ pub(crate) fn coefficients_from(counter: &mut PointCounter, bad: &[(u64, i64)], 
             ap[p] * a[n / p] - (p as i64) * a[n / p / p]
         };
     }
-    a
+    Some(a)
 }
