@@ -25,7 +25,7 @@ fn close(got: f64, want: f64, tol: f64) -> bool {
 }
 
 #[test]
-fn eleven_a1() {
+fn rank_zero_conductor_11() {
     // L(y^2 + y = x^3 - x^2 - 10x - 20, 1) = 0.2538418608559... (from memory; the published tables (Cremona 1997))
     let v = special_values(&curve([0, -1, 1, -10, -20]), &nat(11), 1, 3).unwrap();
     assert!(close(v[0].value, 0.2538418608559, 1e-12), "{:?}", v[0]);
@@ -36,7 +36,7 @@ fn eleven_a1() {
 }
 
 #[test]
-fn thirty_seven_a1() {
+fn rank_one_conductor_37() {
     // L'(y^2 + y = x^3 - x, 1) = 0.3059997738340... (from memory; the published tables (Cremona 1997))
     let a = analytic_rank(&curve([0, 0, 1, -1, 0]), &nat(37), -1).unwrap();
     assert_eq!((a.rank, a.basis), (1, RankBasis::NonZeroValue));
@@ -45,7 +45,7 @@ fn thirty_seven_a1() {
 }
 
 #[test]
-fn three_eight_nine_a1() {
+fn rank_two_conductor_389() {
     // L''(y^2 + y = x^3 + x^2 - 2x, 1)/2! = 0.7593165002... (from memory: L'' = 1.5186330005)
     let a = analytic_rank(&curve([0, 1, 1, -2, 0]), &nat(389), 1).unwrap();
     assert_eq!((a.rank, a.basis), (2, RankBasis::NumericalZeros));
@@ -56,7 +56,7 @@ fn three_eight_nine_a1() {
 }
 
 #[test]
-fn five_oh_seven_seven_a1() {
+fn rank_three_conductor_5077() {
     // y^2 + y = x^3 - 7x + 6 = [0,0,1,-7,6], rank 3, L'''(E,1)/3! = 1.7318... (from memory)
     let a = analytic_rank(&curve([0, 0, 1, -7, 6]), &nat(5077), -1).unwrap();
     assert_eq!((a.rank, a.basis), (3, RankBasis::NumericalZeros));
