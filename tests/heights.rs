@@ -53,7 +53,7 @@ fn lattice_invariants(w1: f64, w2: (f64, f64)) -> ((f64, f64), (f64, f64)) {
 }
 
 #[test]
-fn real_periods_37a1_11a1() {
+fn real_periods_of_the_conductor_37_and_11_curves() {
     // y^2 + y = x^3 - x: real period 5.98691729 (from memory); two real components.
     let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     let l = PeriodLattice::compute(&e, 128).unwrap();
@@ -104,7 +104,7 @@ fn real_period_by_quadrature() {
 }
 
 #[test]
-fn heights_37a1_389a1_and_torsion() {
+fn heights_of_the_rank_one_and_rank_two_curves_and_torsion() {
     let (e, local) = curve([0, 0, 1, -1, 0], &[37]);
     // 0.0511114082 (from memory)
     assert!((h(&e, &local, &Point::from_ints(0, 0)) - 0.0511114082).abs() < 1e-9);
@@ -355,7 +355,7 @@ fn siksek_test_with_torsion() {
 }
 
 #[test]
-fn rank_three_5077a1() {
+fn rank_three_conductor_5077() {
     // y^2 + y = x^3 - 7x + 6 = [0,0,1,-7,6] has rank 3 with generators among (0,2), (1,0),
     // (2,0); regulator 0.417143558758 (from memory).
     let (e, local) = curve([0, 0, 1, -7, 6], &[5077]);

@@ -78,7 +78,7 @@ fn check_quartic_points(g: &[Integer; 5], out: &SearchOutcome<QuarticPoint>) {
 // ---- known points ----------------------------------------------------------
 
 #[test]
-fn curve_37a_points_are_the_multiples_of_the_generator() {
+fn rank_one_conductor_37_points_are_the_multiples_of_the_generator() {
     // y^2 + y = x^3 - x, conductor 37: the published tables (Cremona 1997) (Algorithms for
     // Modular Elliptic Curves, table 1, curve y^2 + y = x^3 - x) give rank 1, trivial
     // torsion, generator P = (0, 0). Recalled x-coordinates of nP (from
