@@ -6,7 +6,7 @@
 //! for `p < 2.6·10^8`), computed segment by segment, so that a second pass
 //! (another series over the same coefficients) costs only the sieve.
 
-use super::trace::TraceOracle;
+use super::trace::{isqrt, TraceOracle};
 use crate::arith::primes_up_to;
 
 /// Numbers per segment.
@@ -35,17 +35,6 @@ pub(crate) struct CoefficientSource {
     small_limit: u64,
     rem: Vec<u64>,
     val: Vec<i64>,
-}
-
-fn isqrt(n: u64) -> u64 {
-    let mut r = (n as f64).sqrt() as u64;
-    while r * r > n {
-        r -= 1;
-    }
-    while (r + 1) * (r + 1) <= n {
-        r += 1;
-    }
-    r
 }
 
 impl CoefficientSource {

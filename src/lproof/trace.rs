@@ -222,7 +222,7 @@ struct Bsgs {
 }
 
 /// `floor(sqrt(n))` exactly.
-fn isqrt(n: u64) -> u64 {
+pub(super) fn isqrt(n: u64) -> u64 {
     let mut r = (n as f64).sqrt() as u64;
     while r * r > n {
         r -= 1;
