@@ -15,7 +15,7 @@ fn bench_enumeration(c: &mut Criterion) {
         ("rank0_N11", [0, -1, 1, -10, -20]),
         ("sha4_N571", [0, -1, 1, -929, -10595]),
     ];
-    let opts = SearchOptions { include_negative_definite: false, ..Default::default() };
+    let opts = SearchOptions::default().with_negative_definite(false);
     for (name, ai) in curves {
         let e = Curve::from_coefficients(ai).unwrap();
         let i = e.c4().clone();

@@ -190,6 +190,7 @@ impl<F: Fn(&BatchProgress) + Send + Sync> BatchObserver for F {
 /// assert_eq!(o.threads, 4);
 /// ```
 #[derive(Clone, Default)]
+#[non_exhaustive]
 pub struct BatchOptions {
     /// The options for every curve. Its `time_limit` applies to each curve
     /// separately; its `cancel` flag, when set, cancels the whole batch:

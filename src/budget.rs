@@ -44,6 +44,7 @@ pub type ProgressFn = Arc<dyn Fn(Stage, &str) + Send + Sync>;
 /// assert_eq!(opts.search_height, 200);
 /// ```
 #[derive(Clone)]
+#[non_exhaustive]
 pub struct RankOptions {
     /// Height bound for point searches on coverings: coprime pairs with
     /// both coordinates at most this in absolute value.
@@ -162,6 +163,56 @@ impl RankOptions {
     /// Sets the progress callback.
     pub fn with_progress(mut self, f: ProgressFn) -> Self {
         self.progress = Some(f);
+        self
+    }
+    /// Sets the height bound of the direct search on the curve.
+    pub fn with_curve_search_height(mut self, v: u64) -> Self {
+        self.curve_search_height = v;
+        self
+    }
+    /// Sets the cap on the candidates of the quartic enumeration.
+    pub fn with_max_quartic_candidates(mut self, v: u64) -> Self {
+        self.max_quartic_candidates = v;
+        self
+    }
+    /// Runs (or not) the full 2-descent as a cross-check of the 2-isogeny route.
+    pub fn with_cross_check_routes(mut self, v: bool) -> Self {
+        self.cross_check_routes = v;
+        self
+    }
+    /// Gives the primes dividing the discriminant instead of factoring it (checked).
+    pub fn with_known_primes(mut self, v: Vec<malachite::Natural>) -> Self {
+        self.known_primes = Some(v);
+        self
+    }
+    /// Runs (or not) the analytic route.
+    pub fn with_analytic_route(mut self, v: bool) -> Self {
+        self.analytic_route = v;
+        self
+    }
+    /// Sets the largest conductor for the analytic route.
+    pub fn with_analytic_max_conductor(mut self, v: u64) -> Self {
+        self.analytic_max_conductor = v;
+        self
+    }
+    /// Runs (or not) the Heegner point route.
+    pub fn with_heegner_route(mut self, v: bool) -> Self {
+        self.heegner_route = v;
+        self
+    }
+    /// Sets the most time the Heegner route may take on one curve.
+    pub fn with_heegner_time_limit(mut self, v: Duration) -> Self {
+        self.heegner_time_limit = v;
+        self
+    }
+    /// Computes (or not) the evidence beyond the rank bounds.
+    pub fn with_evidence(mut self, v: bool) -> Self {
+        self.evidence = v;
+        self
+    }
+    /// Builds (or not) the certificate of the rank proof.
+    pub fn with_certificate(mut self, v: bool) -> Self {
+        self.certificate = v;
         self
     }
 }

@@ -123,7 +123,7 @@ pub mod budget;
 pub mod certificate;
 pub mod curve;
 #[cfg(feature = "serde")]
-pub mod decimal_serde;
+pub(crate) mod decimal_serde;
 pub mod descent;
 pub mod enclosure;
 pub mod heegner;

@@ -10,7 +10,9 @@
 //! order (at most 12 by Mazur's theorem) and map them back to the input model.
 
 use crate::arith::{is_prime_u64, valuation};
+use crate::budget::Work;
 use crate::curve::{Curve, Point};
+use crate::error::{Error, ErrorKind};
 use malachite::base::num::arithmetic::traits::{Abs, Sign};
 use malachite::base::num::basic::traits::{One, Zero};
 use malachite::{Integer, Natural, Rational};
@@ -38,11 +40,42 @@ impl TorsionGroup {
     /// Computes E(Q)_tors. `bad_primes` must contain every prime dividing
     /// the discriminant of `curve` (it is used to enumerate the square
     /// divisors in the Nagell-Lutz theorem); primes 2 and 3 are added here.
+    ///
+    /// # Panics
+    ///
+    /// If `bad_primes` misses a prime of the discriminant (a broken
+    /// precondition); [`TorsionGroup::compute_within`] reports it as an error
+    /// of kind [`ErrorKind::InvalidValue`] instead.
     pub fn compute(curve: &Curve, bad_primes: &[Natural]) -> TorsionGroup {
+        match Self::compute_within(curve, bad_primes, &Work::unlimited()) {
+            Ok(t) => t,
+            // unlimited work never runs out, so only the precondition can fail
+            Err(e) => panic!("TorsionGroup::compute: {e}"),
+        }
+    }
+
+    /// As [`TorsionGroup::compute`], within the deadline and cancellation
+    /// flag of `work`, and with a typed error for bad input.
+    ///
+    /// Errors: [`ErrorKind::InvalidValue`] when `bad_primes` misses a prime of
+    /// the discriminant; [`ErrorKind::Budget`] when the work ran out before
+    /// every Nagell-Lutz candidate was tried (the message says what was
+    /// known then: the bound on the order from the reductions and the
+    /// torsion points found so far).
+    ///
+    /// ```
+    /// use twofold::{Curve, Work, torsion::TorsionGroup};
+    /// let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap(); // Z/5 (published table, Cremona 1997)
+    /// let t = TorsionGroup::compute_within(&e, &[11u32.into()], &Work::unlimited()).unwrap();
+    /// assert_eq!(t.order(), 5);
+    /// assert!(TorsionGroup::compute_within(&e, &[], &Work::unlimited()).is_err());
+    /// ```
+    pub fn compute_within(curve: &Curve, bad_primes: &[Natural], work: &Work) -> Result<TorsionGroup, Error> {
         let bound = order_bound(curve);
         let mut points = vec![Point::Infinity];
         if bound > 1 {
-            for p in nagell_lutz_points(curve, bad_primes) {
+            let candidates = nagell_lutz_points(curve, bad_primes, work, bound)?;
+            for p in candidates {
                 if let Some(n) = curve.torsion_order_of(&p) {
                     if bound % n as u64 == 0 && !points.contains(&p) {
                         points.push(p);
@@ -52,7 +85,7 @@ impl TorsionGroup {
         }
         let (invariants, generators) = structure(curve, &points);
         let orders = points.iter().map(|p| curve.torsion_order_of(p).unwrap_or(0)).collect();
-        TorsionGroup { points, invariants, generators, orders }
+        Ok(TorsionGroup { points, invariants, generators, orders })
     }
 
     /// The order of the group.
@@ -106,7 +139,10 @@ pub fn order_bound(curve: &Curve) -> u64 {
     g
 }
 
-fn nagell_lutz_points(curve: &Curve, bad_primes: &[Natural]) -> Vec<Point> {
+/// The points with Nagell-Lutz coordinates on the short model, mapped back
+/// to `curve` (a superset of the torsion). `bound` is the order bound, for
+/// the message of a cut-short run.
+fn nagell_lutz_points(curve: &Curve, bad_primes: &[Natural], work: &Work, bound: u64) -> Result<Vec<Point>, Error> {
     let a = Integer::from(-27) * curve.c4();
     let b = Integer::from(-54) * curve.c6();
     let d = Integer::from(4) * &a * &a * &a + Integer::from(27) * &b * &b;
@@ -135,12 +171,24 @@ fn nagell_lutz_points(curve: &Curve, bad_primes: &[Natural]) -> Vec<Point> {
         }
         ys = next;
     }
-    assert!(rest == Integer::ONE, "bad_primes must contain every prime dividing the discriminant");
+    if rest != Integer::ONE {
+        return Err(Error::new(ErrorKind::InvalidValue, "the torsion subgroup needs every prime dividing the discriminant"));
+    }
     ys.push(Integer::ZERO);
     let [a1, _, a3, _, _] = curve.coefficients();
     let b2 = &curve.b_invariants()[0];
-    let mut out = Vec::new();
-    for y in ys {
+    let mut out: Vec<Point> = Vec::new();
+    let total = ys.len();
+    for (k, y) in ys.into_iter().enumerate() {
+        if k % 64 == 63 && work.exhausted() {
+            let known = out.iter().filter(|p| curve.torsion_order_of(p).is_some()).count() + 1;
+            return Err(Error::new(
+                ErrorKind::Budget,
+                format!(
+                    "torsion subgroup not finished: its order divides {bound}; {known} torsion points found after {k} of {total} Nagell-Lutz candidates"
+                ),
+            ));
+        }
         let c = &b - &y * &y;
         for x in integer_roots_depressed_cubic(&a, &c) {
             for yy in if y == 0 { vec![y.clone()] } else { vec![y.clone(), -y.clone()] } {
@@ -155,7 +203,7 @@ fn nagell_lutz_points(curve: &Curve, bad_primes: &[Natural]) -> Vec<Point> {
             }
         }
     }
-    out
+    Ok(out)
 }
 
 fn cubic(x: &Integer, a: &Integer, c: &Integer) -> Integer {
@@ -170,6 +218,7 @@ pub(crate) fn integer_roots_depressed_cubic(a: &Integer, c: &Integer) -> Vec<Int
     if *a < 0 {
         // critical points at +-sqrt(-a/3); integer neighbours suffice as cut points
         let s = Integer::from(malachite::base::num::arithmetic::traits::FloorSqrt::floor_sqrt(
+            // invariant: a < 0 in this branch, so -a/3 >= 0
             Natural::try_from(-a.clone() / Integer::from(3)).unwrap(),
         ));
         cuts.push(-(&s) - Integer::ONE);
@@ -221,11 +270,13 @@ fn structure(curve: &Curve, points: &[Point]) -> (Vec<u32>, Vec<Point>) {
     }
     let order = |p: &Point| curve.torsion_order_of(p).unwrap_or(0);
     let twos: Vec<&Point> = points.iter().filter(|p| order(p) == 2).collect();
+    // invariant: points holds at least the identity (checked non-empty above)
     let best = points.iter().max_by_key(|p| order(p)).unwrap().clone();
     if twos.len() == 3 {
         let m = order(&best);
         // a 2-torsion point outside <best>
         let span: Vec<Point> = (0..m as i64).map(|k| curve.multiple(&best, k)).collect();
+        // invariant: with three points of order 2 the cyclic <best> holds only one of them
         let other = twos.iter().find(|t| !span.contains(t)).map(|t| (*t).clone()).unwrap();
         (vec![2, m], vec![other, best])
     } else {

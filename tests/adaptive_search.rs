@@ -13,7 +13,7 @@ fn curve() -> Curve {
 
 #[test]
 fn a_fixed_height_leaves_the_gap_open() {
-    let opts = RankOptions { evidence: false, ..RankOptions::default() }.with_search_height_ceiling(300);
+    let opts = RankOptions::default().with_evidence(false).with_search_height_ceiling(300);
     let r = analyse(&curve(), &opts).unwrap();
     assert_eq!(r.rank_upper, Some(3));
     assert!(r.rank_lower < Some(3));
@@ -22,7 +22,7 @@ fn a_fixed_height_leaves_the_gap_open() {
 
 #[test]
 fn the_adaptive_search_closes_it() {
-    let opts = RankOptions { evidence: false, ..RankOptions::default() };
+    let opts = RankOptions::default().with_evidence(false);
     let r = analyse(&curve(), &opts).unwrap();
     assert_eq!(r.rank(), Some(3));
     assert_eq!(r.rank_proven_by, vec![twofold::report::ProofRoute::Descent]);

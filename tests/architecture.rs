@@ -144,3 +144,83 @@ fn the_reader_sees_grouped_imports() {
     let r = references("use crate::{arith::{a, b}, curve::Curve, error::Error};\nlet x = crate::torsion::f(); // crate::report\n");
     assert_eq!(r.into_iter().collect::<Vec<_>>(), ["arith", "curve", "error", "torsion"]);
 }
+
+/// No hidden per-thread state: scratch space and test switches are explicit
+/// values passed in (`solubility::SolubilityWorkspace`, the enumeration's
+/// search mode), so that results never depend on what ran earlier on the
+/// same thread.
+#[test]
+fn no_thread_local_state() {
+    let mut files = vec![];
+    collect(Path::new("src"), &mut files);
+    for f in files {
+        let text = fs::read_to_string(&f).unwrap();
+        assert!(!text.contains(concat!("thread_", "local!")), "{} declares thread-local state", f.display());
+    }
+}
+
+/// Every `.unwrap()`, `.expect(` and `unreachable!` outside test code
+/// carries a reason: a `// invariant: ...` comment on its line or on one of
+/// the three lines above, naming the invariant (established nearby) that
+/// makes it unreachable. Anything else must be a typed error
+/// (`Error::internal` for a broken invariant, the proper kind for bad input).
+/// Test code (`#[cfg(test)]` items and files named tests.rs) is exempt.
+#[test]
+fn every_panic_site_states_its_invariant() {
+    let mut files = vec![];
+    collect(Path::new("src"), &mut files);
+    let mut missing = vec![];
+    let mut sites = 0;
+    for f in files {
+        let text = fs::read_to_string(&f).unwrap();
+        let lines: Vec<&str> = text.lines().collect();
+        let mut depth: i64 = 0;
+        // Some(None): a `#[cfg(test)]` item starts; Some(Some(d)): inside it, opened at depth d
+        let mut test_item: Option<Option<i64>> = None;
+        for (i, line) in lines.iter().enumerate() {
+            let s = line.trim();
+            let opens = line.matches('{').count() as i64 - line.matches('}').count() as i64;
+            match test_item {
+                None if s.starts_with("#[cfg(test)]") => {
+                    test_item = Some(None);
+                    continue;
+                }
+                Some(None) => {
+                    if line.contains('{') {
+                        let start = depth;
+                        depth += opens;
+                        test_item = if depth <= start { None } else { Some(Some(start)) };
+                    } else if s.ends_with(';') {
+                        test_item = None;
+                    }
+                    continue;
+                }
+                Some(Some(start)) => {
+                    depth += opens;
+                    if depth <= start {
+                        test_item = None;
+                    }
+                    continue;
+                }
+                None => depth += opens,
+            }
+            if s.starts_with("//") {
+                continue;
+            }
+            let code = line.split("//").next().unwrap_or("");
+            if !(code.contains(".unwrap()") || code.contains(".expect(") || code.contains("unreachable!")) {
+                continue;
+            }
+            sites += 1;
+            let first = i.saturating_sub(3);
+            let reasoned = lines[first..=i].iter().any(|l| {
+                !l.trim().starts_with("///") && l.split_once("//").is_some_and(|(_, c)| c.contains("invariant"))
+            });
+            if !reasoned {
+                missing.push(format!("{}:{}: {}", f.display(), i + 1, s));
+            }
+        }
+    }
+    assert!(sites > 0, "the scan found no site at all: is it reading the sources?");
+    assert!(missing.is_empty(), "panic sites without a `// invariant:` reason:\n{}", missing.join("\n"));
+}

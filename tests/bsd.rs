@@ -50,7 +50,7 @@ fn bsd_quotient_on_both_tables() {
 #[test]
 fn json_has_evidence_and_a_verifiable_certificate() {
     let e = Curve::from_coefficients([0, 1, 1, -2, 0]).unwrap(); // y^2 + y = x^3 + x^2 - 2x, rank 2 (published tables, Cremona 1997, from memory)
-    let opts = RankOptions { certificate: true, ..RankOptions::default() };
+    let opts = RankOptions::default().with_certificate(true);
     let rep = analyse(&e, &opts).unwrap();
     let line = rep.to_json("[0,1,1,-2,0]");
     for f in ["\"root_number\":1", "\"vanishing_order\":2", "\"saturated_basis\":[", "\"regulator\":\"1.5246017794", "\"period_omega\":", "\"tamagawa_numbers\":[[\"389\",1]]", "\"sha_bsd_estimate\":\"1.0000", "\"certificate\":\"twofold-certificate"] {

@@ -486,7 +486,7 @@ fn rank_two_index_five_and_seven() {
     assert!(b.saturation.is_saturated(), "{}", b.saturation);
     assert!((b.regulator_f64() - 0.152460177943).abs() < 1e-9);
     // With p-saturation allowed only up to 3, an index-35 span stays open at 5 and 7.
-    let small = SaturationOptions { max_saturation_prime: 3, ..SaturationOptions::default() };
+    let small = SaturationOptions::default().with_max_saturation_prime(3);
     let b = mordell_weil_basis(&e, &[e.multiple(&p, 7), e.multiple(&q, 5)], &local, 96, &small).unwrap();
     assert!(!b.saturation.is_saturated());
     assert_eq!(b.saturation.untested_above, Some(3), "{}", b.saturation);

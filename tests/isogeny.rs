@@ -99,12 +99,12 @@ fn congruent_numbers_against_tunnell() {
         // the isogeny route decides these; keep the quartic enumeration short
         // (the evidence beyond the bounds is not needed here: off, to keep the sweep short)
         // (no Heegner points and no deeper search: only the rank-0 proofs are checked here)
-        let o = RankOptions {
-            max_quartic_candidates: 200_000,
-            evidence: false,
-            heegner_route: false,
-            ..RankOptions::default().with_search_height(100).with_search_height_ceiling(100)
-        };
+        let o = RankOptions::default()
+            .with_max_quartic_candidates(200_000)
+            .with_evidence(false)
+            .with_heegner_route(false)
+            .with_search_height(100)
+            .with_search_height_ceiling(100);
         let r = analyse(&e, &o).unwrap();
         if a != 2 * b {
             // twofold now proves rank 0 itself: by the descent, or by the

@@ -10,7 +10,7 @@ use twofold::{analyse, Curve, RankOptions};
 #[test]
 fn json_keys_of_a_full_report() {
     let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
-    let opts = RankOptions { certificate: true, ..RankOptions::default() };
+    let opts = RankOptions::default().with_certificate(true);
     let rep = analyse(&e, &opts).unwrap();
     let line = rep.to_json("[0,0,1,-1,0]");
     let v: serde_json::Value = serde_json::from_str(&line).unwrap();
@@ -59,7 +59,7 @@ fn json_keys_of_a_full_report() {
 #[test]
 fn readable_report_opens_with_the_equation() {
     let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
-    let opts = RankOptions { evidence: false, ..RankOptions::default() };
+    let opts = RankOptions::default().with_evidence(false);
     let text = analyse(&e, &opts).unwrap().to_string();
     assert!(text.starts_with("E: y^2 + y = x^3 - x\n"), "{text}");
     assert!(text.contains("non-split multiplicative"), "{text}");

@@ -113,7 +113,7 @@ fn wrong_input_and_budget() {
     let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
     assert!(prove_root_number(&e, &Natural::from(74u32), &lim).is_err());
     assert!(prove_l_value(&e, &Natural::from(37u32), 0, &lim).is_err());
-    let expired = FactorLimits { deadline: Some(std::time::Instant::now()), ..Default::default() };
+    let expired = FactorLimits::default().with_deadline(std::time::Instant::now());
     let r = prove_root_number(&e, &Natural::from(37u32), &expired).unwrap();
     assert!(!r.complete && r.sign.is_none());
     let v = prove_l_value(&e, &Natural::from(37u32), -1, &expired).unwrap();
@@ -146,7 +146,7 @@ fn cancel_flag_cuts_short() {
     use std::sync::atomic::AtomicBool;
     use std::sync::Arc;
     let flag = Arc::new(AtomicBool::new(true));
-    let lim = FactorLimits { cancel: Some(flag), ..Default::default() };
+    let lim = FactorLimits::default().with_cancel(flag);
     // y^2 + y = x^3 - x^2 - 10x - 20: L(E,1) = 0.2538418608559106 (from memory)
     let e = Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap();
     let v = prove_l_value(&e, &Natural::from(11u32), 1, &lim).unwrap();

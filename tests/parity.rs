@@ -20,7 +20,7 @@ fn parity_holds(e: &Curve) -> Option<bool> {
 /// The same through the whole pipeline, where the quartic descent may run on
 /// an odd-degree isogenous curve (same Sel^2 and E(Q)[2]).
 fn parity_holds_report(e: &Curve) -> Option<bool> {
-    let opts = RankOptions { cross_check_routes: true, ..RankOptions::default() };
+    let opts = RankOptions::default().with_cross_check_routes(true);
     let r = analyse(e, &opts).ok()?;
     let s = r.two_selmer_dim?;
     let t = r.torsion.iter().filter(|n| *n % 2 == 0).count();

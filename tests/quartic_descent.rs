@@ -32,7 +32,7 @@ fn published_tables() {
         }
     }
     rows.extend(sha);
-    let opts = RankOptions { cross_check_routes: true, ..RankOptions::default() };
+    let opts = RankOptions::default().with_cross_check_routes(true);
     let mut incomplete = Vec::new();
     for r in &rows {
         let e = Curve::from_coefficients(r.coefficients).unwrap();
@@ -94,7 +94,7 @@ fn routes_agree_on_two_torsion_curves() {
     let rows = common::read_table("curves-small-conductor.tsv");
     for r in rows.iter().filter(|r| r.torsion_order % 2 == 0).take(150) {
         let e = Curve::from_coefficients(r.coefficients).unwrap();
-        let o = RankOptions { cross_check_routes: true, ..RankOptions::default() };
+        let o = RankOptions::default().with_cross_check_routes(true);
         let rep = analyse(&e, &o).unwrap();
         assert_eq!(rep.route.name(), "2-isogeny+quartic");
         let d = full_descent(&e, &RankOptions::default()).unwrap();
@@ -141,11 +141,11 @@ fn zero_budget() {
 fn known_primes() {
     use malachite::Natural;
     let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(); // discriminant 37
-    let o = RankOptions { known_primes: Some(vec![Natural::from(37u32)]), ..RankOptions::default() };
+    let o = RankOptions::default().with_known_primes(vec![Natural::from(37u32)]);
     assert_eq!(analyse(&e, &o).unwrap().rank(), Some(1));
-    let bad = RankOptions { known_primes: Some(vec![Natural::from(35u32)]), ..RankOptions::default() };
+    let bad = RankOptions::default().with_known_primes(vec![Natural::from(35u32)]);
     assert!(analyse(&e, &bad).is_err());
-    let short = RankOptions { known_primes: Some(vec![]), ..RankOptions::default() };
+    let short = RankOptions::default().with_known_primes(vec![]);
     assert!(analyse(&e, &short).is_err());
 }
 
@@ -224,7 +224,7 @@ fn soluble_classes_have_local_points_found_independently() {
     let mut checked = 0;
     for r in rows.iter().step_by(3) {
         let e = Curve::from_coefficients(r.coefficients).unwrap();
-        let opts = RankOptions { cross_check_routes: true, ..RankOptions::default() };
+        let opts = RankOptions::default().with_cross_check_routes(true);
         let rep = analyse(&e, &opts).unwrap();
         let Some(d) = rep.full_descent.as_ref() else { continue };
         for c in &d.classes {
@@ -255,7 +255,7 @@ fn soluble_classes_have_local_points_found_independently() {
 fn hopeless_enumeration_is_refused_quickly() {
     let e = Curve::from_coefficients([0i64, 0, 1, -123456789012345, 987654321098765432]).unwrap();
     let t = std::time::Instant::now();
-    let r = analyse(&e, &RankOptions { evidence: false, ..RankOptions::default() }).unwrap();
+    let r = analyse(&e, &RankOptions::default().with_evidence(false)).unwrap();
     assert!(t.elapsed().as_secs_f64() < 20.0, "took {:?}", t.elapsed());
     assert_eq!(r.rank_upper, None);
     assert_eq!(r.two_selmer_dim, None);

@@ -11,7 +11,7 @@ use twofold::report::ProofRoute;
 use twofold::{analyse, Curve, RankOptions};
 
 fn opts() -> RankOptions {
-    RankOptions { evidence: false, ..RankOptions::default() }
+    RankOptions::default().with_evidence(false)
 }
 
 #[test]

@@ -64,7 +64,7 @@ pub fn is_probable_prime(n: &Natural) -> bool {
 /// use twofold::arith::{is_probable_prime_within, FactorLimits};
 /// let m127 = (Natural::from(1u32) << 127u32) - Natural::from(1u32);
 /// assert_eq!(is_probable_prime_within(&m127, &FactorLimits::default()).unwrap(), true);
-/// let past = FactorLimits { deadline: Some(Instant::now() - Duration::from_millis(1)), ..Default::default() };
+/// let past = FactorLimits::default().with_deadline(Instant::now() - Duration::from_millis(1));
 /// let big = (Natural::from(1u32) << 9689u32) - Natural::from(1u32); // a Mersenne prime (Gillies, 1963)
 /// assert!(is_probable_prime_within(&big, &past).is_err());
 /// ```

@@ -23,7 +23,9 @@ pub(crate) fn split(n: &Integer, p: &Integer) -> (u64, Integer) {
 
 /// The Legendre symbol of `u` modulo an odd prime `p` by Euler's criterion: 1, -1 or 0.
 pub(crate) fn legendre(u: &Integer, p: &Integer) -> i8 {
+    // invariant: callers pass an odd prime p > 0
     let pn = Natural::try_from(p.clone()).expect("positive prime");
+    // invariant: mod_op by a positive p gives a value in [0, p)
     let r = Natural::try_from(u.mod_op(p)).expect("reduced mod p is non-negative");
     if r == 0u32 {
         return 0;
@@ -364,6 +366,7 @@ pub(crate) fn small_primes(limit: u64) -> impl Iterator<Item = u64> {
 }
 
 pub(crate) fn modq(n: &Integer, q: u64) -> u64 {
+    // invariant: a residue mod q < 2^64 is in [0, q) and fits a u64
     u64::try_from(&n.mod_op(Integer::from(q))).expect("reduced")
 }
 

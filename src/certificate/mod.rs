@@ -491,7 +491,9 @@ fn isogeny_proof(
             images,
         });
     }
+    // invariant: the loop above pushed exactly two sides
     let side_e_prime = sides.pop().expect("two sides");
+    // invariant: the loop above pushed exactly two sides
     let side_e = sides.pop().expect("two sides");
     Ok(IsogenyProof { kernel, x0, u, sides: [side_e, side_e_prime], lower: run.lower, upper: run.upper })
 }

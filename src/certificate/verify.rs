@@ -448,6 +448,7 @@ fn character_rank(rows: &[(Rational, Rational)], coefficients: &[Integer; 5], di
     }
     let m = Model::new(coefficients);
     let [b2, b4, b6, _] = m.b_invariants();
+    // invariant: b2, b4, b6 are integer polynomials in integral coefficients
     let b = [b2, b4, b6].map(|x| Integer::try_from(x).expect("integral model"));
     let mut columns: Vec<u64> = Vec::new();
     let mut used = 0;
@@ -498,6 +499,7 @@ fn local_coords(d: &Integer, place: &Place) -> u8 {
             let pi = Integer::from(p.clone());
             let (v, u) = split(d, &pi);
             if *p == 2u32 {
+                // invariant: a residue mod 8 is in [0, 8) and fits a u64
                 let r = u64::try_from(&u.mod_op(Integer::from(8))).expect("reduced");
                 ((v % 2) as u8) | (((r % 4) == 3) as u8) << 1 | ((r == 3 || r == 5) as u8) << 2
             } else {

@@ -289,6 +289,7 @@ impl Curve {
         let mut out: [Integer; 5] = Default::default();
         for (o, x) in out.iter_mut().zip(b.iter()) {
             // d^i * a_i is an integer because den(a_i) | d.
+            // invariant: d^i * a_i is an integer because den(a_i) | d (comment above)
             *o = Integer::try_from(x).expect("scaling by the lcm of the denominators is integral");
         }
         Ok((Curve::new(out)?, c))
@@ -320,6 +321,7 @@ impl Curve {
         let n = a3 + &r * a1;
         let t = ((&n).mod_op(&two) - &n) / &two;
         let a = shift_coefficients(self.coefficients(), &r, &s, &t);
+        // invariant: a change of model multiplies the discriminant by u^-12, so it stays non-zero
         let e = Curve::new(a).expect("a change of model keeps the discriminant non-zero");
         let c = ModelChange { u: Rational::ONE, r: Rational::from(r), s: Rational::from(s), t: Rational::from(t) };
         (e, c)

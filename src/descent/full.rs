@@ -24,7 +24,7 @@ use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
 use crate::quartic::{covering_class, quartics_with_invariants, reduce, CoveringClass, Quartic, SearchOptions};
 use crate::search::{search_curve, search_quartic, SearchLimits};
-use crate::solubility::{everywhere_locally_soluble, LocalWitness, Place};
+use crate::solubility::{everywhere_locally_soluble_with, LocalWitness, Place, SolubilityWorkspace};
 use crate::torsion::TorsionGroup;
 use malachite::{Integer, Natural, Rational};
 
@@ -111,6 +111,13 @@ impl ClassSpan {
 
 /// Runs the full 2-descent on a minimal model `curve`. `bad_primes` are the
 /// primes dividing its discriminant.
+///
+/// The steps, in order: enumerate the quartics with invariants `(c4, 2c6)`
+/// ([`enumerate_coverings`]), keep the everywhere locally soluble classes
+/// ([`soluble_classes`]), check and record the Selmer bound
+/// ([`record_selmer_bound`]), search the curve ([`add_curve_points`]) and the
+/// coverings not yet explained at rising heights ([`lift_coverings`]), and
+/// finally the bounds and the unexplained classes ([`finish`]).
 pub(crate) fn full_two_descent(
     curve: &Curve,
     torsion: &TorsionGroup,
@@ -142,41 +149,81 @@ pub(crate) fn full_two_descent(
         search_complete: true,
         searched_height: options.search_height,
     };
-    // the places: R, 2, 3 and the primes of the discriminant (the quartics'
-    // discriminant is 256 Delta; elsewhere solubility is automatic)
+    let primes = descent_places(bad_primes);
+    let enumeration = enumerate_coverings(&i, &j, options, work);
+    let torsion_span = torsion_image(curve, torsion, two_torsion_dim)?;
+    let mut span = ClassSpan { elements: torsion_span.elements.clone() };
+    let (mut distinct, complete) = soluble_classes(enumeration, &primes, work, &mut out)?;
+    if complete {
+        record_selmer_bound(&distinct, &torsion_span, two_torsion_dim, &mut out)?;
+    }
+    work.report(Stage::Search, "searching the curve and its quartic coverings");
+    add_curve_points(curve, options, work, &mut span, &mut out)?;
+    lift_coverings(curve, &mut distinct, options, work, enough, &mut span, &mut out)?;
+    finish(distinct, &span, out)
+}
+
+/// The places to test: R (always), 2, 3 and the primes of the discriminant
+/// (the quartics' discriminant is `256 Delta`; elsewhere solubility is
+/// automatic). The real place is added by the solubility test itself.
+fn descent_places(bad_primes: &[Natural]) -> Vec<Natural> {
     let mut primes: Vec<Natural> = vec![Natural::from(2u32), Natural::from(3u32)];
     for p in bad_primes {
         if !primes.contains(p) {
             primes.push(p.clone());
         }
     }
-    let enumeration = quartics_with_invariants(
-        &i,
-        &j,
+    primes
+}
+
+/// Every `GL2(Z)`-class of quartics with invariants `(i, j)`, negative
+/// definite ones left out (never soluble over R), within the options'
+/// candidate limit and the work's deadline and cancel flag.
+fn enumerate_coverings(i: &Integer, j: &Integer, options: &RankOptions, work: &Work) -> Result<Vec<Quartic>, Error> {
+    quartics_with_invariants(
+        i,
+        j,
         &SearchOptions {
             include_negative_definite: false,
             max_candidates: Some(options.max_quartic_candidates),
             deadline: work.deadline(),
             cancel: work.cancel_flag().cloned(),
         },
-    );
+    )
+}
+
+/// The image of the torsion points in Sel^2(E); its dimension must be
+/// `dim E(Q)[2]`.
+fn torsion_image(curve: &Curve, torsion: &TorsionGroup, two_torsion_dim: usize) -> Result<ClassSpan, Error> {
     let mut torsion_span = ClassSpan { elements: vec![] };
-    let mut span = ClassSpan { elements: vec![] };
     for p in torsion.points() {
         if let Point::Affine(x, y) = p {
             let c = CoveringClass::kummer_image(curve, x, y).ok_or_else(|| Error::internal("the quartic descent", "torsion point off the curve"))?;
             torsion_span.insert(&c)?;
-            span.insert(&c)?;
         }
     }
     if torsion_span.dim() != two_torsion_dim {
         return Err(Error::internal("the quartic descent", "the torsion image has the wrong dimension"));
     }
+    Ok(torsion_span)
+}
+
+/// One quartic of each `GL2(Q)`-class among the everywhere locally soluble
+/// quartics of the enumeration (the others go to `out.ruled_out`), and
+/// whether the list is complete (the enumeration finished and every quartic
+/// was tested within the budget).
+fn soluble_classes(
+    enumeration: Result<Vec<Quartic>, Error>,
+    primes: &[Natural],
+    work: &Work,
+    out: &mut FullDescent,
+) -> Result<(Vec<(CoveringClass, SelmerQuartic)>, bool), Error> {
     let mut distinct: Vec<(CoveringClass, SelmerQuartic)> = Vec::new();
     let complete = match enumeration {
         Ok(list) => {
             out.quartics_enumerated = list.len();
             let mut finished = true;
+            let mut ws = SolubilityWorkspace::default();
             for g in list {
                 if work.exhausted() {
                     finished = false;
@@ -184,7 +231,7 @@ pub(crate) fn full_two_descent(
                     break;
                 }
                 let coeffs = g.coeffs();
-                match everywhere_locally_soluble(&coeffs, &primes) {
+                match everywhere_locally_soluble_with(&coeffs, primes, &mut ws) {
                     Err(place) => out.ruled_out.push((g, place)),
                     Ok(witnesses) => {
                         let c = covering_class(&g)?;
@@ -206,26 +253,53 @@ pub(crate) fn full_two_descent(
         }
         Err(e) => return Err(e),
     };
-    if complete {
-        let n = distinct.len();
-        if n == 0 || !n.is_power_of_two() {
-            return Err(Error::internal("the quartic descent", &format!("{n} Selmer classes is not a power of 2")));
-        }
-        let s = n.trailing_zeros() as usize;
-        if s < two_torsion_dim {
-            return Err(Error::internal("the quartic descent", "Selmer group smaller than the torsion image"));
-        }
-        // every torsion image must be among the classes
-        for t in &torsion_span.elements {
-            if !distinct.iter().any(|(d, _)| d.same_as(t)) {
-                return Err(Error::internal("the quartic descent", "a torsion image is not an everywhere locally soluble class"));
-            }
-        }
-        out.selmer_dim = Some(s);
-        out.upper = Some(s - two_torsion_dim);
+    Ok((distinct, complete))
+}
+
+/// For a complete list of classes: checks that it is a group of order `2^s`
+/// holding the torsion image, and records `dim Sel^2 = s` and the upper bound.
+fn record_selmer_bound(
+    distinct: &[(CoveringClass, SelmerQuartic)],
+    torsion_span: &ClassSpan,
+    two_torsion_dim: usize,
+    out: &mut FullDescent,
+) -> Result<(), Error> {
+    let n = distinct.len();
+    if n == 0 || !n.is_power_of_two() {
+        return Err(Error::internal("the quartic descent", &format!("{n} Selmer classes is not a power of 2")));
     }
-    // points on E itself
-    work.report(Stage::Search, "searching the curve and its quartic coverings");
+    let s = n.trailing_zeros() as usize;
+    if s < two_torsion_dim {
+        return Err(Error::internal("the quartic descent", "Selmer group smaller than the torsion image"));
+    }
+    // every torsion image must be among the classes
+    for t in &torsion_span.elements {
+        if !distinct.iter().any(|(d, _)| d.same_as(t)) {
+            return Err(Error::internal("the quartic descent", "a torsion image is not an everywhere locally soluble class"));
+        }
+    }
+    out.selmer_dim = Some(s);
+    out.upper = Some(s - two_torsion_dim);
+    Ok(())
+}
+
+/// Adds `pt` (checked to be on `curve`) to the points found when its image
+/// enlarges the span.
+fn add_point(curve: &Curve, pt: Point, span: &mut ClassSpan, out: &mut FullDescent) -> Result<(), Error> {
+    let Point::Affine(x, y) = &pt else { return Ok(()) };
+    if !curve.contains(&pt) {
+        return Err(Error::internal("the quartic descent", "a found point is not on the curve"));
+    }
+    let c = CoveringClass::kummer_image(curve, x, y).ok_or_else(|| Error::internal("the quartic descent", "point off the curve"))?;
+    if span.insert(&c)? {
+        out.points.push(pt);
+    }
+    Ok(())
+}
+
+/// Points on the curve itself up to `curve_search_height`, until the span
+/// reaches the Selmer bound.
+fn add_curve_points(curve: &Curve, options: &RankOptions, work: &Work, span: &mut ClassSpan, out: &mut FullDescent) -> Result<(), Error> {
     let curve_limits = SearchLimits {
         height: options.curve_search_height,
         first_only: false,
@@ -234,76 +308,90 @@ pub(crate) fn full_two_descent(
     };
     let found = search_curve(curve, &curve_limits);
     out.search_complete &= found.complete;
-    let add_point = |pt: Point, span: &mut ClassSpan, out: &mut FullDescent| -> Result<(), Error> {
-        let Point::Affine(x, y) = &pt else { return Ok(()) };
-        if !curve.contains(&pt) {
-            return Err(Error::internal("the quartic descent", "a found point is not on the curve"));
-        }
-        let c = CoveringClass::kummer_image(curve, x, y).ok_or_else(|| Error::internal("the quartic descent", "point off the curve"))?;
-        if span.insert(&c)? {
-            out.points.push(pt);
-        }
-        Ok(())
-    };
     for (x, y) in found.points {
-        if out.upper.is_some_and(|u| span.dim() - two_torsion_dim >= u) {
+        if out.upper.is_some_and(|u| span.dim() - out.two_torsion_dim >= u) {
             break;
         }
-        add_point(Point::Affine(x, y), &mut span, &mut out)?;
+        add_point(curve, Point::Affine(x, y), span, out)?;
     }
-    // points on the coverings not yet explained, at heights raised step by
-    // step (doubling from `search_height` up to `search_height_ceiling`)
-    // while the bounds do not meet and the work has time
+    Ok(())
+}
+
+/// Points on the coverings not yet explained, at heights raised step by
+/// step (doubling from `search_height` up to `search_height_ceiling`) while
+/// the bounds do not meet and the work has time; a rank proven by another
+/// route (`enough`) also ends the ladder.
+fn lift_coverings(
+    curve: &Curve,
+    distinct: &mut [(CoveringClass, SelmerQuartic)],
+    options: &RankOptions,
+    work: &Work,
+    enough: Option<usize>,
+    span: &mut ClassSpan,
+    out: &mut FullDescent,
+) -> Result<(), Error> {
+    let two_torsion_dim = out.two_torsion_dim;
     let mut height = options.search_height;
     loop {
-    for (c, sq) in distinct.iter_mut() {
-        if span.contains(c) {
-            continue;
-        }
-        if work.exhausted() {
-            out.search_complete = false;
-            break;
-        }
-        let (red, [[al, be], [ga, de]]) = reduce(&sq.quartic);
-        let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, height) };
-        let res = search_quartic(&red.coeffs(), &limits);
-        out.search_complete &= res.complete || !res.points.is_empty();
-        for qp in res.points {
-            let (x, z, y) = (Rational::from(qp.x.clone()), Rational::from(qp.z.clone()), Rational::from(qp.y.clone()));
-            if let Some((px, py)) = red.image_on_curve(curve, &x, &z, &y)? {
-                let pt = Point::Affine(px, py);
-                // the same point on the class's own quartic: (x, z) = M (x', z')
-                let gx = &al * &qp.x + &be * &qp.z;
-                let gz = &ga * &qp.x + &de * &qp.z;
-                if sq.quartic.eval(&gx, &gz) != &qp.y * &qp.y {
-                    return Err(Error::internal("the quartic descent", "a covering point does not map back to its class's quartic"));
-                }
-                sq.covering_point = Some([gx, gz, qp.y]);
-                sq.point = Some(pt.clone());
-                add_point(pt, &mut span, &mut out)?;
+        for (c, sq) in distinct.iter_mut() {
+            if span.contains(c) {
+                continue;
+            }
+            if work.exhausted() {
+                out.search_complete = false;
                 break;
             }
+            lift_one_covering(curve, sq, work, height, span, out)?;
+        }
+        out.searched_height = height;
+        let target = match (out.upper, enough) {
+            (Some(u), Some(e)) => Some(u.min(e)),
+            (u, e) => u.or(e),
+        };
+        let met = target.is_some_and(|u| span.dim() - two_torsion_dim >= u);
+        if met || target.is_none() || work.exhausted() || height >= options.search_height_ceiling {
+            return Ok(());
+        }
+        height = height.saturating_mul(2).min(options.search_height_ceiling);
+    }
+}
+
+/// Searches the reduced form of one class's quartic up to `height`; the
+/// first point found is mapped to the curve and recorded with the class
+/// (both on the curve and on the class's own quartic, checked exactly).
+fn lift_one_covering(curve: &Curve, sq: &mut SelmerQuartic, work: &Work, height: u64, span: &mut ClassSpan, out: &mut FullDescent) -> Result<(), Error> {
+    let (red, [[al, be], [ga, de]]) = reduce(&sq.quartic);
+    let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, height) };
+    let res = search_quartic(&red.coeffs(), &limits);
+    out.search_complete &= res.complete || !res.points.is_empty();
+    for qp in res.points {
+        let (x, z, y) = (Rational::from(qp.x.clone()), Rational::from(qp.z.clone()), Rational::from(qp.y.clone()));
+        if let Some((px, py)) = red.image_on_curve(curve, &x, &z, &y)? {
+            let pt = Point::Affine(px, py);
+            // the same point on the class's own quartic: (x, z) = M (x', z')
+            let gx = &al * &qp.x + &be * &qp.z;
+            let gz = &ga * &qp.x + &de * &qp.z;
+            if sq.quartic.eval(&gx, &gz) != &qp.y * &qp.y {
+                return Err(Error::internal("the quartic descent", "a covering point does not map back to its class's quartic"));
+            }
+            sq.covering_point = Some([gx, gz, qp.y]);
+            sq.point = Some(pt.clone());
+            add_point(curve, pt, span, out)?;
+            break;
         }
     }
-    out.searched_height = height;
-    // a rank proven by another route (`enough`) also ends the ladder
-    let target = match (out.upper, enough) {
-        (Some(u), Some(e)) => Some(u.min(e)),
-        (u, e) => u.or(e),
-    };
-    let met = target.is_some_and(|u| span.dim() - two_torsion_dim >= u);
-    if met || target.is_none() || work.exhausted() || height >= options.search_height_ceiling {
-        break;
-    }
-    height = height.saturating_mul(2).min(options.search_height_ceiling);
-    }
+    Ok(())
+}
+
+/// The bounds from the span reached, and (with a Selmer bound) a basis of
+/// the classes not explained by points.
+fn finish(distinct: Vec<(CoveringClass, SelmerQuartic)>, span: &ClassSpan, mut out: FullDescent) -> Result<FullDescent, Error> {
     out.found_dim = span.dim();
-    out.lower = span.dim() - two_torsion_dim;
+    out.lower = span.dim() - out.two_torsion_dim;
     if let Some(u) = out.upper {
         if out.lower > u {
             return Err(Error::internal("the quartic descent", "lower bound exceeds the Selmer bound"));
         }
-        // a basis of the classes not explained by points
         let mut rest = ClassSpan { elements: span.elements.clone() };
         for (c, sq) in &distinct {
             if rest.insert(c)? {

@@ -19,7 +19,7 @@ use crate::budget::{RankOptions, Stage, Work};
 use crate::curve::{Curve, Point};
 use crate::error::Error;
 use crate::search::{search_curve, search_quartic, SearchLimits};
-use crate::solubility::{local_witness, LocalWitness, Place};
+use crate::solubility::{local_witness_with, LocalWitness, Place, SolubilityWorkspace};
 use crate::torsion::TorsionGroup;
 use malachite::base::num::arithmetic::traits::{DivisibleBy, Mod};
 use malachite::base::num::basic::traits::{One, Zero};
@@ -181,6 +181,7 @@ impl TwoTorsionModel {
 }
 
 fn side_curve(a: &Integer, b: &Integer) -> Curve {
+    // invariant: disc = 16 b^2 (a^2 - 4b) is non-zero for both sides of a 2-isogeny of a non-singular curve
     Curve::new([Integer::ZERO, a.clone(), Integer::ZERO, b.clone(), Integer::ZERO]).expect("isogenous model is non-singular")
 }
 
@@ -235,6 +236,7 @@ fn local_coords(d: &Integer, place: &Place) -> u8 {
                 u /= &pi;
             }
             if *p == 2u32 {
+                // invariant: a residue mod 8 is in [0, 8) and fits a u64
                 let r = u64::try_from(&(&u).mod_op(Integer::from(8))).unwrap();
                 let minus = (r % 4 == 3) as u8;
                 let five = (r == 3 || r == 5) as u8;
@@ -267,6 +269,46 @@ struct SideWork {
     local_images: Vec<LocalImage>,
 }
 
+impl SideWork {
+    /// The side `y^2 = x(x^2 + a x + b)`, with the square classes of the
+    /// primes `side_primes` (those dividing `b`) and nothing computed yet.
+    fn new(a: Integer, b: Integer, side_primes: Vec<Natural>) -> SideWork {
+        SideWork {
+            a,
+            b,
+            classes: SquareClasses::new(side_primes),
+            selmer: F2Span::new(),
+            torsion: F2Span::new(),
+            found: F2Span::new(),
+            points: vec![],
+            local_images: vec![],
+        }
+    }
+
+    /// The record of this side: Selmer basis, dimensions, points, and (for a
+    /// complete Selmer group) the classes not explained by points.
+    fn record(&self, complete_selmer: bool) -> IsogenySide {
+        let mut complement = self.found.clone();
+        let mut unexplained = Vec::new();
+        for &v in self.selmer.basis() {
+            if complement.insert(v) {
+                unexplained.push(self.classes.integer_of(v));
+            }
+        }
+        IsogenySide {
+            a: self.a.clone(),
+            b: self.b.clone(),
+            selmer_basis: self.selmer.basis().iter().map(|&v| self.classes.integer_of(v)).collect(),
+            selmer_dim: self.selmer.dim(),
+            torsion_dim: self.torsion.dim(),
+            found_dim: self.found.dim(),
+            points: self.points.clone(),
+            unexplained: if complete_selmer { unexplained } else { vec![] },
+            local_images: self.local_images.clone(),
+        }
+    }
+}
+
 
 /// Computes the Selmer group of one side by local images at R, 2 and the
 /// odd primes of `b b'`. Returns `Ok(false)` if the budget ran out.
@@ -277,6 +319,7 @@ fn selmer_of_side(w: &mut SideWork, primes: &[Natural], work: &Work) -> Result<b
     let mut places = vec![Place::Real];
     places.extend(primes.iter().cloned().map(Place::Prime));
     let mut basis: Vec<u64> = (0..w.classes.dim()).map(|i| 1u64 << i).collect();
+    let mut ws = SolubilityWorkspace::default();
     for place in places {
         if work.exhausted() {
             return Ok(false);
@@ -286,7 +329,7 @@ fn selmer_of_side(w: &mut SideWork, primes: &[Natural], work: &Work) -> Result<b
         let mut local_span: Vec<u8> = Vec::new();
         for c in local_reps(&place) {
             let g = local_quartic(&c, &w.a, &w.b);
-            match local_witness(&g, &place) {
+            match local_witness_with(&g, &place, &mut ws) {
                 Some(wit) => {
                     local_span.push(local_coords(&c, &place));
                     soluble.push((c, wit));
@@ -340,6 +383,13 @@ fn selmer_of_side(w: &mut SideWork, primes: &[Natural], work: &Work) -> Result<b
 /// Runs the descent via the 2-isogeny with kernel {O, t}, where `t` is a
 /// rational point of order 2 on `curve`. `bad_primes` must contain every
 /// prime dividing the discriminant of `curve`.
+///
+/// The steps, in order: the model `y^2 = x(x^2 + a x + b)` and its isogenous
+/// side, the Selmer group of each side ([`selmer_of_side`]), the torsion
+/// images ([`add_torsion_images`]), the points on both side curves
+/// ([`add_side_curve_points`]), the coverings not yet explained at rising
+/// heights ([`lift_side_coverings`]), and the points carried back to the
+/// input model ([`points_on_input`]).
 pub(crate) fn descend_via_isogeny(
     curve: &Curve,
     t: &Point,
@@ -363,8 +413,6 @@ pub(crate) fn descend_via_isogeny(
         all_primes.iter().filter(|p| n.divisible_by(&Integer::from((*p).clone()))).cloned().collect()
     };
     // the primes of b b' are among those of 6 * disc(curve): disc(y^2=x(x^2+ax+b)) = 16 b^2 (a^2 - 4b)
-    let side_primes_e = primes_dividing(&b);
-    let side_primes_e1 = primes_dividing(&b1);
     let both: Vec<Natural> = {
         let mut v = primes_dividing(&(&b * &b1));
         if !v.contains(&Natural::from(2u32)) {
@@ -372,44 +420,59 @@ pub(crate) fn descend_via_isogeny(
         }
         v
     };
-    let e_model = side_curve(&a, &b);
-    let e1_model = side_curve(&a1, &b1);
+    let models = [side_curve(&a, &b), side_curve(&a1, &b1)];
     work.report(Stage::Solubility, "2-isogeny Selmer groups");
-    let mut sides = [
-        SideWork {
-            a: a.clone(),
-            b: b.clone(),
-            classes: SquareClasses::new(side_primes_e),
-            selmer: F2Span::new(),
-            torsion: F2Span::new(),
-            found: F2Span::new(),
-            points: vec![],
-            local_images: vec![],
-        },
-        SideWork {
-            a: a1.clone(),
-            b: b1.clone(),
-            classes: SquareClasses::new(side_primes_e1),
-            selmer: F2Span::new(),
-            torsion: F2Span::new(),
-            found: F2Span::new(),
-            points: vec![],
-            local_images: vec![],
-        },
-    ];
+    let mut sides = [SideWork::new(a, b.clone(), primes_dividing(&b)), SideWork::new(a1, b1.clone(), primes_dividing(&b1))];
     let mut complete_selmer = true;
     for w in sides.iter_mut() {
         complete_selmer &= selmer_of_side(w, &both, work)?;
     }
-    // torsion images
-    let tors_e1 = TorsionGroup::compute(&e1_model, &both);
+    add_torsion_images(curve, &model, torsion, &models[1], &both, complete_selmer, &mut sides)?;
+    work.report(Stage::Search, "2-isogeny point search");
+    let mut search_complete = add_side_curve_points(&models, options, work, &mut sides);
+    let selmer_bound: Option<usize> = if complete_selmer { Some(sides.iter().map(|w| w.selmer.dim() - w.torsion.dim()).sum()) } else { None };
+    let (height, lifted_complete) = lift_side_coverings(&models, selmer_bound, options, work, enough, &mut sides)?;
+    search_complete &= lifted_complete;
+    let lower = sides.iter().map(|w| w.found.dim() - w.torsion.dim()).sum();
+    let upper = selmer_bound;
+    if let Some(u) = upper {
+        if u < lower {
+            return Err(Error::internal("the 2-isogeny descent", "lower bound exceeds the Selmer bound"));
+        }
+    }
+    let points = points_on_input(curve, &model, &models[0], &b1, &sides)?;
+    Ok(IsogenyDescent {
+        kernel_point: t.clone(),
+        side_e: sides[0].record(complete_selmer),
+        side_e_prime: sides[1].record(complete_selmer),
+        lower,
+        upper,
+        points,
+        search_complete,
+        searched_height: height,
+    })
+}
+
+/// The images of the torsion of both sides (the torsion of `e1_model` is
+/// computed here); with a complete Selmer group they must lie in it. The
+/// points found start as the torsion.
+fn add_torsion_images(
+    curve: &Curve,
+    model: &TwoTorsionModel,
+    torsion: &TorsionGroup,
+    e1_model: &Curve,
+    both: &[Natural],
+    complete_selmer: bool,
+    sides: &mut [SideWork; 2],
+) -> Result<(), Error> {
+    let tors_e1 = TorsionGroup::compute(e1_model, both);
     for p in torsion.points() {
         let q = model.from_user(curve, p);
-        let v = sides[0].classes.vector_of(&alpha(&q, &b)).ok_or_else(|| Error::internal("the 2-isogeny descent", "torsion image outside S"))?;
+        let v = sides[0].classes.vector_of(&alpha(&q, &sides[0].b)).ok_or_else(|| Error::internal("the 2-isogeny descent", "torsion image outside S"))?;
         sides[0].torsion.insert(v);
     }
     for p in tors_e1.points() {
-        let v = sides[1].classes.vector_of(&alpha(p, &b1)).ok_or_else(|| Error::internal("the 2-isogeny descent", "torsion image outside S"))?;
+        let v = sides[1].classes.vector_of(&alpha(p, &sides[1].b)).ok_or_else(|| Error::internal("the 2-isogeny descent", "torsion image outside S"))?;
         sides[1].torsion.insert(v);
     }
     for w in sides.iter_mut() {
@@ -422,8 +485,12 @@ pub(crate) fn descend_via_isogeny(
             }
         }
     }
-    // search on the curves themselves
-    work.report(Stage::Search, "2-isogeny point search");
+    Ok(())
+}
+
+/// Points on the two side curves themselves up to `curve_search_height`;
+/// returns whether both searches ran to their bound.
+fn add_side_curve_points(models: &[Curve; 2], options: &RankOptions, work: &Work, sides: &mut [SideWork; 2]) -> bool {
     let mut search_complete = true;
     let curve_limits = SearchLimits {
         height: options.curve_search_height,
@@ -431,7 +498,7 @@ pub(crate) fn descend_via_isogeny(
         deadline: work.deadline(),
         cancel: work.cancel_flag().cloned(),
     };
-    for (k, model_curve) in [(0usize, &e_model), (1, &e1_model)] {
+    for (k, model_curve) in models.iter().enumerate() {
         let out = search_curve(model_curve, &curve_limits);
         search_complete &= out.complete;
         let bb = sides[k].b.clone();
@@ -444,76 +511,92 @@ pub(crate) fn descend_via_isogeny(
             }
         }
     }
-    // search on the coverings of Selmer classes not yet explained, at
-    // heights doubled from `search_height` up to `search_height_ceiling`
-    // while the bounds do not meet and the work has time
-    let selmer_bound: Option<usize> = if complete_selmer { Some(sides.iter().map(|w| w.selmer.dim() - w.torsion.dim()).sum()) } else { None };
-    // a rank proven by another route (`enough`) also ends the ladder
+    search_complete
+}
+
+/// Search on the coverings of Selmer classes not yet explained, at heights
+/// doubled from `search_height` up to `search_height_ceiling` while the
+/// bounds do not meet and the work has time; a rank proven by another route
+/// (`enough`) also ends the ladder. Returns the height reached and whether
+/// every search ran to its bound.
+fn lift_side_coverings(
+    models: &[Curve; 2],
+    selmer_bound: Option<usize>,
+    options: &RankOptions,
+    work: &Work,
+    enough: Option<usize>,
+    sides: &mut [SideWork; 2],
+) -> Result<(u64, bool), Error> {
     let upper_now = match (selmer_bound, enough) {
         (Some(u), Some(e)) => Some(u.min(e)),
         (u, e) => u.or(e),
     };
+    let mut search_complete = true;
     let mut height = options.search_height;
     loop {
-    for k in 0..2 {
-        let sel_elems = if sides[k].selmer.dim() <= 16 { sides[k].selmer.elements() } else { sides[k].selmer.basis().to_vec() };
-        let mut order: Vec<(Integer, u64)> = sel_elems.into_iter().map(|v| (sides[k].classes.integer_of(v), v)).collect();
-        order.sort_by_key(|(d, _)| {
-            use malachite::base::num::arithmetic::traits::UnsignedAbs;
-            d.unsigned_abs()
-        });
-        for (d, v) in order {
-            if sides[k].found.contains(v) {
+        for (k, side) in sides.iter_mut().enumerate() {
+            search_complete &= lift_one_side(&models[k], side, work, height)?;
+        }
+        let lower_now: usize = sides.iter().map(|w| w.found.dim() - w.torsion.dim()).sum();
+        let met = upper_now.is_some_and(|u| lower_now >= u);
+        if met || upper_now.is_none() || work.exhausted() || height >= options.search_height_ceiling {
+            return Ok((height, search_complete));
+        }
+        height = height.saturating_mul(2).min(options.search_height_ceiling);
+    }
+}
+
+/// One pass over the unexplained Selmer classes of one side at `height`
+/// (smallest `|d|` first; all elements when the group is small, a basis
+/// otherwise); returns whether every search ran to its bound.
+fn lift_one_side(side_model: &Curve, side: &mut SideWork, work: &Work, height: u64) -> Result<bool, Error> {
+    let mut search_complete = true;
+    let sel_elems = if side.selmer.dim() <= 16 { side.selmer.elements() } else { side.selmer.basis().to_vec() };
+    let mut order: Vec<(Integer, u64)> = sel_elems.into_iter().map(|v| (side.classes.integer_of(v), v)).collect();
+    order.sort_by_key(|(d, _)| {
+        use malachite::base::num::arithmetic::traits::UnsignedAbs;
+        d.unsigned_abs()
+    });
+    for (d, v) in order {
+        if side.found.contains(v) {
+            continue;
+        }
+        if work.exhausted() {
+            search_complete = false;
+            break;
+        }
+        let g = covering_quartic(&d, &side.a, &side.b);
+        let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, height) };
+        let out = search_quartic(&g, &limits);
+        search_complete &= out.complete;
+        for qp in out.points {
+            if qp.z == 0 {
                 continue;
             }
-            if work.exhausted() {
-                search_complete = false;
-                break;
+            // (M, e, N) -> (d M^2 / e^2, d M N / e^3)
+            let m = Rational::from(qp.x.clone());
+            let e = Rational::from(qp.z.clone());
+            let n = Rational::from(qp.y.clone());
+            let dq = Rational::from(d.clone());
+            let pt = Point::Affine(&dq * &m * &m / (&e * &e), &dq * &m * &n / (&e * &e * &e));
+            if !side_model.contains(&pt) {
+                return Err(Error::internal("the 2-isogeny descent", "covering point does not map onto the curve"));
             }
-            let g = covering_quartic(&d, &sides[k].a, &sides[k].b);
-            let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, height) };
-            let out = search_quartic(&g, &limits);
-            search_complete &= out.complete;
-            for qp in out.points {
-                if qp.z == 0 {
-                    continue;
-                }
-                // (M, e, N) -> (d M^2 / e^2, d M N / e^3)
-                let m = Rational::from(qp.x.clone());
-                let e = Rational::from(qp.z.clone());
-                let n = Rational::from(qp.y.clone());
-                let dq = Rational::from(d.clone());
-                let pt = Point::Affine(&dq * &m * &m / (&e * &e), &dq * &m * &n / (&e * &e * &e));
-                let side_curve = if k == 0 { &e_model } else { &e1_model };
-                if !side_curve.contains(&pt) {
-                    return Err(Error::internal("the 2-isogeny descent", "covering point does not map onto the curve"));
-                }
-                let Some(vv) = sides[k].classes.vector_of(&alpha(&pt, &sides[k].b)) else { continue };
-                if sides[k].found.insert(vv) {
-                    sides[k].points.push((d.clone(), pt));
-                }
-                break;
+            let Some(vv) = side.classes.vector_of(&alpha(&pt, &side.b)) else { continue };
+            if side.found.insert(vv) {
+                side.points.push((d.clone(), pt));
             }
+            break;
         }
     }
-    let lower_now: usize = sides.iter().map(|w| w.found.dim() - w.torsion.dim()).sum();
-    let met = upper_now.is_some_and(|u| lower_now >= u);
-    if met || upper_now.is_none() || work.exhausted() || height >= options.search_height_ceiling {
-        break;
-    }
-    height = height.saturating_mul(2).min(options.search_height_ceiling);
-    }
-    // bounds and points
-    let lower = sides.iter().map(|w| w.found.dim() - w.torsion.dim()).sum();
-    let upper = if complete_selmer { Some(sides.iter().map(|w| w.selmer.dim() - w.torsion.dim()).sum()) } else { None };
-    if let Some(u) = upper {
-        if u < lower {
-            return Err(Error::internal("the 2-isogeny descent", "lower bound exceeds the Selmer bound"));
-        }
-    }
+    Ok(search_complete)
+}
+
+/// The points found on both sides, carried to the input model (the second
+/// side's through the dual isogeny), each checked to lie on `curve`.
+fn points_on_input(curve: &Curve, model: &TwoTorsionModel, e_model: &Curve, b1: &Integer, sides: &[SideWork; 2]) -> Result<Vec<Point>, Error> {
     let mut points = Vec::new();
-    for (d, p) in &sides[0].points {
-        let _ = d;
+    for (_, p) in &sides[0].points {
         let q = model.to_user(curve, p);
         if !curve.contains(&q) {
             return Err(Error::internal("the 2-isogeny descent", "point does not lie on the input model"));
@@ -521,7 +604,7 @@ pub(crate) fn descend_via_isogeny(
         points.push(q);
     }
     for (_, p) in &sides[1].points {
-        let on_e = dual_map(p, &b1);
+        let on_e = dual_map(p, b1);
         if !e_model.contains(&on_e) {
             return Err(Error::internal("the 2-isogeny descent", "dual isogeny image not on the curve"));
         }
@@ -531,35 +614,5 @@ pub(crate) fn descend_via_isogeny(
         }
         points.push(q);
     }
-    let finish = |w: &SideWork| -> IsogenySide {
-        let mut complement = w.found.clone();
-        let mut unexplained = Vec::new();
-        for &v in w.selmer.basis() {
-            if complement.insert(v) {
-                unexplained.push(w.classes.integer_of(v));
-            }
-        }
-        IsogenySide {
-            a: w.a.clone(),
-            b: w.b.clone(),
-            selmer_basis: w.selmer.basis().iter().map(|&v| w.classes.integer_of(v)).collect(),
-            selmer_dim: w.selmer.dim(),
-            torsion_dim: w.torsion.dim(),
-            found_dim: w.found.dim(),
-            points: w.points.clone(),
-            unexplained: if complete_selmer { unexplained } else { vec![] },
-            local_images: w.local_images.clone(),
-        }
-    };
-    Ok(IsogenyDescent {
-        kernel_point: t.clone(),
-        side_e: finish(&sides[0]),
-        side_e_prime: finish(&sides[1]),
-        lower,
-        upper,
-        points,
-        search_complete,
-        searched_height: height,
-    })
+    Ok(points)
 }
-

@@ -24,6 +24,7 @@ use std::time::Instant;
 /// assert!(o.max_search_height >= 1000);
 /// ```
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct SaturationOptions {
     /// The largest naive height `max(|m|, k^2)` (for `x = m/k^2`) searched
     /// for points of small height (the lower bound for heights of
@@ -41,6 +42,31 @@ pub struct SaturationOptions {
 }
 
 impl SaturationOptions {
+    /// Sets the largest naive height searched for small points.
+    pub fn with_max_search_height(mut self, v: u64) -> Self {
+        self.max_search_height = v;
+        self
+    }
+    /// Sets the largest auxiliary prime of Siksek's test.
+    pub fn with_max_aux_prime(mut self, v: u64) -> Self {
+        self.max_aux_prime = v;
+        self
+    }
+    /// Sets the largest prime p for which p-saturation is attempted.
+    pub fn with_max_saturation_prime(mut self, v: u64) -> Self {
+        self.max_saturation_prime = v;
+        self
+    }
+    /// Sets the deadline.
+    pub fn with_deadline(mut self, v: std::time::Instant) -> Self {
+        self.deadline = Some(v);
+        self
+    }
+    /// Sets the cancellation flag.
+    pub fn with_cancel(mut self, v: std::sync::Arc<std::sync::atomic::AtomicBool>) -> Self {
+        self.cancel = Some(v);
+        self
+    }
     /// The default options within the deadline and cancellation flag of `work`.
     ///
     /// ```

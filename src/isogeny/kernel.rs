@@ -97,6 +97,7 @@ impl ModCurve {
 }
 
 fn residue(n: &Integer, p: u64) -> u64 {
+    // invariant: a residue mod p < 2^64 is in [0, p) and fits a u64
     u64::try_from(&n.mod_op(Integer::from(p))).expect("residue fits a word")
 }
 
@@ -104,6 +105,7 @@ fn residue(n: &Integer, p: u64) -> u64 {
 /// of `E(F_p)[l]`, the `x`-coordinates of `kT`, `1 ≤ k ≤ (l-1)/2`.
 fn subgroups_mod_p(curve: &Curve, l: u64, p: u64) -> Vec<Vec<u64>> {
     let [b2, b4, b6, _] = curve.b_invariants();
+    // invariant: the only caller passes primes p >= 5, so 2 is invertible mod p
     let inv2 = inv_mod(2, p).unwrap();
     let inv4 = mul_mod(inv2, inv2, p);
     let m = ModCurve { p, a2: mul_mod(residue(b2, p), inv4, p), a4: mul_mod(residue(b4, p), inv2, p), a6: mul_mod(residue(b6, p), inv4, p) };
@@ -150,6 +152,7 @@ fn subgroups_mod_p(curve: &Curve, l: u64, p: u64) -> Vec<Vec<u64>> {
             }
             q = next;
         }
+        // invariant: q is Some: checked before the loop, which only replaces it by a Some
         let q = q.unwrap();
         if !in_span(&gens, q) {
             gens.push(q);
@@ -174,6 +177,7 @@ fn subgroups_mod_p(curve: &Curve, l: u64, p: u64) -> Vec<Vec<u64>> {
     let n = (l - 1) / 2;
     lines
         .into_iter()
+        // invariant: t generates a subgroup of order l, so every multiple kT with k < l is affine
         .map(|t| (1..=n).map(|k| m.mul(k, Some(t)).expect("a point of order l").0).collect())
         .collect()
 }

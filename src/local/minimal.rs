@@ -48,6 +48,7 @@ impl Curve {
     pub fn minimal_model_at(&self, p: &Natural) -> Result<(Curve, ModelChange), Error> {
         check_prime(p)?;
         let out = tate(self.coefficients(), self.discriminant(), p);
+        // invariant: a change of model multiplies the discriminant by u^-12, so it stays non-zero
         let e = Curve::new(out.model).expect("a change of model keeps the discriminant non-zero");
         Ok((e, out.change))
     }

@@ -306,6 +306,7 @@ fn is_probable_prime(n: &Natural) -> bool {
         }
     }
     let n1 = n - Natural::ONE;
+    // invariant: n has no factor among the bases (checked above) and n > 1, so n - 1 > 0
     let s = n1.trailing_zeros().expect("n - 1 > 0");
     let d = &n1 >> s;
     'bases: for b in BASES {

@@ -48,7 +48,9 @@ impl Fp {
 
     /// The inverse of a unit; panics on a multiple of p (internal use only).
     pub(crate) fn inv(&self, x: &Integer) -> Integer {
+        // invariant: red gives a value in [0, p)
         let n = Natural::try_from(self.red(x)).expect("reduced value is non-negative");
+        // invariant: callers invert only units mod p (documented above)
         Integer::from(n.mod_inverse(&self.p).expect("inverse of a non-unit mod p"))
     }
 
@@ -119,6 +121,7 @@ impl Fp {
     /// Root structure by trying every element (p = 2, 3), with multiplicities
     /// found by repeated synthetic division.
     fn cubic_by_search(&self, b: &Integer, c: &Integer, d: &Integer) -> CubicRoots {
+        // invariant: this path runs only for p = 2, 3
         let p = u32::try_from(&self.p).expect("small prime");
         let mut simple = 0;
         for x in 0..p {
@@ -189,10 +192,12 @@ impl Fp {
         let h = vec![acc[0].clone(), self.red(&(&acc[1] - Integer::ONE)), acc[2].clone()];
         let p_poly = vec![d.clone(), c.clone(), b.clone(), Integer::ONE];
         let g = self.poly_gcd(p_poly, h);
+        // invariant: the gcd with a cubic has degree at most 3
         u32::try_from(g.len() - 1).expect("small degree")
     }
 
     fn trim(v: &mut Vec<Integer>) {
+        // invariant: v.len() > 1 was checked first
         while v.len() > 1 && *v.last().unwrap() == 0u32 {
             v.pop();
         }
@@ -207,9 +212,11 @@ impl Fp {
         Self::trim(&mut g);
         while !(g.len() == 1 && g[0] == 0u32) {
             // f mod g
+            // invariant: g is trimmed and never empty (the zero polynomial is [0])
             let lead_inv = self.inv(g.last().unwrap());
             while f.len() >= g.len() && !(f.len() == 1 && f[0] == 0u32) {
                 let k = f.len() - g.len();
+                // invariant: f.len() >= 1 in the loop, so f has a last entry
                 let coef = self.mul(f.last().unwrap(), &lead_inv);
                 for (i, gi) in g.iter().enumerate() {
                     f[i + k] = self.red(&(&f[i + k] - &coef * gi));

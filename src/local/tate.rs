@@ -82,6 +82,7 @@ pub(crate) fn tate(a_in: &[Integer; 5], disc: &Integer, p: &Natural) -> TateOutc
     let is3 = *p == 3u32;
     let mut a = a_in.clone();
     let mut tr = Tracker { change: ModelChange::identity() };
+    // invariant: a Curve has a non-zero discriminant
     let mut vd = crate::arith::valuation(disc, p).expect("non-zero discriminant");
     let mut scalings = 0u32;
 

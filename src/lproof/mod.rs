@@ -453,6 +453,7 @@ fn root_number_from(src: &mut CoefficientSource, n: u64, limits: &FactorLimits) 
         }
         last = Some(proof);
     }
+    // invariant: the loop above runs at least once and sets last on every pass that does not return
     Ok(last.expect("at least one t"))
 }
 

@@ -39,6 +39,7 @@ pub(crate) struct TraceOracle {
 
 fn residue(n: &Integer, p: u64) -> u64 {
     let r: Integer = n.mod_op(Integer::from(p));
+    // invariant: a residue mod p < 2^64 is in [0, p) and fits a u64
     u64::try_from(&r).expect("residue fits a word")
 }
 

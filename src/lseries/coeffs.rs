@@ -10,6 +10,7 @@ use crate::curve::PointCounter;
 /// bad `p`, and `a_{mn} = a_m a_n` for coprime `m, n`. One table of
 /// smallest prime factors; no allocation per `n`.
 pub(crate) fn coefficients_from(counter: &mut PointCounter, bad: &[(u64, i64)], m: usize) -> Vec<i64> {
+    // invariant: the closure always returns Some, so coefficients_with never stops early
     coefficients_with(&mut |p| Some(counter.trace(p)), bad, m).expect("the exact counter never stops")
 }
 

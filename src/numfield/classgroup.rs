@@ -58,6 +58,7 @@ pub enum FactorBaseBound {
 
 /// Options for [`NumberField::class_group`].
 #[derive(Clone, Debug, Default)]
+#[non_exhaustive]
 pub struct ClassGroupOptions {
     /// Use the Minkowski bound even when it is large (unconditional result,
     /// up to the Euler product check).
@@ -66,6 +67,24 @@ pub struct ClassGroupOptions {
     pub deadline: Option<Instant>,
     /// Stop with [`ErrorKind::Budget`] once set.
     pub cancel: Option<Arc<AtomicBool>>,
+}
+
+impl ClassGroupOptions {
+    /// Uses (or not) the Minkowski bound even when it is large.
+    pub fn with_unconditional(mut self, v: bool) -> Self {
+        self.unconditional = v;
+        self
+    }
+    /// Sets the deadline.
+    pub fn with_deadline(mut self, v: std::time::Instant) -> Self {
+        self.deadline = Some(v);
+        self
+    }
+    /// Sets the cancellation flag.
+    pub fn with_cancel(mut self, v: std::sync::Arc<std::sync::atomic::AtomicBool>) -> Self {
+        self.cancel = Some(v);
+        self
+    }
 }
 
 /// A unit (or S-unit) as a product `prod base_i^exp_i` of field elements

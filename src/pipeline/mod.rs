@@ -28,8 +28,11 @@ use malachite::{Integer, Natural};
 /// could hide.
 ///
 /// Errors: [`crate::ErrorKind::FactorBudget`] when the discriminant cannot be
-/// factored within the budget. A budget that runs out later gives a report
-/// with what was proven (`budget_exhausted` set).
+/// factored within the budget; [`crate::ErrorKind::Budget`] when the torsion
+/// subgroup (which every later stage needs; normally milliseconds) cannot
+/// be finished within it, with the order bound and the points found in the
+/// message. A budget that runs out later gives a report with what was
+/// proven (`budget_exhausted` set).
 ///
 /// ```
 /// use twofold::{analyse, Curve, RankOptions};
@@ -54,7 +57,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     let minimal = data.minimal();
     let primes = data.bad_primes();
     work.report(Stage::Torsion, "torsion subgroup");
-    let torsion = TorsionGroup::compute(minimal, primes);
+    let torsion = TorsionGroup::compute_within(minimal, primes, work).map_err(|e| e.in_stage("the torsion subgroup"))?;
     let mut report = RankReport {
         input: data.input().clone(),
         minimal: minimal.clone(),

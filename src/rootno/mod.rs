@@ -199,7 +199,7 @@ pub fn root_number(curve: &Curve) -> Result<RootNumber, Error> {
 /// ```
 /// use std::time::{Duration, Instant};
 /// use twofold::{Curve, arith::FactorLimits, rootno::root_number_with_limits};
-/// let limits = FactorLimits { deadline: Some(Instant::now() + Duration::from_secs(10)), ..Default::default() };
+/// let limits = FactorLimits::default().with_deadline(Instant::now() + Duration::from_secs(10));
 /// // y^2 = x^3 + 1, conductor 36 (Cremona 1997, Table 1, [0,0,0,0,1] has rank 0)
 /// let r = root_number_with_limits(&Curve::from_coefficients([0, 0, 0, 0, 1]).unwrap(), &limits).unwrap();
 /// assert_eq!(r.global, 1);
@@ -289,6 +289,7 @@ fn root_number_from_setup(setup: &Setup, limits: &FactorLimits) -> Result<RootNu
     };
     if unknown.len() == 1 {
         // -global = w_p * product, and product = ±1 is its own inverse.
+        // invariant: unknown.len() == 1 was checked just above
         let p = unknown.pop().expect("one unknown prime");
         local.push((p.clone(), -global * product));
         local.sort();

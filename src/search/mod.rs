@@ -41,11 +41,12 @@ use std::time::Instant;
 ///
 /// ```
 /// use twofold::search::SearchLimits;
-/// let limits = SearchLimits { first_only: true, ..SearchLimits::new(100) };
+/// let limits = SearchLimits::new(100).with_first_only(true);
 /// assert_eq!(limits.height, 100);
 /// assert!(limits.deadline.is_none() && limits.cancel.is_none());
 /// ```
 #[derive(Clone, Debug, Default)]
+#[non_exhaustive]
 pub struct SearchLimits {
     /// The height bound.
     pub height: u64,
@@ -58,6 +59,21 @@ pub struct SearchLimits {
 }
 
 impl SearchLimits {
+    /// Stops (or not) after the first point found.
+    pub fn with_first_only(mut self, v: bool) -> Self {
+        self.first_only = v;
+        self
+    }
+    /// Sets the deadline.
+    pub fn with_deadline(mut self, v: std::time::Instant) -> Self {
+        self.deadline = Some(v);
+        self
+    }
+    /// Sets the cancellation flag.
+    pub fn with_cancel(mut self, v: std::sync::Arc<std::sync::atomic::AtomicBool>) -> Self {
+        self.cancel = Some(v);
+        self
+    }
     /// Limits with the given height, all points wanted, no deadline and no
     /// cancellation flag.
     ///

@@ -269,6 +269,7 @@ impl Sieve {
             let cq: Vec<u64> = form
                 .terms
                 .iter()
+                // invariant: a residue mod q < 2^64 is in [0, q) and fits a u64
                 .map(|(c, _, _)| u64::try_from(&c.mod_op(&qn)).expect("residue below q"))
                 .collect();
             let mut pw = [[1u64; MAX_DEGREE + 1]; 64];
@@ -317,6 +318,7 @@ impl Sieve {
                 found.push(Candidate { q, p, density, rows });
             }
         }
+        // invariant: densities are quotients of small positive counts, never NaN
         found.sort_by(|a, b| a.density.partial_cmp(&b.density).expect("densities are finite"));
 
         // Phase 2: build the rotated words for the most selective moduli,

@@ -102,6 +102,7 @@ impl Coeff for i128 {
         (self * o).rem_euclid(*p)
     }
     fn inv_mod(&self, p: &Self) -> Self {
+        // invariant: callers invert only units modulo the prime p
         crate::arith::inv_mod(*self as u64, *p as u64).expect("non-zero residue modulo a prime") as i128
     }
     fn legendre(&self, p: &Self) -> i32 {
@@ -136,6 +137,7 @@ impl Coeff for Integer {
     }
     fn rem_u64(&self, m: u64) -> u64 {
         let r = self.mod_op(Integer::from(m));
+        // invariant: a remainder mod m < 2^64 is in [0, m) and fits a u64
         u64::try_from(&r).expect("remainder below a word modulus")
     }
     fn div_exact(&self, m: &Self) -> Self {
@@ -148,8 +150,11 @@ impl Coeff for Integer {
         (self * o).mod_op(p)
     }
     fn inv_mod(&self, p: &Self) -> Self {
+        // invariant: residues are reduced into [0, p) before inversion
         let a = Natural::try_from(self).expect("residues are non-negative");
+        // invariant: the modulus is a positive prime
         let m = Natural::try_from(p).expect("the prime is positive");
+        // invariant: callers invert only units modulo the prime p
         Integer::from(a.mod_inverse(m).expect("non-zero residue modulo a prime"))
     }
     fn legendre(&self, p: &Self) -> i32 {

@@ -48,28 +48,28 @@ fn discriminant_word(g: &[Integer; 5]) -> Option<i128> {
 /// probable-prime test to the 13 prime bases up to 41, which is a proof
 /// below 3.3 * 10^24 (Sorenson and Webster, "Strong pseudoprimes to twelve
 /// prime bases", Math. Comp. 86 (2017)) and never rejects a prime.
-pub(crate) fn is_prime(p: &Natural) -> bool {
+///
+/// `memo` remembers the word-size primes proven recently: the same few
+/// places are asked about for millions of quartics.
+pub(crate) fn is_prime(p: &Natural, memo: &mut PrimeMemo) -> bool {
     if let Ok(w) = u64::try_from(p) {
         if w < 41 * 41 {
             // trial division inside is_prime_u64 settles these quickly
             return crate::arith::is_prime_u64(w);
         }
-        return RECENT_PRIMES.with(|cache| {
-            let mut c = cache.get();
-            if c.contains(&w) {
-                return true;
-            }
-            let ok = crate::arith::is_prime_u64(w);
-            if ok {
-                c.rotate_right(1);
-                c[0] = w;
-                cache.set(c);
-            }
-            ok
-        });
+        if memo.recent.contains(&w) {
+            return true;
+        }
+        let ok = crate::arith::is_prime_u64(w);
+        if ok {
+            memo.recent.rotate_right(1);
+            memo.recent[0] = w;
+        }
+        return ok;
     }
     let one = Natural::ONE;
     let pm1 = p - &one;
+    // invariant: p >= 2^64 in this branch, so p - 1 > 0
     let s = pm1.trailing_zeros().expect("p > 1");
     let d = &pm1 >> s;
     for b in [2u32, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41] {
@@ -96,10 +96,12 @@ pub(crate) fn is_prime(p: &Natural) -> bool {
     true
 }
 
-thread_local! {
-    /// Word primes verified recently on this thread (0 = empty slot); the
-    /// same few places are asked about for millions of quartics.
-    static RECENT_PRIMES: std::cell::Cell<[u64; 8]> = const { std::cell::Cell::new([0; 8]) };
+/// Word primes proven prime recently (0 = empty slot), most recent first:
+/// an explicit value owned by the caller (see `SolubilityWorkspace`), no
+/// hidden per-thread state.
+#[derive(Clone, Debug, Default)]
+pub(crate) struct PrimeMemo {
+    recent: [u64; 8],
 }
 
 // ---- polynomials over Q, lowest degree first, no trailing zeros ----
@@ -154,6 +156,7 @@ fn divrem(a: &[Rational], b: &[Rational]) -> (Vec<Rational>, Vec<Rational>) {
 }
 
 fn monic(f: &[Rational]) -> Vec<Rational> {
+    // invariant: callers pass trimmed, non-zero polynomials
     let l = f.last().expect("non-zero").clone();
     f.iter().map(|c| c / &l).collect()
 }
@@ -217,6 +220,7 @@ pub(crate) fn odd_part(g: &[Integer; 5]) -> Vec<Integer> {
     debug_assert!(k < 5, "g is not zero");
     // f(t) = g(t, 1) of degree 4 - k, lowest first
     let f: Vec<Rational> = (0..=4 - k).map(|j| Rational::from(g[4 - j].clone())).collect();
+    // invariant: f has 5 - k >= 1 entries: g is not zero (the callers check it)
     let lc = f.last().expect("non-zero").clone();
     let mut odd = vec![lc.clone()];
     if f.len() > 1 {
@@ -237,6 +241,7 @@ pub(crate) fn odd_part(g: &[Integer; 5]) -> Vec<Integer> {
     let mut r = vec![Integer::ZERO; n + 1];
     for (j, c) in odd.iter().enumerate() {
         let v = c * &sq;
+        // invariant: multiplying by the square of the lcm of the denominators clears them
         r[n - j] = Integer::try_from(v).expect("denominators cleared");
     }
     r

@@ -76,6 +76,28 @@ pub struct LocalWitness {
     pub z: Integer,
 }
 
+/// Scratch state for many local-solubility calls, kept apart from the
+/// inputs (in the manner of a regex cache beside its immutable pattern): it
+/// remembers the word-size primes already proven prime, so that a loop over
+/// thousands of quartics with the same places does not repeat the primality
+/// proofs. One workspace per thread; the plain functions
+/// ([`local_witness`], [`everywhere_locally_soluble`]) use a fresh one.
+///
+/// ```
+/// use malachite::{Integer, Natural};
+/// use twofold::solubility::{everywhere_locally_soluble_with, SolubilityWorkspace};
+/// let mut ws = SolubilityWorkspace::default();
+/// let primes = [Natural::from(2u32), Natural::from(17u32)];
+/// for g in [[2, 0, 0, 0, -34], [1, 0, 0, 0, 1]] {
+///     let g = g.map(Integer::from);
+///     assert!(everywhere_locally_soluble_with(&g, &primes, &mut ws).is_ok());
+/// }
+/// ```
+#[derive(Clone, Debug, Default)]
+pub struct SolubilityWorkspace {
+    primes: kernel::PrimeMemo,
+}
+
 /// The discriminant of the binary quartic `[a, b, c, d, e]`, computed as
 /// `(4 I^3 - J^2) / 27` from the invariants
 /// `I = 12ae - 3bd + c^2`, `J = 72ace + 9bcd - 27ad^2 - 27eb^2 - 2c^3`
@@ -109,7 +131,7 @@ pub fn quartic_discriminant(g: &[Integer; 5]) -> Integer {
 /// assert!(!is_p_adic_square(&Integer::from(20), &p(5)));  // odd valuation
 /// ```
 pub fn is_p_adic_square(n: &Integer, p: &Natural) -> bool {
-    if !kernel::is_prime(p) {
+    if !kernel::is_prime(p, &mut kernel::PrimeMemo::default()) {
         return false;
     }
     if *n == 0u32 {
@@ -122,6 +144,7 @@ fn p_adic_square_prime(n: &Integer, p: &Natural) -> bool {
     let pi = Integer::from(p.clone());
     let mut u = n.clone();
     if *p == 2u32 {
+        // invariant: n is non-zero here (zero is answered by the caller)
         let tz = (&u).unsigned_abs().trailing_zeros().expect("non-zero");
         u >>= tz;
         return tz.is_multiple_of(2) && (&u).mod_op(Integer::from(8)) == 1u32;
@@ -162,7 +185,7 @@ pub fn check_witness(g: &[Integer; 5], place: &Place, w: &LocalWitness) -> bool 
     let val = real::form_value(g, &w.x, &w.z);
     match place {
         Place::Real => val > 0u32,
-        Place::Prime(p) => kernel::is_prime(p) && val != 0u32 && p_adic_square_prime(&val, p),
+        Place::Prime(p) => kernel::is_prime(p, &mut kernel::PrimeMemo::default()) && val != 0u32 && p_adic_square_prime(&val, p),
     }
 }
 
@@ -191,15 +214,29 @@ pub fn check_witness(g: &[Integer; 5], place: &Place, w: &LocalWitness) -> bool 
 /// assert!(local_witness(&h, &Place::Prime(Natural::from(3u32))).is_none());
 /// ```
 pub fn local_witness(g: &[Integer; 5], place: &Place) -> Option<LocalWitness> {
-    witness_given_disc(g, place, &kernel::discriminant(g))
+    local_witness_with(g, place, &mut SolubilityWorkspace::default())
 }
 
-fn witness_given_disc(g: &[Integer; 5], place: &Place, disc: &Integer) -> Option<LocalWitness> {
+/// As [`local_witness`], reusing the scratch state `ws` across calls.
+///
+/// ```
+/// use malachite::{Integer, Natural};
+/// use twofold::solubility::{local_witness_with, Place, SolubilityWorkspace};
+/// let mut ws = SolubilityWorkspace::default();
+/// let place = Place::Prime(Natural::from(1_000_003u32));
+/// let g = [1, 0, 0, 0, 3].map(Integer::from);
+/// assert!(local_witness_with(&g, &place, &mut ws).is_some());
+/// ```
+pub fn local_witness_with(g: &[Integer; 5], place: &Place, ws: &mut SolubilityWorkspace) -> Option<LocalWitness> {
+    witness_given_disc(g, place, &kernel::discriminant(g), ws)
+}
+
+fn witness_given_disc(g: &[Integer; 5], place: &Place, disc: &Integer, ws: &mut SolubilityWorkspace) -> Option<LocalWitness> {
     if g.iter().all(|c| *c == 0u32) {
         return None;
     }
     if let Place::Prime(p) = place {
-        if !kernel::is_prime(p) {
+        if !kernel::is_prime(p, &mut ws.primes) {
             return None;
         }
     }
@@ -228,7 +265,7 @@ fn witness_given_disc(g: &[Integer; 5], place: &Place, disc: &Integer) -> Option
 /// ```
 pub fn try_local_witness(g: &[Integer; 5], place: &Place) -> Result<Option<LocalWitness>, Error> {
     if let Place::Prime(p) = place {
-        if !kernel::is_prime(p) {
+        if !kernel::is_prime(p, &mut kernel::PrimeMemo::default()) {
             return Err(Error::new(ErrorKind::InvalidValue, format!("the place {p} is not a prime")));
         }
     }
@@ -287,11 +324,21 @@ pub fn is_locally_soluble(g: &[Integer; 5], place: &Place) -> bool {
 /// );
 /// ```
 pub fn everywhere_locally_soluble(g: &[Integer; 5], primes: &[Natural]) -> Result<Vec<(Place, LocalWitness)>, Place> {
+    everywhere_locally_soluble_with(g, primes, &mut SolubilityWorkspace::default())
+}
+
+/// As [`everywhere_locally_soluble`], reusing the scratch state `ws` across
+/// calls (see [`SolubilityWorkspace`]).
+pub fn everywhere_locally_soluble_with(
+    g: &[Integer; 5],
+    primes: &[Natural],
+    ws: &mut SolubilityWorkspace,
+) -> Result<Vec<(Place, LocalWitness)>, Place> {
     let disc = kernel::discriminant(g);
     let mut out = Vec::with_capacity(primes.len() + 1);
     let places = std::iter::once(Place::Real).chain(primes.iter().map(|p| Place::Prime(p.clone())));
     for place in places {
-        match witness_given_disc(g, &place, &disc) {
+        match witness_given_disc(g, &place, &disc, ws) {
             Some(w) => out.push((place, w)),
             None => return Err(place),
         }
@@ -330,6 +377,7 @@ fn form_hit(form: &[Integer], place: &Place, disc_sign: Option<std::cmp::Orderin
                     }
                 }
                 if fits {
+                    // invariant: p < 2^62 was checked just above
                     let pw = i128::from(u64::try_from(p).expect("below 2^62"));
                     if let Ok(hit) = padic::padic_hit(&words[..form.len()], pw, p) {
                         return hit.map(Hit::Padic);
@@ -339,6 +387,7 @@ fn form_hit(form: &[Integer], place: &Place, disc_sign: Option<std::cmp::Orderin
             let pi = Integer::from(p.clone());
             match padic::padic_hit(form, pi, p) {
                 Ok(hit) => hit.map(Hit::Padic),
+                // invariant: the Integer instance of Coeff never reports overflow
                 Err(padic::Overflow) => unreachable!("Integer arithmetic does not overflow"),
             }
         }
@@ -359,6 +408,7 @@ fn degenerate_witness(g: &[Integer; 5], place: &Place) -> Option<LocalWitness> {
     let nonzero = |w: &LocalWitness| real::form_value(g, &w.x, &w.z) != 0u32;
     match form_hit(&r, place, None)? {
         Hit::Padic(h) => {
+            // invariant: form_hit gives a p-adic hit only at a Prime place
             let Place::Prime(p) = place else { unreachable!("p-adic hit at a prime") };
             let step = Integer::from(p.clone()).pow(u64::from(h.radius));
             // g has at most four zeros on P^1, so five distinct points of the
@@ -370,6 +420,7 @@ fn degenerate_witness(g: &[Integer; 5], place: &Place) -> Option<LocalWitness> {
                     return Some(w);
                 }
             }
+            // invariant: a non-zero quartic form has at most four zeros on P^1, so one of five points is not a zero
             unreachable!("a quartic form has at most four zeros on P^1")
         }
         Hit::Real(x, z) => {

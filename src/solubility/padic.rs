@@ -127,6 +127,7 @@ pub(crate) fn search_with_depth<C: Coeff>(
     for i in 2..5 {
         pw[i] = pw[i - 1].as_ref().and_then(|q| q.mul(&p));
     }
+    // invariant: p_nat is below exhaustive_below, a u64, in this branch
     let small_val = if *p_nat < exhaustive_below { Some(u64::try_from(p_nat).expect("small prime")) } else { None };
     let two = small_val == Some(2);
     let mut qr_mask = 0u64;
@@ -310,6 +311,7 @@ impl<C: Coeff> Search<'_, C> {
                 if simple[i] != want_simple {
                     continue;
                 }
+                // invariant: every slot i < nroots was filled by the root finder above
                 let s = roots[i].clone().expect("root slot filled");
                 let (next, delta) = self.descend(h, &s)?;
                 if self.explore(&next, odd ^ (delta % 2 == 1), level + 1)? {
@@ -383,10 +385,12 @@ pub(crate) mod fp {
     }
 
     fn addm<C: Coeff>(a: &C, b: &C, p: &C) -> C {
+        // invariant: both residues are below p, whose double fits the coefficient type (checked by the caller's width choice)
         a.add(b).expect("residue sums fit").rem(p)
     }
 
     fn subm<C: Coeff>(a: &C, b: &C, p: &C) -> C {
+        // invariant: both residues are below p, so the difference fits the coefficient type
         a.sub(b).expect("residue differences fit").rem(p)
     }
 
@@ -405,6 +409,7 @@ pub(crate) mod fp {
     }
 
     fn monic<C: Coeff>(a: &[C], p: &C) -> Vec<C> {
+        // invariant: callers pass trimmed, non-zero polynomials
         let inv = a.last().expect("non-zero polynomial").inv_mod(p);
         a.iter().map(|c| c.mul_mod(&inv, p)).collect()
     }

@@ -146,6 +146,7 @@ fn variations(signs: impl Iterator<Item = Ordering>) -> usize {
 }
 
 fn lead_sign(p: &[Integer], at_minus_infinity: bool) -> Ordering {
+    // invariant: Sturm sequence members are trimmed, non-zero polynomials
     let s = p.last().expect("non-zero").sign();
     if at_minus_infinity && (p.len() - 1) % 2 == 1 {
         s.reverse()
@@ -189,6 +190,7 @@ pub(crate) fn real_positive_point(c: &[Integer], disc_sign: Option<Ordering>) ->
     }
     // f(t) = form(t, 1), coefficients lowest first
     let f_int: Vec<Integer> = (0..=n).map(|j| c[n - j].clone()).collect();
+    // invariant: n >= 1 here, so f_int has n + 1 >= 2 entries
     let bound: Natural = f_int.iter().map(|a| a.unsigned_abs()).max().expect("non-empty") + Natural::from(2u32);
     let bound = Integer::from(bound);
     if c[0] == 0u32 {
@@ -229,6 +231,7 @@ pub(crate) fn real_positive_point(c: &[Integer], disc_sign: Option<Ordering>) ->
 pub(crate) fn sturm_point(c: &[Integer]) -> Option<(Integer, Integer)> {
     let n = c.len() - 1;
     let f_int: Vec<Integer> = (0..=n).map(|j| c[n - j].clone()).collect();
+    // invariant: c has degree n >= 0, so f_int has n + 1 >= 1 entries
     let bound: Natural = f_int.iter().map(|a| a.unsigned_abs()).max().expect("non-empty") + Natural::from(2u32);
     let bound = Integer::from(bound);
     let chain = sturm_chain(&f_int);

@@ -38,12 +38,12 @@ fn primality_of_large_places() {
     let m = |e: u64| Natural::power_of_2(e) - Natural::from(1u32);
     // Mersenne primes 2^89 - 1, 2^107 - 1, 2^127 - 1 (OEIS A000043)
     for e in [89u64, 107, 127] {
-        assert!(kernel::is_prime(&m(e)));
+        assert!(kernel::is_prime(&m(e), &mut kernel::PrimeMemo::default()));
     }
     // 2^67 - 1 = 193707721 * 761838257287 (Cole 1903)
-    assert!(!kernel::is_prime(&m(67)));
-    assert!(!kernel::is_prime(&(Natural::from(1_000_000_007u64) * Natural::from(998_244_353u64) * Natural::from(3u32))));
-    assert!(!kernel::is_prime(&Natural::from(0u32)) && !kernel::is_prime(&Natural::from(1u32)));
+    assert!(!kernel::is_prime(&m(67), &mut kernel::PrimeMemo::default()));
+    assert!(!kernel::is_prime(&(Natural::from(1_000_000_007u64) * Natural::from(998_244_353u64) * Natural::from(3u32)), &mut kernel::PrimeMemo::default()));
+    assert!(!kernel::is_prime(&Natural::from(0u32), &mut kernel::PrimeMemo::default()) && !kernel::is_prime(&Natural::from(1u32), &mut kernel::PrimeMemo::default()));
 }
 
 #[test]

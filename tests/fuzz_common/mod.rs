@@ -172,7 +172,7 @@ pub fn check_parser(text: &str) -> Result<(), String> {
 /// The batch on a few lines of text (the rank example's line handling in
 /// the library): exactly one item per line, in input order, no panic.
 pub fn check_lines(lines: &[String], budget: Duration) -> Result<(), String> {
-    let opts = twofold::BatchOptions::new(RankOptions { evidence: false, ..RankOptions::default() }.with_time_limit(budget))
+    let opts = twofold::BatchOptions::new(RankOptions::default().with_evidence(false).with_time_limit(budget))
         .with_threads(1);
     let out = catch_unwind(AssertUnwindSafe(|| twofold::analyse_batch(lines, &opts)))
         .map_err(|p| format!("batch panicked on {lines:?}: {}", panic_text(p)))?;
@@ -271,7 +271,7 @@ fn check_report(c: &Curve, r: &RankReport) -> Result<(), String> {
 /// `lower <= upper`, and, when neither run was cut short, the same bounds,
 /// Selmer dimensions, conductor and torsion.
 pub fn check_curve(c: &Curve, rng: &mut Rng, budget: Duration, evidence: bool, stats: &mut CurveStats) -> Result<(), String> {
-    let opts = RankOptions { evidence, ..RankOptions::default() }.with_time_limit(budget);
+    let opts = RankOptions::default().with_evidence(evidence).with_time_limit(budget);
     let (r1, t1) = timed_analyse(c, &opts, budget, stats)?;
     stats.slowest = stats.slowest.max(t1);
     let ch = random_change(rng);
@@ -389,7 +389,7 @@ pub fn check_quartic(g: &Quartic, rng: &mut Rng) -> Result<bool, String> {
 /// and a few word-size functions on random arguments.
 pub fn check_numbers(rng: &mut Rng, digits: u32, budget: Duration) -> Result<(), String> {
     let n = rng.integer(digits);
-    let limits = twofold::arith::FactorLimits { deadline: Some(Instant::now() + budget), cancel: None };
+    let limits = twofold::arith::FactorLimits::default().with_deadline(Instant::now() + budget);
     let cpu0 = process_cpu();
     let t = Instant::now();
     let r = catch_unwind(AssertUnwindSafe(|| {
