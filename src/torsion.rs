@@ -139,6 +139,10 @@ pub fn order_bound(curve: &Curve) -> u64 {
     g
 }
 
+/// Nagell-Lutz candidates tried before the torsion computation looks at the
+/// `Work` (a few milliseconds of work).
+const TORSION_UNCHECKED: usize = 1024;
+
 /// The points with Nagell-Lutz coordinates on the short model, mapped back
 /// to `curve` (a superset of the torsion). `bound` is the order bound, for
 /// the message of a cut-short run.
@@ -180,7 +184,10 @@ fn nagell_lutz_points(curve: &Curve, bad_primes: &[Natural], work: &Work, bound:
     let mut out: Vec<Point> = Vec::new();
     let total = ys.len();
     for (k, y) in ys.into_iter().enumerate() {
-        if k % 64 == 63 && work.exhausted() {
+        // the first candidates run unchecked (a few milliseconds at most), so
+        // that every ordinary curve gets its torsion even on a spent budget;
+        // beyond them the work is looked at every 64 candidates
+        if k >= TORSION_UNCHECKED && k % 64 == 0 && work.exhausted() {
             let known = out.iter().filter(|p| curve.torsion_order_of(p).is_some()).count() + 1;
             return Err(Error::new(
                 ErrorKind::Budget,
