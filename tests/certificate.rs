@@ -249,6 +249,9 @@ fn rejects_an_unsupported_lower_bound() {
     let mut bad = c.clone();
     bad.points.clear();
     bad.quartic.as_mut().unwrap().classes.iter_mut().for_each(|cl| cl.lift = None);
+    // the analytic record alone still proves rank 1 (L'(E,1) != 0, recomputed)
+    assert_eq!(verify(&bad).unwrap().analytic_rank, Some(1));
+    bad.analytic = None;
     assert!(rejected(&bad));
     // and a claimed upper bound below the Selmer bound is refused (y^2 + y = x^3 + x^2 - 2x, rank 2)
     let c = certificate([0, 1, 1, -2, 0]);

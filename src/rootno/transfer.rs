@@ -56,31 +56,36 @@ pub(crate) fn auxiliary(setup: &Setup, limits: &FactorLimits) -> Result<Option<S
     let c4 = e.c4();
     let c6 = e.c6();
     let zero = Integer::from(0);
+    let mut primes: Vec<Natural> = setup.bad.iter().map(|(p, _, _)| p.clone()).collect();
     let aux = if *c4 == 0u32 {
         // j = 0: E ≅ y^2 = x^3 + k with k = -54 c6
         let k = Integer::from(-54) * c6;
         let k2 = reduce_class(&k, 6, 72);
+        // the discriminant -432 k'^2 is small: its primes by trial division
+        primes.extend(small_prime_factors(&k2));
         Curve::new([zero.clone(), zero.clone(), zero.clone(), zero, k2])
     } else if *c6 == 0u32 {
         // j = 1728: E ≅ y^2 = x^3 + A x with A = -27 c4
         let a = Integer::from(-27) * c4;
         let a2 = reduce_class(&a, 4, 48);
+        primes.extend(small_prime_factors(&a2));
         Curve::new([zero.clone(), zero.clone(), zero.clone(), a2, zero])
     } else {
-        let Some(d) = best_twist(setup) else { return Ok(None) };
+        // the discriminant is 6^12 d^6 Δ: the bad primes, 2, 3 and those of d
+        let Some((d, d_primes)) = best_twist(setup) else { return Ok(None) };
+        primes.extend(d_primes.into_iter().map(Natural::from));
         let a4 = Integer::from(-27) * (&d).pow(2) * c4;
         let a6 = Integer::from(-54) * (&d).pow(3) * c6;
         Curve::new([zero.clone(), zero.clone(), zero, a4, a6])
     }
     .map_err(|_| internal("the auxiliary twist is singular"))?;
-    let mut primes: Vec<Natural> = setup.bad.iter().map(|(p, _, _)| p.clone()).collect();
-    let f = crate::arith::factor(aux.discriminant(), limits)?;
-    for p in f.primes() {
-        if !primes.contains(p) {
-            primes.push(p.clone());
-        }
+    if limits.deadline.is_some_and(|t| std::time::Instant::now() >= t) {
+        return Ok(None);
     }
+    primes.push(Natural::from(2u32));
+    primes.push(Natural::from(3u32));
     primes.sort();
+    primes.dedup();
     let aux_setup = Setup::with_primes(&aux, &primes)?;
     if aux_setup.conductor >= setup.conductor {
         return Ok(None);
@@ -101,9 +106,29 @@ fn reduce_class(x: &Integer, n: u32, modulus: i64) -> Integer {
     Integer::from(2).pow(u64::from(a % n)) * Integer::from(3).pow(u64::from(b % n)) * Integer::from(m)
 }
 
+/// The prime factors of a small non-zero integer (`|m| < 2^64`, trial division).
+fn small_prime_factors(m: &Integer) -> Vec<Natural> {
+    let mut n = u64::try_from(&malachite::base::num::arithmetic::traits::UnsignedAbs::unsigned_abs(m)).unwrap_or(0);
+    let mut out = Vec::new();
+    let mut p = 2u64;
+    while n > 1 && p * p <= n {
+        if n % p == 0 {
+            out.push(Natural::from(p));
+            while n % p == 0 {
+                n /= p;
+            }
+        }
+        p += 1;
+    }
+    if n > 1 {
+        out.push(Natural::from(n));
+    }
+    out
+}
+
 /// The integer `d ≡ 1 (mod 24)` for which the twist `E^d` has the least
-/// conductor, if that is below the conductor of `E`.
-fn best_twist(setup: &Setup) -> Option<Integer> {
+/// conductor, if that is below the conductor of `E`, with its primes.
+fn best_twist(setup: &Setup) -> Option<(Integer, Vec<u64>)> {
     // additive primes q >= 5 with the change of log N when twisting by q
     let mut choice: Vec<(u64, f64)> = setup
         .bad
@@ -151,13 +176,15 @@ fn best_twist(setup: &Setup) -> Option<Integer> {
         return None;
     }
     let mut d = Integer::from(sign) * Integer::from(r);
+    let mut d_primes = if r == 1 { vec![] } else { vec![r] };
     for (i, (q, _)) in choice.iter().enumerate() {
         if mask >> i & 1 == 1 {
             d *= Integer::from(*q);
+            d_primes.push(*q);
         }
     }
     debug_assert!(d.clone().mod_op(Integer::from(24)) == 1u32);
-    Some(d)
+    Some((d, d_primes))
 }
 
 /// The product `w_2 w_3` over the primes of `unknown` (a subset of {2, 3})
