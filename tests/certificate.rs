@@ -249,6 +249,9 @@ fn rejects_an_unsupported_lower_bound() {
     let mut bad = c.clone();
     bad.points.clear();
     bad.quartic.as_mut().unwrap().classes.iter_mut().for_each(|cl| cl.lift = None);
+    // the analytic record alone still proves rank 1 (L'(E,1) != 0, recomputed)
+    assert_eq!(verify(&bad).unwrap().analytic_rank, Some(1));
+    bad.analytic = None;
     assert!(rejected(&bad));
     // and a claimed upper bound below the Selmer bound is refused (y^2 + y = x^3 + x^2 - 2x, rank 2)
     let c = certificate([0, 1, 1, -2, 0]);
@@ -294,5 +297,51 @@ fn damaged_text_never_panics() {
                 }
             }
         }
+    }
+}
+
+/// The analytic part: y^2 + y = x^3 - x (rank 1, w = -1) and
+/// y^2 + y = x^3 - x^2 - 10x - 20 (rank 0, w = +1) from the published table
+/// (Cremona 1997); y^2 + xy + y = x^3 + x^2 - 352x - 2689 of the Sha table
+/// (rank 0, #Sha = 4, published), whose rank only the analytic route
+/// proves. The record verifies by recomputation; a flipped root number, a
+/// changed local root number or a moved enclosure is rejected.
+#[test]
+fn analytic_record_verifies_and_tampering_fails() {
+    for (a, rank) in [([0, 0, 1, -1, 0], 1usize), ([0, -1, 1, -10, -20], 0), ([1, 1, 1, -352, -2689], 0)] {
+        let c = certificate(a);
+        let rec = c.analytic.clone().unwrap_or_else(|| panic!("{a:?}: no analytic record"));
+        assert_eq!(usize::from(rec.order), rank);
+        assert_eq!(rec.root_number, if rank == 1 { -1 } else { 1 });
+        let v = verify(&c).unwrap();
+        assert_eq!(v.analytic_rank, Some(rank));
+        assert_eq!(v.rank(), Some(rank), "{a:?}");
+        assert!(v.theorems.iter().any(|t| t.contains("Kolyvagin")));
+        assert_eq!(Certificate::from_text(&c.to_text()).unwrap(), c);
+        // the root number flipped
+        let mut bad = c.clone();
+        bad.analytic.as_mut().unwrap().root_number *= -1;
+        assert!(rejected(&bad), "{a:?}");
+        // a local root number flipped
+        let mut bad = c.clone();
+        if let Some(e) = bad.analytic.as_mut().unwrap().local_root_numbers.first_mut() {
+            e.1 *= -1;
+            assert!(rejected(&bad), "{a:?}");
+        }
+        // the enclosure moved off the value
+        let mut bad = c.clone();
+        let r = bad.analytic.as_mut().unwrap();
+        let high: f64 = r.high.parse().unwrap();
+        r.low = format!("{}", high * 2.0 + 1.0);
+        r.high = format!("{}", high * 2.0 + 2.0);
+        assert!(rejected(&bad), "{a:?}");
+        // an enclosure containing zero proves nothing
+        let mut bad = c.clone();
+        bad.analytic.as_mut().unwrap().low = "-1".into();
+        assert!(rejected(&bad), "{a:?}");
+        // the wrong order
+        let mut bad = c.clone();
+        bad.analytic.as_mut().unwrap().order ^= 1;
+        assert!(rejected(&bad), "{a:?}");
     }
 }

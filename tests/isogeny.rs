@@ -135,3 +135,41 @@ fn bounds_are_model_invariant() {
     }
     let _ = Integer::from(0);
 }
+
+/// Sha(E)[phi] and Sha(E')[phi'] from the isogeny Selmer groups on the
+/// curves with even torsion order of the Sha list and every fourth such
+/// curve of the small table (published ranks and Sha orders: Cremona 1997
+/// and the Sha list, tests/data/README.md). Group theory gives the checks:
+/// Sha(E)[phi] is a subgroup of Sha(E), so 2^dim divides the published
+/// order; and phi maps Sha(E)[2] into Sha(E')[phi'] with kernel
+/// Sha(E)[phi], so dim Sha(E)[2] <= dim Sha(E)[phi] + dim Sha(E')[phi'],
+/// where dim Sha(E)[2] >= 1 whenever 4 divides the published order (the
+/// order of a finite Sha is a square: Cassels 1962).
+#[test]
+fn isogeny_sha_against_published_sha_orders() {
+    let mut rows: Vec<common::Row> = common::read_table("curves-with-sha.tsv").into_iter().filter(|r| r.torsion_order % 2 == 0).collect();
+    rows.extend(common::read_table("curves-small-conductor.tsv").into_iter().filter(|r| r.torsion_order % 2 == 0).step_by(4));
+    let (mut known, mut nontrivial) = (0, 0);
+    for r in &rows {
+        let e = Curve::from_coefficients(r.coefficients).unwrap();
+        let rep = analyse(&e, &RankOptions::default()).unwrap();
+        assert_eq!(rep.rank(), Some(r.rank), "{:?}", r.coefficients);
+        let sha = r.sha_order.unwrap_or(1);
+        for &(d, d2) in &rep.isogeny_sha_dims {
+            known += 1;
+            assert_eq!(sha % (1u64 << d), 0, "{:?}: dim Sha(E)[phi] = {d}, published #Sha = {sha}", r.coefficients);
+            if sha % 4 == 0 {
+                assert!(d + d2 >= 1, "{:?}: published #Sha = {sha} but both Sha[phi] trivial", r.coefficients);
+                nontrivial += 1;
+            }
+            if let Some(s2) = rep.sha2_dim {
+                assert!(d + d2 >= s2, "{:?}: dim Sha[2] = {s2} > {d} + {d2}", r.coefficients);
+            }
+        }
+        if !rep.isogeny_sha_dims.is_empty() {
+            assert_eq!(rep.isogeny_sha_dims.len(), rep.isogeny_runs.len());
+        }
+    }
+    eprintln!("isogeny Sha dimensions known for {known} isogenies, {nontrivial} on curves with 4 | #Sha");
+    assert!(known > 20 && nontrivial > 0, "{known} {nontrivial}");
+}

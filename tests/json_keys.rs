@@ -31,6 +31,7 @@ fn json_keys_of_a_full_report() {
         "descent_curve",
         "analytic_route",
         "sha2_order",
+        "isogeny_sha_dims",
         "points",
         "sha_suspects",
         "root_number",

@@ -63,6 +63,7 @@ class Report(TypedDict):
     descent_curve: Optional[DescentCurve]
     analytic_route: Optional[AnalyticRoute]
     sha2_order: Optional[str]
+    isogeny_sha_dims: Optional[List[List[int]]]
     points: List[List[str]]
     sha_suspects: List[ShaSuspect]
     root_number: Optional[int]

@@ -302,7 +302,39 @@ pub struct Certificate {
     pub isogeny: Vec<IsogenyProof>,
     /// The full 2-descent, when it ran.
     pub quartic: Option<QuarticProof>,
+    /// The analytic part of the proof, when the analytic route proved the
+    /// rank (an L-value enclosure that excludes zero).
+    pub analytic: Option<AnalyticRecord>,
 }
+
+/// The analytic part of a rank proof: the enclosure of `L(E,1)` (rank 0)
+/// or `L'(E,1)` (rank 1) that excludes zero, how it was computed, and the
+/// root number with its local factors. [`verify`] recomputes the root
+/// number from the local data and the enclosure from the curve, and only
+/// checks these records against its own results.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct AnalyticRecord {
+    /// 0 for `L(E,1)`, 1 for `L'(E,1)`; the rank this proves.
+    pub order: u8,
+    /// The number of terms of the series summed.
+    pub terms: u64,
+    /// The conductor.
+    pub conductor: Natural,
+    /// The global root number.
+    pub root_number: i8,
+    /// The local root numbers at the bad primes that are known separately
+    /// (see [`crate::rootno::RootNumber::local`]).
+    pub local_root_numbers: Vec<(Natural, i8)>,
+    /// The lower end of the enclosure (a decimal string).
+    pub low: String,
+    /// The upper end of the enclosure (a decimal string).
+    pub high: String,
+    /// The theorem that turns the non-zero value into the rank.
+    pub theorem: String,
+}
+
+/// The theorem behind an analytic proof of the rank.
+pub(crate) const ANALYTIC_THEOREM: &str = "Gross-Zagier 1986 and Kolyvagin 1988-1990 with modularity (Wiles 1995, Taylor-Wiles 1995, Breuil-Conrad-Diamond-Taylor 2001)";
 
 
 /// The precision of a local point (see [`LocalPoint`]).
@@ -397,16 +429,45 @@ impl Certificate {
             minimal: minimal.coefficients().clone(),
             change: [change.u.clone(), change.r.clone(), change.s.clone(), change.t.clone()],
             primes,
-            // the certificate records what the descent proved; an analytic
-            // proof of the rank is not part of it
+            // the descent's bounds; an analytic proof is in `analytic`
             rank_lower: report.descent_bounds.0,
             rank_upper: report.descent_bounds.1,
             torsion,
             points,
             isogeny,
             quartic,
+            analytic: analytic_record(report, work)?,
         })
     }
+}
+
+/// The analytic record of a report whose analytic route proved the rank.
+fn analytic_record(report: &RankReport, work: &Work) -> Result<Option<AnalyticRecord>, Error> {
+    let Some(a) = &report.analytic else { return Ok(None) };
+    let (Some(v), Some(w)) = (&a.value, a.root_number) else { return Ok(None) };
+    if !v.nonzero_proven() {
+        return Ok(None);
+    }
+    let primes: Vec<Natural> = report.local.iter().map(|l| l.prime.clone()).collect();
+    let data = crate::local::CurveData::with_known_primes_within(&report.minimal, &primes, work)?;
+    let rn = crate::rootno::root_number_of(&data, &crate::arith::FactorLimits::within(work))?;
+    if rn.global != w {
+        return Err(Error::internal(
+            "certificate",
+            format!("the analytic route's root number {w} differs from the local one {}", rn.global),
+        ));
+    }
+    let (low, high) = v.decimal_bounds();
+    Ok(Some(AnalyticRecord {
+        order: v.order,
+        terms: v.terms,
+        conductor: data.conductor().clone(),
+        root_number: w,
+        local_root_numbers: rn.local,
+        low,
+        high,
+        theorem: ANALYTIC_THEOREM.to_string(),
+    }))
 }
 
 /// `x0` and `u` of the side model for the kernel point `t` (the same

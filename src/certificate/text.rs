@@ -4,7 +4,7 @@
 
 use super::verify::{place_name, CertificateError};
 use super::{
-    CertPoint, Certificate, IsogenyProof, LocalPoint, LocalTable, Lift, QuarticProof, SelmerClass, SideImage, SideProof,
+    AnalyticRecord, CertPoint, Certificate, IsogenyProof, LocalPoint, LocalTable, Lift, QuarticProof, SelmerClass, SideImage, SideProof,
 };
 use crate::solubility::Place;
 use malachite::{Integer, Natural, Rational};
@@ -51,6 +51,8 @@ impl Certificate {
     ///   descent_curve a1 a2 a3 a4 a6 degree   (only when the quartics cover an odd-isogenous curve)
     ///   class - a b c d e           local place x z precision   lift x z y X Y
     ///   ruled a b c d e place
+    /// analytic order terms conductor root_number low high theorem...
+    ///   rootlocal p w_p
     /// end
     /// ```
     ///
@@ -122,6 +124,16 @@ impl Certificate {
                 let _ = writeln!(out, "ruled {} {}", join(g), place_name(pl));
             }
         }
+        if let Some(a) = &self.analytic {
+            let _ = writeln!(
+                out,
+                "analytic {} {} {} {} {} {} {}",
+                a.order, a.terms, a.conductor, a.root_number, a.low, a.high, a.theorem
+            );
+            for (p, w) in &a.local_root_numbers {
+                let _ = writeln!(out, "rootlocal {p} {w}");
+            }
+        }
         out.push_str("end\n");
         out
     }
@@ -145,6 +157,7 @@ struct Parser {
     points: Vec<CertPoint>,
     runs: Vec<(IsogenyProof, Vec<SideProof>)>,
     quartic: Option<QuarticProof>,
+    analytic: Option<AnalyticRecord>,
     in_quartic: bool,
     ended: bool,
 }
@@ -360,6 +373,32 @@ impl Parser {
                 let pl = place(f[5])?;
                 self.quartic.as_mut().ok_or("a ruled-out quartic outside the quartic section")?.ruled_out.push((g, pl));
             }
+            "analytic" => {
+                if f.len() < 7 {
+                    return Err(format!("expected at least 7 fields, found {}", f.len()));
+                }
+                if self.analytic.is_some() {
+                    return Err("a second analytic record".into());
+                }
+                for b in [f[4], f[5]] {
+                    num::<f64>(b)?;
+                }
+                self.analytic = Some(AnalyticRecord {
+                    order: num(f[0])?,
+                    terms: num(f[1])?,
+                    conductor: num(f[2])?,
+                    root_number: num(f[3])?,
+                    local_root_numbers: vec![],
+                    low: f[4].to_string(),
+                    high: f[5].to_string(),
+                    theorem: f[6..].join(" "),
+                });
+            }
+            "rootlocal" => {
+                arity(&f, 2)?;
+                let e = (num(f[0])?, num(f[1])?);
+                self.analytic.as_mut().ok_or("a local root number outside the analytic record")?.local_root_numbers.push(e);
+            }
             "end" => {
                 arity(&f, 0)?;
                 self.ended = true;
@@ -388,6 +427,7 @@ impl Parser {
             points: self.points,
             isogeny,
             quartic: self.quartic,
+            analytic: self.analytic,
         })
     }
 }

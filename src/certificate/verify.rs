@@ -5,7 +5,7 @@ use super::check::{
     real_negative, split, square_class_vector, LocalAnswer, Model,
 };
 use super::check::{cubic_mod, cubic_rootless_somewhere, eval_cubic, legendre_u64, modq, pow_mod, small_primes};
-use super::{Certificate, IsogenyProof, LocalPoint, QuarticProof, SideProof};
+use super::{AnalyticRecord, Certificate, IsogenyProof, LocalPoint, QuarticProof, SideProof};
 use crate::solubility::Place;
 use malachite::base::num::arithmetic::traits::{Gcd, Mod, UnsignedAbs};
 use malachite::base::num::basic::traits::{One, Zero};
@@ -66,6 +66,10 @@ pub enum UpperBoundBasis {
     /// points), the ruled-out quartics re-checked, but the completeness of the
     /// quartic enumeration is taken on trust.
     QuarticSelmerTrustingEnumeration,
+    /// The analytic rank (0 or 1), from an enclosure of `L(E,1)` or
+    /// `L'(E,1)` that excludes zero and the root number, both recomputed
+    /// (Gross-Zagier, Kolyvagin, modularity).
+    Analytic,
 }
 
 /// The outcome of [`verify`]: the bounds the certificate proves, and what
@@ -107,6 +111,8 @@ pub struct VerifiedClaims {
     pub trusted: Vec<String>,
     /// Published theorems the conclusions rest on.
     pub theorems: Vec<String>,
+    /// The rank proven by the analytic record, recomputed (0 or 1).
+    pub analytic_rank: Option<usize>,
 }
 
 impl VerifiedClaims {
@@ -407,6 +413,22 @@ pub fn verify(c: &Certificate) -> Result<VerifiedClaims, CertificateError> {
             theorems.push("y^2 = g(x,z) is soluble at odd primes not dividing its discriminant (Hasse-Weil bound and Hensel's lemma)".to_string());
         }
     }
+    // ---- the analytic part ----
+    let mut analytic_rank = None;
+    if let Some(a) = &c.analytic {
+        let r = verify_analytic(c, a)?;
+        if lower > r {
+            return reject(format!("the points give rank >= {lower} but the analytic record proves rank {r}"));
+        }
+        lower = r;
+        keep_upper(r, UpperBoundBasis::Analytic, &mut upper);
+        if upper.is_some_and(|u| u.0 < r) {
+            return reject(format!("the descent's upper bound is below the analytic rank {r}"));
+        }
+        analytic_rank = Some(r);
+        theorems.push(format!("a non-zero L(E,1) gives rank 0 and a non-zero L'(E,1) with root number -1 gives rank 1 ({})", a.theorem));
+        theorems.push("the root number is the product of the local root numbers and -1 at the real place (Deligne); local formulas: Rohrlich 1993 for p >= 5, the multiplicative and potentially multiplicative cases, the twist and tame cases at 2 and 3".to_string());
+    }
     // ---- the claims ----
     if let Some(cl) = c.rank_lower {
         if cl > lower {
@@ -437,7 +459,54 @@ pub fn verify(c: &Certificate) -> Result<VerifiedClaims, CertificateError> {
         classes_explained: ctx.explained,
         trusted: ctx.trusted,
         theorems,
+        analytic_rank,
     })
+}
+
+/// Rechecks the analytic record: the conductor and the root number with its
+/// local factors recomputed from the minimal model and the listed primes,
+/// and the enclosure recomputed from the curve; the recorded enclosure must
+/// meet the recomputed one and exclude zero. Returns the rank it proves.
+fn verify_analytic(c: &Certificate, a: &AnalyticRecord) -> Result<usize, CertificateError> {
+    let failed = |what: &str, e: crate::error::Error| CertificateError::Rejected(format!("{what}: {e}"));
+    let curve = crate::curve::Curve::new(c.minimal.clone()).map_err(|e| failed("the minimal model", e))?;
+    let data = crate::local::CurveData::with_known_primes(&curve, &c.primes).map_err(|e| failed("the local data", e))?;
+    if *data.conductor() != a.conductor {
+        return reject(format!("the recorded conductor {} is not the conductor {}", a.conductor, data.conductor()));
+    }
+    let rn = crate::rootno::root_number_of(&data, &crate::arith::FactorLimits::default()).map_err(|e| failed("the root number", e))?;
+    if rn.global != a.root_number {
+        return reject(format!("the recorded root number {} is not the root number {}", a.root_number, rn.global));
+    }
+    if rn.local != a.local_root_numbers {
+        return reject("the recorded local root numbers differ from the recomputed ones");
+    }
+    let order = if rn.global == 1 { 0u8 } else { 1 };
+    if a.order != order {
+        return reject(format!("the recorded order {} does not match the root number {}", a.order, rn.global));
+    }
+    let (low, high) = match (a.low.parse::<f64>(), a.high.parse::<f64>()) {
+        (Ok(l), Ok(h)) if l <= h => (l, h),
+        _ => return reject("the recorded enclosure is not an interval"),
+    };
+    if low <= 0.0 && high >= 0.0 {
+        return reject("the recorded enclosure does not exclude zero");
+    }
+    let proof = crate::lproof::prove_analytic_rank_of(&data, &crate::budget::Work::unlimited())
+        .map_err(|e| failed("the L-value recomputation", e))?;
+    if proof.root_number.sign != Some(rn.global) {
+        return reject("the functional-equation test does not reproduce the root number");
+    }
+    let Some(v) = proof.value else { return reject("the L-value was not recomputed") };
+    if v.order != order || !v.nonzero_proven() {
+        return reject("the recomputed enclosure does not exclude zero");
+    }
+    // both are enclosures of the same number (the recorded ends are decimal,
+    // read to the nearest f64: allow one ulp)
+    if low.next_down() > v.high || high.next_up() < v.low {
+        return reject(format!("the recorded enclosure [{}, {}] misses the recomputed [{}, {}]", a.low, a.high, v.low, v.high));
+    }
+    Ok(usize::from(order))
 }
 
 /// The F2 rank of the images of `rows` under the quadratic characters

@@ -68,6 +68,12 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
             RootNumberMethod::LocalAndNumerical => {
                 proven(format!("the root number is {w} ({local}; the functional equation tested numerically agrees)"))
             }
+            RootNumberMethod::Transferred { auxiliary, auxiliary_conductor, .. } => proven(format!(
+                "the root number is {w} ({local}; at 2 and 3 carried over from the twist [{}] of conductor {auxiliary_conductor}, \
+                 isomorphic over Q_2 and Q_3, whose root number the functional equation proves in interval arithmetic; modularity: \
+                 Wiles 1995, Breuil-Conrad-Diamond-Taylor 2001)",
+                auxiliary.iter().map(|a| a.to_string()).collect::<Vec<_>>().join(",")
+            )),
             _ => proven(format!(
                 "the root number is {w} (the functional equation tested in interval arithmetic, which excludes the other sign; \
                  modularity: Wiles 1995, Breuil-Conrad-Diamond-Taylor 2001; no local formula at 2 or 3 here)"

@@ -71,6 +71,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         rank_proven_by: vec![],
         analytic: None,
         sha2_dim: None,
+        isogeny_sha_dims: vec![],
         route: Route::None,
         isogeny_selmer_dims: None,
         points: vec![],
@@ -132,6 +133,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     }
     cross_check_analytic(&report)?;
     settle_sha2(&mut report)?;
+    settle_isogeny_sha(&mut report)?;
     if options.certificate {
         work.report(Stage::Certificate, "certificate of the rank proof");
         match crate::certificate::Certificate::from_report_within(&report, work) {
@@ -310,6 +312,60 @@ fn combine(
     if runs.iter().any(|r| !r.search_complete) {
         report.budget_exhausted = true;
     }
+    Ok(())
+}
+
+/// Once the rank `r` is proven, each 2-isogeny `φ: E → E'` (dual `ψ`)
+/// determines `Sha(E)[φ]` and `Sha(E')[ψ]` when the images of the two
+/// descent maps are known: `2^r = #α(E(Q)) #α'(E'(Q)) / 4` (Silverman and
+/// Tate, *Rational Points on Elliptic Curves*, III.6), so the images found
+/// (torsion and points) are the whole images exactly when their dimensions
+/// add up to `r + 2`. Then `dim Sha(E)[φ] = dim S^φ(E) - dim α'(E'(Q))`
+/// (the Selmer group of the side `E'`, which holds `E'(Q)/φ(E(Q))`) and
+/// `dim Sha(E')[ψ] = dim S^ψ(E') - dim α(E(Q))` (Silverman, *The Arithmetic
+/// of Elliptic Curves*, X.4.2, the exact sequence
+/// `0 → E'(Q)/φ(E(Q)) → S^φ(E) → Sha(E)[φ] → 0`). As `Sha(E)[φ]` lies in
+/// `Sha(E)[2]`, its dimension is at most `dim Sha(E)[2]` when that is known
+/// (else an internal inconsistency).
+fn settle_isogeny_sha(report: &mut RankReport) -> Result<(), Error> {
+    let Some(r) = report.rank() else { return Ok(()) };
+    let mut dims = Vec::new();
+    for run in &report.isogeny_runs {
+        let (e, f) = (&run.side_e, &run.side_e_prime);
+        if e.found_dim > e.selmer_dim || f.found_dim > f.selmer_dim || e.found_dim + f.found_dim > r + 2 {
+            return Err(Error::internal(
+                "the isogeny Sha",
+                format!(
+                    "the images found (dimensions {} and {}) exceed the Selmer groups ({} and {}) or the proven rank {r}",
+                    e.found_dim, f.found_dim, e.selmer_dim, f.selmer_dim
+                ),
+            ));
+        }
+        if e.found_dim + f.found_dim < r + 2 {
+            return Ok(());
+        }
+        let here = f.selmer_dim - f.found_dim;
+        let there = e.selmer_dim - e.found_dim;
+        if report.sha2_dim.is_some_and(|d| here > d) {
+            return Err(Error::internal(
+                "the isogeny Sha",
+                format!("dim Sha(E)[phi] = {here} exceeds dim Sha(E)[2] = {}", report.sha2_dim.unwrap_or(0)),
+            ));
+        }
+        dims.push((here, there));
+    }
+    if let Some(ev) = report.evidence.as_mut() {
+        for (run, (here, there)) in report.isogeny_runs.iter().zip(&dims) {
+            ev.statements.push(Statement {
+                claim: format!(
+                    "for the 2-isogeny with kernel {}: dim Sha(E)[phi] = {here} and dim Sha(E')[phi'] = {there} (Selmer groups modulo the images of E'(Q) and E(Q), which the proven rank fixes)",
+                    run.kernel_point
+                ),
+                standing: Standing::Proven,
+            });
+        }
+    }
+    report.isogeny_sha_dims = dims;
     Ok(())
 }
 

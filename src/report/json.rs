@@ -139,6 +139,14 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
             .unwrap_or_else(|| "null".into()),
     );
     w.raw("sha2_order", &r.sha2_dim.map(|d| quote(&(malachite::Natural::from(1u32) << d).to_string())).unwrap_or_else(|| "null".into()));
+    w.raw(
+        "isogeny_sha_dims",
+        &if r.isogeny_sha_dims.is_empty() {
+            "null".to_string()
+        } else {
+            list(&r.isogeny_sha_dims, |(d, e)| format!("[{d}, {e}]"))
+        },
+    );
     w.raw("points", &list(&r.points, point_json));
     w.raw(
         "sha_suspects",

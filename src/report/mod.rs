@@ -157,6 +157,11 @@ pub struct RankReport {
     /// `2^sha2_dim`): `dim Sel^2(E) - rank - dim E(Q)[2]`, known once the rank
     /// is proven and Sel^2(E) computed.
     pub sha2_dim: Option<usize>,
+    /// For each 2-isogeny `φ: E → E'` of `isogeny_runs` (same order), the
+    /// proven dimensions over F2 of `Sha(E)[φ]` and `Sha(E')[φ']`, known
+    /// once the rank is proven and the points found fill both descent
+    /// images; empty otherwise.
+    pub isogeny_sha_dims: Vec<(usize, usize)>,
     /// Routes that ran.
     pub route: Route,
     /// Selmer dimensions (dim over E of divisors of b, dim over E' of divisors of b') of
@@ -265,6 +270,9 @@ impl fmt::Display for RankReport {
         }
         if let Some(d) = self.sha2_dim {
             writeln!(f, "  #Sha(E)[2] = {}, proven (dim Sel^2(E) - rank - dim E(Q)[2])", 1u64 << d.min(63))?;
+        }
+        for (d, e) in &self.isogeny_sha_dims {
+            writeln!(f, "  2-isogeny E -> E': dim Sha(E)[phi] = {d}, dim Sha(E')[phi'] = {e}, proven")?;
         }
         if let Some((s, t)) = self.isogeny_selmer_dims {
             writeln!(f, "  2-isogeny Selmer groups of dimensions {s} and {t}")?;

@@ -38,7 +38,12 @@
 //!   formulas for `e = 3` and `e = 4`. The published tables of Halberstadt
 //!   ("Signes locaux des courbes elliptiques en 2 et 3", C. R. Acad. Sci.
 //!   Paris 326, 1998) for the remaining, wildly ramified, cases at 2 and 3
-//!   are not reproduced; there [`local_root_number`] answers `None`.
+//!   are not reproduced; there [`local_root_number`] answers `None`, and
+//!   [`root_number`] carries the product of the missing local root numbers
+//!   over from an auxiliary twist isomorphic to the curve over `Q_2` and
+//!   `Q_3` with a smaller conductor, where the functional-equation test
+//!   below proves the global sign (see `transfer.rs`:
+//!   [`RootNumberMethod::Transferred`]).
 //!
 //! * **The functional equation, numerically** ([`root_number_numerical`]):
 //!   with the weight-2 newform `f = Σ a_n q^n` of level `N` (the conductor)
@@ -64,12 +69,17 @@
 //! [`root_number`] combines them: if every local root number is known the
 //! global one follows, and for conductors up to [`NUMERIC_CHECK_CONDUCTOR`]
 //! the numerical test is run as well and must agree. If a local root
-//! number at 2 or 3 is unknown, the numerical test decides the global root
-//! number (conductors up to [`NUMERIC_MAX_CONDUCTOR`]); a single unknown
-//! local number is then deduced from it, two (at 2 and 3) are reported as
-//! known only through their product.
+//! number at 2 or 3 is unknown, the auxiliary twist decides it when one
+//! with a smaller conductor (at most [`NUMERIC_MAX_CONDUCTOR`]) exists, and
+//! the curve's own numerical test runs beside it up to
+//! [`NUMERIC_CHECK_CONDUCTOR`] (a disagreement is an internal error);
+//! without a twist the curve's own test decides (conductors up to
+//! [`NUMERIC_MAX_CONDUCTOR`]). A single unknown local number is then
+//! deduced, two (at 2 and 3) are reported as known only through their
+//! product.
 
 mod numeric;
+mod transfer;
 
 use crate::arith::{factor, hilbert_symbol_integers, kronecker, FactorLimits, Place};
 use crate::curve::Curve;
@@ -105,6 +115,26 @@ pub enum RootNumberMethod {
     /// whose entry in [`RootNumber::local`] was deduced from it.
     Numerical {
         /// The primes whose local root number was deduced from the global one.
+        #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+        deduced: Vec<Natural>,
+    },
+    /// Some local root number (at 2 or 3) had no local formula; the product
+    /// of the missing ones was carried over from an auxiliary curve
+    /// isomorphic to this one over `Q_2` and `Q_3` (a twist by a class
+    /// trivial at 2 and 3) whose global root number the functional equation
+    /// proves (see the module documentation). `deduced` is as in
+    /// [`RootNumberMethod::Numerical`].
+    Transferred {
+        /// The auxiliary curve (a short Weierstrass model).
+        #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+        auxiliary: [Integer; 5],
+        /// Its conductor.
+        #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+        auxiliary_conductor: Natural,
+        /// Whether the functional equation of the curve itself was tested as
+        /// well (and agreed).
+        cross_checked: bool,
+        /// The primes whose local root number was deduced.
         #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
         deduced: Vec<Natural>,
     },
@@ -258,50 +288,88 @@ fn root_number_from_setup(setup: &Setup, limits: &FactorLimits) -> Result<RootNu
         };
         return Ok(RootNumber { global, local, joint: vec![], method, conductor: n.clone() });
     }
-    if *n > NUMERIC_MAX_CONDUCTOR {
-        return Err(Error::new(
-            ErrorKind::TooLarge,
-            format!(
-                "the local root number at {} is not covered by the local formulas and the conductor {n} is above \
-                 the limit {NUMERIC_MAX_CONDUCTOR} of the numerical test",
-                unknown.iter().map(|p| p.to_string()).collect::<Vec<_>>().join(" and ")
-            ),
-        ));
+    let unknown_names = unknown.iter().map(|p| p.to_string()).collect::<Vec<_>>().join(" and ");
+    // the auxiliary-curve route (a proof of the product of the unknown local signs)
+    let mut via_aux: Option<(i8, Setup)> = None;
+    let mut aux_note = String::new();
+    match transfer::auxiliary(setup, limits)? {
+        Some(aux) if aux.conductor <= NUMERIC_MAX_CONDUCTOR => match numeric::decide(&aux, limits)? {
+            numeric::Verdict::Sign(s) => {
+                let u = transfer::unknown_product(setup, &aux, &unknown, s)?;
+                via_aux = Some((-product * u, aux));
+            }
+            numeric::Verdict::CutShort(terms) => {
+                aux_note = format!(" (the auxiliary curve's test was cut short after {terms} coefficients)")
+            }
+            numeric::Verdict::Inconclusive => aux_note = " (the auxiliary curve's test was inconclusive)".into(),
+        },
+        Some(aux) => aux_note = format!(" (the best auxiliary twist has conductor {}, also above it)", aux.conductor),
+        None => {}
     }
-    let global = match numeric::decide(setup, limits)? {
-        numeric::Verdict::Sign(s) => s,
-        numeric::Verdict::CutShort(terms) => {
+    // the curve's own functional equation: the cross-check, or the only route
+    let direct = if *n <= NUMERIC_CHECK_CONDUCTOR || (via_aux.is_none() && *n <= NUMERIC_MAX_CONDUCTOR) {
+        Some(numeric::decide(setup, limits)?)
+    } else {
+        None
+    };
+    let global = match (&via_aux, direct) {
+        (Some((g, aux)), Some(numeric::Verdict::Sign(s))) if *g != s => {
+            return Err(internal(&format!(
+                "the auxiliary curve {:?} (conductor {}) gives w = {g} but the functional equation gives {s} (conductor {n})",
+                aux.minimal.coefficients(),
+                aux.conductor
+            )))
+        }
+        (Some((g, _)), _) => *g,
+        (None, Some(numeric::Verdict::Sign(s))) => s,
+        (None, Some(numeric::Verdict::CutShort(terms))) => {
             return Err(Error::new(
                 ErrorKind::Budget,
                 format!(
                     "cut short: the budget ended the test of the functional equation after {terms} coefficients \
-                     (conductor {n}); the local root number at {} is not covered by the local formulas",
-                    unknown.iter().map(|p| p.to_string()).collect::<Vec<_>>().join(" and ")
+                     (conductor {n}); the local root number at {unknown_names} is not covered by the local formulas{aux_note}"
                 ),
             ))
         }
-        numeric::Verdict::Inconclusive => {
+        (None, Some(numeric::Verdict::Inconclusive)) => {
             return Err(Error::new(
                 ErrorKind::Budget,
-                format!("the numerical test of the functional equation was inconclusive (conductor {n})"),
+                format!("the numerical test of the functional equation was inconclusive (conductor {n}){aux_note}"),
+            ))
+        }
+        (None, None) => {
+            return Err(Error::new(
+                ErrorKind::TooLarge,
+                format!(
+                    "the local root number at {unknown_names} is not covered by the local formulas, no twist trivial at 2 \
+                     and 3 brings the conductor {n} under the limit {NUMERIC_MAX_CONDUCTOR} of the numerical test{aux_note}"
+                ),
             ))
         }
     };
+    let cross_checked = matches!(direct, Some(numeric::Verdict::Sign(_)));
+    let mut deduced = vec![];
+    let mut joint = vec![];
     if unknown.len() == 1 {
         // -global = w_p * product, and product = ±1 is its own inverse.
         // invariant: unknown.len() == 1 was checked just above
         let p = unknown.pop().expect("one unknown prime");
         local.push((p.clone(), -global * product));
         local.sort();
-        return Ok(RootNumber {
-            global,
-            local,
-            joint: vec![],
-            method: RootNumberMethod::Numerical { deduced: vec![p] },
-            conductor: n.clone(),
-        });
+        deduced.push(p);
+    } else {
+        joint = unknown;
     }
-    Ok(RootNumber { global, local, joint: unknown, method: RootNumberMethod::Numerical { deduced: vec![] }, conductor: n.clone() })
+    let method = match via_aux {
+        Some((_, aux)) => RootNumberMethod::Transferred {
+            auxiliary: aux.minimal.coefficients().clone(),
+            auxiliary_conductor: aux.conductor,
+            cross_checked,
+            deduced,
+        },
+        None => RootNumberMethod::Numerical { deduced },
+    };
+    Ok(RootNumber { global, local, joint, method, conductor: n.clone() })
 }
 
 /// The global root number decided by the numerical test of the functional
@@ -338,6 +406,13 @@ impl Setup {
     fn new(curve: &Curve, limits: &FactorLimits) -> Result<Setup, Error> {
         let f = factor(curve.discriminant(), limits)?;
         let primes: Vec<Natural> = f.primes().cloned().collect();
+        Setup::with_primes(curve, &primes)
+    }
+
+    /// The set-up from the primes dividing the discriminant (a list that
+    /// may hold more primes).
+    fn with_primes(curve: &Curve, primes: &[Natural]) -> Result<Setup, Error> {
+        let primes: Vec<Natural> = primes.to_vec();
         let (minimal, _) = curve.minimal_model(&primes)?;
         let mut bad = Vec::new();
         let mut conductor = Natural::ONE;
@@ -355,7 +430,7 @@ impl Setup {
 }
 
 fn internal(msg: &str) -> Error {
-    Error::new(ErrorKind::InvalidValue, format!("internal inconsistency: {msg}"))
+    Error::internal("root number", msg)
 }
 
 /// The exponent of `p` in a non-zero integer.

@@ -1,0 +1,220 @@
+//! Local root numbers at 2 and 3 carried over from an auxiliary curve.
+//!
+//! The local root number `w_p(E)` depends only on `E` over `Q_p` up to
+//! isomorphism (it is the root number of the Weil–Deligne representation of
+//! `E / Q_p`). So if a curve `E'` over Q is isomorphic to `E` over both
+//! `Q_2` and `Q_3`, then `w_2(E) w_3(E) = w_2(E') w_3(E')`, and the latter
+//! product follows from the global root number of `E'` and its local root
+//! numbers at the primes `p >= 5` (all given by the local formulas):
+//! `w_2 w_3 (E') = -w(E') / ∏_{p≥5} w_p(E')`. When `E'` has a much smaller
+//! conductor than `E`, its global root number is proven by the test of the
+//! functional equation ([`super::numeric`]) where that of `E` is out of
+//! reach. The auxiliary curve is a twist of `E` by a class that is trivial
+//! at 2 and 3:
+//!
+//! * `j ≠ 0, 1728`: the quadratic twist `E^d` by an integer `d ≡ 1 mod 24`
+//!   (a square in `Q_2`, as `d ≡ 1 mod 8`, and in `Q_3`, as `d ≡ 1 mod 3`),
+//!   chosen among products of the additive primes `q ≥ 5` of `E` (twisting
+//!   by `q` turns type `I0*` into good and `In*` into `In` reduction) and
+//!   one extra small prime when the congruence needs it;
+//! * `j = 0`: `E ≅ y^2 = x^3 + k` and `y^2 = x^3 + k'` with `k'/k` a sixth
+//!   power in `Q_2` and `Q_3` (unit parts congruent modulo 72: the sixth
+//!   powers of units are `1 + 8Z_2` and `1 + 9Z_3`);
+//! * `j = 1728`: `E ≅ y^2 = x^3 + A x` and `y^2 = x^3 + A' x` with `A'/A` a
+//!   fourth power in `Q_2` and `Q_3` (unit parts congruent modulo 48: the
+//!   fourth powers of units are `1 + 16Z_2` and `1 + 3Z_3`).
+//!
+//! In each case `E'` becomes isomorphic to `E` over `Q_p(sqrt d)`,
+//! `Q_p(k'/k)^{1/6}` or `Q_p((A'/A)^{1/4})`, which is `Q_p` itself
+//! (Silverman, *The Arithmetic of Elliptic Curves*, X.5: twists are
+//! classified by `H^1(G, Aut E)`, which is `Q^*/Q^*2`, `Q^*/Q^*6` or
+//! `Q^*/Q^*4` in the three cases). This replaces, for the curves it
+//! reaches, the published tables for the wildly ramified cases (which are
+//! not reproduced here): the method is our own reduction, a proof given the
+//! modularity theorem like the functional-equation test it rests on.
+
+use super::{internal, local_sign, Setup};
+use crate::arith::{valuation, FactorLimits};
+use crate::curve::Curve;
+use crate::error::Error;
+use crate::local::{Kodaira, Reduction};
+use malachite::base::num::arithmetic::traits::{Mod, Pow};
+use malachite::{Integer, Natural};
+
+/// Extra primes (prime to 6) that may be thrown into `d` to reach the class
+/// `1 mod 24`; together with ±1 they cover every unit class mod 24.
+const EXTRA: [u64; 8] = [5, 7, 11, 13, 17, 19, 23, 29];
+
+/// At most this many additive primes are tried in the quadratic case.
+const MAX_CHOICE: usize = 12;
+
+/// An auxiliary curve isomorphic to the curve of `setup` over `Q_2` and
+/// `Q_3`, with a smaller conductor, with its own set-up; `None` when no
+/// twist of the kinds above lowers the conductor.
+pub(crate) fn auxiliary(setup: &Setup, limits: &FactorLimits) -> Result<Option<Setup>, Error> {
+    let e = &setup.minimal;
+    let c4 = e.c4();
+    let c6 = e.c6();
+    let zero = Integer::from(0);
+    let mut primes: Vec<Natural> = setup.bad.iter().map(|(p, _, _)| p.clone()).collect();
+    let aux = if *c4 == 0u32 {
+        // j = 0: E ≅ y^2 = x^3 + k with k = -54 c6
+        let k = Integer::from(-54) * c6;
+        let k2 = reduce_class(&k, 6, 72);
+        // the discriminant -432 k'^2 is small: its primes by trial division
+        primes.extend(small_prime_factors(&k2));
+        Curve::new([zero.clone(), zero.clone(), zero.clone(), zero, k2])
+    } else if *c6 == 0u32 {
+        // j = 1728: E ≅ y^2 = x^3 + A x with A = -27 c4
+        let a = Integer::from(-27) * c4;
+        let a2 = reduce_class(&a, 4, 48);
+        primes.extend(small_prime_factors(&a2));
+        Curve::new([zero.clone(), zero.clone(), zero.clone(), a2, zero])
+    } else {
+        // the discriminant is 6^12 d^6 Δ: the bad primes, 2, 3 and those of d
+        let Some((d, d_primes)) = best_twist(setup) else { return Ok(None) };
+        primes.extend(d_primes.into_iter().map(Natural::from));
+        let a4 = Integer::from(-27) * (&d).pow(2) * c4;
+        let a6 = Integer::from(-54) * (&d).pow(3) * c6;
+        Curve::new([zero.clone(), zero.clone(), zero, a4, a6])
+    }
+    .map_err(|_| internal("the auxiliary twist is singular"))?;
+    if limits.deadline.is_some_and(|t| std::time::Instant::now() >= t) {
+        return Ok(None);
+    }
+    primes.push(Natural::from(2u32));
+    primes.push(Natural::from(3u32));
+    primes.sort();
+    primes.dedup();
+    let aux_setup = Setup::with_primes(&aux, &primes)?;
+    if aux_setup.conductor >= setup.conductor {
+        return Ok(None);
+    }
+    Ok(Some(aux_setup))
+}
+
+/// `x = ± 2^a 3^b m` (m prime to 6) replaced by `2^(a mod n) 3^(b mod n) m'`
+/// with `m' ≡ ±m (mod modulus)` of least absolute value.
+fn reduce_class(x: &Integer, n: u32, modulus: i64) -> Integer {
+    let two = Natural::from(2u32);
+    let three = Natural::from(3u32);
+    let a = valuation(x, &two).unwrap_or(0);
+    let b = valuation(x, &three).unwrap_or(0);
+    let unit = x / (Integer::from(2).pow(u64::from(a)) * Integer::from(3).pow(u64::from(b)));
+    let r = i64::try_from(&unit.mod_op(Integer::from(modulus))).expect("a residue fits");
+    let m = if r > modulus / 2 { r - modulus } else { r };
+    Integer::from(2).pow(u64::from(a % n)) * Integer::from(3).pow(u64::from(b % n)) * Integer::from(m)
+}
+
+/// The prime factors of a small non-zero integer (`|m| < 2^64`, trial division).
+fn small_prime_factors(m: &Integer) -> Vec<Natural> {
+    let mut n = u64::try_from(&malachite::base::num::arithmetic::traits::UnsignedAbs::unsigned_abs(m)).unwrap_or(0);
+    let mut out = Vec::new();
+    let mut p = 2u64;
+    while n > 1 && p * p <= n {
+        if n % p == 0 {
+            out.push(Natural::from(p));
+            while n % p == 0 {
+                n /= p;
+            }
+        }
+        p += 1;
+    }
+    if n > 1 {
+        out.push(Natural::from(n));
+    }
+    out
+}
+
+/// The integer `d ≡ 1 (mod 24)` for which the twist `E^d` has the least
+/// conductor, if that is below the conductor of `E`, with its primes.
+fn best_twist(setup: &Setup) -> Option<(Integer, Vec<u64>)> {
+    // additive primes q >= 5 with the change of log N when twisting by q
+    let mut choice: Vec<(u64, f64)> = setup
+        .bad
+        .iter()
+        .filter(|(_, _, d)| d.reduction == Reduction::Additive)
+        .filter_map(|(p, _, d)| {
+            let q = u64::try_from(p).ok().filter(|&q| q >= 5)?;
+            let gain = match d.kodaira {
+                Kodaira::I0Star => -2.0,
+                Kodaira::InStar(_) => -1.0,
+                _ => 0.0,
+            };
+            Some((q, gain * (q as f64).ln()))
+        })
+        .collect();
+    choice.sort_by(|x, y| x.1.total_cmp(&y.1));
+    choice.truncate(MAX_CHOICE);
+    let bad: Vec<u64> = setup.bad.iter().filter_map(|(p, _, _)| u64::try_from(p).ok()).collect();
+    let extras: Vec<u64> = EXTRA.iter().copied().filter(|r| !bad.contains(r)).collect();
+    let mut best: Option<(f64, u32, i8, u64)> = None;
+    for mask in 0u32..(1 << choice.len()) {
+        let mut res = 1u64;
+        let mut cost = 0.0;
+        for (i, (q, g)) in choice.iter().enumerate() {
+            if mask >> i & 1 == 1 {
+                res = res * (q % 24) % 24;
+                cost += g;
+            }
+        }
+        for sign in [1i8, -1] {
+            let base = if sign == 1 { res } else { (24 - res) % 24 };
+            for r in std::iter::once(1u64).chain(extras.iter().copied()) {
+                if base * (r % 24) % 24 != 1 {
+                    continue;
+                }
+                let c = cost + if r == 1 { 0.0 } else { 2.0 * (r as f64).ln() };
+                if best.is_none_or(|b| c < b.0 - 1e-9) {
+                    best = Some((c, mask, sign, r));
+                }
+            }
+        }
+    }
+    let (cost, mask, sign, r) = best?;
+    if cost >= -1e-9 {
+        return None;
+    }
+    let mut d = Integer::from(sign) * Integer::from(r);
+    let mut d_primes = if r == 1 { vec![] } else { vec![r] };
+    for (i, (q, _)) in choice.iter().enumerate() {
+        if mask >> i & 1 == 1 {
+            d *= Integer::from(*q);
+            d_primes.push(*q);
+        }
+    }
+    debug_assert!(d.clone().mod_op(Integer::from(24)) == 1u32);
+    Some((d, d_primes))
+}
+
+/// The product `w_2 w_3` over the primes of `unknown` (a subset of {2, 3})
+/// of the curve of `setup`, from the auxiliary curve `aux` and its proven
+/// global root number `w_aux`. Checks that the auxiliary curve has the same
+/// reduction data at 2 and 3 and that the local formulas know the same
+/// primes there.
+pub(crate) fn unknown_product(setup: &Setup, aux: &Setup, unknown: &[Natural], w_aux: i8) -> Result<i8, Error> {
+    for (p, _, _) in &setup.bad {
+        if (*p == 2u32 || *p == 3u32) && !aux.bad.iter().any(|(q, _, _)| q == p) {
+            return Err(internal(&format!("the auxiliary curve has good reduction at {p}, though isomorphic there")));
+        }
+    }
+    let mut known: i8 = 1;
+    for (p, model, data) in &aux.bad {
+        let small = *p == 2u32 || *p == 3u32;
+        if small {
+            let mine = setup.bad.iter().find(|(q, _, _)| q == p).map(|(_, _, d)| (d.conductor_exponent, d.kodaira));
+            if mine != Some((data.conductor_exponent, data.kodaira)) {
+                return Err(internal(&format!("the auxiliary curve differs from the curve at {p}, though isomorphic there")));
+            }
+        }
+        match local_sign(model, data)? {
+            Some(s) if small && unknown.contains(p) => {
+                return Err(internal(&format!("the local formulas know w_{p} = {s} on the auxiliary curve only")))
+            }
+            Some(s) => known *= s,
+            None if small && unknown.contains(p) => {}
+            None => return Err(internal(&format!("no local root number at {p} on the auxiliary curve"))),
+        }
+    }
+    Ok(-w_aux * known)
+}
