@@ -1,0 +1,23 @@
+//! Probe: time the class group of cubic fields x^3 + a x + b given on the command line.
+use malachite::Integer;
+use std::time::Instant;
+use twofold::numfield::{ClassGroupOptions, NumberField};
+
+fn main() {
+    let args: Vec<String> = std::env::args().skip(1).collect();
+    for pair in args.chunks(2) {
+        let a: Integer = pair[0].parse().unwrap();
+        let b: Integer = pair[1].parse().unwrap();
+        let f = vec![b, a, Integer::from(0), Integer::from(1)];
+        let t = Instant::now();
+        let k = match NumberField::new(&f) { Ok(k) => k, Err(e) => { println!("{:?} {}", pair, e); continue; } };
+        let t1 = t.elapsed();
+        let opts = ClassGroupOptions { deadline: Some(Instant::now() + std::time::Duration::from_secs(60)), ..Default::default() };
+        let r = k.class_group(&opts);
+        let t2 = t.elapsed();
+        match r {
+            Ok(cg) => println!("a={} b={} d={} field {:?} total {:?} h={} R={:.6} ratio={:.3} fb={} kind={:?}", pair[0], pair[1], k.discriminant(), t1, t2, cg.class_number, cg.regulator, cg.analytic_ratio, cg.factor_base.len(), cg.bound_kind),
+            Err(e) => println!("a={} b={} d={} field {:?} total {:?} ERR {}", pair[0], pair[1], k.discriminant(), t1, t2, e),
+        }
+    }
+}
