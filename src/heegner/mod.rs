@@ -382,9 +382,9 @@ impl Series {
         forms.iter().map(|f| analytic::terms_needed(f.a as f64, (-disc) as f64, bits)).max().unwrap_or(1)
     }
 
-    fn total_terms(&self, bits: u64) -> usize {
+    fn total_terms(&self, h: &HeegnerData, bits: u64) -> usize {
         let (forms, disc): (Vec<&forms::QuadraticForm>, i64) = match self {
-            Series::Direct(f) => (f.iter().collect(), 0),
+            Series::Direct(f) => (f.iter().collect(), h.discriminant),
             Series::Twisted { plus, minus, disc } => (plus.iter().chain(minus.iter()).collect(), *disc),
         };
         forms.iter().map(|f| analytic::terms_needed(f.a as f64, (-disc) as f64, bits)).sum()
@@ -415,7 +415,7 @@ fn search(
     if tw.is_some() {
         // the total length of the twisted series decides (a few points
         // near cusps not equivalent to infinity under Γ0(N0) dominate it)
-        plans.sort_by_key(|(_, p)| p.total_terms(100));
+        plans.sort_by_key(|(h, p)| p.total_terms(h, 100));
         plans.truncate(opts.max_discriminants.max(1));
     }
     let mut coeffs: Vec<i64> = Vec::new();

@@ -82,9 +82,9 @@ fn congruent_numbers_small() {
 }
 
 /// n = 157 (Zagier's example, quoted in Koblitz, Introduction to Elliptic
-/// Curves and Modular Forms, ch. I): at level 32 * 157^2 the series needs
-/// millions of terms at hundreds of bits (minutes). With a 2 s time limit
-/// the route stops promptly with a budget error and claims nothing.
+/// Curves and Modular Forms, ch. I): the twist route needs about 10 s on a
+/// loaded machine. With a 2 s time limit the route stops promptly with a
+/// budget error and claims nothing.
 #[test]
 fn congruent_number_157_honours_the_time_limit() {
     let n = 157i64;
