@@ -8,6 +8,27 @@ use twofold::Curve;
 
 fn main() {
     let args: Vec<String> = std::env::args().collect();
+    if args.get(1).map(String::as_str) == Some("--curve") {
+        // --curve a1,a2,a3,a4,a6 [seconds] [no-twist]
+        let c: Vec<i64> = args[2].split(',').map(|x| x.trim().parse().unwrap()).collect();
+        let e = Curve::from_coefficients([c[0], c[1], c[2], c[3], c[4]]).unwrap();
+        let (m, n, _) = twofold::rootno::minimal_conductor_sign(&e).unwrap();
+        let secs: u64 = args.get(3).map_or(60, |s| s.parse().unwrap());
+        let opts = HeegnerOptions {
+            time_limit: Some(std::time::Duration::from_secs(secs)),
+            use_twist: args.get(4).map(String::as_str) != Some("no-twist"),
+            ..HeegnerOptions::default()
+        };
+        let t = Instant::now();
+        match point_of_rank_one(&m, &n, &opts) {
+            Ok(Some(r)) => println!(
+                "N={n}: D={} h={} bits={} terms={} m={} k={} index={:?} height={:.6} pred={:.6} {:?}\n{:?}",
+                r.discriminant, r.class_number, r.precision, r.terms, r.multiplier, r.divisor, r.index, r.height, r.predicted_height, t.elapsed(), r.generator
+            ),
+            other => println!("N={n}: {other:?} {:?}", t.elapsed()),
+        }
+        return;
+    }
     let path = &args[1];
     let lo: u64 = args.get(2).map_or(0, |s| s.parse().unwrap());
     let hi: u64 = args.get(3).map_or(u64::MAX, |s| s.parse().unwrap());

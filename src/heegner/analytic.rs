@@ -67,7 +67,8 @@ pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64,
     let wp = prec + 24 + (a.len().max(2) as f64).log2().ceil() as u64;
     let pi = pi(wp);
     let sd = sqrt(&fi(-d, wp), wp);
-    let mut total = Cx::real(fi(0, wp));
+    let (mut tre, mut tim) = (Integer::ZERO, Integer::ZERO);
+    let one = Integer::ONE << wp;
     for f in forms {
         let m = terms_needed(f.a as f64, (-d) as f64, prec);
         if m + 1 > a.len() {
@@ -77,24 +78,39 @@ pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64,
         let r = exp(&-(&pi * &sd / &af), wp);
         let theta = -(&pi * fz(&Integer::from(f.b), wp)) / &af;
         let e = expi(&theta, wp);
-        let q = Cx::new(&r * &e.re, &r * &e.im);
-        let mut s = Cx::real(fi(0, wp));
+        let qr = fixed(&(&r * &e.re), wp);
+        let qi = fixed(&(&r * &e.im), wp);
+        // Horner's rule in fixed point (integers scaled by 2^wp): one
+        // truncation per product, |q| < 1, so the error stays below
+        // 4 m units of the last place, covered by the log2(m) guard bits
+        let (mut sr, mut si) = (Integer::ZERO, Integer::ZERO);
         for n in (1..=m).rev() {
             if n % 4096 == 0 && budget.exhausted() {
                 return Err(Error::new(ErrorKind::Budget, "time budget spent in the modular parametrisation"));
             }
             if n < m {
-                s = s.mul(&q);
+                let nr = (&sr * &qr - &si * &qi) >> wp;
+                let ni = (&sr * &qi + &si * &qr) >> wp;
+                sr = nr;
+                si = ni;
             }
             let an = a[n];
             if an != 0 {
-                s.re = s.re.add_rational_prec(Rational::from_signeds(an, n as i64), wp).0;
+                sr += (&one * Integer::from(an)) / Integer::from(n as u64);
             }
         }
-        s = s.mul(&q);
-        total = total.add(&s);
+        tre += (&sr * &qr - &si * &qi) >> wp;
+        tim += (&sr * &qi + &si * &qr) >> wp;
     }
-    Ok(total)
+    let scale = Rational::from(Integer::ONE << wp);
+    let back = |x: Integer| Float::from_rational_prec(Rational::from(x) / &scale, wp).0;
+    Ok(Cx::new(back(tre), back(tim)))
+}
+
+/// `x` as an integer scaled by `2^wp` (rounded down).
+fn fixed(x: &Float, wp: u64) -> Integer {
+    let Ok(q) = Rational::try_from(x) else { return Integer::ZERO };
+    Integer::from((q * Rational::from(Integer::ONE << wp)).floor())
 }
 
 /// A double-double number `hi + lo` (about 106 bits), with Dekker's exact

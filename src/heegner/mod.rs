@@ -57,6 +57,7 @@
 mod analytic;
 pub mod forms;
 mod traces;
+mod twist;
 
 use crate::budget::{RankOptions, Work};
 use crate::curve::{Curve, Point};
@@ -102,6 +103,10 @@ pub struct HeegnerOptions {
     /// tried before raising the precision (the trace is the index times a
     /// generator, and its parts need fewer bits).
     pub max_divisor: u64,
+    /// Whether to use the twist route when the curve is the quadratic
+    /// twist of a curve of smaller conductor (see the module
+    /// documentation); the direct series is the fallback either way.
+    pub use_twist: bool,
 }
 
 impl Default for HeegnerOptions {
@@ -114,6 +119,7 @@ impl Default for HeegnerOptions {
             max_terms: 60_000_000,
             max_multiplier: 4,
             max_divisor: 12,
+            use_twist: true,
         }
     }
 }
@@ -305,12 +311,119 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
     let start = Instant::now();
     let budget = Work::until(opts.time_limit.and_then(|d| start.checked_add(d)), opts.cancel.clone());
     let Some(s) = setup(minimal, conductor)? else { return Ok(None) };
-    let discs = heegner_discriminants(s.n, opts.max_discriminants)?;
+    if opts.use_twist {
+        if let Some(t) = twist::smallest_twist(minimal, s.n)? {
+            check_twist(minimal, &s, &t)?;
+            if let Some(r) = search(minimal, &s, opts, &budget, start, Some(&t))? {
+                return Ok(Some(r));
+            }
+        }
+    }
+    search(minimal, &s, opts, &budget, start, None)
+}
+
+/// `a_p(E) = χ_d(p) a_p(E0)` for the primes below 300: the twist route
+/// rests on it; a mismatch is an internal error.
+fn check_twist(curve: &Curve, s: &Setup, t: &twist::Twist) -> Result<(), Error> {
+    let never = || false;
+    let a = traces::dirichlet_coefficients_fast(curve, &s.bad_ap, 300, &never);
+    let b = traces::dirichlet_coefficients_fast(&t.base, &t.base_bad, 300, &never);
+    let (Some(a), Some(b)) = (a, b) else { return Err(Error::internal("the Heegner twist route", "coefficients not computed")) };
+    for p in 2..=300u64 {
+        if crate::arith::is_prime_u64(p) {
+            let chi = i64::from(crate::arith::kronecker_i64(t.d, p));
+            if a[p as usize] != chi * b[p as usize] {
+                return Err(Error::internal(
+                    "the Heegner twist route",
+                    format!("a_{p} = {} is not χ({p}) a_{p} = {} for the twist by {}", a[p as usize], chi * b[p as usize], t.d),
+                ));
+            }
+        }
+    }
+    Ok(())
+}
+
+/// The smallest `e >= 1` (up to 24) with `e Λ0 / g(χ) ⊂ Λ(E)`, numerically
+/// (`Λ0` the lattice of the base curve): the twisted series is known
+/// modulo `Λ0 / g(χ)` (up to the index of `Λ0` in the optimal lattice, met
+/// by the further multipliers).
+fn twist_multiplier(t: &twist::Twist, lat: &Lattice, bits: u64) -> Result<Option<u32>, Error> {
+    let pl = PeriodLattice::compute(&t.base, bits)?;
+    let g = crate::heights::real::sqrt(&fi(t.d.abs(), bits), bits);
+    let over_g = |re: &Float, im: &Float| -> Cx {
+        if t.d > 0 {
+            Cx::new(re / &g, im / &g)
+        } else {
+            // (re + i im) / (i sqrt|d|) = (im - i re) / sqrt|d|
+            Cx::new(im / &g, -(re / &g))
+        }
+    };
+    let v1 = over_g(&pl.omega1, &Float::from(0u32));
+    let v2 = over_g(&pl.omega2_re, &pl.omega2_im);
+    let (a1, b1) = lat.coordinates(&v1);
+    let (a2, b2) = lat.coordinates(&v2);
+    let c = [to_f64(&a1), to_f64(&b1), to_f64(&a2), to_f64(&b2)];
+    Ok((1..=24u32).find(|&e| c.iter().all(|x| ((x * e as f64) - (x * e as f64).round()).abs() < 1e-9)))
+}
+
+/// The series, in one of two forms: the Heegner points of level `N` with
+/// the coefficients of `E`, or the twisted sum with those of the base.
+enum Series {
+    Direct(Vec<forms::QuadraticForm>),
+    Twisted { plus: Vec<forms::QuadraticForm>, minus: Vec<forms::QuadraticForm>, disc: i64 },
+}
+
+impl Series {
+    fn terms(&self, h: &HeegnerData, bits: u64) -> usize {
+        let (forms, disc): (Vec<&forms::QuadraticForm>, i64) = match self {
+            Series::Direct(f) => (f.iter().collect(), h.discriminant),
+            Series::Twisted { plus, minus, disc } => (plus.iter().chain(minus.iter()).collect(), *disc),
+        };
+        forms.iter().map(|f| analytic::terms_needed(f.a as f64, (-disc) as f64, bits)).max().unwrap_or(1)
+    }
+
+    fn total_terms(&self, h: &HeegnerData, bits: u64) -> usize {
+        let (forms, disc): (Vec<&forms::QuadraticForm>, i64) = match self {
+            Series::Direct(f) => (f.iter().collect(), h.discriminant),
+            Series::Twisted { plus, minus, disc } => (plus.iter().chain(minus.iter()).collect(), *disc),
+        };
+        forms.iter().map(|f| analytic::terms_needed(f.a as f64, (-disc) as f64, bits)).sum()
+    }
+}
+
+#[allow(clippy::too_many_arguments)]
+fn search(
+    minimal: &Curve,
+    s: &Setup,
+    opts: &HeegnerOptions,
+    budget: &Work,
+    start: Instant,
+    tw: Option<&twist::Twist>,
+) -> Result<Option<HeegnerResult>, Error> {
+    let discs = heegner_discriminants(s.n, if tw.is_some() { opts.max_discriminants.max(1) * 4 } else { opts.max_discriminants })?;
+    let mut plans: Vec<(HeegnerData, Series)> = Vec::new();
+    for h in discs {
+        let series = match tw {
+            None => Series::Direct(h.forms.clone()),
+            Some(t) => match twist::twisted_forms(&h.forms, t.d, t.base_conductor) {
+                Some((plus, minus)) => Series::Twisted { plus, minus, disc: h.discriminant * t.d * t.d },
+                None => continue,
+            },
+        };
+        plans.push((h, series));
+    }
+    if tw.is_some() {
+        // the total length of the twisted series decides (a few points
+        // near cusps not equivalent to infinity under Γ0(N0) dominate it)
+        plans.sort_by_key(|(h, p)| p.total_terms(h, 100));
+        plans.truncate(opts.max_discriminants.max(1));
+    }
     let mut coeffs: Vec<i64> = Vec::new();
     let primes: Vec<Natural> = s.local.iter().map(|d| d.prime.clone()).collect();
     let tors: Vec<Point> = TorsionGroup::compute(minimal, &primes).points().to_vec();
     let b2 = Rational::from(minimal.b_invariants()[0].clone());
-    for h in &discs {
+    for (h, series) in &plans {
+        let mut mult_base = 1u32;
         // bits for x = a/d^2 of height about hhat + slack, with the loss
         // near the pole of ℘ (see the module documentation)
         let mut target_height = s.predicted.max(0.5) + s.slack;
@@ -320,31 +433,56 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
                 return Err(err(ErrorKind::Budget, "time budget spent in the Heegner point search"));
             }
             let bits = ((target_height / std::f64::consts::LN_2) * 2.6 + 24.0).ceil() as u64;
-            let bits = bits.min(opts.max_precision.max(64)).max(analytic::double_double_capacity(&h.forms, h.discriminant));
-            let m = h
-                .forms
-                .iter()
-                .map(|f| analytic::terms_needed(f.a as f64, (-h.discriminant) as f64, bits))
-                .max()
-                .unwrap_or(1);
+            let bits = bits.min(opts.max_precision.max(64));
+            let bits = match series {
+                Series::Direct(f) => bits.max(analytic::double_double_capacity(f, h.discriminant)),
+                Series::Twisted { .. } => bits,
+            };
+            let m = series.terms(h, bits);
+            let h = &*h;
             if m > opts.max_terms {
                 return Err(err(ErrorKind::TooLarge, format!("the series needs {m} coefficients, above the limit {}", opts.max_terms)));
             }
+            let (curve_for_coeffs, bad) = match tw {
+                Some(t) => (&t.base, &t.base_bad),
+                None => (minimal, &s.bad_ap),
+            };
             if coeffs.len() < m + 1 {
-                coeffs = traces::dirichlet_coefficients_fast(minimal, &s.bad_ap, m + m / 8, &|| budget.exhausted())
+                coeffs = traces::dirichlet_coefficients_fast(curve_for_coeffs, bad, m + m / 8, &|| budget.exhausted())
                     .ok_or_else(|| err(ErrorKind::Budget, "time budget spent on the coefficients"))?;
             }
-            let z = analytic::modular_sum(&coeffs, &h.forms, h.discriminant, bits, &budget)?;
             let pl = PeriodLattice::compute(minimal, bits + 32)?;
             let lat = Lattice::new(&pl, bits + 32);
+            let z = match series {
+                Series::Direct(f) => analytic::modular_sum(&coeffs, f, h.discriminant, bits, budget)?,
+                Series::Twisted { plus, minus, disc } => {
+                    let t = tw.expect("twisted series without a twist");
+                    if mult_base == 1 {
+                        match twist_multiplier(t, &lat, bits.max(128))? {
+                            Some(e) => mult_base = e,
+                            None => break,
+                        }
+                    }
+                    let wp = bits + 32;
+                    let sp = analytic::modular_sum(&coeffs, plus, *disc, bits, budget)?;
+                    let sm = if minus.is_empty() { Cx::real(fi(0, wp)) } else { analytic::modular_sum(&coeffs, minus, *disc, bits, budget)? };
+                    let diff = sp.sub(&sm);
+                    let g = crate::heights::real::sqrt(&fi(t.d.abs(), wp), wp);
+                    if t.d > 0 {
+                        Cx::new(&diff.re / &g, &diff.im / &g)
+                    } else {
+                        Cx::new(&diff.im / &g, -(&diff.re / &g))
+                    }
+                }
+            };
             if !tried_torsion {
                 tried_torsion = true;
-                if lat.is_near_torsion(&z, bits / 2, 12) {
+                if lat.is_near_torsion(&z, bits / 2, 12 * mult_base as i64) {
                     break; // this D gives a torsion point: next discriminant
                 }
             }
             let wp = bits + 32;
-            for mult in 1..=opts.max_multiplier.max(1) {
+            for mult in (1..=opts.max_multiplier.max(1)).map(|k| k * mult_base) {
                 let zm = Cx::new(&z.re * fi(mult as i64, wp), &z.im * fi(mult as i64, wp));
                 let zt = match lat.on_real_locus(&zm, bits / 3) {
                     Some(w) => w,
@@ -371,8 +509,9 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
                             let p = lat.weierstrass_p(&zr);
                             let x = &p.re - Float::from_rational_prec_ref(&b2, wp).0 / fi(12, wp);
                             if let Some(pt) = recognise(minimal, &x, bits) {
-                                let (q, _) = divide_out(minimal, &tors, &lat, &b2, zr, pt.clone(), bits, &budget);
-                                return finish(minimal, &s, h, pt, q, mult, k, bits, coeffs.len() - 1, &budget, start).map(Some);
+                                let (q, _) = divide_out(minimal, &tors, &lat, &b2, zr, pt.clone(), bits, budget);
+                                let class_number = h.forms.len();
+                                return finish(minimal, s, h, class_number, pt, q, mult, k, bits, coeffs.len() - 1, budget, start).map(Some);
                             }
                         }
                     }
@@ -469,6 +608,7 @@ fn finish(
     curve: &Curve,
     s: &Setup,
     h: &HeegnerData,
+    class_number: usize,
     pt: Point,
     divided: Point,
     mult: u32,
@@ -511,7 +651,7 @@ fn finish(
         divisor,
         discriminant: h.discriminant,
         beta: h.beta,
-        class_number: h.forms.len(),
+        class_number,
         precision: bits,
         terms,
         height: to_f64(&hg),
