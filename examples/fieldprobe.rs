@@ -12,7 +12,7 @@ fn main() {
         let t = Instant::now();
         let k = match NumberField::new(&f) { Ok(k) => k, Err(e) => { println!("{:?} {}", pair, e); continue; } };
         let t1 = t.elapsed();
-        let opts = ClassGroupOptions { deadline: Some(Instant::now() + std::time::Duration::from_secs(60)), ..Default::default() };
+        let opts = ClassGroupOptions::default().with_deadline(Instant::now() + std::time::Duration::from_secs(60));
         let r = k.class_group(&opts);
         let t2 = t.elapsed();
         match r {

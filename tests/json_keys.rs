@@ -28,6 +28,7 @@ fn json_keys_of_a_full_report() {
         "route",
         "isogeny_selmer_dims",
         "two_selmer_dim",
+        "two_selmer_route",
         "descent_curve",
         "analytic_route",
         "sha2_order",

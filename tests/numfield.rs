@@ -267,7 +267,7 @@ fn larger_cubic_fields_laws() {
         attempts += 1;
         let f = z(&[rnd(2000), rnd(300), 0, 1]);
         let Ok(k) = NumberField::new(&f) else { continue };
-        let opts = ClassGroupOptions { deadline: Some(std::time::Instant::now() + std::time::Duration::from_secs(20)), ..Default::default() };
+        let opts = ClassGroupOptions::default().with_deadline(std::time::Instant::now() + std::time::Duration::from_secs(20));
         let ks = match k.square_classes(&[], &opts) {
             Ok(ks) => ks,
             Err(e) => {
@@ -300,7 +300,7 @@ fn class_group_budget_is_honoured() {
     let f = vec![Integer::from(999_999_999_989i64), Integer::from(123_456_789_012i64), Integer::from(0), Integer::from(1)];
     let k = NumberField::new(&f).unwrap();
     let t = std::time::Instant::now();
-    let opts = ClassGroupOptions { deadline: Some(t + std::time::Duration::from_millis(200)), ..Default::default() };
+    let opts = ClassGroupOptions::default().with_deadline(t + std::time::Duration::from_millis(200));
     if let Err(e) = k.class_group(&opts) {
         assert_eq!(e.kind(), &twofold::ErrorKind::Budget);
     }

@@ -60,6 +60,7 @@ class Report(TypedDict):
     route: str
     isogeny_selmer_dims: Optional[List[int]]
     two_selmer_dim: Optional[int]
+    two_selmer_route: Optional[str]
     descent_curve: Optional[DescentCurve]
     analytic_route: Optional[AnalyticRoute]
     sha2_order: Optional[str]

@@ -4,3 +4,4 @@
 pub mod f2;
 pub mod full;
 pub mod isogeny;
+pub mod algebra;

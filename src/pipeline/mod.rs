@@ -14,6 +14,7 @@ mod evidence;
 
 use crate::budget::{RankOptions, Stage, Work};
 use crate::curve::{Curve, Point};
+use crate::descent::algebra::{two_selmer_over_algebra, AlgebraDescent};
 use crate::descent::full::{full_two_descent, FullDescent};
 use crate::descent::isogeny::{covering_quartic, descend_via_isogeny, IsogenyDescent};
 use crate::error::Error;
@@ -80,6 +81,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         two_selmer_dim: None,
         isogeny_runs: vec![],
         full_descent: None,
+        algebra_descent: None,
         descent_curve: None,
         evidence: None,
         certificate: None,
@@ -114,9 +116,20 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     } else {
         Some(quartic_route(minimal, &torsion, primes, options, work, enough, &mut report).map_err(|e| e.in_stage("the quartic descent"))?)
     };
+    // the descent over Q[X]/(f): Sel^2(E) beside the isogeny Selmer groups
+    // (today for full rational 2-torsion; other shapes give None)
+    let algebra = if work.exhausted() || twos.len() != 3 {
+        None
+    } else {
+        algebra_route(minimal, &torsion, primes, work, &mut report)?
+    };
     combine(&mut report, data, &runs, full.as_ref())?;
+    if let Some(a) = &algebra {
+        combine_algebra(&mut report, &runs, full.as_ref(), a)?;
+    }
     report.isogeny_runs = runs;
     report.full_descent = full;
+    report.algebra_descent = algebra;
     report.descent_bounds = (report.rank_lower, report.rank_upper);
     if report.rank().is_some() {
         report.rank_proven_by.push(crate::report::ProofRoute::Descent);
@@ -366,6 +379,66 @@ fn settle_isogeny_sha(report: &mut RankReport) -> Result<(), Error> {
         }
     }
     report.isogeny_sha_dims = dims;
+    Ok(())
+}
+
+/// The descent over the algebra `Q[X]/(f)` (see [`crate::descent::algebra`]):
+/// an inconsistency is an error, a budget that runs out leaves it out.
+fn algebra_route(
+    minimal: &Curve,
+    torsion: &TorsionGroup,
+    primes: &[Natural],
+    work: &Work,
+    report: &mut RankReport,
+) -> Result<Option<AlgebraDescent>, Error> {
+    work.report(Stage::Solubility, "Sel^2(E) over the algebra Q[X]/(f)");
+    match two_selmer_over_algebra(minimal, torsion, primes, work) {
+        Ok(a) => Ok(a),
+        Err(e) if *e.kind() == crate::ErrorKind::Budget => {
+            report.budget_exhausted = true;
+            Ok(None)
+        }
+        Err(e) if *e.kind() == crate::ErrorKind::Internal => Err(e.in_stage("the algebra descent")),
+        // a shape or size the route does not handle: the other routes stand
+        Err(_) => Ok(None),
+    }
+}
+
+/// Joins the algebra route's `Sel^2(E)` to the report: its bound
+/// `dim Sel^2(E) - dim E(Q)[2]` is kept when tighter; it must equal the
+/// quartic enumeration's `Sel^2` where that finished, lie at or above the
+/// lower bound, and at or below every 2-isogeny bound `s + s' - 2` (the exact
+/// sequence `Sha(E)[phi] -> Sha(E)[2] -> Sha(E')[phi']`, Silverman AEC X.4).
+fn combine_algebra(report: &mut RankReport, runs: &[IsogenyDescent], full: Option<&FullDescent>, a: &AlgebraDescent) -> Result<(), Error> {
+    if let Some(q) = full.and_then(|f| f.selmer_dim) {
+        if q != a.selmer_dim {
+            return Err(Error::internal(
+                "the report",
+                format!("dim Sel^2(E) is {q} by the quartic enumeration and {} over the algebra Q[X]/(f)", a.selmer_dim),
+            ));
+        }
+    }
+    for r in runs {
+        if let Some(u) = r.upper {
+            if a.upper > u {
+                return Err(Error::internal(
+                    "the report",
+                    format!("the Sel^2(E) bound {} exceeds the 2-isogeny bound {u}", a.upper),
+                ));
+            }
+        }
+    }
+    if report.rank_lower.is_some_and(|l| l > a.upper) {
+        return Err(Error::internal("the report", "the descent routes contradict each other"));
+    }
+    report.two_selmer_dim = Some(a.selmer_dim);
+    if report.rank_upper.is_none_or(|u| a.upper < u) {
+        report.rank_upper = Some(a.upper);
+        // the isogeny route's unexplained coverings no longer bound the rank
+        if report.rank_lower == Some(a.upper) {
+            report.sha_suspects.clear();
+        }
+    }
     Ok(())
 }
 

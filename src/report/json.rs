@@ -101,6 +101,7 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
         &r.isogeny_selmer_dims.map(|(a, b)| format!("[{a},{b}]")).unwrap_or_else(|| "null".into()),
     );
     w.raw("two_selmer_dim", &opt(r.two_selmer_dim));
+    w.raw("two_selmer_route", &r.two_selmer_route().map(quote).unwrap_or_else(|| "null".into()));
     w.raw(
         "descent_curve",
         &r.descent_curve

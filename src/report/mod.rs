@@ -181,6 +181,9 @@ pub struct RankReport {
     /// The full 2-descent, when it ran (on the curve of `descent_curve` when
     /// that is set; its points are then already carried to the minimal model).
     pub full_descent: Option<crate::descent::full::FullDescent>,
+    /// The descent over the algebra `Q[X]/(f)`, when it ran (today on curves
+    /// with full rational 2-torsion): `Sel^2(E)` with its local images.
+    pub algebra_descent: Option<crate::descent::algebra::AlgebraDescent>,
     /// When the quartic descent ran on a curve isogenous to this one by an
     /// isogeny of odd degree (a smaller `c4` makes the enumeration cheaper):
     /// that curve (minimal, reduced) and the degree. Sel^2, `E(Q)[2]` and the
@@ -205,6 +208,18 @@ pub struct RankReport {
 }
 
 impl RankReport {
+    /// Which descent gave `two_selmer_dim`: `"quartic"` (the enumeration of
+    /// quartic 2-coverings), `"algebra"` (the descent over `Q[X]/(f)`),
+    /// `"quartic+algebra"` (both, and they agree), or `None`.
+    pub fn two_selmer_route(&self) -> Option<&'static str> {
+        let quartic = self.full_descent.as_ref().is_some_and(|f| f.selmer_dim.is_some());
+        match (quartic, self.algebra_descent.is_some()) {
+            (true, true) => Some("quartic+algebra"),
+            (true, false) => Some("quartic"),
+            (false, true) => Some("algebra"),
+            (false, false) => None,
+        }
+    }
     /// The rank, when the bounds meet.
     pub fn rank(&self) -> Option<usize> {
         match (self.rank_lower, self.rank_upper) {
@@ -263,7 +278,7 @@ impl fmt::Display for RankReport {
             )?,
         }
         if let Some(s) = self.two_selmer_dim {
-            writeln!(f, "  dim Sel^2(E) = {s} (E(Q)[2] included)")?;
+            writeln!(f, "  dim Sel^2(E) = {s} (E(Q)[2] included; by {})", self.two_selmer_route().unwrap_or("?"))?;
             if let Some((c, d)) = &self.descent_curve {
                 writeln!(f, "    (quartic descent run on the {d}-isogenous curve {c}, whose Sel^2 is isomorphic)")?;
             }

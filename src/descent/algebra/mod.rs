@@ -1,0 +1,218 @@
+//! The 2-descent over the algebra `A = Q[X]/(f)` (Cassels, Lectures on
+//! Elliptic Curves, chapters 14-15; Silverman, AEC X.1; Schaefer and Stoll,
+//! How to do a p-descent on an elliptic curve, Trans. AMS 356 (2004)).
+//!
+//! From an integral Weierstrass model, `X = 4x`, `Y = 4(2y + a1 x + a3)`
+//! gives `Y^2 = f(X) = X^3 + b2 X^2 + 8 b4 X + 16 b6`, a monic integral
+//! cubic. The map `P -> X(P) - theta` sends `E(Q)/2E(Q)` injectively into
+//! `A*/A*^2`, with the usual correction at the points of order 2 (there the
+//! factor of `A` that vanishes takes the product of the other differences).
+//! The image lies in the group of classes unramified outside
+//! `S = {2, primes dividing disc(f)}` whose norm is a square, and `Sel^2(E)`
+//! is the subgroup of those whose image in `(A (x) Q_v)*/squares` lies in
+//! the image of `E(Q_v)` at every place `v` of `S` and at the real place.
+//!
+//! Each local image is found from local points (`X` in `Q_v` with `f(X)` a
+//! non-zero square) until its dimension reaches the known value
+//! `dim E(Q_v)[2]` (plus 1 at `v = 2`, minus 1 at the real place; Silverman,
+//! AEC X.1 and VII.6); the points are kept as witnesses. A search that
+//! does not reach the dimension, or a span that exceeds it, is an error,
+//! never a smaller or larger Selmer group.
+//!
+//! This session covers the algebra `Q x Q x Q` (curves with full rational
+//! 2-torsion), where `A(S,2)` is `Q(S,2)^2` and no class group is needed;
+//! other shapes return `Ok(None)`.
+//!
+//! ```
+//! use twofold::descent::algebra::two_selmer_over_algebra;
+//! use twofold::{Curve, Work};
+//! use twofold::torsion::TorsionGroup;
+//! use malachite::Natural;
+//! // y^2 = x^3 - 36x (the congruent number 6; rank 1, Sha[2] trivial: published table, Cremona 1997)
+//! let e = Curve::from_coefficients([0, 0, 0, -36, 0]).unwrap();
+//! let primes = vec![Natural::from(2u32), Natural::from(3u32)];
+//! let t = TorsionGroup::compute(&e, &primes);
+//! let d = two_selmer_over_algebra(&e, &t, &primes, &Work::unlimited()).unwrap().unwrap();
+//! assert_eq!((d.selmer_dim, d.two_torsion_dim, d.upper), (3, 2, 1));
+//! ```
+
+pub mod local;
+mod selmer;
+
+use crate::budget::Work;
+use crate::curve::{Curve, Point};
+use crate::error::{Error, ErrorKind};
+use crate::solubility::Place;
+use crate::torsion::TorsionGroup;
+use malachite::base::num::basic::traits::{One, Zero};
+use malachite::{Integer, Natural, Rational};
+
+/// How the algebra `Q[X]/(f)` splits.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub enum AlgebraShape {
+    /// `f` has three rational roots: `A = Q x Q x Q`.
+    ThreeRational,
+    /// `f` has one rational root: `A = Q x K`, K quadratic.
+    RationalTimesQuadratic,
+    /// `f` is irreducible: `A = K`, K cubic.
+    Cubic,
+}
+
+/// The local image at one place: its dimension and the `X`-coordinates of
+/// local points (on `Y^2 = f(X)`, as rationals that lie in `Q_v`) whose
+/// images, together with those of `E(Q)[2]`, span it.
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct AlgebraLocalImage {
+    /// The place.
+    pub place: Place,
+    /// Dimension of the image of `E(Q_v)/2E(Q_v)`.
+    pub dim: usize,
+    /// Local points `X` with `f(X)` a non-zero square in `Q_v`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+    pub witnesses: Vec<Rational>,
+}
+
+/// `Sel^2(E)` from the descent over the algebra `Q[X]/(f)`.
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct AlgebraDescent {
+    /// The splitting of the algebra.
+    pub shape: AlgebraShape,
+    /// `[c0, c1, c2]` of `f(X) = X^3 + c2 X^2 + c1 X + c0` (`X = 4x` on the curve's model).
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+    pub cubic: [Integer; 3],
+    /// The finite primes of `S`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+    pub primes: Vec<Natural>,
+    /// A basis of `Sel^2(E)`; for `Q x Q x Q` each element is the triple of
+    /// square-free integers `(a1, a2, a1 a2 / square)` standing for
+    /// `X - e1, X - e2, X - e3`.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+    pub selmer_basis: Vec<Vec<Integer>>,
+    /// The F2-dimension of `Sel^2(E)` (including the image of `E(Q)[2]`).
+    pub selmer_dim: usize,
+    /// `dim E(Q)[2]`.
+    pub two_torsion_dim: usize,
+    /// The upper bound `dim Sel^2(E) - dim E(Q)[2]` for the rank.
+    pub upper: usize,
+    /// The local images, one per place of `S` and the real place.
+    pub local_images: Vec<AlgebraLocalImage>,
+    /// Whether a class group behind the result used a bound that rests on
+    /// the generalised Riemann hypothesis (never for `Q x Q x Q`).
+    pub conditional_on_grh: bool,
+}
+
+/// The monic model `Y^2 = X^3 + b2 X^2 + 8 b4 X + 16 b6` of `curve`
+/// (`X = 4x`): returns `[c0, c1, c2]`.
+pub fn monic_cubic(curve: &Curve) -> [Integer; 3] {
+    let [b2, b4, b6, _] = curve.b_invariants();
+    [Integer::from(16) * b6, Integer::from(8) * b4, b2.clone()]
+}
+
+/// `f(X)` for the monic cubic `[c0, c1, c2]`.
+pub(crate) fn eval_cubic(c: &[Integer; 3], x: &Rational) -> Rational {
+    let mut v = x.clone();
+    v += Rational::from(c[2].clone());
+    v *= x;
+    v += Rational::from(c[1].clone());
+    v *= x;
+    v += Rational::from(c[0].clone());
+    v
+}
+
+/// The `X`-coordinate (`X = 4x`) of a point of the curve's model.
+pub fn big_x(p: &Point) -> Option<Rational> {
+    match p {
+        Point::Infinity => None,
+        Point::Affine(x, _) => Some(Rational::from(4) * x),
+    }
+}
+
+/// `Sel^2(E)` of `curve` (an integral model; `primes` must contain every
+/// prime dividing its discriminant) by the descent over `Q[X]/(f)`, or
+/// `Ok(None)` where the algebra's shape is not handled yet.
+///
+/// Errors: [`ErrorKind::Budget`] when `work` runs out;
+/// [`ErrorKind::Internal`] when a local image exceeds its known dimension,
+/// the search for local points cannot complete one, or the image of
+/// `E(Q)[2]` is not in the Selmer group.
+pub fn two_selmer_over_algebra(
+    curve: &Curve,
+    torsion: &TorsionGroup,
+    primes: &[Natural],
+    work: &Work,
+) -> Result<Option<AlgebraDescent>, Error> {
+    let cubic = monic_cubic(curve);
+    let roots: Vec<Integer> = torsion
+        .two_torsion()
+        .iter()
+        .filter_map(big_x)
+        .map(|x| {
+            let (n, _) = x.to_numerator_and_denominator();
+            if x < Rational::ZERO {
+                -Integer::from(n)
+            } else {
+                Integer::from(n)
+            }
+        })
+        .collect();
+    for r in &roots {
+        if eval_cubic(&cubic, &Rational::from(r.clone())) != Rational::ZERO {
+            return Err(Error::internal("the algebra descent", "a point of order 2 is not a root of the monic cubic"));
+        }
+    }
+    match roots.len() {
+        3 => {}
+        1 => return Ok(None),
+        _ => return Ok(None),
+    }
+    let s = s_primes(&cubic, &roots, primes)?;
+    selmer::three_rational(cubic, [roots[0].clone(), roots[1].clone(), roots[2].clone()], s, work).map(Some)
+}
+
+/// `S`: 2 and the primes of `primes` that divide `disc(f)`; every prime of
+/// `disc(f)` must be listed.
+fn s_primes(cubic: &[Integer; 3], roots: &[Integer], primes: &[Natural]) -> Result<Vec<Natural>, Error> {
+    let mut disc = Integer::ONE;
+    if roots.len() == 3 {
+        for (i, j) in [(0, 1), (0, 2), (1, 2)] {
+            let d = &roots[i] - &roots[j];
+            disc *= &d * &d;
+        }
+    } else {
+        let [c0, c1, c2] = cubic;
+        // disc of X^3 + a X^2 + b X + c: a^2 b^2 - 4 b^3 - 4 a^3 c - 27 c^2 + 18 a b c
+        let (a, b, c) = (c2, c1, c0);
+        disc = a * a * b * b - Integer::from(4) * b * b * b - Integer::from(4) * a * a * a * c - Integer::from(27) * c * c
+            + Integer::from(18) * a * b * c;
+    }
+    if disc == Integer::ZERO {
+        return Err(Error::new(ErrorKind::Singular, "the cubic has a repeated root"));
+    }
+    let mut out = vec![Natural::from(2u32)];
+    let mut rest = disc;
+    for p in primes {
+        let pi = Integer::from(p.clone());
+        let mut divides = false;
+        while (&rest).divisible_by(&pi) {
+            rest /= &pi;
+            divides = true;
+        }
+        if divides && *p != 2u32 {
+            out.push(p.clone());
+        }
+    }
+    let two = Integer::from(2);
+    while (&rest).divisible_by(&two) {
+        rest /= &two;
+    }
+    if rest != Integer::ONE && rest != -Integer::ONE {
+        return Err(Error::new(ErrorKind::InvalidValue, "a prime of the discriminant is missing from the list of bad primes"));
+    }
+    out.sort();
+    Ok(out)
+}
+
+use malachite::base::num::arithmetic::traits::DivisibleBy;
