@@ -83,7 +83,7 @@ fn congruent_number_curves() {
 #[test]
 fn pipeline_gives_sel2_for_full_two_torsion() {
     let rows = common::read_table("curves-small-conductor.tsv");
-    let opts = RankOptions { cross_check_routes: true, ..RankOptions::default() };
+    let opts = RankOptions::default().with_cross_check_routes(true);
     let mut both = 0;
     for r in rows.iter().filter(|r| r.torsion_order % 4 == 0) {
         let e = Curve::from_coefficients(r.coefficients).unwrap();
