@@ -124,6 +124,11 @@ pub(crate) fn trial_divide(mut v: u128, primes: &[u64], cap: u128) -> u128 {
             let mut w = v as u64;
             for &q in &primes[i..] {
                 if w < q.saturating_mul(q) {
+                    // w is 1 or a prime; a prime of the list divides out too
+                    // (the list is increasing, as the factor base is built)
+                    if w >= q && primes[i..].binary_search(&w).is_ok() {
+                        w = 1;
+                    }
                     break;
                 }
                 while w.is_multiple_of(q) {
