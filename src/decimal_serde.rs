@@ -5,7 +5,7 @@
 //! `"-3/4"` (or `"5"` when integral). Containers of them (`Option`, `Vec`,
 //! arrays, pairs) are handled by the same [`decimal`] module:
 //!
-//! ```
+//! ```ignore
 //! # #[cfg(feature = "serde")] {
 //! use malachite::{Integer, Rational};
 //! #[derive(serde::Serialize, serde::Deserialize, PartialEq, Debug)]

@@ -101,6 +101,7 @@ fn reduce_class(x: &Integer, n: u32, modulus: i64) -> Integer {
     let a = valuation(x, &two).unwrap_or(0);
     let b = valuation(x, &three).unwrap_or(0);
     let unit = x / (Integer::from(2).pow(u64::from(a)) * Integer::from(3).pow(u64::from(b)));
+    // invariant: a residue modulo an i64 modulus lies in [0, modulus), so it fits an i64
     let r = i64::try_from(&unit.mod_op(Integer::from(modulus))).expect("a residue fits");
     let m = if r > modulus / 2 { r - modulus } else { r };
     Integer::from(2).pow(u64::from(a % n)) * Integer::from(3).pow(u64::from(b % n)) * Integer::from(m)
