@@ -58,7 +58,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     let minimal = data.minimal();
     let primes = data.bad_primes();
     work.report(Stage::Torsion, "torsion subgroup");
-    let torsion = TorsionGroup::compute_within(minimal, primes, work).map_err(|e| e.in_stage("the torsion subgroup"))?;
+    let torsion = TorsionGroup::compute_within(minimal, primes, &Work::unlimited()).map_err(|e| e.in_stage("the torsion subgroup"))?;
     let mut report = RankReport {
         input: data.input().clone(),
         minimal: minimal.clone(),
