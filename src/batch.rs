@@ -123,6 +123,7 @@ fn run_one(input: &CurveInput, options: &RankOptions) -> Result<RankReport, Erro
 /// The result for one input of a batch.
 #[derive(Clone, Debug, PartialEq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct BatchItem {
     /// Position in the input (0-based).
     pub index: usize,
@@ -141,6 +142,7 @@ impl BatchItem {
 
 /// Counts reported while a batch runs (in completion order).
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct BatchProgress {
     /// Curves finished so far (including errors).
     pub done: usize,
@@ -255,6 +257,7 @@ pub const MAX_THREADS: usize = 1024;
 /// What a batch did, in totals.
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct BatchSummary {
     /// Curves finished (including errors).
     pub done: usize,
@@ -301,6 +304,7 @@ impl std::fmt::Display for BatchSummary {
 
 /// The items of a finished batch (in input order) and its summary.
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct BatchOutcome {
     /// One item per input that ran, in input order. After a cancellation,
     /// inputs that never started are missing (compare `index`).

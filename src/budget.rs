@@ -102,6 +102,26 @@ pub struct RankOptions {
     pub certificate: bool,
 }
 
+/// The `with_deadline` / `with_cancel` builders of an option type with the
+/// fields `deadline: Option<Instant>` and `cancel: Option<Arc<AtomicBool>>`
+/// (`FactorLimits`, `SearchLimits`, `SaturationOptions`,
+/// `ClassGroupOptions`, `quartic::SearchOptions`): one copy instead of five.
+macro_rules! deadline_and_cancel_setters {
+    () => {
+        /// Sets the deadline.
+        pub fn with_deadline(mut self, v: std::time::Instant) -> Self {
+            self.deadline = Some(v);
+            self
+        }
+        /// Sets the cancellation flag.
+        pub fn with_cancel(mut self, v: std::sync::Arc<std::sync::atomic::AtomicBool>) -> Self {
+            self.cancel = Some(v);
+            self
+        }
+    };
+}
+pub(crate) use deadline_and_cancel_setters;
+
 impl Default for RankOptions {
     fn default() -> Self {
         RankOptions {

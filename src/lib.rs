@@ -1,6 +1,10 @@
 //! twofold: Mordell-Weil ranks of elliptic curves over Q by 2-descent, with
 //! proofs where possible and an honest account of what stays open.
 //!
+//! Give it a curve; it returns proven lower and upper bounds for the rank,
+//! independent points checked exactly on your model, and for every further
+//! claim (root number, regulator, analytic rank, Sha) what it rests on.
+//!
 //! # From a curve to a proven rank
 //!
 //! ```
@@ -18,58 +22,51 @@
 //! When the bounds do not meet, [`RankReport::rank`] is `None` and
 //! [`RankReport::sha_suspects`] lists the everywhere locally soluble
 //! coverings where no point was found: the places where Sha could hide.
-//! Many curves at once go through [`batch::analyse_batch`], which keeps the
-//! input order and runs on every core.
 //!
-//! # The main types
+//! # What is where
 //!
-//! - [`Curve`]: an integral Weierstrass model with its invariants; built from
-//!   a-invariants ([`Curve::from_coefficients`]) or text ([`Curve::parse`],
-//!   [`Curve::parse_scaled`] for rational models). [`Point`] is a rational
-//!   point with the group law on the curve; [`ModelChange`] a change of model.
-//! - [`RankOptions`] (in [`budget`]): search heights (a first height and the
-//!   ceiling the adaptive search may raise it to), a per-curve time limit, a
-//!   cancellation flag, a progress callback and the enumeration cap.
-//!   [`analyse`] turns them into one [`Work`] (deadline, cancel flag,
-//!   progress) that every stage receives.
-//! - [`CurveData`]: the curve with its global minimal model, the change to
-//!   it, the bad primes, the local data at each and the conductor, built
-//!   once ([`analyse_data`] takes one you built yourself, e.g. with
+//! | you want | look at |
+//! |---|---|
+//! | the rank of one curve | [`analyse`] -> [`RankReport`] (bounds, [`RankReport::rank`], points, Selmer dimensions, [`ShaSuspect`]s, [`Evidence`]) |
+//! | many curves, on every core | [`analyse_batch`], [`analyse_batch_with`], [`BatchOptions`] -> [`BatchItem`], [`BatchSummary`] |
+//! | limits: heights, time, cancel, progress | [`RankOptions`] (builders `with_...`), turned into one [`Work`] per analysis |
+//! | what went wrong | [`Error`] and its [`ErrorKind`]: bad input, budget, or an internal inconsistency |
+//! | the curve and its local data, built once | [`Curve`], [`Point`], [`ModelChange`], [`CurveData`], [`LocalData`] ([`Kodaira`] symbol, Tamagawa number, [`Reduction`]); module [`local`] (Tate's algorithm, conductor, minimal models) |
+//! | torsion | [`TorsionGroup`] ([`torsion`]) |
+//! | the descents on their own | [`descent::isogeny`] ([`IsogenyDescent`]), [`descent::full`] ([`FullDescent`]), [`descent::algebra`]; binary quartics and 2-coverings in [`quartic`]; local solubility with witnesses in [`solubility`] |
+//! | points | [`search`] (sieved search on coverings and on `E`), [`heegner`] (Heegner points for analytic rank one) |
+//! | heights, regulator, saturation | [`heights`] (periods, canonical heights, LLL, `mordell_weil_basis`) |
+//! | L-values and root numbers | [`lseries`] (f64 with error bounds, BSD quotient), [`lproof`] (proven by interval arithmetic, [`enclosure`]), [`rootno`] ([`RootNumber`]) |
+//! | a proof someone else can check | [`Certificate`] and [`certificate::verify`] |
+//! | odd isogenies | [`isogeny`] (the odd part of the isogeny class) |
+//! | number fields | [`numfield`] (maximal orders, ideals, class groups, units, `K(S,2)`) |
+//! | integers | [`arith`] (factorisation, primality, residue symbols, Hilbert symbols) |
+//!
+//! Everything else (enumeration kernels, sieves, scan loops, word-size
+//! helpers, caches) is private to the crate.
+//!
+//! # The report in more detail
+//!
+//! - [`Curve`] is an integral Weierstrass model with its invariants, built
+//!   from a-invariants ([`Curve::from_coefficients`]) or text
+//!   ([`Curve::parse`], [`Curve::parse_scaled`] for rational models).
+//! - [`CurveData`] is the curve with its global minimal model, the change to
+//!   it, the bad primes, the local data at each and the conductor;
+//!   [`analyse_data`] takes one you built yourself (e.g. with
 //!   [`CurveData::with_known_primes`] for a discriminant too hard to factor).
-//! - [`analyse`] returns a [`RankReport`]: minimal model, conductor, local
-//!   data ([`local::LocalData`], with its [`local::Kodaira`] symbol), torsion,
-//!   proven rank bounds and the routes that proved the rank
-//!   ([`report::ProofRoute`]), the proven order of Sha\[2\] when the rank
-//!   and Sel^2 are known, independent points on the input model, the
-//!   [`Route`] taken, Selmer dimensions, the isogeny descents
-//!   ([`descent::isogeny::IsogenyDescent`]) and the full 2-descent
-//!   ([`descent::full::FullDescent`]) with their local witnesses, and the
-//!   [`ShaSuspect`]s. Its [`RankReport::evidence`] ([`report::Evidence`])
-//!   adds the root number, a saturated basis with heights and regulator,
-//!   the real period, Tamagawa numbers, the analytic rank and the analytic
-//!   order of Sha, each statement tagged [`report::Standing`] (proven,
+//! - [`RankReport`] holds the minimal model, conductor, local data, torsion,
+//!   proven rank bounds and the routes that proved the rank ([`ProofRoute`]),
+//!   the proven order of Sha\[2\] when the rank and Sel^2 are known,
+//!   independent points on the input model, the [`Route`] taken, Selmer
+//!   dimensions, the isogeny descents and the full 2-descent with their
+//!   local witnesses, and the Sha suspects. Its [`RankReport::evidence`]
+//!   adds the root number, a saturated basis with heights and regulator, the
+//!   real period, Tamagawa numbers, the analytic rank and the analytic order
+//!   of Sha, each [`Statement`] tagged with its [`Standing`] (proven,
 //!   conditional on what, or numerical). It prints readably (`Display`) and
 //!   as one JSON line ([`RankReport::to_json`]).
-//! - [`certificate`]: the record of a rank proof built from a report, its
-//!   text form, and [`certificate::verify`], an independent exact re-check.
-//! - [`isogeny`]: rational isogenies of odd prime degree and the odd part of
-//!   the isogeny class (the quartic descent runs on the member with the
-//!   smallest `c4`); [`heights`]: periods, canonical heights, regulators,
-//!   LLL and saturation; [`lseries`]: `L^(k)(E,1)`, analytic rank and the
-//!   Birch and Swinnerton-Dyer quotient (f64, hand-derived error bounds);
-//!   [`lproof`]: `L(E,1)`, `L'(E,1)` and the root number proven in interval
-//!   arithmetic ([`enclosure`]) up to conductor `10^13`, the analytic route
-//!   to a proven rank 0 or 1.
-//! - [`batch`]: [`analyse_batch`] over an iterator of curves or text lines
-//!   ([`CurveInput`]), with [`BatchOptions`] (threads, observer), giving a
-//!   [`BatchOutcome`] of [`batch::BatchItem`]s and a [`batch::BatchSummary`].
-//! - Building blocks, usable on their own: [`arith`] (word arithmetic,
-//!   factorisation, Hilbert symbols), [`torsion`], [`solubility`] (local
-//!   solubility with witnesses), [`search`] (sieved point search),
-//!   [`quartic`] (binary quartics and 2-coverings), [`rootno`] (root numbers),
-//!   [`numfield`] (quadratic and cubic fields: maximal orders, ideals, class
-//!   groups, units and the groups `K(S,2)` for the descent over `Q[x]/(f)`).
-//! - [`Error`] with its [`ErrorKind`]: every failure is one of these.
+//! - Result types are `#[non_exhaustive]`: read their fields, but they are
+//!   built only by the crate, so new fields are not breaking changes.
 //!
 //! # Cargo features
 //!
@@ -142,10 +139,16 @@ pub mod solubility;
 pub mod torsion;
 mod error;
 
-pub use batch::{analyse_batch, BatchOptions, BatchOutcome, CurveInput};
+// The entry points and the result types, flat at the root.
+pub use batch::{analyse_batch, analyse_batch_with, analyse_text, BatchItem, BatchObserver, BatchOptions, BatchOutcome, BatchProgress, BatchSummary, CurveInput};
 pub use budget::{RankOptions, Stage, Work};
+pub use certificate::Certificate;
 pub use curve::{Curve, ModelChange, Point};
+pub use descent::full::FullDescent;
+pub use descent::isogeny::IsogenyDescent;
 pub use error::{Error, ErrorKind};
-pub use local::CurveData;
+pub use local::{CurveData, Kodaira, LocalData, Reduction};
 pub use pipeline::{analyse, analyse_data};
-pub use report::{RankReport, Route, ShaSuspect};
+pub use report::{AnalyticProof, Evidence, ProofRoute, RankReport, Route, ShaSuspect, Standing, Statement};
+pub use rootno::RootNumber;
+pub use torsion::TorsionGroup;

@@ -29,6 +29,7 @@ use std::cmp::Ordering;
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct TorsionGroup {
     points: Vec<Point>,
     invariants: Vec<u32>,

@@ -101,25 +101,6 @@ pub fn valuation(n: &Integer, p: &Natural) -> Option<u32> {
     Some(v)
 }
 
-/// The p-adic valuation of a non-zero `n` for a prime `p` (words);
-/// `u32::MAX` stands for `n = 0`.
-///
-/// ```
-/// assert_eq!(twofold::arith::valuation_u64(-54, 3), 3);
-/// ```
-pub fn valuation_u64(n: i64, p: u64) -> u32 {
-    if n == 0 {
-        return u32::MAX;
-    }
-    let mut m = n.unsigned_abs();
-    let mut v = 0;
-    while m % p == 0 {
-        m /= p;
-        v += 1;
-    }
-    v
-}
-
 /// A square root of `a` modulo the odd prime `p` (Tonelli-Shanks), or `None`
 /// if `a` is not a square mod p. For `p = 2` returns `a mod 2`.
 ///

@@ -87,6 +87,7 @@ pub enum UpperBoundBasis {
 /// assert_eq!(v.two_torsion_dim, 2);
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct VerifiedClaims {
     /// The lower bound for the rank established by the check.
     pub lower_bound: usize,

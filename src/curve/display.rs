@@ -10,15 +10,6 @@ use std::fmt;
 /// Writes `Σ c_i m_i` for integer coefficients and monomials `m_i` (the
 /// empty string for the constant monomial), skipping zero terms, with unit
 /// coefficients written as a bare sign and `0` for the zero polynomial.
-///
-/// ```
-/// use malachite::Integer;
-/// use twofold::curve::signed_terms;
-/// let c = [Integer::from(-1), Integer::from(0), Integer::from(942), Integer::from(0), Integer::from(-24649)];
-/// let s = signed_terms(&c, &["x^4", "x^3z", "x^2z^2", "xz^3", "z^4"]);
-/// assert_eq!(s, "-x^4 + 942x^2z^2 - 24649z^4");
-/// assert_eq!(signed_terms(&[Integer::from(0)], &[""]), "0");
-/// ```
 pub fn signed_terms(coeffs: &[Integer], monomials: &[&str]) -> String {
     let mut out = String::new();
     for (c, m) in coeffs.iter().zip(monomials) {
@@ -63,5 +54,18 @@ impl fmt::Display for Curve {
         let lhs = signed_terms(&[one.clone(), a1.clone(), a3.clone()], &["y^2", "xy", "y"]);
         let rhs = signed_terms(&[one, a2.clone(), a4.clone(), a6.clone()], &["x^3", "x^2", "x", ""]);
         write!(f, "{lhs} = {rhs}")
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn signed_terms_examples() {
+        let c = [Integer::from(-1), Integer::from(0), Integer::from(942), Integer::from(0), Integer::from(-24649)];
+        let s = signed_terms(&c, &["x^4", "x^3z", "x^2z^2", "xz^3", "z^4"]);
+        assert_eq!(s, "-x^4 + 942x^2z^2 - 24649z^4");
+        assert_eq!(signed_terms(&[Integer::from(0)], &[""]), "0");
     }
 }

@@ -8,7 +8,7 @@ mod point;
 mod reduction;
 #[cfg(feature = "serde")]
 mod serde_forms;
-pub use display::signed_terms;
+pub(crate) use display::signed_terms;
 pub use model::{Curve, ModelChange};
 pub use parse::{parse_coefficients, parse_rational, MAX_INPUT_LEN};
 pub use point::Point;

@@ -8,14 +8,6 @@ use malachite::{Integer, Natural, Rational};
 
 /// An echelon basis of a subspace of F2^n (n <= 64), kept reduced so that
 /// membership and insertion cost one pass over the basis.
-///
-/// ```
-/// use twofold::descent::f2::F2Span;
-/// let mut s = F2Span::new();
-/// assert!(s.insert(0b011) && s.insert(0b110));
-/// assert!(s.contains(0b101) && !s.contains(0b001));
-/// assert_eq!(s.dim(), 2);
-/// ```
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
 pub struct F2Span {
     /// basis vectors, each with a distinct leading bit (highest set bit)
@@ -74,12 +66,6 @@ impl F2Span {
 
 /// The kernel of the linear map F2^n -> F2^m given by the images of the
 /// basis vectors (`images[i]` is the image of e_i); returns a basis.
-///
-/// ```
-/// // e0 -> 1, e1 -> 1, e2 -> 0: the kernel is spanned by e0 + e1 and e2
-/// let k = twofold::descent::f2::kernel(&[1, 1, 0]);
-/// assert_eq!(k.len(), 2);
-/// ```
 pub fn kernel(images: &[u128]) -> Vec<u64> {
     // Gaussian elimination on the augmented rows (image | identity)
     let n = images.len();
@@ -104,14 +90,6 @@ pub fn kernel(images: &[u128]) -> Vec<u64> {
 /// Square classes of non-zero rationals whose odd-valuation primes lie in a
 /// fixed list: coordinates are the sign (bit 0) and the parities of the
 /// valuations at the listed primes (bits 1..).
-///
-/// ```
-/// use malachite::Rational;
-/// use twofold::descent::f2::SquareClasses;
-/// let sc = SquareClasses::new(vec![2u32.into(), 3u32.into()]);
-/// let v = sc.vector_of(&Rational::from(-12)).unwrap(); // -12 = -3 * 2^2
-/// assert_eq!(sc.integer_of(v).to_string(), "-3");
-/// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct SquareClasses {
     primes: Vec<Natural>,
@@ -122,10 +100,6 @@ impl SquareClasses {
     pub fn new(primes: Vec<Natural>) -> Self {
         assert!(primes.len() <= 63);
         SquareClasses { primes }
-    }
-    /// The listed primes.
-    pub fn primes(&self) -> &[Natural] {
-        &self.primes
     }
     /// The dimension 1 + number of primes.
     pub fn dim(&self) -> usize {
@@ -168,6 +142,17 @@ impl SquareClasses {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn small_examples() {
+        let mut s = F2Span::new();
+        assert!(s.insert(0b011) && s.insert(0b110));
+        assert!(s.contains(0b101) && !s.contains(0b001));
+        assert_eq!(s.dim(), 2);
+        let sc = SquareClasses::new(vec![2u32.into(), 3u32.into()]);
+        let v = sc.vector_of(&Rational::from(-12)).unwrap(); // -12 = -3 * 2^2
+        assert_eq!(sc.integer_of(v).to_string(), "-3");
+    }
 
     #[test]
     fn span_and_kernel() {

@@ -31,6 +31,7 @@ use malachite::{Integer, Natural, Rational};
 /// An everywhere locally soluble quartic class of Sel^2(E).
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct SelmerQuartic {
     /// A reduced integral quartic representing the class.
     pub quartic: Quartic,
@@ -47,6 +48,7 @@ pub struct SelmerQuartic {
 /// The result of the full 2-descent.
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct FullDescent {
     /// The invariants `(I, J)` enumerated.
     #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]

@@ -30,6 +30,7 @@ use malachite::{Integer, Natural, Rational};
 /// `N^2 = d M^4 + a M^2 e^2 + (b/d) e^4` are everywhere locally soluble.
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct IsogenySide {
     /// `a` of the model `y^2 = x(x^2 + a x + b)`.
     #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
@@ -64,6 +65,7 @@ pub struct IsogenySide {
 /// a witness point.
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct LocalImage {
     /// The place.
     pub place: Place,
@@ -91,6 +93,7 @@ pub struct LocalImage {
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct IsogenyDescent {
     /// The kernel point T, on the curve's own model.
     pub kernel_point: Point,

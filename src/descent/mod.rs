@@ -1,7 +1,7 @@
 //! The descents: through a rational 2-isogeny and (later) through quartic
 //! 2-coverings, with the F2 bookkeeping of Selmer groups.
 
-pub mod f2;
+pub(crate) mod f2;
 pub mod full;
 pub mod isogeny;
 pub mod algebra;

@@ -118,6 +118,7 @@ fn gcd128(mut a: i128, mut b: i128) -> i128 {
 /// `[A, B, C]` (`N | A`, `B = beta mod 2N`, `B^2 - 4AC = D`) per ideal
 /// class, each with the least `A` found.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct HeegnerData {
     /// The fundamental discriminant `D < -4`.
     pub discriminant: i64,

@@ -152,6 +152,7 @@ impl HeegnerOptions {
 /// assert!(r.discriminant < 0 && r.precision > 0);
 /// ```
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct HeegnerResult {
     /// A generator of `E(Q)` modulo torsion (saturated as `saturation`
     /// says), verified exactly on the curve, of infinite order.

@@ -57,16 +57,7 @@ impl SaturationOptions {
         self.max_saturation_prime = v;
         self
     }
-    /// Sets the deadline.
-    pub fn with_deadline(mut self, v: std::time::Instant) -> Self {
-        self.deadline = Some(v);
-        self
-    }
-    /// Sets the cancellation flag.
-    pub fn with_cancel(mut self, v: std::sync::Arc<std::sync::atomic::AtomicBool>) -> Self {
-        self.cancel = Some(v);
-        self
-    }
+    crate::budget::deadline_and_cancel_setters!();
     /// The default options within the deadline and cancellation flag of `work`.
     ///
     /// ```
@@ -103,6 +94,7 @@ impl Default for SaturationOptions {
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct Saturation {
     /// An upper bound B for the index of the span of the generators (and
     /// torsion) in its saturation; `None` when no bound was obtained.
@@ -179,6 +171,7 @@ impl std::fmt::Display for Saturation {
 /// assert!((b.regulator_f64() - 0.0511114082).abs() < 1e-8);
 /// ```
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct MordellWeilBasis {
     /// The (globally minimal) model the points lie on.
     pub curve: Curve,

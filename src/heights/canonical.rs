@@ -239,6 +239,7 @@ pub(crate) fn height_unchecked(curve: &Curve, local: &[LocalData], point: &Point
 /// assert!((float_to_f64(&l.archimedean) - 0.0511114082).abs() < 1e-9);
 /// ```
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct LocalHeights {
     /// The archimedean local height (numerical).
     pub archimedean: Float,

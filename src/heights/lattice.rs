@@ -124,6 +124,7 @@ pub fn regulator(curve: &Curve, local: &[LocalData], points: &[Point], prec: u64
 /// assert!(out.points[0] == p || out.points[0] == e.negate(&p));
 /// ```
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct LllReduction {
     /// The reduced basis (independent modulo torsion), LLL-reduced for the
     /// height pairing (delta = 0.99).

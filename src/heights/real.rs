@@ -204,6 +204,7 @@ fn f64_durand_kerner(c2: f64, c1: f64, c0: f64, bound: f64) -> [(f64, f64); 3] {
 /// assert_eq!(l.real_components, 1);
 /// ```
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct PeriodLattice {
     /// The least positive real period.
     pub omega1: malachite::Float,

@@ -51,6 +51,7 @@ pub const ODD_DEGREES: [u64; 8] = [3, 5, 7, 11, 13, 17, 19, 37];
 /// assert!(isogs.iter().any(|i| i.target == a2) && isogs.iter().any(|i| i.target == a3));
 /// ```
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct OddIsogeny {
     /// The degree, an odd prime.
     pub degree: u64,
@@ -174,6 +175,7 @@ fn build(curve: &Curve, l: u64, k: Vec<Rational>, bad: &[Natural]) -> Result<Odd
 /// assert_eq!(class.curves[small], Curve::from_coefficients([0, -1, 1, 0, 0]).unwrap());
 /// ```
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct OddIsogenyClass {
     /// The curves; the first is the minimal reduced model of the input.
     pub curves: Vec<Curve>,

@@ -155,6 +155,7 @@ impl fmt::Display for Reduction {
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq, Hash)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct LocalData {
     /// The prime p.
     #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]

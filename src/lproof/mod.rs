@@ -88,6 +88,7 @@ pub const TAIL_GOAL: f64 = 1e-12;
 /// ```
 #[derive(Clone, Debug, PartialEq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct ProvenLValue {
     /// 0 for `L(E, 1)` (root number `+1`), 1 for `L'(E, 1)` (root number `-1`).
     pub order: u8,
@@ -143,6 +144,7 @@ impl ProvenLValue {
 /// assert!(r.same_sign_gap.contains(0.0) && r.other_sign_gap.excludes_zero());
 /// ```
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct RootNumberProof {
     /// The proven global root number, or `None` when the budget ended first
     /// or the accuracy reached did not separate the signs.
@@ -175,6 +177,7 @@ pub struct RootNumberProof {
 /// assert!(v.low <= 0.3059997738340523 && 0.3059997738340523 <= v.high); // L'(E,1) (from memory)
 /// ```
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct AnalyticRankProof {
     /// The root number test.
     pub root_number: RootNumberProof,

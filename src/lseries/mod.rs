@@ -85,6 +85,7 @@ pub const MAX_CONDUCTOR: u64 = 1_000_000_000;
 /// assert!(v[1].by_sign && v[1].value == 0.0); // L'(E, 1) = 0 as w = +1
 /// ```
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct SpecialValue {
     /// The order `r` of the derivative.
     pub order: usize,
@@ -150,6 +151,7 @@ impl RankBasis {
 /// assert!((a.leading.value - 0.3059997738340).abs() < 1e-12); // L'(E, 1) (from memory)
 /// ```
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct AnalyticRank {
     /// The order of vanishing of `L(E, s)` at `s = 1` (see `basis`).
     pub rank: usize,
@@ -501,6 +503,7 @@ pub struct BsdInputs {
 /// assert!(s.is_square);
 /// ```
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct ShaEstimate {
     /// `L^{(r)}(E,1)/r! · #E(Q)_tors^2 / (Ω · Reg · ∏ c_p)`: the order of Sha
     /// **if** the Birch–Swinnerton-Dyer conjecture holds (conditional).
@@ -566,6 +569,7 @@ pub fn bsd_sha(inputs: &BsdInputs) -> Result<ShaEstimate, Error> {
 /// assert!(g.slope > 0.3 && g.slope < 2.0);
 /// ```
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct EulerProductGrowth {
     /// `(log p, log ∏_{q ≤ p, q good} #E(F_q)/q)` at every good prime `p`
     /// up to the bound.

@@ -76,16 +76,7 @@ impl ClassGroupOptions {
         self.unconditional = v;
         self
     }
-    /// Sets the deadline.
-    pub fn with_deadline(mut self, v: std::time::Instant) -> Self {
-        self.deadline = Some(v);
-        self
-    }
-    /// Sets the cancellation flag.
-    pub fn with_cancel(mut self, v: std::sync::Arc<std::sync::atomic::AtomicBool>) -> Self {
-        self.cancel = Some(v);
-        self
-    }
+    crate::budget::deadline_and_cancel_setters!();
 }
 
 /// A unit (or S-unit) as a product `prod base_i^exp_i` of field elements
@@ -120,6 +111,7 @@ impl CompactProduct {
 
 /// The class group and unit group of a number field.
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct ClassGroup {
     /// Cyclic factors `d_1 | d_2 | ...` (all > 1); empty for class number 1.
     pub structure: Vec<Integer>,

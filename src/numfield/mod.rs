@@ -83,5 +83,5 @@ mod relations;
 
 pub use field::{Element, NumberField};
 pub use ideal::{Ideal, PrimeIdeal};
-pub use classgroup::{ClassGroup, ClassGroupOptions, CompactProduct, FactorBaseBound, EULER_PRODUCT_LIMIT, MAX_ROUNDS, MIN_FACTOR_BASE_BOUND};
+pub use classgroup::{ClassGroup, ClassGroupOptions, CompactProduct, FactorBaseBound, EULER_PRODUCT_LIMIT, MIN_FACTOR_BASE_BOUND};
 pub use sunits::SquareClasses;

@@ -57,6 +57,7 @@ use malachite::{Integer, Natural, Rational};
 /// assert!(c.is_trivial());
 /// ```
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct CoveringClass {
     i: Integer,
     j: Integer,

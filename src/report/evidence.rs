@@ -50,6 +50,7 @@ impl Standing {
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct Statement {
     /// The statement, in words.
     pub claim: String,
@@ -80,6 +81,7 @@ impl std::fmt::Display for Statement {
 /// ```
 #[derive(Clone, Debug, PartialEq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct Evidence {
     /// The global root number w(E).
     pub root_number: Option<i8>,

@@ -4,15 +4,8 @@
 use super::RankReport;
 use crate::curve::Point;
 
-/// Builds one JSON object field by field.
-///
-/// ```
-/// use twofold::report::JsonWriter;
-/// let mut w = JsonWriter::new();
-/// w.string("input", "say \"hi\"");
-/// w.raw("n", "3");
-/// assert_eq!(w.finish(), r#"{"input":"say \"hi\"","n":3}"#);
-/// ```
+/// Builds one JSON object field by field (crate-private; the public JSON
+/// forms are `RankReport::to_json` and `error_json`).
 #[derive(Default)]
 pub struct JsonWriter {
     out: String,
@@ -189,4 +182,17 @@ pub fn error_json(input: &str, err: &crate::Error) -> String {
     w.string("input", input);
     w.string("error", &err.to_string());
     w.finish()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn writer_escapes_and_joins() {
+        let mut w = JsonWriter::new();
+        w.string("input", "say \"hi\"");
+        w.raw("n", "3");
+        assert_eq!(w.finish(), r#"{"input":"say \"hi\"","n":3}"#);
+    }
 }

@@ -6,7 +6,7 @@ mod evidence;
 #[cfg(feature = "serde")]
 mod serde_forms;
 
-pub use json::{error_json, JsonWriter};
+pub use json::error_json;
 pub use evidence::{Evidence, Standing, Statement, EVIDENCE_MAX_CONDUCTOR};
 
 use crate::curve::{Curve, Point};
@@ -91,9 +91,10 @@ pub struct AnalyticProof {
 /// An everywhere locally soluble 2-covering with no rational point found:
 /// a place where a non-trivial element of Sha could hide, or, once the rank
 /// is proven and the covering lies outside the image of E(Q), a proven
-/// non-trivial element of Sha[2] (`in_sha`).
+/// non-trivial element of Sha\[2\] (`in_sha`).
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct ShaSuspect {
     /// Which route and which side produced it, e.g. `"2-isogeny T=(0, 0), E'"`.
     pub origin: String,
@@ -123,6 +124,7 @@ pub struct ShaSuspect {
 /// ```
 #[derive(Clone, Debug, PartialEq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct RankReport {
     /// The curve as given.
     pub input: Curve,

@@ -154,6 +154,7 @@ pub enum RootNumberMethod {
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct RootNumber {
     /// The global root number `w(E)`, `1` or `-1`.
     pub global: i8,

@@ -64,16 +64,7 @@ impl SearchLimits {
         self.first_only = v;
         self
     }
-    /// Sets the deadline.
-    pub fn with_deadline(mut self, v: std::time::Instant) -> Self {
-        self.deadline = Some(v);
-        self
-    }
-    /// Sets the cancellation flag.
-    pub fn with_cancel(mut self, v: std::sync::Arc<std::sync::atomic::AtomicBool>) -> Self {
-        self.cancel = Some(v);
-        self
-    }
+    crate::budget::deadline_and_cancel_setters!();
     /// Limits with the given height, all points wanted, no deadline and no
     /// cancellation flag.
     ///
@@ -108,6 +99,7 @@ impl SearchLimits {
 /// assert_eq!(p.y, 3);
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
+#[non_exhaustive]
 pub struct QuarticPoint {
     /// The first coordinate.
     pub x: Integer,
@@ -131,6 +123,7 @@ pub struct QuarticPoint {
 /// assert_eq!(out.candidates_tested, 1 + 40 * 81);
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SearchOutcome<P> {
     /// The points found, sorted by height and then by coordinates.
     pub points: Vec<P>,

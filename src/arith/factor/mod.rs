@@ -45,16 +45,7 @@ pub struct FactorLimits {
 }
 
 impl FactorLimits {
-    /// Sets the deadline.
-    pub fn with_deadline(mut self, v: std::time::Instant) -> Self {
-        self.deadline = Some(v);
-        self
-    }
-    /// Sets the cancellation flag.
-    pub fn with_cancel(mut self, v: std::sync::Arc<std::sync::atomic::AtomicBool>) -> Self {
-        self.cancel = Some(v);
-        self
-    }
+    crate::budget::deadline_and_cancel_setters!();
 }
 
 /// The budget as the kernels see it.
@@ -104,6 +95,7 @@ pub(crate) trait Splitter {
 /// assert_eq!(f.product(), Integer::from(-360));
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct Factorization {
     sign: i8,
     factors: Vec<(Natural, u32)>,
@@ -251,7 +243,7 @@ impl Factorization {
 /// Pollard-Brent rho in Montgomery words; bigger ones by a short rho, the
 /// elliptic curve method at rising bounds and, below 400 bits, the
 /// self-initialising quadratic sieve. Every returned prime passes
-/// [`is_probable_prime`] (a proof below 2^64) and the product is checked
+/// [`is_probable_prime`](crate::arith::is_probable_prime) (a proof below 2^64) and the product is checked
 /// against `n`.
 ///
 /// Errors: `n = 0` gives [`ErrorKind::InvalidValue`]; a deadline passed, the

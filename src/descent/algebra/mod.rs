@@ -64,6 +64,7 @@ pub enum AlgebraShape {
 /// images, together with those of `E(Q)[2]`, span it.
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct AlgebraLocalImage {
     /// The place.
     pub place: Place,
@@ -77,6 +78,7 @@ pub struct AlgebraLocalImage {
 /// `Sel^2(E)` from the descent over the algebra `Q[X]/(f)`.
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub struct AlgebraDescent {
     /// The splitting of the algebra.
     pub shape: AlgebraShape,

@@ -113,16 +113,7 @@ impl SearchOptions {
         self.max_candidates = Some(v);
         self
     }
-    /// Sets the deadline.
-    pub fn with_deadline(mut self, v: std::time::Instant) -> Self {
-        self.deadline = Some(v);
-        self
-    }
-    /// Sets the cancellation flag.
-    pub fn with_cancel(mut self, v: std::sync::Arc<std::sync::atomic::AtomicBool>) -> Self {
-        self.cancel = Some(v);
-        self
-    }
+    crate::budget::deadline_and_cancel_setters!();
 }
 
 impl Default for SearchOptions {
