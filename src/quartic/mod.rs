@@ -50,8 +50,9 @@ mod reduction;
 mod enumerate;
 mod classes;
 mod numeric;
+mod proven;
 
 pub use self::core::{Matrix, Quartic, RootType};
-pub use self::reduction::{gl2z_equivalent, gl2z_equivalence, reduce};
+pub use self::reduction::{gl2z_decide, gl2z_equivalent, gl2z_equivalence, reduce};
 pub use self::enumerate::{covering_invariants, covering_invariants_conservative, quartics_with_invariants, SearchOptions};
 pub use self::classes::{covering_class, same_covering, CoveringClass};
