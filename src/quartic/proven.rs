@@ -354,6 +354,29 @@ fn may_meet_domain(re: &Iv, ab2: &Iv) -> bool {
     !(re.lo > half || re.hi < -half || ab2.hi < 1u32)
 }
 
+/// [`act_box`] and [`may_meet_domain`] in `f64` interval arithmetic (the
+/// box rounded outwards first): `false` only when the image provably misses
+/// `F`.
+fn may_meet_domain_f64(n: &[[i64; 2]; 2], x: &Iv, y2: &Iv) -> bool {
+    use crate::enclosure::Interval as R;
+    let down = |v: &Float| f64::rounding_from(v, Floor).0;
+    let up = |v: &Float| f64::rounding_from(v, Ceiling).0;
+    let (xi, yi) = (R::new(down(&x.lo), up(&x.hi)), R::new(down(&y2.lo), up(&y2.hi)));
+    let sq = |v: R| {
+        let far = v.lo().abs().max(v.hi().abs());
+        let near = if v.lo() > 0.0 || v.hi() < 0.0 { v.lo().abs().min(v.hi().abs()) } else { 0.0 };
+        R::new((R::point(near) * R::point(near)).lo(), (R::point(far) * R::point(far)).hi())
+    };
+    let [[a, b], [c, d]] = *n;
+    let (a, b, c, d) = (R::from_i64(a), R::from_i64(b), R::from_i64(c), R::from_i64(d));
+    let u = d * xi - b;
+    let v = a - c * xi;
+    let den = sq(v) + sq(c) * yi;
+    let re = (u * v - d * c * yi) / den;
+    let ab2 = (sq(u) + sq(d) * yi) / den;
+    !(re.lo() > 0.5 || re.hi() < -0.5 || ab2.hi() < 1.0)
+}
+
 fn start_prec(h: &Quartic) -> u64 {
     let bits = h.coeff_refs().iter().map(|c| significant_bits(c)).max().unwrap_or(0);
     128 + 2 * bits
@@ -413,6 +436,12 @@ pub(crate) fn candidate_set(g: &Quartic) -> Result<Vec<(Quartic, Matrix)>, Error
     let (h, m, x, y2, prec) = proven_reduction(g)?;
     let mut out: Vec<(Quartic, Matrix)> = Vec::new();
     for n in super::reduction::neighbours() {
+        // a quick rigorous filter first: the box rounded outwards to f64
+        // intervals (crate::enclosure, outward rounding); only a candidate
+        // it cannot exclude is checked again at full precision
+        if !may_meet_domain_f64(n, &x, &y2) {
+            continue;
+        }
         let Some((re, ab2)) = act_box(n, &x, &y2, prec) else {
             // a denominator interval with zero cannot occur (D ≥ c^2 (Im τ)^2 > 0
             // or D = a^2 = 1); keep the candidate to stay complete

@@ -50,9 +50,6 @@ impl C {
     fn new(re: f64, im: f64) -> C {
         C { re, im }
     }
-    fn add(self, o: C) -> C {
-        C::new(self.re + o.re, self.im + o.im)
-    }
     fn sub(self, o: C) -> C {
         C::new(self.re - o.re, self.im - o.im)
     }
