@@ -105,3 +105,30 @@ fn non_utf8_argument_is_a_usage_error() {
     no_panic(&out);
     assert_eq!(out.status.code(), Some(2), "{}", String::from_utf8_lossy(&out.stderr));
 }
+
+/// Whitespace-only input ran the demo curve: now it is an error line, from
+/// standard input and from an argument alike.
+#[test]
+fn whitespace_only_input_is_an_error_line() {
+    let Some(out) = run(&[os("--json"), os("--threads"), os("1")], b"   \n\t\n") else { return };
+    no_panic(&out);
+    let text = String::from_utf8(out.stdout).unwrap();
+    let lines: Vec<&str> = text.lines().collect();
+    assert_eq!(lines.len(), 2, "{text}");
+    assert!(lines.iter().all(|l| l.contains("\"error\"")), "{text}");
+    let Some(out) = run(&[os("--json"), os("   ")], b"") else { return };
+    no_panic(&out);
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert_eq!(text.lines().count(), 1, "{text}");
+    assert!(text.contains("\"error\""), "{text}");
+}
+
+/// There was no default budget (a curve with 100-digit coefficients ran
+/// past 120 s): the usage text states the default of 30 s per curve.
+#[test]
+fn default_budget_is_documented() {
+    let Some(out) = run(&[os("--help")], b"") else { return };
+    no_panic(&out);
+    let all = format!("{}{}", String::from_utf8_lossy(&out.stdout), String::from_utf8_lossy(&out.stderr));
+    assert!(all.contains("default 30"), "{all}");
+}

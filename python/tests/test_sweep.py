@@ -43,9 +43,12 @@ def same_result(a, b):
         return "equal"
     if "error" in a or "error" in b or not (a["budget_exhausted"] or b["budget_exhausted"]):
         return None
-    for k in ("input", "minimal_model", "conductor", "torsion"):
+    for k in ("input", "minimal_model", "conductor"):
         if a[k] != b[k]:
             return None
+    # a torsion step cut short by the budget leaves "torsion": null
+    if a["torsion"] is not None and b["torsion"] is not None and a["torsion"] != b["torsion"]:
+        return None
     lo = max(x for x in (a["rank_lower"], b["rank_lower"], 0) if x is not None)
     his = [x for x in (a["rank_upper"], b["rank_upper"]) if x is not None]
     if his and lo > min(his):

@@ -51,7 +51,7 @@ class Report(TypedDict):
     input: str
     minimal_model: List[str]
     conductor: str
-    torsion: List[int]
+    torsion: Optional[List[int]]  # null when the budget ran out in the torsion step
     rank_lower: Optional[int]
     rank_upper: Optional[int]
     rank: Optional[int]

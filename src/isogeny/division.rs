@@ -50,27 +50,57 @@ impl DivisionPolys {
     }
 
     /// `f_n` (see the module documentation).
+    #[cfg(test)]
     pub(crate) fn f(&mut self, n: u64) -> ZPoly {
+        self.f_within(n, &|| false).unwrap_or_default()
+    }
+
+    /// `f_n`, or `None` when `stop` says so (checked before every product
+    /// of the recursion, so a long computation for a large `n` ends
+    /// promptly).
+    pub(crate) fn f_within(&mut self, n: u64, stop: &dyn Fn() -> bool) -> Option<ZPoly> {
         if let Some(p) = self.memo.get(&n) {
-            return p.clone();
+            return Some(p.clone());
+        }
+        if stop() {
+            return None;
         }
         let m = n / 2;
         let out = if n % 2 == 1 {
-            let (a, b, c, d) = (self.f(m + 2), self.f(m), self.f(m - 1), self.f(m + 1));
+            let (a, b, c, d) = (self.f_within(m + 2, stop)?, self.f_within(m, stop)?, self.f_within(m - 1, stop)?, self.f_within(m + 1, stop)?);
             let b3 = z_mul(&z_mul(&b, &b), &b);
+            if stop() {
+                return None;
+            }
             let d3 = z_mul(&z_mul(&d, &d), &d);
+            if stop() {
+                return None;
+            }
             if m % 2 == 0 {
                 z_sub(&z_mul(&z_mul(&self.b_sq, &a), &b3), &z_mul(&c, &d3))
             } else {
                 z_sub(&z_mul(&a, &b3), &z_mul(&z_mul(&self.b_sq, &c), &d3))
             }
         } else {
-            let (fm, a, c, e, d) = (self.f(m), self.f(m + 2), self.f(m - 1), self.f(m - 2), self.f(m + 1));
-            let inner = z_sub(&z_mul(&a, &z_mul(&c, &c)), &z_mul(&e, &z_mul(&d, &d)));
+            let (fm, a, c, e, d) = (
+                self.f_within(m, stop)?,
+                self.f_within(m + 2, stop)?,
+                self.f_within(m - 1, stop)?,
+                self.f_within(m - 2, stop)?,
+                self.f_within(m + 1, stop)?,
+            );
+            let left = z_mul(&a, &z_mul(&c, &c));
+            if stop() {
+                return None;
+            }
+            let inner = z_sub(&left, &z_mul(&e, &z_mul(&d, &d)));
+            if stop() {
+                return None;
+            }
             z_mul(&fm, &inner)
         };
         self.memo.insert(n, out.clone());
-        out
+        Some(out)
     }
 }
 

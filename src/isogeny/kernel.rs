@@ -183,7 +183,7 @@ fn subgroups_mod_p(curve: &Curve, l: u64, p: u64) -> Vec<Vec<u64>> {
 }
 
 /// Newton lifting of a simple root of `f` modulo `p` to a root modulo `p^(2^steps)`.
-fn lift_root(f: &ZPoly, df: &ZPoly, root: u64, p: u64, target_bits: u64) -> Option<(Integer, Integer)> {
+fn lift_root(f: &ZPoly, df: &ZPoly, root: u64, p: u64, target_bits: u64, stop: &dyn Fn() -> bool) -> Option<(Integer, Integer)> {
     let pz = Integer::from(p);
     let mut modulus = pz.clone();
     let mut r = Integer::from(root);
@@ -191,6 +191,9 @@ fn lift_root(f: &ZPoly, df: &ZPoly, root: u64, p: u64, target_bits: u64) -> Opti
         return None;
     }
     while modulus.significant_bits() < target_bits {
+        if stop() {
+            return None;
+        }
         modulus = &modulus * &modulus;
         let fv = z_eval_mod(f, &r, &modulus);
         let dv = z_eval_mod(df, &r, &modulus);
@@ -198,6 +201,43 @@ fn lift_root(f: &ZPoly, df: &ZPoly, root: u64, p: u64, target_bits: u64) -> Opti
         r = (r - fv * inv).mod_op(&modulus);
     }
     Some((r, modulus))
+}
+
+/// Whether `k` divides `f` in `Q[x]` (low to high coefficients, `k`
+/// non-constant with non-zero leading coefficient `c`): the pseudo-remainder
+/// of `c^{deg f - deg k + 1} f` by `k` vanishes exactly then. `None` when
+/// `stop` ends it.
+fn pseudo_divides(k: &ZPoly, f: &ZPoly, stop: &dyn Fn() -> bool) -> Option<bool> {
+    let m = k.len().checked_sub(1)?;
+    let c = k.last()?.clone();
+    if m == 0 || c == 0 {
+        return Some(m == 0 && c != 0);
+    }
+    let mut r: ZPoly = f.clone();
+    while r.len() > m && r.last().is_some_and(|x| *x == 0) {
+        r.pop();
+    }
+    while r.len() > m {
+        if stop() {
+            return None;
+        }
+        let top = r.len() - 1;
+        // invariant: r.len() > m >= 1, so r has a last element
+        let lead = r[top].clone();
+        let shift = top - m;
+        for x in r.iter_mut() {
+            *x *= &c;
+        }
+        for (i, kc) in k.iter().enumerate() {
+            r[shift + i] -= &lead * kc;
+        }
+        // the top coefficient is now c·lead - lead·c = 0
+        r.pop();
+        while r.len() > m && r.last().is_some_and(|x| *x == 0) {
+            r.pop();
+        }
+    }
+    Some(r.iter().all(|x| *x == 0))
 }
 
 fn invert_mod(a: &Integer, m: &Integer) -> Option<Integer> {
@@ -228,9 +268,8 @@ pub(crate) fn kernel_polynomials(
     max_p: u64,
     stop: &dyn Fn() -> bool,
 ) -> Vec<QPoly> {
-    let f = divpolys.f(l);
+    let Some(f) = divpolys.f_within(l, stop) else { return Vec::new() };
     let df = z_derivative(&f);
-    let fq = q_from_z(&f);
     // Mignotte: coefficients of any integral factor of f are at most 2^deg ||f||_2
     let norm_bits = f.iter().map(|c| c.significant_bits()).max().unwrap_or(0) + (f.len() as u64).significant_bits();
     let target_bits = (l.significant_bits()) + (f.len() as u64) + norm_bits + 8;
@@ -250,10 +289,13 @@ pub(crate) fn kernel_polynomials(
         }
         used += 1;
         for roots in sets {
+            if stop() {
+                return found;
+            }
             let mut lifted = Vec::with_capacity(roots.len());
             let mut modulus = Integer::ONE;
             for &r in &roots {
-                match lift_root(&f, &df, r, p, target_bits) {
+                match lift_root(&f, &df, r, p, target_bits, stop) {
                     Some((x, m)) => {
                         modulus = m;
                         lifted.push(x);
@@ -275,8 +317,10 @@ pub(crate) fn kernel_polynomials(
                 continue;
             }
             let monic: QPoly = k.iter().map(|c| Rational::from(c.clone()) / Rational::from(l)).collect();
-            let (_, rem) = q_divrem(&fq, &monic);
-            if rem.is_empty() && !found.contains(&monic) {
+            // K | f over Q, tested by pseudo-division in integers (no
+            // rational normalisation; the deadline is checked as it goes)
+            let Some(divides) = pseudo_divides(&k, &f, stop) else { return found };
+            if divides && !found.contains(&monic) {
                 found.push(monic);
             }
         }
@@ -365,4 +409,21 @@ fn rational_sqrt(q: &Rational) -> Option<Rational> {
     let rn = n.checked_sqrt()?;
     let rd = d.checked_sqrt()?;
     Some(Rational::from_naturals(rn, rd))
+}
+
+#[cfg(test)]
+mod pseudo_division_tests {
+    use super::*;
+
+    #[test]
+    fn pseudo_division_decides_divisibility_over_q() {
+        let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<ZPoly>();
+        // (3x - 2)(x^2 + 1) = 3x^3 - 2x^2 + 3x - 2
+        let k = z(&[-2, 3]);
+        assert_eq!(pseudo_divides(&k, &z(&[-2, 3, -2, 3]), &|| false), Some(true));
+        assert_eq!(pseudo_divides(&k, &z(&[-1, 3, -2, 3]), &|| false), Some(false));
+        // (3x - 2)(5x^2 - 7) times 2, and a stop that says stop
+        assert_eq!(pseudo_divides(&k, &z(&[28, -42, -20, 30]), &|| false), Some(true));
+        assert_eq!(pseudo_divides(&k, &z(&[28, -42, -20, 30]), &|| true), None);
+    }
 }

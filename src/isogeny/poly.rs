@@ -71,6 +71,7 @@ pub(crate) fn z_derivative(a: &ZPoly) -> ZPoly {
     trim(a.iter().enumerate().skip(1).map(|(k, c)| c * Integer::from(k as u64)).collect())
 }
 
+#[cfg(test)]
 pub(crate) fn q_from_z(a: &ZPoly) -> QPoly {
     a.iter().map(|c| Rational::from(c.clone())).collect()
 }

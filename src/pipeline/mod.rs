@@ -29,11 +29,11 @@ use malachite::{Integer, Natural};
 /// could hide.
 ///
 /// Errors: [`crate::ErrorKind::FactorBudget`] when the discriminant cannot be
-/// factored within the budget; [`crate::ErrorKind::Budget`] when the torsion
-/// subgroup (which every later stage needs; normally milliseconds) cannot
-/// be finished within it, with the order bound and the points found in the
-/// message. A budget that runs out later gives a report with what was
-/// proven (`budget_exhausted` set).
+/// factored within the budget. A budget that runs out later gives a report
+/// with what was proven (`budget_exhausted` set); when it runs out in the
+/// torsion step (which every later stage needs; normally milliseconds) the
+/// report has `torsion_known == false`, no rank bounds, and a statement with
+/// the bound on the torsion order.
 ///
 /// ```
 /// use twofold::{analyse, Curve, RankOptions};
@@ -58,37 +58,26 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     let minimal = data.minimal();
     let primes = data.bad_primes();
     work.report(Stage::Torsion, "torsion subgroup");
-    let torsion = TorsionGroup::compute_within(minimal, primes, &Work::unlimited()).map_err(|e| e.in_stage("the torsion subgroup"))?;
-    let mut report = RankReport {
-        input: data.input().clone(),
-        minimal: minimal.clone(),
-        conductor: Integer::from(data.conductor().clone()),
-        local: data.local().to_vec(),
-        torsion: torsion.invariants(),
-        torsion_points: torsion.points().iter().map(|p| data.to_input(p)).collect(),
-        rank_lower: None,
-        rank_upper: None,
-        descent_bounds: (None, None),
-        rank_proven_by: vec![],
-        analytic: None,
-        sha2_dim: None,
-        isogeny_sha_dims: vec![],
-        route: Route::None,
-        isogeny_selmer_dims: None,
-        points: vec![],
-        independence: String::new(),
-        sha_suspects: vec![],
-        two_selmer_dim: None,
-        isogeny_runs: vec![],
-        full_descent: None,
-        algebra_descent: None,
-        descent_curve: None,
-        evidence: None,
-        certificate: None,
-        change: data.change().clone(),
-        budget_exhausted: false,
-        elapsed: work.elapsed(),
+    let torsion = match TorsionGroup::compute_within(minimal, primes, work) {
+        Ok(t) => t,
+        // cut short by the deadline or the cancel flag: a report with what
+        // is known (model, conductor, local data, the order bound in the
+        // statement), every stage that rests on the torsion skipped
+        Err(e) if *e.kind() == crate::ErrorKind::Budget => {
+            let mut report = empty_report(data, work);
+            report.torsion_known = false;
+            report.budget_exhausted = true;
+            report.evidence = Some(unfinished_evidence(format!(
+                "the torsion subgroup was not finished within the budget ({e}); the descents, the analytic route and the evidence rest on it and were skipped"
+            )));
+            report.elapsed = work.elapsed();
+            return Ok(report);
+        }
+        Err(e) => return Err(e.in_stage("the torsion subgroup")),
     };
+    let mut report = empty_report(data, work);
+    report.torsion = torsion.invariants();
+    report.torsion_points = torsion.points().iter().map(|p| data.to_input(p)).collect();
     // the analytic route first: a rank it proves tells the descents' point
     // searches when to stop
     let analytic = analytic_route(data, options, work);
@@ -167,6 +156,60 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     work.report(Stage::Report, "done");
     report.elapsed = work.elapsed();
     Ok(report)
+}
+
+/// A report with the curve's data and nothing proven yet.
+fn empty_report(data: &CurveData, work: &Work) -> RankReport {
+    RankReport {
+        input: data.input().clone(),
+        minimal: data.minimal().clone(),
+        conductor: Integer::from(data.conductor().clone()),
+        local: data.local().to_vec(),
+        torsion: vec![],
+        torsion_points: vec![],
+        torsion_known: true,
+        rank_lower: None,
+        rank_upper: None,
+        descent_bounds: (None, None),
+        rank_proven_by: vec![],
+        analytic: None,
+        sha2_dim: None,
+        isogeny_sha_dims: vec![],
+        route: Route::None,
+        isogeny_selmer_dims: None,
+        points: vec![],
+        independence: String::new(),
+        sha_suspects: vec![],
+        two_selmer_dim: None,
+        isogeny_runs: vec![],
+        full_descent: None,
+        algebra_descent: None,
+        descent_curve: None,
+        evidence: None,
+        certificate: None,
+        change: data.change().clone(),
+        budget_exhausted: false,
+        elapsed: work.elapsed(),
+    }
+}
+
+/// Evidence holding one unfinished statement (a stage cut short before any
+/// evidence could be computed).
+fn unfinished_evidence(why: String) -> crate::report::Evidence {
+    crate::report::Evidence {
+        root_number: None,
+        generators: None,
+        reduced_points: vec![],
+        heights: vec![],
+        regulator: None,
+        saturation: None,
+        real_period: None,
+        tamagawa: vec![],
+        vanishing_order: None,
+        leading_value: None,
+        sha_bsd_estimate: None,
+        statements: vec![Statement { claim: why, standing: Standing::Unfinished }],
+    }
 }
 
 /// Curves with `|c4|` below this run the quartic descent on themselves

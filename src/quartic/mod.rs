@@ -27,16 +27,13 @@
 //!   millisecond for `|I|` in the hundreds, a tenth of a second for
 //!   `I ≈ 4.5·10^4`, seconds for `I ≈ 5·10^6`. Use
 //!   [`SearchOptions::max_candidates`] to bound it.
-//! * Reduction and the `GL2(Z)` test compute the covariant point `τ` in `f64`
-//!   for small forms and in multiple precision for coefficients beyond
-//!   `2^40`, near the boundary of the domain or for ill-conditioned
-//!   invariants, and confirm every equivalence exactly; forms are reduced by
-//!   exact integer moves first, and the near-reduced sets use a margin of
-//!   `1e-6`. A failure of the floating point evaluation is reported as an
-//!   error, never as a wrong answer, except that an error in `τ` larger than
-//!   the margin could make two equivalent forms look inequivalent (no
-//!   certified bound; not observed by the fuzz harness up to 160 digits,
-//!   where the `f64`-only version missed about 1% at 20 digits).
+//! * The `GL2(Z)` test ([`gl2z_decide`], [`gl2z_equivalent`]) is proven
+//!   at any size: the covariant point `τ` is enclosed by interval
+//!   arithmetic in multiple precision (raised until it decides), which makes
+//!   the finite set of candidate reduced forms provably complete, and a
+//!   common candidate is checked in integers. [`reduce`] and the
+//!   enumeration's grouping into classes use the same candidate sets; a
+//!   double-precision (or 256-bit) `τ` only chooses the first moves.
 //! * The covering-class test ([`same_covering`], [`CoveringClass::same_as`])
 //!   is exact at any size: no floating-point step decides it.
 //! * Local solubility is not decided here: the enumeration returns all
@@ -50,8 +47,9 @@ mod reduction;
 mod enumerate;
 mod classes;
 mod numeric;
+mod proven;
 
 pub use self::core::{Matrix, Quartic, RootType};
-pub use self::reduction::{gl2z_equivalent, gl2z_equivalence, reduce};
+pub use self::reduction::{gl2z_decide, gl2z_equivalence, gl2z_equivalent, reduce};
 pub use self::enumerate::{covering_invariants, covering_invariants_conservative, quartics_with_invariants, SearchOptions};
 pub use self::classes::{covering_class, same_covering, CoveringClass};

@@ -50,9 +50,6 @@ impl C {
     fn new(re: f64, im: f64) -> C {
         C { re, im }
     }
-    fn add(self, o: C) -> C {
-        C::new(self.re + o.re, self.im + o.im)
-    }
     fn sub(self, o: C) -> C {
         C::new(self.re - o.re, self.im - o.im)
     }
@@ -365,7 +362,7 @@ pub(crate) fn reduce_tau(g: &Quartic) -> Option<(Quartic, Matrix, (f64, f64))> {
 
 /// Matrices of `GL2(Z)` with entries in `[-2, 2]`: they include every `N`
 /// with `N F` meeting a small neighbourhood of the fundamental domain `F`.
-fn neighbours() -> &'static [[[i64; 2]; 2]] {
+pub(crate) fn neighbours() -> &'static [[[i64; 2]; 2]] {
     use std::sync::OnceLock;
     static LIST: OnceLock<Vec<[[i64; 2]; 2]>> = OnceLock::new();
     LIST.get_or_init(|| {
@@ -386,34 +383,13 @@ fn neighbours() -> &'static [[[i64; 2]; 2]] {
     })
 }
 
-/// `τ(h∘N)` from `τ(h)`: `N^{-1} τ`, reflected into the upper half plane.
-fn act_tau(n: &[[i64; 2]; 2], t: (f64, f64)) -> (f64, f64) {
-    let [[a, b], [c, d]] = *n;
-    let (a, b, c, d) = (a as f64, b as f64, c as f64, d as f64);
-    // N^{-1} ~ [[d, -b], [-c, a]]
-    let tz = C::new(t.0, t.1);
-    let num = tz.scale(d).add(C::new(-b, 0.0));
-    let den = tz.scale(-c).add(C::new(a, 0.0));
-    let w = num.div(den);
-    (w.re, w.im.abs())
-}
-
-/// All forms `g∘M` (with their matrices `M`) whose `τ` lies in the slightly
-/// enlarged fundamental domain; contains every reduced form of the class.
+/// All forms `g∘M` (with their matrices `M`) whose `τ` may lie in the
+/// closed fundamental domain: a set that provably contains every reduced
+/// form of the class (the covariant point is enclosed by interval
+/// arithmetic, module `proven`). `None` for zero discriminant (or the
+/// precision guard of that module).
 pub(crate) fn near_reduced_set(g: &Quartic) -> Option<Vec<(Quartic, Matrix)>> {
-    let (h, m, t) = reduce_tau(g)?;
-    let mut out: Vec<(Quartic, Matrix)> = Vec::new();
-    for n in neighbours() {
-        let t2 = act_tau(n, t);
-        if in_domain(t2, TOL_SET) {
-            let nm: Matrix = [[Integer::from(n[0][0]), Integer::from(n[0][1])], [Integer::from(n[1][0]), Integer::from(n[1][1])]];
-            let f = h.transform(&nm);
-            if !out.iter().any(|(x, _)| *x == f) {
-                out.push((f, mat_mul(&m, &nm)));
-            }
-        }
-    }
-    Some(out)
+    super::proven::candidate_set(g).ok()
 }
 
 pub(crate) fn size_key(g: &Quartic) -> ([Integer; 5], [Integer; 5]) {
@@ -455,7 +431,8 @@ pub fn reduce(q: &Quartic) -> (Quartic, Matrix) {
 
 /// A matrix `M ∈ GL2(Z)` with `g1.transform(&M) == g2`, if the two quartics
 /// are `GL2(Z)`-equivalent (non-zero discriminant required; for zero
-/// discriminant only identical forms are recognised).
+/// discriminant only identical forms are recognised). The answer is proven
+/// at any size: see [`gl2z_decide`].
 ///
 /// ```
 /// use malachite::Integer;
@@ -467,29 +444,55 @@ pub fn reduce(q: &Quartic) -> (Quartic, Matrix) {
 /// assert_eq!(g.transform(&n), h);
 /// ```
 pub fn gl2z_equivalence(g1: &Quartic, g2: &Quartic) -> Option<Matrix> {
+    gl2z_decide(g1, g2).ok().flatten()
+}
+
+/// The proven `GL2(Z)`-equivalence test: `Ok(Some(M))` with
+/// `g1.transform(&M) == g2` (checked in integers), `Ok(None)` when the two
+/// forms are provably not equivalent, an error of kind
+/// [`ErrorKind::InvalidValue`](crate::ErrorKind::InvalidValue) for distinct
+/// forms of zero discriminant.
+///
+/// The covariant point of each form is enclosed by interval arithmetic in
+/// multiple precision (raised until it decides), which makes the finite set
+/// of candidate reduced forms of each class provably complete; the two
+/// classes are equal exactly when these sets share a form (module
+/// documentation of `quartic::proven`; reduction theory: Cremona, *Reduction
+/// of binary cubic and quartic forms*, LMS J. Comput. Math. 2 (1999)). No
+/// floating-point guess decides either answer.
+///
+/// ```
+/// use twofold::quartic::{gl2z_decide, Quartic};
+/// let g = Quartic::from_coeffs([1, 0, 0, 0, -1]);
+/// assert!(gl2z_decide(&g, &Quartic::from_coeffs([-1, 0, 0, 0, 1])).unwrap().is_some());
+/// assert!(gl2z_decide(&g, &Quartic::from_coeffs([1, 0, 0, 0, 1])).unwrap().is_none());
+/// ```
+pub fn gl2z_decide(g1: &Quartic, g2: &Quartic) -> Result<Option<Matrix>, crate::Error> {
     if g1 == g2 {
-        return Some(mat_identity());
+        return Ok(Some(mat_identity()));
     }
     if g1.invariant_i() != g2.invariant_i() || g1.invariant_j() != g2.invariant_j() {
-        return None;
+        return Ok(None);
     }
-    let s1 = near_reduced_set(g1)?;
-    let s2 = near_reduced_set(g2)?;
+    let s1 = super::proven::candidate_set(g1)?;
+    let s2 = super::proven::candidate_set(g2)?;
     for (f1, m1) in &s1 {
         for (f2, m2) in &s2 {
             if f1 == f2 {
                 // g1∘m1 = g2∘m2  =>  g1∘(m1 m2^{-1}) = g2
                 let m = mat_mul(m1, &mat_inverse_unimodular(m2));
-                debug_assert_eq!(g1.transform(&m), *g2);
-                debug_assert!(det(&m) == 1 || det(&m) == -1);
-                return Some(m);
+                if g1.transform(&m) != *g2 || !(det(&m) == 1 || det(&m) == -1) {
+                    return Err(crate::Error::internal("quartic::gl2z_decide", format!("the transformation found for {g1:?} and {g2:?} does not map one onto the other")));
+                }
+                return Ok(Some(m));
             }
         }
     }
-    None
+    Ok(None)
 }
 
-/// Whether two quartics are `GL2(Z)`-equivalent (see [`gl2z_equivalence`]).
+/// Whether two quartics are `GL2(Z)`-equivalent (see [`gl2z_decide`]; a
+/// proven answer).
 ///
 /// ```
 /// use twofold::quartic::{gl2z_equivalent, Quartic};

@@ -82,7 +82,11 @@ pub(crate) fn report_json(r: &RankReport, input: &str) -> String {
     w.string("input", input);
     w.raw("minimal_model", &list(r.minimal.coefficients(), |a| quote(&a.to_string())));
     w.string("conductor", &r.conductor.to_string());
-    w.raw("torsion", &list(&r.torsion, |n| n.to_string()));
+    if r.torsion_known {
+        w.raw("torsion", &list(&r.torsion, |n| n.to_string()));
+    } else {
+        w.raw("torsion", "null");
+    }
     w.raw("rank_lower", &opt(r.rank_lower));
     w.raw("rank_upper", &opt(r.rank_upper));
     w.raw("rank", &opt(r.rank()));

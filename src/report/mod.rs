@@ -139,6 +139,14 @@ pub struct RankReport {
     pub torsion: Vec<u32>,
     /// Torsion points on the input model.
     pub torsion_points: Vec<Point>,
+    /// Whether `torsion` and `torsion_points` are the whole torsion
+    /// subgroup. `false` only when the budget ran out during the torsion
+    /// step: then `torsion` is empty, every later stage (which rests on the
+    /// torsion) was skipped, no rank bound is given, `budget_exhausted` is
+    /// set and an unfinished statement in `evidence` says what was known
+    /// (the bound on the order). The JSON form then has `"torsion": null`.
+    #[cfg_attr(feature = "serde", serde(default = "crate::report::known_by_default"))]
+    pub torsion_known: bool,
     /// Proven lower bound for the rank (by any route).
     pub rank_lower: Option<usize>,
     /// Proven upper bound for the rank (by any route).
@@ -207,6 +215,13 @@ pub struct RankReport {
     pub budget_exhausted: bool,
     /// Wall-clock time spent.
     pub elapsed: Duration,
+}
+
+/// The serde default of [`RankReport::torsion_known`] (reports written
+/// before the field existed had the whole torsion subgroup).
+#[cfg(feature = "serde")]
+pub(crate) fn known_by_default() -> bool {
+    true
 }
 
 impl RankReport {
