@@ -89,7 +89,7 @@ use malachite::base::num::arithmetic::traits::Pow;
 use malachite::base::num::basic::traits::One;
 use malachite::{Integer, Natural};
 
-pub use numeric::{NUMERIC_CHECK_CONDUCTOR, NUMERIC_MAX_CONDUCTOR};
+pub use numeric::{NUMERIC_CHECK_CONDUCTOR, NUMERIC_MAX_CONDUCTOR, NUMERIC_REACH_CONDUCTOR};
 
 /// How the global root number in a [`RootNumber`] was decided.
 ///
@@ -292,8 +292,9 @@ fn root_number_from_setup(setup: &Setup, limits: &FactorLimits) -> Result<RootNu
     // the auxiliary-curve route (a proof of the product of the unknown local signs)
     let mut via_aux: Option<(i8, Setup)> = None;
     let mut aux_note = String::new();
-    match transfer::auxiliary(setup, limits)? {
-        Some(aux) if aux.conductor <= NUMERIC_MAX_CONDUCTOR => match numeric::decide(&aux, limits)? {
+    let reach = numeric::reach(limits);
+    match transfer::auxiliary(setup, &unknown, limits)? {
+        Some(aux) if aux.conductor <= reach => match numeric::decide(&aux, limits)? {
             numeric::Verdict::Sign(s) => {
                 let u = transfer::unknown_product(setup, &aux, &unknown, s)?;
                 via_aux = Some((-product * u, aux));
@@ -307,7 +308,7 @@ fn root_number_from_setup(setup: &Setup, limits: &FactorLimits) -> Result<RootNu
         None => {}
     }
     // the curve's own functional equation: the cross-check, or the only route
-    let direct = if *n <= NUMERIC_CHECK_CONDUCTOR || (via_aux.is_none() && *n <= NUMERIC_MAX_CONDUCTOR) {
+    let direct = if *n <= NUMERIC_CHECK_CONDUCTOR || (via_aux.is_none() && *n <= reach) {
         Some(numeric::decide(setup, limits)?)
     } else {
         None
@@ -341,8 +342,8 @@ fn root_number_from_setup(setup: &Setup, limits: &FactorLimits) -> Result<RootNu
             return Err(Error::new(
                 ErrorKind::TooLarge,
                 format!(
-                    "the local root number at {unknown_names} is not covered by the local formulas, no twist trivial at 2 \
-                     and 3 brings the conductor {n} under the limit {NUMERIC_MAX_CONDUCTOR} of the numerical test{aux_note}"
+                    "the local root number at {unknown_names} is not covered by the local formulas, no twist trivial at \
+                     {unknown_names} brings the conductor {n} under the limit {reach} of the numerical test{aux_note}"
                 ),
             ))
         }
