@@ -70,11 +70,12 @@
 //! global one follows, and for conductors up to [`NUMERIC_CHECK_CONDUCTOR`]
 //! the numerical test is run as well and must agree. If a local root
 //! number at 2 or 3 is unknown, the auxiliary twist decides it when one
-//! with a smaller conductor (at most [`NUMERIC_MAX_CONDUCTOR`]) exists, and
+//! with a smaller conductor (at most [`NUMERIC_MAX_CONDUCTOR`], or
+//! [`NUMERIC_REACH_CONDUCTOR`] when the limits carry a deadline) exists, and
 //! the curve's own numerical test runs beside it up to
 //! [`NUMERIC_CHECK_CONDUCTOR`] (a disagreement is an internal error);
-//! without a twist the curve's own test decides (conductors up to
-//! [`NUMERIC_MAX_CONDUCTOR`]). A single unknown local number is then
+//! without a twist the curve's own test decides (conductors up to the same
+//! limits). A single unknown local number is then
 //! deduced, two (at 2 and 3) are reported as known only through their
 //! product.
 
@@ -120,8 +121,8 @@ pub enum RootNumberMethod {
     },
     /// Some local root number (at 2 or 3) had no local formula; the product
     /// of the missing ones was carried over from an auxiliary curve
-    /// isomorphic to this one over `Q_2` and `Q_3` (a twist by a class
-    /// trivial at 2 and 3) whose global root number the functional equation
+    /// isomorphic to this one over `Q_p` at those primes (a twist by a class
+    /// trivial there) whose global root number the functional equation
     /// proves (see the module documentation). `deduced` is as in
     /// [`RootNumberMethod::Numerical`].
     Transferred {
@@ -209,7 +210,8 @@ pub fn local_root_number(curve: &Curve, p: &Natural) -> Result<Option<i8>, Error
 ///
 /// Errors: [`ErrorKind::TooLarge`] when a local root number at 2 or 3 is
 /// not covered by the local formulas and the conductor exceeds
-/// [`NUMERIC_MAX_CONDUCTOR`]; [`ErrorKind::FactorBudget`] from the
+/// [`NUMERIC_MAX_CONDUCTOR`] (with no deadline: [`root_number_with_limits`]
+/// with a deadline goes on up to [`NUMERIC_REACH_CONDUCTOR`]); [`ErrorKind::FactorBudget`] from the
 /// factorisation; [`ErrorKind::InvalidValue`] if the local formulas and
 /// the numerical test disagree (which would be a bug, reported rather than
 /// answered).

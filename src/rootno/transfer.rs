@@ -2,21 +2,25 @@
 //!
 //! The local root number `w_p(E)` depends only on `E` over `Q_p` up to
 //! isomorphism (it is the root number of the Weil–Deligne representation of
-//! `E / Q_p`). So if a curve `E'` over Q is isomorphic to `E` over both
-//! `Q_2` and `Q_3`, then `w_2(E) w_3(E) = w_2(E') w_3(E')`, and the latter
-//! product follows from the global root number of `E'` and its local root
-//! numbers at the primes `p >= 5` (all given by the local formulas):
-//! `w_2 w_3 (E') = -w(E') / ∏_{p≥5} w_p(E')`. When `E'` has a much smaller
-//! conductor than `E`, its global root number is proven by the test of the
-//! functional equation ([`super::numeric`]) where that of `E` is out of
-//! reach. The auxiliary curve is a twist of `E` by a class that is trivial
-//! at 2 and 3:
+//! `E / Q_p`). So if a curve `E'` over Q is isomorphic to `E` over `Q_p` for
+//! every prime `p` of the set `U ⊂ {2, 3}` where the local formulas leave
+//! `w_p(E)` open, then `∏_{p∈U} w_p(E) = ∏_{p∈U} w_p(E')`, and the latter
+//! product follows from the global root number of `E'` and its other local
+//! root numbers (all of which the local formulas must give; a candidate
+//! where they do not is passed over):
+//! `∏_{p∈U} w_p(E') = -w(E') / ∏_{p∉U} w_p(E')`. When `E'` has a much
+//! smaller conductor than `E`, its global root number is proven by the test
+//! of the functional equation ([`super::numeric`]) where that of `E` is out
+//! of reach. The auxiliary curve is a twist of `E` by a class that is
+//! trivial at the primes of `U`:
 //!
-//! * `j ≠ 0, 1728`: the quadratic twist `E^d` by an integer `d ≡ 1 mod 24`
-//!   (a square in `Q_2`, as `d ≡ 1 mod 8`, and in `Q_3`, as `d ≡ 1 mod 3`),
-//!   chosen among products of the additive primes `q ≥ 5` of `E` (twisting
-//!   by `q` turns type `I0*` into good and `In*` into `In` reduction) and
-//!   one extra small prime when the congruence needs it;
+//! * any `j`: the quadratic twist `E^d` by an integer `d` that is a square in
+//!   `Q_p` for `p ∈ U` (`d ≡ 1 mod 8` at 2, `d ≡ 1 mod 3` at 3, so
+//!   `d ≡ 1 mod 24` when both are open), `±` a product of additive primes
+//!   `q ≥ 5` of `E` (twisting by `q` turns type `I0*` into good and `In*`
+//!   into `In` reduction) and at most one extra prime that fixes the class;
+//!   the prime of `{2, 3}` outside `U` may enter `d`. The few best candidates
+//!   by an estimate are set up exactly and the smallest conductor wins;
 //! * `j = 0`: `E ≅ y^2 = x^3 + k` and `y^2 = x^3 + k'` with `k'/k` a sixth
 //!   power in `Q_2` and `Q_3` (unit parts congruent modulo 72: the sixth
 //!   powers of units are `1 + 8Z_2` and `1 + 9Z_3`);
@@ -31,7 +35,10 @@
 //! `Q^*/Q^*4` in the three cases). This replaces, for the curves it
 //! reaches, the published tables for the wildly ramified cases (which are
 //! not reproduced here): the method is our own reduction, a proof given the
-//! modularity theorem like the functional-equation test it rests on.
+//! modularity theorem like the functional-equation test it rests on. It
+//! cannot reach every curve: a twist leaves the multiplicative primes of
+//! `E` in the conductor (`v_q(j) < 0` is twist-invariant), and a curve over
+//! Q isomorphic to `E` over `Q_p` has the same `j`, so it is a twist.
 
 use super::{internal, local_sign, Setup};
 use crate::arith::{valuation, FactorLimits};
@@ -42,7 +49,7 @@ use malachite::base::num::arithmetic::traits::{Mod, Pow};
 use malachite::{Integer, Natural};
 
 /// Extra primes (prime to 6) that may be thrown into `d` to reach the class
-/// `1 mod 24`; together with ±1 they cover every unit class mod 24.
+/// `1 mod 24` (or `1 mod 8`, `1 mod 3`); together with ±1 they cover every unit class mod 24.
 const EXTRA: [u64; 8] = [5, 7, 11, 13, 17, 19, 23, 29];
 
 /// At most this many additive primes are tried in the quadratic case.
