@@ -7,7 +7,8 @@ use twofold::{analyse, Curve, RankOptions};
 
 /// Every curve with even torsion order in the published table
 /// (Cremona, Algorithms for Modular Elliptic Curves, Table 1): the bounds
-/// contain the published rank.
+/// contain the published rank; Cassels' formula holds on every isogeny
+/// (see `cassels_on`).
 #[test]
 fn even_torsion_curves_of_the_table() {
     let rows = common::read_table("curves-small-conductor.tsv");
@@ -15,10 +16,14 @@ fn even_torsion_curves_of_the_table() {
     let mut proven = 0;
     let mut total = 0;
     let mut open = Vec::new();
+    let (mut isogenies, mut nonzero) = (0, 0);
     for r in rows.iter().filter(|r| r.torsion_order % 2 == 0) {
         total += 1;
         let e = Curve::from_coefficients(r.coefficients).unwrap();
         let rep = analyse(&e, &RankOptions::default()).unwrap();
+        let (c, n) = cassels_on(r, &rep);
+        isogenies += c;
+        nonzero += n;
         let (lo, up) = (rep.rank_lower.unwrap(), rep.rank_upper.unwrap());
         assert!(lo <= r.rank && r.rank <= up, "{:?}: published rank {} not in [{lo}, {up}]", r.coefficients, r.rank);
         assert_eq!(rep.points.len(), lo);
@@ -40,6 +45,8 @@ fn even_torsion_curves_of_the_table() {
         assert!(sha2.contains(o), "{o:?} is open but has trivial Sha[2]");
     }
     eprintln!("even torsion: {proven}/{total} proven, open: {open:?}");
+    eprintln!("Cassels' formula checked on {isogenies} isogenies ({nonzero} with a Tamagawa ratio other than 1)");
+    assert!(isogenies >= total && nonzero > 10, "{isogenies} {nonzero}");
 }
 
 /// Congruent number curves y^2 = x^3 - n^2 x: n = 5, 6, 7 are congruent
@@ -82,10 +89,13 @@ fn ternary_count(m: i64, a: i64, b: i64) -> i64 {
 /// #{x^2+2y^2+8z^2 = n} = 2 #{x^2+2y^2+32z^2 = n} (for n even the forms are
 /// x^2+4y^2+8z^2 and x^2+4y^2+32z^2 at n/2). If this fails, n is
 /// not congruent, so rank 0. Then no point may be found, and either the
-/// Selmer bound is 0 or the Sha suspects cover the whole gap.
+/// Selmer bound is 0 or the Sha suspects cover the whole gap. Where the
+/// root number is -1 and a point is found, rank 1 is proven both by the point
+/// and by the analytic route.
 #[test]
 fn congruent_numbers_against_tunnell() {
     let limit = if cfg!(debug_assertions) { 200 } else { 1000 };
+    let (mut rank_one, mut by_descent_too) = (0, 0);
     for n in 1..=limit {
         if (2..n).take_while(|d| d * d <= n).any(|d| n % (d * d) == 0) {
             continue;
@@ -106,6 +116,22 @@ fn congruent_numbers_against_tunnell() {
             .with_search_height(100)
             .with_search_height_ceiling(100);
         let r = analyse(&e, &o).unwrap();
+        // the root number of y^2 = x^3 - n^2 x is -1 exactly when n = 5, 6, 7
+        // mod 8 (square-free n; classical, e.g. Koblitz, Introduction to
+        // Elliptic Curves and Modular Forms, II.4: from memory)
+        let w = if matches!(n % 8, 5..=7) { -1 } else { 1 };
+        let analytic = r.analytic.as_ref().unwrap_or_else(|| panic!("n = {n}: no analytic route"));
+        assert_eq!(analytic.root_number, Some(w), "n = {n}");
+        if w == -1 && !r.points.is_empty() {
+            // a point found and L'(E,1) enclosed away from 0: rank 1 proven both
+            // ways (the point bounds it below; Gross-Zagier and Kolyvagin fix it)
+            assert_eq!(analytic.rank, Some(1), "n = {n}: L'(E,1) not proven non-zero");
+            assert_eq!(r.rank(), Some(1), "n = {n}");
+            assert!(r.rank_proven_by.contains(&twofold::report::ProofRoute::Analytic), "n = {n}");
+            assert!(r.points.iter().all(|p| e.contains(p)) && r.descent_bounds.0 == Some(1), "n = {n}");
+            rank_one += 1;
+            by_descent_too += r.rank_proven_by.contains(&twofold::report::ProofRoute::Descent) as usize;
+        }
         if a != 2 * b {
             // twofold now proves rank 0 itself: by the descent, or by the
             // analytic route (L(E,1) enclosed away from zero)
@@ -118,6 +144,8 @@ fn congruent_numbers_against_tunnell() {
             }
         }
     }
+    eprintln!("congruent n <= {limit} with root number -1 and a point found: {rank_one}, rank 1 proven by the descent as well for {by_descent_too}");
+    assert!(rank_one > 100, "{rank_one}");
 }
 
 /// The bounds do not depend on the model: y^2 = x^3 - 36x and a scaled,
@@ -172,4 +200,45 @@ fn isogeny_sha_against_published_sha_orders() {
     }
     eprintln!("isogeny Sha dimensions known for {known} isogenies, {nontrivial} on curves with 4 | #Sha");
     assert!(known > 20 && nontrivial > 0, "{known} {nontrivial}");
+}
+
+/// Cassels' formula on the isogenies of one analysed table curve: the
+/// descent itself checks `dim S^phi(E) - dim S^phi'(E') = ord_2` of the
+/// Tamagawa ratio (Cassels 1965; local factors by Schaefer 1996, Lemma 3.8)
+/// and errs otherwise; here the recorded ratio is compared with the Selmer
+/// dimensions once more, and with the published rank: with Sha finite,
+/// rank E(Q) is congruent modulo 2 to `ord_2` of the Tamagawa ratio (T. and
+/// V. Dokchitser, "Root numbers and parity of ranks of elliptic curves",
+/// J. reine angew. Math. 658 (2011), and T. Dokchitser, "Notes on the parity
+/// conjecture", §4: statement from memory; Sha is finite for these curves of
+/// analytic rank <= 1 by Kolyvagin). Returns (isogenies, ratios other than 1).
+fn cassels_on(r: &common::Row, rep: &twofold::RankReport) -> (usize, usize) {
+    assert!(!rep.isogeny_runs.is_empty(), "{:?}", r.coefficients);
+    let (mut checked, mut nonzero) = (0, 0);
+    for run in &rep.isogeny_runs {
+        let t = run.tamagawa_ratio.unwrap_or_else(|| panic!("{:?}: Selmer groups incomplete", r.coefficients));
+        assert_eq!(t, run.side_e_prime.selmer_dim as i64 - run.side_e.selmer_dim as i64, "{:?}", r.coefficients);
+        assert_eq!(t.rem_euclid(2) as usize, r.rank % 2, "{:?}: Tamagawa ratio 2^{t}, rank {}", r.coefficients, r.rank);
+        checked += 1;
+        nonzero += (t != 0) as usize;
+    }
+    (checked, nonzero)
+}
+
+/// Cassels' formula (see `cassels_on`) on every curve with even torsion
+/// order of the published Sha list (the small table's are checked in
+/// `even_torsion_curves_of_the_table`).
+#[test]
+fn cassels_formula_on_even_torsion_sha_curves() {
+    let rows: Vec<common::Row> = common::read_table("curves-with-sha.tsv").into_iter().filter(|r| r.torsion_order % 2 == 0).collect();
+    let (mut checked, mut nonzero) = (0, 0);
+    for r in &rows {
+        let e = Curve::from_coefficients(r.coefficients).unwrap();
+        let rep = analyse(&e, &RankOptions::default()).unwrap_or_else(|err| panic!("{:?}: {err}", r.coefficients));
+        let (c, n) = cassels_on(r, &rep);
+        checked += c;
+        nonzero += n;
+    }
+    eprintln!("Cassels' formula checked on {checked} isogenies of the Sha list ({nonzero} with a Tamagawa ratio other than 1)");
+    assert!(checked >= rows.len() && nonzero > 0, "{checked} {nonzero}");
 }

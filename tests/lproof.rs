@@ -185,3 +185,31 @@ fn local_formulas_and_the_proven_test_agree_on_random_curves() {
     }
     assert!(both > 1000, "{both} {numeric_only}");
 }
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig { cases: 24, ..proptest::prelude::ProptestConfig::default() })]
+
+    /// The proven enclosure of the leading value at s = 1 is a property of the
+    /// L-function: equal for every model of a curve (through its minimal
+    /// model) and for the 2-isogenous curves y^2 = x(x^2 + a x + b) and
+    /// y^2 = x(x^2 - 2a x + a^2 - 4b) (isogenous curves have the same a_p:
+    /// Silverman, AEC III.4 with the Néron-Ogg-Shafarevich criterion; the
+    /// same conductor and root number follow).
+    #[test]
+    fn enclosure_is_a_property_of_the_l_function(a in -12i64..=12, b in -30i64..=30, u in 1i64..=3, r in -4i64..=4, s in -2i64..=2, t in -4i64..=4) {
+        proptest::prop_assume!(b != 0 && a * a - 4 * b != 0);
+        let e = Curve::from_coefficients([0, a, 0, b, 0]).unwrap();
+        let e1 = Curve::from_coefficients([0, -2 * a, 0, a * a - 4 * b, 0]).unwrap();
+        let c = twofold::ModelChange::new(malachite::Rational::from_signeds(1, u), r.into(), s.into(), t.into()).unwrap();
+        let e2 = e.apply_change(&c).unwrap();
+        let lim = FactorLimits::default();
+        let mut out = Vec::new();
+        for x in [&e, &e1, &e2] {
+            let (m, n, w) = twofold::rootno::minimal_conductor_sign(x).unwrap();
+            proptest::prop_assume!(n <= Natural::from(2_000_000u32));
+            out.push((n.clone(), w, prove_l_value(&m, &n, w, &lim).unwrap()));
+        }
+        proptest::prop_assert_eq!(&out[0], &out[1]);
+        proptest::prop_assert_eq!(&out[0], &out[2]);
+    }
+}

@@ -115,6 +115,16 @@ pub struct IsogenyDescent {
     /// left unexplained (raised step by step from
     /// `RankOptions::search_height` while the bounds did not meet).
     pub searched_height: u64,
+    /// The Tamagawa ratio as an exponent of 2: `e` with
+    /// `∏_v #coker(φ_v) / #ker(φ_v) = 2^e`, `φ_v: E(Q_v) → E'(Q_v)`, found
+    /// from the Tamagawa numbers of both sides, the scaling of the invariant
+    /// differential at 2 and the real place alone (see [`tamagawa_ratio`]).
+    /// By Cassels' formula it equals `dim S^φ(E) - dim S^φ'(E')`
+    /// (`side_e_prime.selmer_dim - side_e.selmer_dim`), and each local
+    /// factor equals the size of the descent's local image over 2; both are
+    /// checked, a mismatch being an internal error. `None` when the Selmer
+    /// groups are incomplete (budget).
+    pub tamagawa_ratio: Option<i64>,
 }
 
 /// The change between the curve's own model and `y^2 = x(x^2 + a x + b)`:
@@ -443,6 +453,7 @@ pub(crate) fn descend_via_isogeny(
             return Err(Error::internal("the 2-isogeny descent", "lower bound exceeds the Selmer bound"));
         }
     }
+    let tamagawa_ratio = if complete_selmer { Some(check_cassels(&both, &sides)?) } else { None };
     let points = points_on_input(curve, &model, &models[0], &b1, &sides)?;
     Ok(IsogenyDescent {
         kernel_point: t.clone(),
@@ -453,7 +464,130 @@ pub(crate) fn descend_via_isogeny(
         points,
         search_complete,
         searched_height: height,
+        tamagawa_ratio,
     })
+}
+
+/// The local Tamagawa ratios `#coker(φ_v) / #ker(φ_v)` of the 2-isogeny
+/// `φ: E → E'` between `E: y^2 = x(x^2 + a x + b)` and
+/// `E': y^2 = x(x^2 - 2a x + a^2 - 4b)` (kernel `T = (0, 0)`), as exponents of
+/// 2, at the real place (`None` in the list) and at each prime of `primes`
+/// (which must hold 2 and every prime of `b (a^2 - 4b)`; elsewhere the ratio
+/// is 1, as the reduction is good and the primes odd).
+///
+/// * At a prime `p` (E. F. Schaefer, "Class groups and Selmer groups",
+///   J. Number Theory 56 (1996), Lemma 3.8):
+///   `#coker / #ker = |α|_p^{-1} c_p(E') / c_p(E)`, where `φ^* ω'_min = α ω_min`
+///   for the invariant differentials of models minimal at `p`. On the two
+///   models above `φ^*(dx/2y) = -dx/2y` (from `φ(x, y) = (y^2/x^2, y(b - x^2)/x^2)`),
+///   so `α = -u'/u` with `u`, `u'` the scalings that take each model to a
+///   minimal one (`v_p(u)` = the number of times Tate's algorithm scales by
+///   `p`); `|α|_p = 1` for odd `p`, as `α α̂ = 2` with both integral.
+/// * At the real place `#ker = 2` (T is real) and `coker φ_R` is the image of
+///   the connecting map `E'(R) → R^*/R^{*2}`, `(x, y) ↦ x`, `T' ↦ a^2 - 4b`:
+///   it holds `-1` exactly when `x^2 - 2a x + a^2 - 4b` has a negative real
+///   root, i.e. when `b > 0` and (`a < 0` or `a^2 < 4b`) (its roots are `a ± 2√b`).
+///
+/// An error of kind [`crate::ErrorKind::Internal`] when the ratio at a
+/// prime is not a power of 2 (which the lemma excludes).
+///
+/// ```
+/// use malachite::{Integer, Natural};
+/// use twofold::descent::isogeny::tamagawa_ratio;
+/// // y^2 = x^3 - x = x(x^2 - 1): a = 0, b = -1; E' is y^2 = x(x^2 + 4) (from memory:
+/// // both have conductor 32, Cremona 1997, Table 1). b < 0, so coker φ_R is trivial: 2^-1 at R.
+/// let r = tamagawa_ratio(&Integer::from(0), &Integer::from(-1), &[Natural::from(2u32)]).unwrap();
+/// assert_eq!(r[0], (None, -1));
+/// ```
+pub fn tamagawa_ratio(a: &Integer, b: &Integer, primes: &[Natural]) -> Result<Vec<(Option<Natural>, i64)>, Error> {
+    let a1 = Integer::from(-2) * a;
+    let b1 = a * a - Integer::from(4) * b;
+    let (e, e1) = (side_curve(a, b), side_curve(&a1, &b1));
+    let real_neg = *b > 0u32 && (*a < 0u32 || a * a < Integer::from(4) * b);
+    let mut out = vec![(None, if real_neg { 0 } else { -1 })];
+    for p in primes {
+        let t = crate::local::tate(e.coefficients(), e.discriminant(), p);
+        let t1 = crate::local::tate(e1.coefficients(), e1.discriminant(), p);
+        // ratio = p^(v(u') - v(u)) c(E') / c(E)
+        let mut num = u64::from(t1.data.tamagawa);
+        let mut den = u64::from(t.data.tamagawa);
+        let shift = i64::from(t1.scalings) - i64::from(t.scalings);
+        let pw = u64::try_from(p).ok().and_then(|q| q.checked_pow(shift.unsigned_abs() as u32));
+        let Some(pw) = pw else {
+            return Err(Error::internal("the Tamagawa ratio", format!("|alpha|_{p} = {p}^{shift} is not a power of 2")));
+        };
+        if shift >= 0 {
+            num *= pw;
+        } else {
+            den *= pw;
+        }
+        let g = gcd_u64(num, den);
+        let (num, den) = (num / g, den / g);
+        let exp = match (num.is_power_of_two(), den.is_power_of_two()) {
+            (true, true) => i64::from(num.trailing_zeros()) - i64::from(den.trailing_zeros()),
+            _ => {
+                return Err(Error::internal(
+                    "the Tamagawa ratio",
+                    format!("the local ratio {num}/{den} at {p} is not a power of 2 (y^2 = x(x^2 + {a} x + {b}))"),
+                ))
+            }
+        };
+        out.push((Some(p.clone()), exp));
+    }
+    Ok(out)
+}
+
+fn gcd_u64(mut x: u64, mut y: u64) -> u64 {
+    while y != 0 {
+        (x, y) = (y, x % y);
+    }
+    x
+}
+
+/// Cassels' formula as a check on a finished descent (J. W. S. Cassels,
+/// "Arithmetic on curves of genus 1. VIII", J. reine angew. Math. 217
+/// (1965); in the form of T. and V. Dokchitser, "Root numbers and parity of
+/// ranks of elliptic curves", J. reine angew. Math. 658 (2011), §4, and
+/// T. Dokchitser, "Notes on the parity conjecture", Thm. 4.3):
+/// `#S^φ(E) / #S^φ'(E') = (#E(Q)[φ] / #E'(Q)[φ']) ∏_v #coker(φ_v) / #ker(φ_v)`,
+/// with `#E(Q)[φ] = #E'(Q)[φ'] = 2` here. Each local factor from
+/// [`tamagawa_ratio`] must equal `#(local image of E' at v) / 2` (the image
+/// of `E'(Q_v)/φ(E(Q_v))` that the descent found by local solubility), and
+/// their sum must equal `dim S^φ(E) - dim S^φ'(E')`. Returns the sum.
+fn check_cassels(primes: &[Natural], sides: &[SideWork; 2]) -> Result<i64, Error> {
+    let (a, b) = (&sides[0].a, &sides[0].b);
+    let ratios = tamagawa_ratio(a, b, primes)?;
+    let mut total = 0i64;
+    for (place, exp) in &ratios {
+        total += exp;
+        let found = sides[1].local_images.iter().find(|img| match (&img.place, place) {
+            (Place::Real, None) => true,
+            (Place::Prime(q), Some(p)) => q == p,
+            _ => false,
+        });
+        let Some(img) = found else { continue };
+        let dim = img.soluble.len().trailing_zeros() as i64;
+        if img.soluble.len() != 1 << dim || dim - 1 != *exp {
+            let at = place.as_ref().map_or("the real place".to_string(), |p| p.to_string());
+            return Err(Error::internal(
+                "the 2-isogeny descent",
+                format!(
+                    "at {at} the local image of E' has {} classes but the Tamagawa ratio is 2^{exp} (Schaefer's lemma; y^2 = x(x^2 + {a} x + {b}))",
+                    img.soluble.len()
+                ),
+            ));
+        }
+    }
+    let selmer_diff = sides[1].selmer.dim() as i64 - sides[0].selmer.dim() as i64;
+    if selmer_diff != total {
+        return Err(Error::internal(
+            "the 2-isogeny descent",
+            format!(
+                "Cassels' formula fails: dim S^phi(E) - dim S^phi'(E') = {selmer_diff} but the Tamagawa ratio is 2^{total} (y^2 = x(x^2 + {a} x + {b}))"
+            ),
+        ));
+    }
+    Ok(total)
 }
 
 /// The images of the torsion of both sides (the torsion of `e1_model` is

@@ -70,7 +70,7 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
             }
             RootNumberMethod::Transferred { auxiliary, auxiliary_conductor, .. } => proven(format!(
                 "the root number is {w} ({local}; at 2 and 3 carried over from the twist [{}] of conductor {auxiliary_conductor}, \
-                 isomorphic over Q_2 and Q_3, whose root number the functional equation proves in interval arithmetic; modularity: \
+                 isomorphic to E over Q_p at the primes without a local formula, whose root number the functional equation proves in interval arithmetic; modularity: \
                  Wiles 1995, Breuil-Conrad-Diamond-Taylor 2001)",
                 auxiliary.iter().map(|a| a.to_string()).collect::<Vec<_>>().join(",")
             )),

@@ -70,11 +70,12 @@
 //! global one follows, and for conductors up to [`NUMERIC_CHECK_CONDUCTOR`]
 //! the numerical test is run as well and must agree. If a local root
 //! number at 2 or 3 is unknown, the auxiliary twist decides it when one
-//! with a smaller conductor (at most [`NUMERIC_MAX_CONDUCTOR`]) exists, and
+//! with a smaller conductor (at most [`NUMERIC_MAX_CONDUCTOR`], or
+//! [`NUMERIC_REACH_CONDUCTOR`] when the limits carry a deadline) exists, and
 //! the curve's own numerical test runs beside it up to
 //! [`NUMERIC_CHECK_CONDUCTOR`] (a disagreement is an internal error);
-//! without a twist the curve's own test decides (conductors up to
-//! [`NUMERIC_MAX_CONDUCTOR`]). A single unknown local number is then
+//! without a twist the curve's own test decides (conductors up to the same
+//! limits). A single unknown local number is then
 //! deduced, two (at 2 and 3) are reported as known only through their
 //! product.
 
@@ -89,7 +90,7 @@ use malachite::base::num::arithmetic::traits::Pow;
 use malachite::base::num::basic::traits::One;
 use malachite::{Integer, Natural};
 
-pub use numeric::{NUMERIC_CHECK_CONDUCTOR, NUMERIC_MAX_CONDUCTOR};
+pub use numeric::{NUMERIC_CHECK_CONDUCTOR, NUMERIC_MAX_CONDUCTOR, NUMERIC_REACH_CONDUCTOR};
 
 /// How the global root number in a [`RootNumber`] was decided.
 ///
@@ -120,8 +121,8 @@ pub enum RootNumberMethod {
     },
     /// Some local root number (at 2 or 3) had no local formula; the product
     /// of the missing ones was carried over from an auxiliary curve
-    /// isomorphic to this one over `Q_2` and `Q_3` (a twist by a class
-    /// trivial at 2 and 3) whose global root number the functional equation
+    /// isomorphic to this one over `Q_p` at those primes (a twist by a class
+    /// trivial there) whose global root number the functional equation
     /// proves (see the module documentation). `deduced` is as in
     /// [`RootNumberMethod::Numerical`].
     Transferred {
@@ -210,7 +211,8 @@ pub fn local_root_number(curve: &Curve, p: &Natural) -> Result<Option<i8>, Error
 ///
 /// Errors: [`ErrorKind::TooLarge`] when a local root number at 2 or 3 is
 /// not covered by the local formulas and the conductor exceeds
-/// [`NUMERIC_MAX_CONDUCTOR`]; [`ErrorKind::FactorBudget`] from the
+/// [`NUMERIC_MAX_CONDUCTOR`] (with no deadline: [`root_number_with_limits`]
+/// with a deadline goes on up to [`NUMERIC_REACH_CONDUCTOR`]); [`ErrorKind::FactorBudget`] from the
 /// factorisation; [`ErrorKind::InvalidValue`] if the local formulas and
 /// the numerical test disagree (which would be a bug, reported rather than
 /// answered).
@@ -293,8 +295,9 @@ fn root_number_from_setup(setup: &Setup, limits: &FactorLimits) -> Result<RootNu
     // the auxiliary-curve route (a proof of the product of the unknown local signs)
     let mut via_aux: Option<(i8, Setup)> = None;
     let mut aux_note = String::new();
-    match transfer::auxiliary(setup, limits)? {
-        Some(aux) if aux.conductor <= NUMERIC_MAX_CONDUCTOR => match numeric::decide(&aux, limits)? {
+    let reach = numeric::reach(limits);
+    match transfer::auxiliary(setup, &unknown, limits)? {
+        Some(aux) if aux.conductor <= reach => match numeric::decide(&aux, limits)? {
             numeric::Verdict::Sign(s) => {
                 let u = transfer::unknown_product(setup, &aux, &unknown, s)?;
                 via_aux = Some((-product * u, aux));
@@ -308,7 +311,7 @@ fn root_number_from_setup(setup: &Setup, limits: &FactorLimits) -> Result<RootNu
         None => {}
     }
     // the curve's own functional equation: the cross-check, or the only route
-    let direct = if *n <= NUMERIC_CHECK_CONDUCTOR || (via_aux.is_none() && *n <= NUMERIC_MAX_CONDUCTOR) {
+    let direct = if *n <= NUMERIC_CHECK_CONDUCTOR || (via_aux.is_none() && *n <= reach) {
         Some(numeric::decide(setup, limits)?)
     } else {
         None
@@ -342,8 +345,8 @@ fn root_number_from_setup(setup: &Setup, limits: &FactorLimits) -> Result<RootNu
             return Err(Error::new(
                 ErrorKind::TooLarge,
                 format!(
-                    "the local root number at {unknown_names} is not covered by the local formulas, no twist trivial at 2 \
-                     and 3 brings the conductor {n} under the limit {NUMERIC_MAX_CONDUCTOR} of the numerical test{aux_note}"
+                    "the local root number at {unknown_names} is not covered by the local formulas, no twist trivial at \
+                     {unknown_names} brings the conductor {n} under the limit {reach} of the numerical test{aux_note}"
                 ),
             ))
         }

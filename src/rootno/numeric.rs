@@ -41,12 +41,32 @@ pub(crate) enum Verdict {
     CutShort(u64),
 }
 
+/// The largest conductor for which the test is run, when the local
+/// formulas and the auxiliary twists leave the sign open, for a caller
+/// whose limits carry a deadline (the test then runs until the sign is
+/// proven or the deadline ends it: tens of seconds at `10^12`); callers
+/// without a deadline stop at [`NUMERIC_MAX_CONDUCTOR`].
+///
+/// ```
+/// assert_eq!(twofold::rootno::NUMERIC_REACH_CONDUCTOR, twofold::lproof::PROOF_MAX_CONDUCTOR);
+/// ```
+pub const NUMERIC_REACH_CONDUCTOR: u64 = crate::lproof::PROOF_MAX_CONDUCTOR;
+
+/// The largest conductor the test is run for within `limits`.
+pub(crate) fn reach(limits: &FactorLimits) -> u64 {
+    if limits.deadline.is_some() {
+        NUMERIC_REACH_CONDUCTOR
+    } else {
+        NUMERIC_MAX_CONDUCTOR
+    }
+}
+
 /// Runs the test for the curve described by `setup` (conductor at most
-/// [`NUMERIC_MAX_CONDUCTOR`], checked by the callers) within `limits`.
+/// [`reach`]`(limits)`, checked by the callers) within `limits`.
 pub(crate) fn decide(setup: &Setup, limits: &FactorLimits) -> Result<Verdict, Error> {
     let n = u64::try_from(&setup.conductor)
         .map_err(|_| Error::new(ErrorKind::TooLarge, "conductor too large for the numerical test"))?;
-    if n > NUMERIC_MAX_CONDUCTOR {
+    if n > reach(limits) {
         return Err(Error::new(ErrorKind::TooLarge, "conductor too large for the numerical test"));
     }
     let bad: Vec<(u64, i64)> = setup
