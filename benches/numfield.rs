@@ -1,20 +1,24 @@
-//! Class group and units of cubic fields `x^3 + a x + b` of growing
-//! discriminant. The targets are discriminants 10^10 to 10^40; the
-//! present relation search completes up to about 10^11 (see README), so
-//! the steps here are the sizes that complete, to show the cost curve.
+//! Class group and units, and K(S,2), of cubic fields `x^3 + a x + b` of
+//! growing discriminant. The targets are discriminants 10^10 to
+//! 10^40; the class group route completes up to about 10^11, the K(S,2)
+//! route (relations mod 2, no class group) further (see README).
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use malachite::Integer;
 use twofold::numfield::{ClassGroupOptions, NumberField};
+
+fn field(a: &str, b: &str) -> NumberField {
+    let f: Vec<Integer> = vec![b.parse().unwrap(), a.parse().unwrap(), Integer::from(0), Integer::from(1)];
+    NumberField::new(&f).unwrap()
+}
 
 fn bench(c: &mut Criterion) {
     let mut g = c.benchmark_group("numfield_class_group");
     g.sample_size(10);
     // (a, b) -> field discriminant: (1, -1) -> -31, (10, 13) -> -8563,
     // (31, -57) -> -206887, (1234, 56789) -> -94591067683 (about 10^11)
-    for (a, b) in [(1i64, -1i64), (10, 13), (31, -57), (1234, 56789)] {
-        let f: Vec<Integer> = [b, a, 0, 1].iter().map(|&x| Integer::from(x)).collect();
-        let k = NumberField::new(&f).unwrap();
+    for (a, b) in [("1", "-1"), ("10", "13"), ("31", "-57"), ("1234", "56789")] {
+        let k = field(a, b);
         let name = format!("disc {}", k.discriminant());
         g.bench_function(&name, |bch| bch.iter(|| k.class_group(&ClassGroupOptions::default()).unwrap()));
     }
@@ -22,6 +26,15 @@ fn bench(c: &mut Criterion) {
         let f: Vec<Integer> = vec![Integer::from(-999_999_999_999i64), Integer::from(0), Integer::from(0), Integer::from(1)];
         bch.iter(|| NumberField::new(&f).unwrap())
     });
+    g.finish();
+    // K(S,2), S = the primes above 2, at discriminants about 10^10, 10^15, 10^20, 10^25
+    let mut g = c.benchmark_group("numfield_square_classes");
+    g.sample_size(10);
+    for (a, b) in [("1234", "56789"), ("123457", "9876541"), ("2345678", "1234567891"), ("98765431", "1234567890123")] {
+        let k = field(a, b);
+        let name = format!("disc {}", k.discriminant());
+        g.bench_function(&name, |bch| bch.iter(|| k.square_classes(&[2], &ClassGroupOptions::default()).unwrap()));
+    }
     g.finish();
 }
 

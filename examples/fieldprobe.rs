@@ -1,10 +1,13 @@
-//! Probe: time the class group of cubic fields x^3 + a x + b given on the command line.
+//! Probe: time the class group (mode `cg`) or K(S,2) for S = primes dividing
+//! 2 disc (mode `ks`) of cubic fields x^3 + a x + b given on the command line:
+//! `fieldprobe MODE a b [a b ...]`.
 use malachite::Integer;
 use std::time::Instant;
 use twofold::numfield::{ClassGroupOptions, NumberField};
 
 fn main() {
-    let args: Vec<String> = std::env::args().skip(1).collect();
+    let mut args: Vec<String> = std::env::args().skip(1).collect();
+    let mode = if args.first().is_some_and(|m| m == "cg" || m == "ks") { args.remove(0) } else { "cg".to_string() };
     for pair in args.chunks(2) {
         let a: Integer = pair[0].parse().unwrap();
         let b: Integer = pair[1].parse().unwrap();
@@ -13,6 +16,16 @@ fn main() {
         let k = match NumberField::new(&f) { Ok(k) => k, Err(e) => { println!("{:?} {}", pair, e); continue; } };
         let t1 = t.elapsed();
         let opts = ClassGroupOptions::default().with_deadline(Instant::now() + std::time::Duration::from_secs(60));
+        if mode == "ks" {
+            let s: Vec<u64> = vec![2];
+            let r = k.square_classes(&s, &opts);
+            let t2 = t.elapsed();
+            match r {
+                Ok(ks) => println!("a={} b={} d={} field {:?} total {:?} dim={} fb={} bound={} grh={}", pair[0], pair[1], k.discriminant(), t1, t2, ks.dimension(), ks.factor_base.len(), ks.generation_bound, ks.conditional_on_grh()),
+                Err(e) => println!("a={} b={} d={} field {:?} total {:?} ERR {}", pair[0], pair[1], k.discriminant(), t1, t2, e),
+            }
+            continue;
+        }
         let r = k.class_group(&opts);
         let t2 = t.elapsed();
         match r {

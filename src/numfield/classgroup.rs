@@ -141,6 +141,7 @@ pub struct ClassGroup {
     pub analytic_ratio: f64,
     /// The relation lattice in echelon form (rows over the factor base),
     /// with each row's element in compact form.
+    #[cfg_attr(not(test), allow(dead_code))]
     pub(crate) echelon: Vec<(Vec<i64>, CompactProduct)>,
 }
 

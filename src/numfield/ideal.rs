@@ -341,6 +341,60 @@ impl NumberField {
         }
     }
 
+    /// The prime ideals of degree one above a prime `p` that does not divide
+    /// `disc(f)` (so `p` is unramified and prime to the index), built
+    /// without any Hermite reduction: for a root `r` of `f` mod `p`,
+    /// `P = pO + (theta - r)O` is the kernel of `O -> F_p`, `w_i -> w_i(r)`,
+    /// whose Hermite form has rows `(p, 0, ..)` and `(-w_i(r) mod p, .., 1, ..)`
+    /// (this needs `w_0 = 1`, true of the integral bases built here), and
+    /// `anti = (f / (x - r))(theta)` lies in every other prime above `p` but
+    /// not in `P`. Also returns whether these are all the primes above `p`
+    /// (no factor of degree 2 or 3). `None` when `p` divides `disc(f)` or
+    /// the basis does not start with 1.
+    pub(crate) fn primes_above_degree_one(&self, p: u64) -> Result<Option<(Vec<PrimeIdeal>, bool)>, Error> {
+        let n = self.n;
+        if mod_word(&self.poly_disc, p) == 0 || !(self.basis.rows[0][0] == self.basis.den && self.basis.rows[0][1..].iter().all(|c| *c == 0)) {
+            return Ok(None);
+        }
+        let den = &self.basis.den;
+        let Some(dinv) = inv_mod(mod_word(den, p), p) else { return Ok(None) };
+        let fp_: Vec<u64> = self.poly.iter().map(|c| mod_word(c, p)).collect();
+        let roots = fp::roots(&fp_, p);
+        let mut out = Vec::with_capacity(roots.len());
+        for &r in &roots {
+            let mut rows = vec![vec![Integer::ZERO; n]; n];
+            rows[0][0] = Integer::from(p);
+            for i in 1..n {
+                let mut acc = 0u64;
+                let mut rp = 1u64;
+                for c in &self.basis.rows[i] {
+                    acc = (acc + mul_mod(mod_word(c, p), rp, p)) % p;
+                    rp = mul_mod(rp, r, p);
+                }
+                let wi = mul_mod(acc, dinv, p);
+                rows[i][0] = Integer::from((p - wi) % p);
+                rows[i][i] = Integer::ONE;
+            }
+            let ideal = Ideal { hnf: rows, den: Integer::ONE };
+            let mut gq = vec![Rational::ZERO; n];
+            gq[0] = Rational::from(-Integer::from(r));
+            gq[1] = Rational::ONE;
+            let gen = self.from_power_basis(&gq)?;
+            // synthetic division of f by x - r mod p: the quotient's coefficients
+            let mut q = vec![0u64; n];
+            let mut carry = 0u64;
+            for j in (0..n).rev() {
+                // coefficient of x^j in the quotient = f_{j+1} + r * (coefficient of x^{j+1})
+                carry = (fp_[j + 1] + mul_mod(r, carry, p)) % p;
+                q[j] = carry;
+            }
+            let aq: Vec<Rational> = q.iter().map(|&c| Rational::from(c)).collect();
+            let anti = self.from_power_basis(&aq)?;
+            out.push(PrimeIdeal { p, e: 1, f: 1, ideal, gen, anti });
+        }
+        Ok(Some((out, roots.len() == n)))
+    }
+
     /// Kummer-Dedekind: `f = prod g_i^e_i mod p` gives `P_i = pO + g_i(theta)O`,
     /// valid when `p` does not divide the index (Cohen GTM 138, Thm 4.8.13).
     pub fn primes_above_kummer(&self, p: u64) -> Result<Vec<PrimeIdeal>, Error> {
@@ -586,6 +640,34 @@ mod tests {
 
     fn z(v: &[i64]) -> Vec<Integer> {
         v.iter().map(|&c| Integer::from(c)).collect()
+    }
+
+    #[test]
+    fn degree_one_primes_agree_with_the_general_route() {
+        // two ways: the Hermite-free construction against Kummer-Dedekind / the
+        // general decomposition (same ideals, same valuations of test elements)
+        for f in [z(&[-1, -1, 0, 1]), z(&[7, 3, 0, 1]), z(&[-5, 0, 1]), z(&[13, -4, 2, 1]), z(&[56789, 1234, 0, 1]), z(&[-10, 0, 0, 1])] {
+            let k = NumberField::new(&f).unwrap();
+            for p in crate::arith::primes_up_to(400) {
+                let Some((light, complete)) = k.primes_above_degree_one(p).unwrap() else {
+                    assert_eq!(mod_word(&k.poly_disc, p), 0, "{f:?} {p}");
+                    continue;
+                };
+                let full = k.primes_above(p).unwrap();
+                let deg1: Vec<&PrimeIdeal> = full.iter().filter(|q| q.f == 1).collect();
+                assert_eq!(light.len(), deg1.len(), "{f:?} {p}");
+                assert_eq!(complete, deg1.len() == full.len());
+                for q in &light {
+                    let same = deg1.iter().find(|d| d.ideal == q.ideal).unwrap_or_else(|| panic!("{f:?} {p}: ideal not found"));
+                    for x in [k.generator(), k.add(&k.generator(), &k.one()), k.mul(&k.generator(), &k.generator()), q.gen.clone(), k.mul(&q.gen, &q.gen)] {
+                        if x.is_zero() {
+                            continue;
+                        }
+                        assert_eq!(k.valuation(&x, q).unwrap(), k.valuation(&x, same).unwrap(), "{f:?} {p}");
+                    }
+                }
+            }
+        }
     }
 
     fn fields() -> Vec<NumberField> {

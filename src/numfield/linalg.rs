@@ -214,6 +214,7 @@ pub(crate) fn left_kernel_mod_p(a: &[Vec<u64>], k: usize, p: u64) -> Vec<Vec<u64
 }
 
 /// Rank of a matrix over F_p.
+#[cfg(test)]
 pub(crate) fn rank_mod_p(a: &[Vec<u64>], p: u64) -> usize {
     let k = a.first().map_or(0, |r| r.len());
     a.len() - left_kernel_mod_p(a, k, p).len()

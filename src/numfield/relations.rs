@@ -13,7 +13,8 @@
 
 use super::field::{Element, NumberField};
 use super::ideal::PrimeIdeal;
-use crate::arith::{is_prime_u64, primes_up_to};
+use crate::arith::{is_prime_u64, mul_mod, primes_up_to};
+use super::linalg::mod_word;
 use crate::{Error, ErrorKind};
 use malachite::base::num::basic::traits::Zero;
 use malachite::base::num::conversion::traits::RoundingFrom;
@@ -116,6 +117,7 @@ impl NormForm {
 /// `None` as soon as the cofactor cannot become smaller than `cap` (an
 /// early abort after the first quarter of the primes when the remaining
 /// part is still beyond `cap` times the square of the largest prime).
+#[cfg(test)]
 #[inline]
 pub(crate) fn trial_divide(mut v: u128, primes: &[u64], cap: u128) -> u128 {
     let quarter = primes.len() / 4;
@@ -147,6 +149,87 @@ pub(crate) fn trial_divide(mut v: u128, primes: &[u64], cap: u128) -> u128 {
         }
     }
     v
+}
+
+/// The trial divisors of `trial_divide` with precomputed data for
+/// division-free divisibility tests (T. Granlund and P. L. Montgomery,
+/// "Division by invariant integers using multiplication", PLDI 1994, §9:
+/// for odd `p`, `p | w` iff `w * p^-1 mod 2^64 <= (2^64 - 1) / p`, and the
+/// product is then the quotient).
+pub(crate) struct Divisors {
+    primes: Vec<u64>,
+    /// `p^-1 mod 2^64`, `(2^64 - 1) / p`, `2^64 mod p` (zero for `p = 2`)
+    data: Vec<(u64, u64, u64)>,
+}
+
+impl Divisors {
+    /// The divisors from an increasing list of primes (below 2^32).
+    pub(crate) fn new(primes: &[u64]) -> Divisors {
+        let data = primes.iter().map(|&p| {
+            if p == 2 {
+                return (0, 0, 0);
+            }
+            let mut x = p; // correct to 3 bits; each Newton step doubles
+            for _ in 0..5 {
+                x = x.wrapping_mul(2u64.wrapping_sub(p.wrapping_mul(x)));
+            }
+            (x, u64::MAX / p, ((u64::MAX % p) + 1) % p)
+        }).collect();
+        Divisors { primes: primes.to_vec(), data }
+    }
+
+    /// As `trial_divide` (same result), without hardware division in the
+    /// inner loop.
+    #[inline]
+    pub(crate) fn cofactor(&self, mut v: u128, cap: u128) -> u128 {
+        if v == 0 {
+            return 0;
+        }
+        let primes = &self.primes;
+        let quarter = primes.len() / 4;
+        let mut i = 0;
+        if primes.first() == Some(&2) {
+            v >>= v.trailing_zeros();
+            i = 1;
+        }
+        while i < primes.len() {
+            if v <= u64::MAX as u128 {
+                let mut w = v as u64;
+                for j in i..primes.len() {
+                    let q = primes[j];
+                    if w < q.saturating_mul(q) {
+                        if w >= q && primes[j..].binary_search(&w).is_ok() {
+                            w = 1;
+                        }
+                        break;
+                    }
+                    let (inv, lim, _) = self.data[j];
+                    loop {
+                        let t = w.wrapping_mul(inv);
+                        if t > lim {
+                            break;
+                        }
+                        w = t;
+                    }
+                }
+                return w as u128;
+            }
+            let p = primes[i];
+            let (_, _, r64) = self.data[i];
+            loop {
+                let r = ((((v >> 64) as u64 % p) as u128 * r64 as u128 + (v as u64 % p) as u128) % p as u128) as u64;
+                if r != 0 {
+                    break;
+                }
+                v /= p as u128;
+            }
+            if i == quarter && v > cap.saturating_mul(1 << 40) {
+                return v;
+            }
+            i += 1;
+        }
+        v
+    }
 }
 
 /// `log |x|` for an integer (f64).
@@ -192,6 +275,31 @@ mod tests {
     }
 
     #[test]
+    fn division_free_trial_division_agrees() {
+        // two ways: the multiply-and-compare divisibility test against plain division
+        let primes = primes_up_to(3000);
+        let d = Divisors::new(&primes);
+        let mut s = 99u64;
+        let mut rnd = || {
+            s ^= s << 13;
+            s ^= s >> 7;
+            s ^= s << 17;
+            s
+        };
+        for round in 0..20_000 {
+            // smooth parts times a random cofactor, sizes from 2^10 to 2^120
+            let mut v: u128 = 1 + (rnd() % 1000) as u128;
+            let bits = 10 + round % 110;
+            while 128 - v.leading_zeros() < bits as u32 {
+                let p = primes[(rnd() % primes.len() as u64) as usize] as u128;
+                v = v.saturating_mul(if rnd() % 5 == 0 { (rnd() % 100_000) as u128 + 1 } else { p });
+            }
+            let cap = 1u128 << (rnd() % 40);
+            assert_eq!(d.cofactor(v, cap), trial_divide(v, &primes, cap), "{v} {cap}");
+        }
+    }
+
+    #[test]
     fn trial_division_cofactors() {
         let primes = [2u64, 3, 5, 7, 11, 13];
         assert_eq!(trial_divide(2 * 2 * 3 * 13 * 13, &primes, 1), 1);
@@ -229,7 +337,16 @@ pub(crate) struct RelationSearch<'a> {
     b0: u64,
     gen_bound: u64,
     small: Vec<u64>,
+    divisors: Divisors,
     above: HashMap<u64, Vec<PrimeIdeal>>,
+    /// Primes whose list in `above` holds only the degree-one primes (the
+    /// others have norm beyond the generation bound).
+    incomplete: HashSet<u64>,
+    /// Primes whose list in `above` was built by the Hermite-free
+    /// construction (`p` prime to `disc(f)`, every listed prime of degree one).
+    light: HashSet<u64>,
+    /// Primes whose full decomposition is wanted (those of `S`).
+    full: HashSet<u64>,
     col: HashMap<Key, usize>,
     keys: Vec<Key>,
     verified: HashSet<Key>,
@@ -258,7 +375,11 @@ impl<'a> RelationSearch<'a> {
             b0,
             gen_bound,
             small: primes_up_to(b0),
+            divisors: Divisors::new(&primes_up_to(b0)),
             above: HashMap::new(),
+            incomplete: HashSet::new(),
+            light: HashSet::new(),
+            full: extra_primes.iter().copied().collect(),
             col: HashMap::new(),
             keys: Vec::new(),
             verified: HashSet::new(),
@@ -304,10 +425,55 @@ impl<'a> RelationSearch<'a> {
 
     fn ideals(&mut self, p: u64) -> Result<&Vec<PrimeIdeal>, Error> {
         if !self.above.contains_key(&p) {
-            let v = self.k.primes_above(p)?;
+            // beyond sqrt(bound) only degree-one primes can matter: built cheaply
+            let light = if (p as u128) * (p as u128) > self.gen_bound.max(self.b0) as u128 && !self.full.contains(&p) {
+                self.k.primes_above_degree_one(p)?
+            } else {
+                None
+            };
+            let v = match light {
+                Some((v, complete)) => {
+                    self.light.insert(p);
+                    if !complete {
+                        self.incomplete.insert(p);
+                    }
+                    v
+                }
+                None => self.k.primes_above(p)?,
+            };
             self.above.insert(p, v);
         }
         Ok(&self.above[&p])
+    }
+
+    /// The relation given by a rational prime `p` whose prime ideals are
+    /// all columns: `(p) = prod P^e`. `None` when one of them is not.
+    pub(crate) fn free_relation(&mut self, p: u64) -> Result<Option<Found>, Error> {
+        let e: Vec<i64> = self.ideals(p)?.iter().map(|q| i64::from(q.e)).collect();
+        if self.incomplete.contains(&p) {
+            return Ok(None);
+        }
+        let mut v = vec![0i64; self.fb.len()];
+        for (i, ei) in e.iter().enumerate() {
+            match self.col.get(&(p, i)) {
+                Some(&j) => v[j] = *ei,
+                None => return Ok(None),
+            }
+        }
+        let a = self.k.rational(&Rational::from(p));
+        if !self.seen.insert(a.clone()) {
+            return Ok(None);
+        }
+        let (idx, logs, err) = self.store(a);
+        Ok(Some(Found { exps: vec![(idx, 1)], v, logs, err }))
+    }
+
+    /// The rational primes below the columns, increasing.
+    pub(crate) fn column_primes(&self) -> Vec<u64> {
+        let mut ps: Vec<u64> = self.keys.iter().map(|k| k.0).collect();
+        ps.sort_unstable();
+        ps.dedup();
+        ps
     }
 
     /// A pseudo-random number below `m` (xorshift).
@@ -373,7 +539,7 @@ impl<'a> RelationSearch<'a> {
                 continue;
             }
             let v = val / norm_i;
-            let cof = trial_divide(v, &self.small, self.gen_bound as u128);
+            let cof = self.divisors.cofactor(v, self.gen_bound as u128);
             if cof != 1 && (cof > self.gen_bound as u128 || !is_prime_u64(cof as u64)) {
                 continue;
             }
@@ -395,14 +561,50 @@ impl<'a> RelationSearch<'a> {
             hit.sort_unstable();
             hit.dedup();
             let mut vals: Vec<(Key, i64)> = Vec::new();
+            let mut accounted = true;
             for p in hit {
                 let m = self.ideals(p)?.len();
-                for i in 0..m {
-                    let e = k.valuation(&a, &self.above[&p][i])?;
-                    if e != 0 {
-                        vals.push(((p, i), e));
+                let mut vp = 0u32;
+                let mut t = val;
+                while t % p as u128 == 0 {
+                    t /= p as u128;
+                    vp += 1;
+                }
+                let mut sum_ef = 0u32;
+                if vp == 1 && self.light.contains(&p) {
+                    // p exactly once in the norm: the one degree-one prime
+                    // (p, theta - r) with a(r) = 0 mod p has valuation 1
+                    // (read off the Hermite rows: a(r) = a_0 - sum_i a_i h_i0)
+                    for i in 0..m {
+                        let h = self.above[&p][i].ideal.hnf();
+                        let mut acc = mod_word(&a.coords()[0], p);
+                        for j in 1..k.n {
+                            let t = mul_mod(mod_word(&a.coords()[j], p), mod_word(&h[j][0], p), p);
+                            acc = (acc + p - t) % p;
+                        }
+                        if acc == 0 {
+                            vals.push(((p, i), 1));
+                            sum_ef += 1;
+                            break;
+                        }
+                    }
+                } else {
+                    for i in 0..m {
+                        let e = k.valuation(&a, &self.above[&p][i])?;
+                        if e != 0 {
+                            vals.push(((p, i), e));
+                            sum_ef += e.unsigned_abs() as u32 * self.above[&p][i].f;
+                        }
                     }
                 }
+                // the listed primes must account for all of p in the norm
+                // (a prime of higher degree left out of a short list is not)
+                if sum_ef != vp {
+                    accounted = false;
+                }
+            }
+            if !accounted {
+                continue;
             }
             if self.accept(a, vals, goal, out) {
                 return Ok(true);
@@ -494,6 +696,13 @@ impl<'a> RelationSearch<'a> {
             if self.verified.contains(&key) {
                 continue;
             }
+            // (p) = prod P^e: the last unverified prime above p with e = 1 is
+            // implied by the others when the list above p is complete
+            let (p, i) = key;
+            if !self.incomplete.contains(&p) && self.above[&p][i].e == 1 && (0..self.above[&p].len()).all(|j| j == i || self.verified.contains(&(p, j))) {
+                self.verified.insert(key);
+                continue;
+            }
             let mut done = false;
             for attempt in 0..VERIFY_ATTEMPTS {
                 if stop() {
@@ -504,7 +713,7 @@ impl<'a> RelationSearch<'a> {
                     let j = self.rnd(self.fb0_len.clamp(1, 12) as u64) as usize;
                     factors.push(self.keys[j]);
                 }
-                let span = if self.k.n == 2 { 6 } else { 1 + (attempt as i64 / 6).min(2) };
+                let span = if self.k.n == 2 { 6 } else { 2 + (attempt as i64 / 8).min(1) };
                 if self.scan(&factors, span, &Goal::Verify(key), &mut out)? {
                     done = true;
                     break;
