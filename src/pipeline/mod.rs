@@ -106,8 +106,8 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         Some(quartic_route(minimal, &torsion, primes, options, work, enough, &mut report).map_err(|e| e.in_stage("the quartic descent"))?)
     };
     // the descent over Q[X]/(f): Sel^2(E) beside the isogeny Selmer groups
-    // (today for full rational 2-torsion; other shapes give None)
-    let algebra = if work.exhausted() || twos.len() != 3 {
+    // (for rational 2-torsion: A = Q x Q x Q or Q x K; the cubic shape gives None)
+    let algebra = if work.exhausted() || twos.is_empty() {
         None
     } else {
         algebra_route(minimal, &torsion, primes, work, &mut report)?

@@ -192,7 +192,7 @@ pub struct RankReport {
     /// that is set; its points are then already carried to the minimal model).
     pub full_descent: Option<crate::descent::full::FullDescent>,
     /// The descent over the algebra `Q[X]/(f)`, when it ran (today on curves
-    /// with full rational 2-torsion): `Sel^2(E)` with its local images.
+    /// with a rational point of order 2): `Sel^2(E)` with its local images.
     pub algebra_descent: Option<crate::descent::algebra::AlgebraDescent>,
     /// When the quartic descent ran on a curve isogenous to this one by an
     /// isogeny of odd degree (a smaller `c4` makes the enumeration cheaper):

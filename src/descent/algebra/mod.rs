@@ -19,9 +19,12 @@
 //! does not reach the dimension, or a span that exceeds it, is an error,
 //! never a smaller or larger Selmer group.
 //!
-//! This session covers the algebra `Q x Q x Q` (curves with full rational
-//! 2-torsion), where `A(S,2)` is `Q(S,2)^2` and no class group is needed;
-//! other shapes return `Ok(None)`.
+//! Covered: the algebra `Q x Q x Q` (curves with full rational 2-torsion),
+//! where `A(S,2)` is `Q(S,2)^2` and no class group is needed, and
+//! `Q x K` with `K` quadratic (one rational point of order 2), where the
+//! candidates are `K(S,2)` from [`crate::numfield`] (see `quadratic.rs` for
+//! the local square classes of `K (x) Q_v`). The cubic shape returns
+//! `Ok(None)`.
 //!
 //! ```
 //! use twofold::descent::algebra::two_selmer_over_algebra;
@@ -37,6 +40,7 @@
 //! ```
 
 pub mod local;
+mod quadratic;
 mod selmer;
 
 use crate::budget::Work;
@@ -167,7 +171,10 @@ pub fn two_selmer_over_algebra(
     }
     match roots.len() {
         3 => {}
-        1 => return Ok(None),
+        1 => {
+            let s = s_primes(&cubic, &roots, primes)?;
+            return quadratic::rational_times_quadratic(cubic, roots[0].clone(), s, work).map(Some);
+        }
         _ => return Ok(None),
     }
     let s = s_primes(&cubic, &roots, primes)?;
