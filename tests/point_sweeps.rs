@@ -14,6 +14,13 @@ use std::time::Instant;
 use twofold::heights::{canonical_height_on_model, float_to_f64, height_difference_bound};
 use twofold::{analyse, Curve, Point, RankOptions};
 
+/// The sweeps' options: no evidence, and the Heegner route given a minute
+/// (the default 10 s is a wall-clock share that a loaded machine can
+/// spend before the series ends).
+fn sweep_options() -> RankOptions {
+    RankOptions::default().with_evidence(false).with_heegner_time_limit(std::time::Duration::from_secs(60))
+}
+
 fn sweep_max(default: u64) -> u64 {
     std::env::var("SWEEP_MAX").ok().and_then(|s| s.parse().ok()).unwrap_or(default)
 }
@@ -73,7 +80,7 @@ fn route(independence: &str) -> &'static str {
 #[ignore]
 fn congruent_numbers_of_rank_one() {
     let max = sweep_max(1000);
-    let opts = RankOptions::default().with_evidence(false);
+    let opts = sweep_options();
     let (mut total, mut heegner, mut worst) = (0, 0, (0.0f64, 0u64));
     let start = Instant::now();
     for n in (1..=max).filter(|&n| squarefree(n)) {
@@ -114,7 +121,7 @@ fn congruent_numbers_of_rank_one() {
 #[ignore]
 fn mordell_curves_of_analytic_rank_one() {
     let max = sweep_max(10_000) as i64;
-    let opts = RankOptions::default().with_evidence(false);
+    let opts = sweep_options();
     let (mut total, mut heegner, mut missing) = (0, 0, Vec::new());
     let start = Instant::now();
     for k in (-max..=max).filter(|&k| k != 0 && k % 64 != 0 && k % 729 != 0) {
@@ -177,7 +184,7 @@ fn naive_limit(e: &Curve, p: &Point, j: u32) -> f64 {
 fn wider_table_rank_at_most_one() {
     let rows = common::read_table("curves-wider.tsv");
     let max = sweep_max(u64::MAX) as usize;
-    let opts = RankOptions::default().with_evidence(false);
+    let opts = sweep_options();
     let (mut checked, mut heights, mut heegner) = (0, 0, 0);
     let start = Instant::now();
     for row in rows.iter().filter(|r| r.rank <= 1).take(max) {
