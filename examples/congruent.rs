@@ -8,7 +8,9 @@
 //! printed; an open gap says so).
 //!
 //! For each n it prints one of
-//! - a point of infinite order and the rational right triangle of area n it gives;
+//! - a point of infinite order, the route that found it (the point search
+//!   or the Heegner point method), and the rational right triangle of area
+//!   n it gives;
 //! - the Selmer bound that shows rank 0;
 //! - the open gap with the coverings where Sha could hide.
 //! Beside each verdict it prints Tunnell's criterion (Tunnell 1983) as an
@@ -88,7 +90,9 @@ fn main() {
         [b] => (1, *b),
         _ => (1, 60),
     };
-    let options = RankOptions::default().with_time_limit(std::time::Duration::from_secs(30));
+    let options = RankOptions::default()
+        .with_time_limit(std::time::Duration::from_secs(30))
+        .with_heegner_time_limit(std::time::Duration::from_secs(20));
     for n in from..=to {
         if !squarefree(n) {
             continue;
@@ -112,7 +116,8 @@ fn main() {
             (Some(l), _) if l > 0 => {
                 let p = &report.points[0];
                 let (a, b, c) = triangle(p, n).expect("a point of infinite order has y != 0");
-                format!("congruent (proven): point {p} gives the triangle {a}, {b}, {c} of area {n}")
+                let by = if report.independence.contains("Heegner") { "the Heegner point method" } else { "the point search" };
+                format!("congruent (proven): point {p} (found by {by}) gives the triangle {a}, {b}, {c} of area {n}")
             }
             (_, Some(0)) => {
                 let (s, t) = report.isogeny_selmer_dims.unwrap_or((0, 0));

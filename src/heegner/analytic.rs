@@ -65,6 +65,9 @@ pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64,
         return modular_sum_dd(a, forms, d, prec, budget);
     }
     let wp = prec + 24 + (a.len().max(2) as f64).log2().ceil() as u64;
+    if (wp as usize).div_ceil(64) < super::words::MAX_LIMBS {
+        return modular_sum_words(a, forms, d, wp, prec, budget);
+    }
     let pi = pi(wp);
     let sd = sqrt(&fi(-d, wp), wp);
     let (mut tre, mut tim) = (Integer::ZERO, Integer::ZERO);
@@ -105,6 +108,60 @@ pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64,
     let scale = Rational::from(Integer::ONE << wp);
     let back = |x: Integer| Float::from_rational_prec(Rational::from(x) / &scale, wp).0;
     Ok(Cx::new(back(tre), back(tim)))
+}
+
+/// [`modular_sum`] in fixed point over machine words (see `words.rs`):
+/// `ceil(wp / 64)` fraction limbs, the same Horner scheme and error
+/// analysis as the multiple-precision form, without allocation.
+fn modular_sum_words(a: &[i64], forms: &[QuadraticForm], d: i64, wp: u64, prec: u64, budget: &Work) -> Result<Cx, Error> {
+    macro_rules! by_limbs {
+        ($($k:literal),*) => {
+            match (wp as usize).div_ceil(64) + 1 {
+                $($k => modular_sum_limbs::<$k>(a, forms, d, prec, budget),)*
+                _ => Err(Error::internal("the modular series in machine words", "precision outside the table")),
+            }
+        };
+    }
+    by_limbs!(2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 17)
+}
+
+fn modular_sum_limbs<const K: usize>(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &Work) -> Result<Cx, Error> {
+    use super::words::{CWord, Multiplier, Word};
+    let fb = 64 * (K as u64 - 1);
+    let pi = pi(fb);
+    let sd = sqrt(&fi(-d, fb), fb);
+    let mut total = CWord::<K>::ZERO;
+    let overflow = || Error::internal("the modular series in machine words", "a value outside the fixed-point range");
+    for f in forms {
+        let m = terms_needed(f.a as f64, (-d) as f64, prec);
+        if m + 1 > a.len() {
+            return Err(Error::new(ErrorKind::InvalidValue, "not enough coefficients for the series"));
+        }
+        let af = fz(&Integer::from(f.a), fb);
+        let r = exp(&-(&pi * &sd / &af), fb);
+        let theta = -(&pi * fz(&Integer::from(f.b), fb)) / &af;
+        let e = expi(&theta, fb);
+        let qr = Word::from_scaled(&fixed(&(&r * &e.re), fb)).ok_or_else(overflow)?;
+        let qi = Word::from_scaled(&fixed(&(&r * &e.im), fb)).ok_or_else(overflow)?;
+        let q = Multiplier::new(CWord { re: qr, im: qi });
+        let mut s = CWord::<K>::ZERO;
+        for n in (1..=m).rev() {
+            if n % 8192 == 0 && budget.exhausted() {
+                return Err(Error::new(ErrorKind::Budget, "time budget spent in the modular parametrisation"));
+            }
+            if n < m {
+                s = s.mul_by(&q);
+            }
+            let an = a[n];
+            if an != 0 {
+                s.re = super::words::add(&s.re, &Word::ratio(an, n as u64));
+            }
+        }
+        total = total.add(&s.mul_by(&q));
+    }
+    let scale = Rational::from(Integer::ONE << fb);
+    let back = |x: Integer| Float::from_rational_prec(Rational::from(x) / &scale, fb).0;
+    Ok(Cx::new(back(total.re.to_scaled()), back(total.im.to_scaled())))
 }
 
 /// `x` as an integer scaled by `2^wp` (rounded down).

@@ -58,6 +58,7 @@ mod analytic;
 pub mod forms;
 mod traces;
 mod twist;
+mod words;
 
 use crate::budget::{RankOptions, Work};
 use crate::curve::{Curve, Point};
@@ -367,26 +368,62 @@ fn twist_multiplier(t: &twist::Twist, lat: &Lattice, bits: u64) -> Result<Option
     Ok((1..=24u32).find(|&e| c.iter().all(|x| ((x * e as f64) - (x * e as f64).round()).abs() < 1e-9)))
 }
 
+/// `Σ_plus z0 - Σ_minus z0` over the twisted evaluation points, the
+/// Atkin-Lehner moved ones through `z0(τ) = ε (z0(W τ) - c)` (see
+/// [`twist::twisted_forms`]).
+fn twisted_sum(coeffs: &[i64], p: &twist::TwistPoints, disc: i64, t: &twist::Twist, bits: u64, budget: &Work) -> Result<Cx, Error> {
+    let wp = bits + 32;
+    let zero = || Cx::real(fi(0, wp));
+    let sum = |f: &[forms::QuadraticForm]| -> Result<Cx, Error> {
+        if f.is_empty() {
+            Ok(zero())
+        } else {
+            analytic::modular_sum(coeffs, f, disc, bits, budget)
+        }
+    };
+    let mut total = sum(&p.plus)?.sub(&sum(&p.minus)?);
+    let moved = p.plus_w.len() as i64 - p.minus_w.len() as i64;
+    if !p.plus_w.is_empty() || !p.minus_w.is_empty() {
+        let w = sum(&p.plus_w)?.sub(&sum(&p.minus_w)?);
+        let eps = -i64::from(t.base_sign);
+        let mut part = if eps > 0 { w } else { Cx::new(-&w.re, -&w.im) };
+        if eps < 0 && moved != 0 {
+            // c = 2 z0(i / sqrt N0); ε (Σ z0(Wτ) - (#plus_w - #minus_w) c)
+            let n0 = t.base_conductor as i128;
+            let c = analytic::modular_sum(coeffs, &[forms::QuadraticForm { a: n0, b: 0, c: 1 }], -4 * t.base_conductor as i64, bits, budget)?;
+            let k = fi(2 * moved, wp);
+            part = part.add(&Cx::new(&c.re * &k, &c.im * &k));
+        }
+        total = total.add(&part);
+    }
+    Ok(total)
+}
+
 /// The series, in one of two forms: the Heegner points of level `N` with
 /// the coefficients of `E`, or the twisted sum with those of the base.
 enum Series {
     Direct(Vec<forms::QuadraticForm>),
-    Twisted { plus: Vec<forms::QuadraticForm>, minus: Vec<forms::QuadraticForm>, disc: i64 },
+    Twisted { points: twist::TwistPoints, disc: i64, n0: u64 },
 }
 
 impl Series {
     fn terms(&self, h: &HeegnerData, bits: u64) -> usize {
         let (forms, disc): (Vec<&forms::QuadraticForm>, i64) = match self {
             Series::Direct(f) => (f.iter().collect(), h.discriminant),
-            Series::Twisted { plus, minus, disc } => (plus.iter().chain(minus.iter()).collect(), *disc),
+            Series::Twisted { points, disc, .. } => (points.all().collect(), *disc),
         };
-        forms.iter().map(|f| analytic::terms_needed(f.a as f64, (-disc) as f64, bits)).max().unwrap_or(1)
+        let fixed_point = match self {
+            // the constant of the Atkin-Lehner move: z0(i / sqrt N0), D = -4 N0
+            Series::Twisted { n0, .. } => analytic::terms_needed(*n0 as f64, 4.0 * *n0 as f64, bits),
+            Series::Direct(_) => 1,
+        };
+        forms.iter().map(|f| analytic::terms_needed(f.a as f64, (-disc) as f64, bits)).max().unwrap_or(1).max(fixed_point)
     }
 
     fn total_terms(&self, h: &HeegnerData, bits: u64) -> usize {
         let (forms, disc): (Vec<&forms::QuadraticForm>, i64) = match self {
             Series::Direct(f) => (f.iter().collect(), h.discriminant),
-            Series::Twisted { plus, minus, disc } => (plus.iter().chain(minus.iter()).collect(), *disc),
+            Series::Twisted { points, disc, .. } => (points.all().collect(), *disc),
         };
         forms.iter().map(|f| analytic::terms_needed(f.a as f64, (-disc) as f64, bits)).sum()
     }
@@ -407,7 +444,7 @@ fn search(
         let series = match tw {
             None => Series::Direct(h.forms.clone()),
             Some(t) => match twist::twisted_forms(&h.forms, t.d, t.base_conductor) {
-                Some((plus, minus)) => Series::Twisted { plus, minus, disc: h.discriminant * t.d * t.d },
+                Some(points) => Series::Twisted { points, disc: h.discriminant * t.d * t.d, n0: t.base_conductor },
                 None => continue,
             },
         };
@@ -456,7 +493,7 @@ fn search(
             let lat = Lattice::new(&pl, bits + 32);
             let z = match series {
                 Series::Direct(f) => analytic::modular_sum(&coeffs, f, h.discriminant, bits, budget)?,
-                Series::Twisted { plus, minus, disc } => {
+                Series::Twisted { points, disc, .. } => {
                     // invariant: Series::Twisted is only built when a twist `tw` was found
                     let t = tw.expect("twisted series without a twist");
                     if mult_base == 1 {
@@ -465,10 +502,8 @@ fn search(
                             None => break,
                         }
                     }
+                    let diff = twisted_sum(&coeffs, points, *disc, t, bits, budget)?;
                     let wp = bits + 32;
-                    let sp = analytic::modular_sum(&coeffs, plus, *disc, bits, budget)?;
-                    let sm = if minus.is_empty() { Cx::real(fi(0, wp)) } else { analytic::modular_sum(&coeffs, minus, *disc, bits, budget)? };
-                    let diff = sp.sub(&sm);
                     let g = crate::heights::real::sqrt(&fi(t.d.abs(), wp), wp);
                     if t.d > 0 {
                         Cx::new(&diff.re / &g, &diff.im / &g)

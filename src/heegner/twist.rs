@@ -40,6 +40,8 @@ pub(crate) struct Twist {
     pub base_conductor: u64,
     /// `(p, a_p)` at the primes dividing `N0`.
     pub base_bad: Vec<(u64, i64)>,
+    /// The root number of the base.
+    pub base_sign: i8,
 }
 
 /// The twist of `curve` by `d` (`c4 d^2`, `c6 d^3`), as a short model.
@@ -94,7 +96,7 @@ pub(crate) fn smallest_twist(curve: &Curve, n: u64) -> Result<Option<Twist>, Err
         if crate::arith::gcd_u64(n0, dd) != 1 {
             continue;
         }
-        let (base, cond, _) = crate::rootno::minimal_conductor_sign(&twist_model(curve, d)?)?;
+        let (base, cond, base_sign) = crate::rootno::minimal_conductor_sign(&twist_model(curve, d)?)?;
         if cond != n0 {
             continue;
         }
@@ -111,7 +113,7 @@ pub(crate) fn smallest_twist(curve: &Curve, n: u64) -> Result<Option<Twist>, Err
                 (u64::try_from(&l.prime).unwrap_or(0), ap)
             })
             .collect();
-        return Ok(Some(Twist { d, base, base_conductor: n0, base_bad }));
+        return Ok(Some(Twist { d, base, base_conductor: n0, base_bad, base_sign }));
     }
     Ok(None)
 }
@@ -140,6 +142,14 @@ fn ext_gcd(a: i128, b: i128) -> (i128, i128, i128) {
     } else {
         (r0, s0, t0)
     }
+}
+
+fn small_gcd(a: i128, b: i128) -> i128 {
+    let (mut a, mut b) = (a.unsigned_abs() as u64, b.unsigned_abs() as u64);
+    while b != 0 {
+        (a, b) = (b, a % b);
+    }
+    a as i128
 }
 
 fn gcd(a: i128, b: i128) -> i128 {
@@ -179,19 +189,26 @@ pub(crate) fn raised(f: &QuadraticForm, n0: i128) -> Option<QuadraticForm> {
     let g = QuadraticForm { a: f.a, b: f.b.checked_mul(-n0)?, c: f.c.checked_mul(n0.checked_mul(n0)?)? };
     let (r, m) = reduce_tracking(g)?;
     let mut best: Option<(i128, i128, i128)> = None; // (value, e, c')
-    for s in -12i128..=12 {
-        for t in -12i128..=12 {
-            if (s == 0 && t == 0) || gcd(s, t) != 1 {
-                continue;
-            }
-            let val = r.a * s * s + r.b * s * t + r.c * t * t;
-            if best.is_some_and(|b| b.0 <= val) {
-                continue;
-            }
-            let e = m[0][0] * s + m[0][1] * t;
-            let cp = m[1][0] * s + m[1][1] * t;
-            if gcd(e, n0.checked_mul(cp)?) == 1 {
-                best = Some((val, e, cp));
+    // shells max(|s|, |t|) = R: a reduced form has r(s, t) >= (3/4) a R^2
+    // (|b| <= a <= c), so the search stops once that exceeds the best value
+    for radius in 1i128..=12 {
+        if best.is_some_and(|b| 4 * b.0 < 3 * r.a * radius * radius) {
+            break;
+        }
+        for s in -radius..=radius {
+            for t in -radius..=radius {
+                if s.abs().max(t.abs()) != radius || small_gcd(s, t) != 1 {
+                    continue;
+                }
+                let val = r.a * s * s + r.b * s * t + r.c * t * t;
+                if best.is_some_and(|b| b.0 <= val) {
+                    continue;
+                }
+                let e = m[0][0] * s + m[0][1] * t;
+                let cp = m[1][0] * s + m[1][1] * t;
+                if gcd(e, n0.checked_mul(cp)?) == 1 {
+                    best = Some((val, e, cp));
+                }
             }
         }
     }
@@ -207,12 +224,52 @@ pub(crate) fn raised(f: &QuadraticForm, n0: i128) -> Option<QuadraticForm> {
     (out.discriminant() == f.discriminant() && out.a > 0 && out.a % n0 == 0).then_some(out)
 }
 
+/// The image of the root `τ` of `f = [A, B, C]` (`n0 | A`) under the
+/// Atkin-Lehner involution `W = [[0, -1], [n0, 0]]`, `τ -> -1/(n0 τ)`:
+/// the form `[C n0, -B, A / n0]`, of the same discriminant.
+pub(crate) fn atkin_lehner(f: &QuadraticForm, n0: i128) -> Option<QuadraticForm> {
+    if f.a % n0 != 0 {
+        return None;
+    }
+    Some(QuadraticForm { a: f.c.checked_mul(n0)?, b: -f.b, c: f.a / n0 })
+}
+
+/// The evaluation points of the twisted series, as forms of discriminant
+/// `D d^2` at level `N0`: `z0` is summed over `plus` minus `minus`; the
+/// points of `plus_w` and `minus_w` are the Atkin-Lehner images of the
+/// points they stand for, so that `z0(τ) = ε (z0(W τ) - c)` there, `ε` the
+/// eigenvalue of `W` on the newform of the base and `c = (1 - ε)
+/// z0(i / sqrt N0)` (see [`twisted_forms`]).
+#[derive(Clone, Debug, Default)]
+pub(crate) struct TwistPoints {
+    pub plus: Vec<QuadraticForm>,
+    pub minus: Vec<QuadraticForm>,
+    pub plus_w: Vec<QuadraticForm>,
+    pub minus_w: Vec<QuadraticForm>,
+}
+
+impl TwistPoints {
+    /// Every form, for term counts.
+    pub(crate) fn all(&self) -> impl Iterator<Item = &QuadraticForm> {
+        self.plus.iter().chain(&self.minus).chain(&self.plus_w).chain(&self.minus_w)
+    }
+}
+
 /// The shifted and raised forms of the Heegner forms `forms` (level
-/// `N0 |d|^2`) for the twist by `d`: those with `χ(u) = +1` and those with
-/// `χ(u) = -1`, all of discriminant `D d^2`. `None` on overflow.
-pub(crate) fn twisted_forms(forms: &[QuadraticForm], d: i64, n0: u64) -> Option<(Vec<QuadraticForm>, Vec<QuadraticForm>)> {
+/// `N0 |d|^2`) for the twist by `d`, grouped by `χ(u) = ±1`, all of
+/// discriminant `D d^2`. Each point `τ + u/|d|` is moved by `Γ0(N0)` to a
+/// large imaginary part ([`raised`]), or, when that leaves it nearer the
+/// real line than its image under the Atkin-Lehner involution `W` of level
+/// `N0` (a point near the cusp 0), the image `W τ` is raised instead: the
+/// newform is an eigenform of `W` with eigenvalue `ε = -w` (`w` the root
+/// number of the base; Atkin and Lehner 1970), so `f(W τ) = ε N0 τ^2
+/// f(τ)` and `z0(W τ) = ε z0(τ) + c` with the constant fixed at the fixed
+/// point `τ = i / sqrt N0`: `c = (1 - ε) z0(i / sqrt N0)`. `None` on
+/// overflow.
+pub(crate) fn twisted_forms(forms: &[QuadraticForm], d: i64, n0: u64) -> Option<TwistPoints> {
     let k = d.unsigned_abs() as i128;
-    let (mut plus, mut minus) = (Vec::new(), Vec::new());
+    let n0 = n0 as i128;
+    let mut out = TwistPoints::default();
     for f in forms {
         for u in 1..k {
             let chi = crate::arith::kronecker_i64(d, u as u64);
@@ -220,15 +277,21 @@ pub(crate) fn twisted_forms(forms: &[QuadraticForm], d: i64, n0: u64) -> Option<
                 continue;
             }
             let s = shifted(f, k, u)?;
-            let r = raised(&s, n0 as i128)?;
-            if chi > 0 {
-                plus.push(r);
-            } else {
-                minus.push(r);
+            let r = raised(&s, n0)?;
+            let rw = atkin_lehner(&s, n0).and_then(|w| raised(&w, n0));
+            let (r, moved) = match rw {
+                Some(w) if w.a < r.a => (w, true),
+                _ => (r, false),
+            };
+            match (chi > 0, moved) {
+                (true, false) => out.plus.push(r),
+                (false, false) => out.minus.push(r),
+                (true, true) => out.plus_w.push(r),
+                (false, true) => out.minus_w.push(r),
             }
         }
     }
-    Some((plus, minus))
+    Some(out)
 }
 
 #[cfg(test)]
@@ -323,5 +386,57 @@ mod identity {
         let (x, y) = lat.coordinates(&delta);
         let (x, y) = (to_f64(&x), to_f64(&y));
         assert!([x, y].iter().all(|v| ((4.0 * v) - (4.0 * v).round()).abs() < 1e-20), "{x} {y}");
+    }
+}
+
+#[cfg(test)]
+mod involution {
+    use super::*;
+    use crate::budget::Work;
+    use crate::heegner::analytic::{modular_sum, terms_needed};
+    use crate::heights::real::{fi, to_f64};
+
+    /// `z0(W τ) = ε z0(τ) + (1 - ε) z0(i / sqrt N0)` with `ε = -w`
+    /// (Atkin and Lehner 1970; the sign of the functional equation is
+    /// `-ε` for weight 2): checked numerically on y^2 = x^3 - x (N0 = 32,
+    /// w = +1) and y^2 + y = x^3 - x (N0 = 37, w = -1) at points of
+    /// moderate imaginary part on both sides.
+    #[test]
+    fn atkin_lehner_relation_holds() {
+        for (coeffs, n0) in [([0, 0, 0, -1, 0], 32i128), ([0, 0, 1, -1, 0], 37)] {
+            let e = Curve::from_coefficients(coeffs).unwrap();
+            let (_, _, w) = crate::rootno::minimal_conductor_sign(&e).unwrap();
+            let eps = -i64::from(w);
+            let primes: Vec<malachite::Natural> = crate::arith::factor_u64(n0 as u64).unwrap().into_iter().map(|(p, _)| p.into()).collect();
+            let bad: Vec<(u64, i64)> = bad_primes_data(&e, &primes)
+                .unwrap()
+                .iter()
+                .map(|l| {
+                    let ap = match l.reduction {
+                        Reduction::SplitMultiplicative => 1,
+                        Reduction::NonSplitMultiplicative => -1,
+                        _ => 0,
+                    };
+                    (u64::try_from(&l.prime).unwrap(), ap)
+                })
+                .collect();
+            // τ root of [n0, 1, n0], Im τ near 1/2, W τ near i/n0
+            let f = QuadraticForm { a: n0, b: 1, c: n0 };
+            let d = f.discriminant() as i64;
+            let g = atkin_lehner(&f, n0).unwrap();
+            assert_eq!(g.discriminant(), f.discriminant());
+            let prec = 100;
+            let m = [f, g].iter().map(|h| terms_needed(h.a as f64, (-d) as f64, prec)).max().unwrap().max(terms_needed(n0 as f64, 4.0 * n0 as f64, prec));
+            let a = crate::heegner::traces::dirichlet_coefficients_fast(&e, &bad, m + 10, &|| false).unwrap();
+            let work = Work::unlimited();
+            let zf = modular_sum(&a, &[f], d, prec, &work).unwrap();
+            let zg = modular_sum(&a, &[g], d, prec, &work).unwrap();
+            let c = modular_sum(&a, &[QuadraticForm { a: n0, b: 0, c: 1 }], -4 * n0 as i64, prec, &work).unwrap();
+            let k = fi(1 - eps, 160);
+            let e_ = fi(eps, 160);
+            let re = &zg.re - &e_ * &zf.re - &k * &c.re;
+            let im = &zg.im - &e_ * &zf.im - &k * &c.im;
+            assert!(to_f64(&re).abs() < 1e-25 && to_f64(&im).abs() < 1e-25, "{} {}", to_f64(&re), to_f64(&im));
+        }
     }
 }

@@ -1,0 +1,264 @@
+//! Signed fixed-point numbers in machine words for the modular series.
+//!
+//! A number is a sign and a magnitude of `k` little-endian 64-bit limbs,
+//! the top limb the integer part and the `k - 1` lower limbs the fraction:
+//! value `± mag / 2^(64 (k - 1))`. Products are truncated (one unit of the
+//! last place each), sums exact; nothing allocates, so the Horner loop of
+//! the series runs in registers and on the stack. The partial sums of the
+//! series stay below `2^63` in absolute value (`|a_n / n| <= 2` and
+//! `|q| < 1`), far inside the integer limb.
+
+use malachite::base::num::arithmetic::traits::UnsignedAbs;
+use malachite::{Integer, Natural};
+use std::cmp::Ordering;
+
+/// The most limbs a number has (1 integer limb and 16 fraction limbs,
+/// 1024 bits after the point).
+pub(crate) const MAX_LIMBS: usize = 17;
+
+/// A signed fixed-point number (see the module documentation).
+#[derive(Clone, Copy, Debug)]
+pub(crate) struct Word<const K: usize> {
+    mag: [u64; K],
+    neg: bool,
+}
+
+impl<const K: usize> Word<K> {
+    pub(crate) const ZERO: Word<K> = Word { mag: [0; K], neg: false };
+
+    /// `x / 2^(64 (k - 1))` from an integer `x`; `None` if it does not fit.
+    pub(crate) fn from_scaled(x: &Integer) -> Option<Word<K>> {
+        let n: Natural = x.unsigned_abs();
+        let limbs = n.to_limbs_asc();
+        if limbs.len() > K {
+            return None;
+        }
+        let mut mag = [0u64; K];
+        mag[..limbs.len()].copy_from_slice(&limbs);
+        Some(Word { mag, neg: *x < 0u32 })
+    }
+
+    /// The integer `x` with `self = x / 2^(64 (k - 1))`.
+    pub(crate) fn to_scaled(&self) -> Integer {
+        let n = Natural::from_limbs_asc(&self.mag);
+        let i = Integer::from(n);
+        if self.neg {
+            -i
+        } else {
+            i
+        }
+    }
+
+    /// `a / n` truncated towards zero (`n >= 1`).
+    #[inline]
+    pub(crate) fn ratio(a: i64, n: u64) -> Word<K> {
+        let k = K;
+        let mut mag = [0u64; K];
+        let top = a.unsigned_abs();
+        if n < 1 << 32 {
+            // two 32-bit steps per limb with native 64-bit division
+            let mut rem = top % n;
+            mag[k - 1] = top / n;
+            for i in (0..k - 1).rev() {
+                let hi = (rem << 32) / n;
+                rem = (rem << 32) % n;
+                let lo = (rem << 32) / n;
+                rem = (rem << 32) % n;
+                mag[i] = (hi << 32) | lo;
+            }
+        } else {
+            let n = u128::from(n);
+            let mut rem = u128::from(top) % n;
+            mag[k - 1] = (u128::from(top) / n) as u64;
+            for i in (0..k - 1).rev() {
+                let cur = rem << 64;
+                mag[i] = (cur / n) as u64;
+                rem = cur % n;
+            }
+        }
+        Word { mag, neg: a < 0 }
+    }
+
+    #[inline]
+    fn neg(mut self) -> Word<K> {
+        self.neg = !self.neg;
+        self
+    }
+}
+
+#[inline]
+fn cmp_mag<const K: usize>(a: &[u64; K], b: &[u64; K]) -> Ordering {
+    for i in (0..K).rev() {
+        match a[i].cmp(&b[i]) {
+            Ordering::Equal => continue,
+            o => return o,
+        }
+    }
+    Ordering::Equal
+}
+
+#[inline]
+fn add_mag<const K: usize>(a: &[u64; K], b: &[u64; K]) -> [u64; K] {
+    let mut out = [0u64; K];
+    let mut carry = false;
+    for i in 0..K {
+        let (s, c1) = a[i].overflowing_add(b[i]);
+        let (s, c2) = s.overflowing_add(u64::from(carry));
+        out[i] = s;
+        carry = c1 || c2;
+    }
+    out
+}
+
+/// `a - b` for `a >= b`.
+#[inline]
+fn sub_mag<const K: usize>(a: &[u64; K], b: &[u64; K]) -> [u64; K] {
+    let mut out = [0u64; K];
+    let mut borrow = false;
+    for i in 0..K {
+        let (s, c1) = a[i].overflowing_sub(b[i]);
+        let (s, c2) = s.overflowing_sub(u64::from(borrow));
+        out[i] = s;
+        borrow = c1 || c2;
+    }
+    out
+}
+
+/// `x + y`, exact.
+#[inline]
+pub(crate) fn add<const K: usize>(x: &Word<K>, y: &Word<K>) -> Word<K> {
+    if x.neg == y.neg {
+        return Word { mag: add_mag(&x.mag, &y.mag), neg: x.neg };
+    }
+    match cmp_mag(&x.mag, &y.mag) {
+        Ordering::Less => Word { mag: sub_mag(&y.mag, &x.mag), neg: y.neg },
+        _ => Word { mag: sub_mag(&x.mag, &y.mag), neg: x.neg },
+    }
+}
+
+/// `x - y`, exact.
+#[inline]
+pub(crate) fn sub<const K: usize>(x: &Word<K>, y: &Word<K>) -> Word<K> {
+    add(x, &y.neg())
+}
+
+/// `x y` truncated to the fixed point (at most `k` units of the last place
+/// below the exact product in magnitude).
+#[inline]
+pub(crate) fn mul<const K: usize>(x: &Word<K>, y: &Word<K>) -> Word<K> {
+    // product of the magnitudes without the columns below k - 2 (their
+    // carries are dropped: at most k units of the last place), then limbs
+    // k-1 .. 2k-2
+    let k = K;
+    let mut mag = [0u64; K];
+    // product scanning: the accumulator a0 + a1 2^64 + a2 2^128 holds a column
+    let (mut a0, mut a1, mut a2) = (0u64, 0u64, 0u64);
+    for c in k.saturating_sub(2)..=(2 * k - 2) {
+        for i in c.saturating_sub(k - 1)..=c.min(k - 1) {
+            let t = u128::from(x.mag[i]) * u128::from(y.mag[c - i]);
+            let (sum, carry) = ((u128::from(a1) << 64) | u128::from(a0)).overflowing_add(t);
+            a0 = sum as u64;
+            a1 = (sum >> 64) as u64;
+            a2 += u64::from(carry);
+        }
+        if c + 1 >= k {
+            mag[c + 1 - k] = a0;
+        }
+        (a0, a1, a2) = (a1, a2, 0);
+    }
+    Word { mag, neg: x.neg != y.neg }
+}
+
+/// A complex number of two [`Word`]s.
+#[derive(Clone, Copy, Debug)]
+pub(crate) struct CWord<const K: usize> {
+    pub(crate) re: Word<K>,
+    pub(crate) im: Word<K>,
+}
+
+/// A fixed multiplier `q` prepared for [`CWord::mul_by`]: `q.re + q.im`
+/// kept for the three-product form.
+#[derive(Clone, Copy, Debug)]
+pub(crate) struct Multiplier<const K: usize> {
+    q: CWord<K>,
+    sum: Word<K>,
+}
+
+impl<const K: usize> Multiplier<K> {
+    pub(crate) fn new(q: CWord<K>) -> Multiplier<K> {
+        Multiplier { q, sum: add(&q.re, &q.im) }
+    }
+}
+
+impl<const K: usize> CWord<K> {
+    pub(crate) const ZERO: CWord<K> = CWord { re: Word::ZERO, im: Word::ZERO };
+
+    /// `self q` with three real products (Gauss):
+    /// `(a + bi)(c + di) = ac - bd + ((a + b)(c + d) - ac - bd) i`.
+    #[inline]
+    pub(crate) fn mul_by(&self, m: &Multiplier<K>) -> CWord<K> {
+        let ac = mul(&self.re, &m.q.re);
+        let bd = mul(&self.im, &m.q.im);
+        let s = add(&self.re, &self.im);
+        let t = mul(&s, &m.sum);
+        CWord { re: sub(&ac, &bd), im: sub(&sub(&t, &ac), &bd) }
+    }
+
+    #[inline]
+    pub(crate) fn add(&self, o: &CWord<K>) -> CWord<K> {
+        CWord { re: add(&self.re, &o.re), im: add(&self.im, &o.im) }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn val<const K: usize>(w: &Word<K>) -> f64 {
+        let q = malachite::Rational::from(w.to_scaled()) / malachite::Rational::from(Integer::from(1u32) << (64 * (K as u64 - 1)));
+        crate::heights::real::to_f64(&malachite::Float::from_rational_prec(q, 200).0)
+    }
+
+    fn check<const K: usize>() {
+        let a = Word::<K>::ratio(-7, 3);
+        let b = Word::<K>::ratio(5, 11);
+        let big = Word::<K>::ratio(3, 5_000_000_000);
+        assert!((val(&a) + 7.0 / 3.0).abs() < 1e-15);
+        assert!((val(&big) - 3.0 / 5e9).abs() < 1e-18);
+        assert!((val(&add(&a, &b)) - (-7.0 / 3.0 + 5.0 / 11.0)).abs() < 1e-15);
+        assert!((val(&sub(&b, &a)) - (5.0 / 11.0 + 7.0 / 3.0)).abs() < 1e-15);
+        assert!((val(&mul(&a, &b)) - (-35.0 / 33.0)).abs() < 1e-15);
+        let z = CWord { re: a, im: b };
+        let q = Multiplier::new(CWord { re: b, im: a });
+        let p = z.mul_by(&q);
+        // (a + bi)(b + ai) = ab - ab + (a^2 + b^2) i
+        assert!(val(&p.re).abs() < 1e-15);
+        let s2 = 49.0 / 9.0 + 25.0 / 121.0;
+        assert!((val(&p.im) - s2).abs() < 1e-14);
+    }
+
+    #[test]
+    fn arithmetic_matches_f64() {
+        check::<2>();
+        check::<3>();
+        check::<5>();
+        check::<9>();
+        check::<17>();
+    }
+
+    /// Exact against malachite integers at 4 limbs: products within a few
+    /// units of the last place below, sums exact.
+    #[test]
+    fn products_are_truncations() {
+        let x = Integer::from(3u32) << 190u64;
+        let x = x + Integer::from(123_456_789u64) + (Integer::from(u64::MAX) << 64u64);
+        let y = -(Integer::from(5u32) << 150u64) - Integer::from(987u32) - (Integer::from(u64::MAX - 5) << 70u64);
+        let (wx, wy) = (Word::<4>::from_scaled(&x).unwrap(), Word::<4>::from_scaled(&y).unwrap());
+        let exact = (&x * &y) >> 192u64; // floor
+        let got = mul(&wx, &wy).to_scaled();
+        let diff = got - exact;
+        assert!(diff >= 0u32 && diff <= 4u32, "{diff}");
+        assert_eq!(add(&wx, &wy).to_scaled(), &x + &y);
+        assert_eq!(sub(&wx, &wy).to_scaled(), &x - &y);
+    }
+}
