@@ -263,7 +263,7 @@ pub(super) fn rational_times_quadratic(cubic: [Integer; 3], e: Integer, s: Vec<N
         opts = opts.with_cancel(c.clone());
     }
     let ks = k.square_classes(&s_words, &opts)?;
-    let grh = ks.class_group.bound_kind == FactorBaseBound::BachGrh;
+    let grh = ks.bound_kind == FactorBaseBound::BachGrh;
     let n = ks.dimension();
     if n > 64 {
         return Err(Error::new(ErrorKind::TooLarge, "K(S,2) of dimension above 64"));
