@@ -87,7 +87,9 @@ impl Default for SaturationOptions {
 /// [`height_difference_bound`] only as a fallback); each p-saturation claim
 /// in `proven` is exact (Siksek's test with exact reductions modulo primes).
 ///
-/// ```
+/// ```ignore
+/// // (an illustration only: the struct is non-exhaustive, so its values
+/// // come from the library, never from a struct expression)
 /// use twofold::heights::Saturation;
 /// let s = Saturation { index_bound: Some(1), proven: vec![], unproven: vec![], untested_above: None, divisions: 0, note: String::new() };
 /// assert!(s.is_saturated());
@@ -128,7 +130,9 @@ impl std::fmt::Display for Saturation {
     /// One sentence: "saturated at all primes <= B (proven; B numerical)",
     /// or the primes left open.
     ///
-    /// ```
+    /// ```ignore
+    /// // (an illustration only: the struct is non-exhaustive, so its values
+    /// // come from the library, never from a struct expression)
     /// use twofold::heights::Saturation;
     /// let s = Saturation { index_bound: Some(3), proven: vec![2, 3], unproven: vec![], untested_above: None, divisions: 0, note: String::new() };
     /// assert_eq!(s.to_string(), "saturated at all primes <= 3 (each proven by Siksek's test; the bound 3 is numerical with margins)");

@@ -116,7 +116,9 @@ impl ProvenLValue {
     /// shortest decimal of the neighbouring `f64` outwards, so the decimal
     /// interval contains the binary one).
     ///
-    /// ```
+    /// ```ignore
+    /// // (an illustration only: values of this non-exhaustive struct come
+    /// // from the library's proven L-value routines)
     /// use twofold::lproof::ProvenLValue;
     /// let v = ProvenLValue { order: 0, low: 0.25, high: 0.5, terms: 1, tail_bound: 0.0, complete: true };
     /// let (l, h) = v.decimal_bounds();

@@ -85,7 +85,6 @@ pub const MAX_CONDUCTOR: u64 = 1_000_000_000;
 /// assert!(v[1].by_sign && v[1].value == 0.0); // L'(E, 1) = 0 as w = +1
 /// ```
 #[derive(Clone, Debug, PartialEq)]
-#[non_exhaustive]
 pub struct SpecialValue {
     /// The order `r` of the derivative.
     pub order: usize,
@@ -497,7 +496,9 @@ pub struct BsdInputs {
 
 /// The analytic order of Sha with an error bound.
 ///
-/// ```
+/// ```ignore
+/// // (an illustration only: the struct is non-exhaustive, so its values
+/// // come from the library, never from a struct expression)
 /// use twofold::lseries::ShaEstimate;
 /// let s = ShaEstimate { value: 4.0000001, error: 1e-6, nearest: 4, is_square: true };
 /// assert!(s.is_square);

@@ -44,9 +44,16 @@ impl Standing {
 /// One statement of a report and its standing.
 ///
 /// ```
-/// use twofold::report::{Standing, Statement};
-/// let s = Statement { claim: "rank = 1".into(), standing: Standing::Proven };
-/// assert_eq!(s.to_string(), "[proven] rank = 1");
+/// use twofold::{analyse, Curve, RankOptions, Standing};
+/// // y^2 = x^3 - x: rank 0, torsion Z/2 x Z/2
+/// let e = Curve::from_coefficients([0, 0, 0, -1, 0]).unwrap();
+/// let r = analyse(&e, &RankOptions::default()).unwrap();
+/// let ev = r.evidence.as_ref().unwrap();
+/// for s in &ev.statements {
+///     // each statement prints as "[standing] claim"
+///     assert!(s.to_string().starts_with('[') && s.to_string().ends_with(s.claim.as_str()));
+/// }
+/// assert!(ev.statements.iter().any(|s| s.standing == Standing::Proven));
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
