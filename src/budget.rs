@@ -84,7 +84,10 @@ pub struct RankOptions {
     pub analytic_max_conductor: u64,
     /// When the rank is proven to be 1 analytically and the descent's search
     /// found no point, compute one by the Heegner point method (see
-    /// [`crate::heegner`]), within half of the time left. Default `true`.
+    /// [`crate::heegner`]), within half of the time left. With analytic
+    /// rank 1 proven, the descents then search at `search_height` only and
+    /// raise the height towards `search_height_ceiling` only if the Heegner
+    /// route finds nothing. Default `true`.
     pub heegner_route: bool,
     /// The most time the Heegner route may take on one curve (within the
     /// curve's own limit, if any; at most half of the time left). Default

@@ -83,48 +83,26 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     let analytic = analytic_route(data, options, work);
     let enough: Option<usize> = analytic.as_ref().and_then(|a| a.rank);
     report.analytic = analytic;
-    let twos = torsion.two_torsion();
-    let mut runs: Vec<IsogenyDescent> = Vec::new();
-    for t in &twos {
-        if work.exhausted() {
-            report.budget_exhausted = true;
-            break;
+    // analytic rank 1 proven: the descents search their coverings at the
+    // floor height only, then the Heegner route computes a generator if
+    // none was found, and only if that fails do the descents run again with
+    // the search ladder up to its ceiling (generators too large for any
+    // plain search, like the congruent-number curve for n = 157, would
+    // otherwise spend the budget on the ladder first)
+    let heegner_first = options.heegner_route && enough == Some(1) && options.search_height_ceiling > options.search_height;
+    if heegner_first {
+        let before = report.clone();
+        let floor_only = RankOptions { search_height_ceiling: options.search_height, ..options.clone() };
+        descents(&mut report, data, &torsion, &floor_only, work, enough)?;
+        heegner_point(&mut report, data, options, work)?;
+        if report.points.is_empty() && !work.exhausted() {
+            report = before;
+            descents(&mut report, data, &torsion, options, work, enough)?;
         }
-        runs.push(descend_via_isogeny(minimal, t, &torsion, primes, options, work, enough).map_err(|e| e.in_stage("the 2-isogeny descent"))?);
-    }
-    // the full 2-descent runs on every curve, except where the isogeny
-    // route has already proven the rank (unless a cross-check is asked for)
-    let settled = runs.iter().any(|r| r.upper == Some(r.lower))
-        || (runs.iter().filter_map(|r| r.upper).min() == runs.iter().map(|r| r.lower).max());
-    let settled = settled && !runs.is_empty();
-    let full: Option<FullDescent> = if work.exhausted() {
-        report.budget_exhausted = true;
-        None
-    } else if settled && !options.cross_check_routes {
-        None
     } else {
-        Some(quartic_route(minimal, &torsion, primes, options, work, enough, &mut report).map_err(|e| e.in_stage("the quartic descent"))?)
-    };
-    // the descent over Q[X]/(f): Sel^2(E) beside the isogeny Selmer groups
-    // (for rational 2-torsion: A = Q x Q x Q or Q x K; the cubic shape gives None)
-    let algebra = if work.exhausted() || twos.is_empty() {
-        None
-    } else {
-        algebra_route(minimal, &torsion, primes, work, &mut report)?
-    };
-    combine(&mut report, data, &runs, full.as_ref())?;
-    if let Some(a) = &algebra {
-        combine_algebra(&mut report, &runs, full.as_ref(), a)?;
+        descents(&mut report, data, &torsion, options, work, enough)?;
+        heegner_point(&mut report, data, options, work)?;
     }
-    report.isogeny_runs = runs;
-    report.full_descent = full;
-    report.algebra_descent = algebra;
-    report.descent_bounds = (report.rank_lower, report.rank_upper);
-    if report.rank().is_some() {
-        report.rank_proven_by.push(crate::report::ProofRoute::Descent);
-    }
-    decide_rank(&mut report)?;
-    heegner_point(&mut report, data, options, work)?;
     for p in &report.points {
         if !data.input().contains(p) {
             return Err(Error::internal("the report", "a reported point is not on the input curve"));
@@ -156,6 +134,54 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     work.report(Stage::Report, "done");
     report.elapsed = work.elapsed();
     Ok(report)
+}
+
+/// The descents (2-isogeny, full 2-descent, descent over the algebra), their
+/// combination and the rank decision, written into `report`.
+fn descents(report: &mut RankReport, data: &CurveData, torsion: &TorsionGroup, options: &RankOptions, work: &Work, enough: Option<usize>) -> Result<(), Error> {
+    let minimal = data.minimal();
+    let primes = data.bad_primes();
+    let twos = torsion.two_torsion();
+    let mut runs: Vec<IsogenyDescent> = Vec::new();
+    for t in &twos {
+        if work.exhausted() {
+            report.budget_exhausted = true;
+            break;
+        }
+        runs.push(descend_via_isogeny(minimal, t, torsion, primes, options, work, enough).map_err(|e| e.in_stage("the 2-isogeny descent"))?);
+    }
+    // the full 2-descent runs on every curve, except where the isogeny
+    // route has already proven the rank (unless a cross-check is asked for)
+    let settled = runs.iter().any(|r| r.upper == Some(r.lower))
+        || (runs.iter().filter_map(|r| r.upper).min() == runs.iter().map(|r| r.lower).max());
+    let settled = settled && !runs.is_empty();
+    let full: Option<FullDescent> = if work.exhausted() {
+        report.budget_exhausted = true;
+        None
+    } else if settled && !options.cross_check_routes {
+        None
+    } else {
+        Some(quartic_route(minimal, torsion, primes, options, work, enough, report).map_err(|e| e.in_stage("the quartic descent"))?)
+    };
+    // the descent over Q[X]/(f): Sel^2(E) beside the isogeny Selmer groups
+    // (for rational 2-torsion: A = Q x Q x Q or Q x K; the cubic shape gives None)
+    let algebra = if work.exhausted() || twos.is_empty() {
+        None
+    } else {
+        algebra_route(minimal, torsion, primes, work, report)?
+    };
+    combine(report, data, &runs, full.as_ref())?;
+    if let Some(a) = &algebra {
+        combine_algebra(report, &runs, full.as_ref(), a)?;
+    }
+    report.isogeny_runs = runs;
+    report.full_descent = full;
+    report.algebra_descent = algebra;
+    report.descent_bounds = (report.rank_lower, report.rank_upper);
+    if report.rank().is_some() {
+        report.rank_proven_by.push(crate::report::ProofRoute::Descent);
+    }
+    decide_rank(report)
 }
 
 /// A report with the curve's data and nothing proven yet.
