@@ -3,6 +3,7 @@
 //!
 //! Usage:
 //!   fuzz [--seed S] [--parser N] [--lines N] [--curves N] [--quartics N] [--quartic-digits D] [--numbers N]
+//!        [--quartic-min-digits D0] [--gl2z-pairs N] [--degenerate N]
 //!        [--rank-runs N] [--rank PATH] [--budget SECONDS] [--evidence 0|1]
 //!
 //! Runs N random cases of each kind (defaults: 10^6 parser texts, 2,000
@@ -12,7 +13,12 @@
 //! when there was a failure. Curves grow from 1 to 30 digits over the run;
 //! each is analysed under the budget (default 0.3 s) and again after a
 //! random change of model (`--evidence 0` leaves out the evidence stage).
-//! Quartics grow from 1 to D digits (default 160). The `rank`
+//! Quartics grow from D0 (default 1) to D digits (default 160);
+//! `--gl2z-pairs` random quartics of D0 to D digits are compared with their
+//! moved copies by unimodular matrices of 1 to 12 digits (`same_covering`
+//! and `gl2z_decide` must say equivalent, the matrix must map one onto the
+//! other), and `--degenerate` zero-discriminant, zero, 200-digit-plus and
+//! leading-zero quartics go to every quartic function (no panic). The `rank`
 //! runs feed random bytes (with lines that are not UTF-8) on standard input
 //! and check one output line per input line.
 
@@ -99,6 +105,9 @@ fn main() {
     let n_numbers: u64 = arg(&args, "--numbers", 3_000);
     let n_rank: u64 = arg(&args, "--rank-runs", 50);
     let quartic_digits: u64 = arg(&args, "--quartic-digits", 160);
+    let quartic_min_digits: u64 = arg(&args, "--quartic-min-digits", 1);
+    let n_pairs: u64 = arg(&args, "--gl2z-pairs", 0);
+    let n_degenerate: u64 = arg(&args, "--degenerate", 0);
     let evidence: bool = arg(&args, "--evidence", 1u8) != 0;
     let budget = Duration::from_secs_f64(arg(&args, "--budget", 0.3f64).clamp(0.0, 60.0));
     let rank_path = match args.iter().position(|a| a == "--rank") {
@@ -141,7 +150,8 @@ fn main() {
     let mut quartics = Tally::new("quartics");
     let mut gl2z_false = 0u64;
     for k in 0..n_quartics {
-        let digits = 1 + (k * quartic_digits / n_quartics.max(1)) as u32;
+        let span = quartic_digits.saturating_sub(quartic_min_digits);
+        let digits = (quartic_min_digits + k * span / n_quartics.max(1)).max(1) as u32;
         let g = random_quartic(&mut rng, digits);
         match check_quartic(&g, &mut rng) {
             Ok(wrong) => {
@@ -153,6 +163,36 @@ fn main() {
     }
     quartics.time = t.elapsed();
     tallies.push(quartics);
+
+    // random quartics against their moved copies by unimodular matrices
+    // with entries of 1 to 12 digits
+    let t = Instant::now();
+    let mut pairs = Tally::new("gl2z pairs");
+    let mut gave_up = 0u64;
+    for k in 0..n_pairs {
+        let span = quartic_digits.saturating_sub(quartic_min_digits);
+        let digits = (quartic_min_digits + k * span / n_pairs.max(1)).max(1) as u32;
+        let g = random_quartic(&mut rng, digits);
+        let md = 1 + rng.below(12) as u32;
+        match check_gl2z_pair(&g, &mut rng, md) {
+            Ok(g) => {
+                gave_up += g as u64;
+                pairs.record(Ok(()))
+            }
+            Err(e) => pairs.record(Err(e)),
+        }
+    }
+    pairs.time = t.elapsed();
+    tallies.push(pairs);
+
+    let t = Instant::now();
+    let mut degenerate = Tally::new("degenerate");
+    for k in 0..n_degenerate {
+        let digits = (quartic_min_digits + k * quartic_digits.saturating_sub(quartic_min_digits) / n_degenerate.max(1)).max(1) as u32;
+        degenerate.record(check_degenerate_quartic(&mut rng, digits));
+    }
+    degenerate.time = t.elapsed();
+    tallies.push(degenerate);
 
     let t = Instant::now();
     let mut numbers = Tally::new("numbers");
@@ -196,6 +236,7 @@ fn main() {
         stats.load_overruns
     );
     println!("  quartics: GL2(Z) test false on a unimodular transform: {gl2z_false}");
+    println!("  gl2z pairs: gl2z_decide gave up with a typed error: {gave_up}");
     println!("  total {total} cases, {failed} failures");
     if failed > 0 {
         std::process::exit(1);

@@ -43,6 +43,31 @@ proptest! {
 }
 
 proptest! {
+    #![proptest_config(ProptestConfig { cases: 24, ..ProptestConfig::default() })]
+
+    /// Quartics of 12 to 100 digits against their moved copies by unimodular
+    /// matrices of up to 12 digits: `same_covering` and `gl2z_decide` say
+    /// equivalent, with a matrix that maps one onto the other.
+    #[test]
+    fn gl2z_pairs_are_equivalent(seed in any::<u64>(), digits in 12u32..100, md in 1u32..12) {
+        let mut rng = Rng::new(seed);
+        let g = random_quartic(&mut rng, digits);
+        let r = check_gl2z_pair(&g, &mut rng, md);
+        prop_assert!(r.is_ok(), "{:?}", r);
+    }
+}
+
+/// Degenerate quartics (zero discriminant, zero form, 200-digit-plus
+/// coefficients, leading coefficient zero): no panic in any quartic function.
+#[test]
+fn degenerate_quartics_do_not_panic() {
+    let mut rng = Rng::new(2027);
+    for k in 0..8u32 {
+        assert_eq!(check_degenerate_quartic(&mut rng, 12 + 10 * k), Ok(()));
+    }
+}
+
+proptest! {
     #![proptest_config(ProptestConfig { cases: 40, ..ProptestConfig::default() })]
 
     /// Numbers up to 60 digits under a 30 ms deadline.

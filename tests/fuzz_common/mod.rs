@@ -12,7 +12,7 @@
 use malachite::{Integer, Natural, Rational};
 use std::panic::{catch_unwind, AssertUnwindSafe};
 use std::time::{Duration, Instant};
-use twofold::quartic::{covering_class, gl2z_equivalent, reduce, same_covering, Quartic};
+use twofold::quartic::{covering_class, gl2z_decide, gl2z_equivalent, reduce, same_covering, Quartic};
 use twofold::{analyse, Curve, ModelChange, RankOptions, RankReport};
 
 /// A small deterministic generator (xorshift64*), so a failing case can be
@@ -380,6 +380,109 @@ pub fn check_quartic(g: &Quartic, rng: &mut Rng) -> Result<bool, String> {
         Ok(false)
     }));
     r.map_err(|p| format!("quartic functions panicked on {:?}: {}", g.coeffs(), panic_text(p)))?
+}
+
+/// A random unimodular matrix with entries of up to about `digits` digits:
+/// a product of elementary moves `x -> x + t z`, `z -> z + t x` with random
+/// `t`, and a random sign or swap (determinant +-1 by construction).
+pub fn random_unimodular(rng: &mut Rng, digits: u32) -> [[Integer; 2]; 2] {
+    let mut m = [[Integer::from(1), Integer::from(0)], [Integer::from(0), Integer::from(1)]];
+    let moves = 2 + rng.below(4);
+    let per = (digits as u64 / moves).max(1) as u32;
+    for k in 0..moves {
+        let t = rng.integer(per);
+        // m <- m * [[1, t], [0, 1]] or m * [[1, 0], [t, 1]]
+        if k % 2 == 0 {
+            let (a, c) = (m[0][0].clone(), m[1][0].clone());
+            m[0][1] += &a * &t;
+            m[1][1] += &c * &t;
+        } else {
+            let (b, d) = (m[0][1].clone(), m[1][1].clone());
+            m[0][0] += &b * &t;
+            m[1][0] += &d * &t;
+        }
+    }
+    match rng.below(3) {
+        0 => m.swap(0, 1),
+        1 => {
+            for x in m[0].iter_mut() {
+                *x = -x.clone();
+            }
+        }
+        _ => {}
+    }
+    m
+}
+
+/// A random quartic and a moved copy by a random unimodular matrix with
+/// entries of up to `matrix_digits` digits: `same_covering` and
+/// `gl2z_decide` must say "equivalent", and the matrix `gl2z_decide` returns
+/// must map one onto the other exactly; no panic. Returns `Ok(true)` when
+/// `gl2z_decide` gave up with a typed error (counted apart, not a failure).
+pub fn check_gl2z_pair(g: &Quartic, rng: &mut Rng, matrix_digits: u32) -> Result<bool, String> {
+    let u = random_unimodular(rng, matrix_digits);
+    let v = random_unimodular(rng, matrix_digits);
+    let r = catch_unwind(AssertUnwindSafe(|| {
+        let (gu, gv) = (g.transform(&u), g.transform(&v));
+        if g.discriminant() == 0 {
+            let _ = same_covering(&gu, &gv);
+            let _ = gl2z_decide(&gu, &gv);
+            return Ok(false);
+        }
+        if !same_covering(&gu, &gv) {
+            return Err(format!("same_covering is false for {:?} moved by {u:?} and by {v:?}", g.coeffs()));
+        }
+        match gl2z_decide(&gu, &gv) {
+            Ok(Some(m)) if gu.transform(&m) == gv => Ok(false),
+            Ok(Some(m)) => Err(format!("gl2z_decide returned {m:?}, which does not map {:?} onto {:?}", gu.coeffs(), gv.coeffs())),
+            Ok(None) => Err(format!("gl2z_decide says inequivalent for {:?} moved by {u:?} and by {v:?}", g.coeffs())),
+            Err(_) => Ok(true),
+        }
+    }));
+    r.map_err(|p| format!("gl2z test panicked on {:?}: {}", g.coeffs(), panic_text(p)))?
+}
+
+/// Degenerate and extreme quartics: a square factor (zero discriminant),
+/// a zero form, huge coefficients (hundreds of digits), a leading
+/// coefficient zero; every quartic function must return (any answer, or a
+/// typed error), never panic.
+pub fn check_degenerate_quartic(rng: &mut Rng, digits: u32) -> Result<(), String> {
+    let kind = rng.below(4);
+    let g = match kind {
+        0 => {
+            // (r x - s z)^2 (p x^2 + q x z + t z^2): zero discriminant
+            let (r, s) = (rng.integer(digits / 4 + 1), rng.integer(digits / 4 + 1));
+            let (p, q, t) = (rng.integer(digits / 2 + 1), rng.integer(digits / 2 + 1), rng.integer(digits / 2 + 1));
+            let l = [&r * &r, Integer::from(-2) * &r * &s, &s * &s];
+            let m = [p, q, t];
+            let mut c: [Integer; 5] = std::array::from_fn(|_| Integer::from(0));
+            for i in 0..3 {
+                for j in 0..3 {
+                    c[i + j] += &l[i] * &m[j];
+                }
+            }
+            Quartic::new(c)
+        }
+        1 => Quartic::new(std::array::from_fn(|_| Integer::from(0))),
+        2 => random_quartic(rng, 200 + digits * 3),
+        _ => {
+            let mut c: [Integer; 5] = std::array::from_fn(|_| rng.integer(digits));
+            c[0] = Integer::from(0);
+            Quartic::new(c)
+        }
+    };
+    let h = g.transform(&random_unimodular(rng, 4));
+    let r = catch_unwind(AssertUnwindSafe(|| {
+        let _ = same_covering(&g, &h);
+        let _ = same_covering(&g, &g);
+        let _ = gl2z_decide(&g, &h);
+        let _ = gl2z_equivalent(&g, &g);
+        if let Ok(c) = covering_class(&g) {
+            let _ = c.same_as(&c);
+        }
+        let _ = reduce(&g);
+    }));
+    r.map_err(|p| format!("quartic functions panicked on the degenerate {:?} (kind {kind}): {}", g.coeffs(), panic_text(p)))
 }
 
 // ------------------------------------------------------------- numbers ----

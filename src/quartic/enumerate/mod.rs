@@ -144,6 +144,12 @@ struct Search<'a> {
     estimate: Option<(f64, f64)>,
 }
 
+/// Units of `work` between two looks at the deadline and the cancellation
+/// flag (2^20 let a cancelled search run on for up to 200 ms on the curves
+/// of conductor 131670 under load; a look costs an atomic load and a clock
+/// read, well under 0.1% at this spacing).
+const CHECK_EVERY: u64 = 1 << 14;
+
 impl<'a> Search<'a> {
     fn tick(&mut self, n: u64) -> Result<(), Error> {
         self.steps += n;
@@ -174,11 +180,11 @@ impl<'a> Search<'a> {
         }
     }
 
-    /// The deadline and the cancellation flag, looked at about every 2^20
-    /// units of `work`.
+    /// The deadline and the cancellation flag, looked at every
+    /// [`CHECK_EVERY`] units of `work`.
     fn check_clock(&mut self) -> Result<(), Error> {
         if self.work >= self.next_check {
-            self.next_check = self.work.saturating_add(1 << 20);
+            self.next_check = self.work.saturating_add(CHECK_EVERY);
             if self.cancel.as_ref().is_some_and(|c| c.load(std::sync::atomic::Ordering::Relaxed)) {
                 return Err(Error::new(ErrorKind::Budget, "quartic search cancelled"));
             }
