@@ -49,13 +49,19 @@ fn discriminant_word(g: &[Integer; 5]) -> Option<i128> {
 /// below 3.3 * 10^24 (Sorenson and Webster, "Strong pseudoprimes to twelve
 /// prime bases", Math. Comp. 86 (2017)) and never rejects a prime.
 ///
-/// `memo` remembers the word-size primes proven recently: the same few
-/// places are asked about for millions of quartics.
+/// Below `2^20` the answer is read from the process-wide prime table
+/// (`arith::is_small_prime`), so the plain calls, which start from an empty
+/// memo, pay no primality proof for such places. Above, `memo` remembers
+/// the word-size primes proven recently: the same few places are asked
+/// about for millions of quartics.
 pub(crate) fn is_prime(p: &Natural, memo: &mut PrimeMemo) -> bool {
     if let Ok(w) = u64::try_from(p) {
         if w < 41 * 41 {
             // trial division inside is_prime_u64 settles these quickly
             return crate::arith::is_prime_u64(w);
+        }
+        if let Some(known) = crate::arith::is_small_prime(w) {
+            return known;
         }
         if memo.recent.contains(&w) {
             return true;
