@@ -5,9 +5,10 @@
 //! the stages returned.
 //!
 //! ```text
-//! curve -> CurveData -> torsion -> 2-isogeny descents -> quartic descent
-//!       (on the odd-isogenous curve of smallest c4) -> combine -> evidence
-//!       -> certificate -> RankReport
+//! curve -> CurveData -> torsion -> analytic route (proven L-values)
+//!       -> 2-isogeny descents -> quartic descent (on the odd-isogenous
+//!       curve of smallest c4) -> descent over Q[X]/(f) -> combine, decide
+//!       -> Heegner point -> evidence -> Sha[2] -> certificate -> RankReport
 //! ```
 
 mod evidence;
@@ -80,7 +81,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     report.torsion_points = torsion.points().iter().map(|p| data.to_input(p)).collect();
     // the analytic route first: a rank it proves tells the descents' point
     // searches when to stop
-    let analytic = analytic_route(data, options, work);
+    let (analytic, analytic_unfinished) = analytic_route(data, options, work)?;
     let enough: Option<usize> = analytic.as_ref().and_then(|a| a.rank);
     report.analytic = analytic;
     // analytic rank 1 proven: the descents search their coverings at the
@@ -109,7 +110,11 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         }
     }
     if options.evidence && !work.exhausted() {
-        report.evidence = Some(evidence::compute(&report, data, work));
+        let mut ev = evidence::compute(&report, data, work);
+        if let Some(e) = analytic_unfinished {
+            ev.statements.push(Statement { claim: format!("the analytic route did not finish: {e}"), standing: Standing::Unfinished });
+        }
+        report.evidence = Some(ev);
     }
     cross_check_analytic(&report)?;
     settle_sha2(&mut report)?;
@@ -581,19 +586,28 @@ fn settle_sha2(report: &mut RankReport) -> Result<(), Error> {
 
 /// The analytic route (when switched on and the conductor is within its
 /// limit): the proven root number and leading value, within half of the
-/// time left (the descents need the rest). A failure of the route is not
-/// an answer: it leaves the route out.
-fn analytic_route(data: &CurveData, options: &RankOptions, work: &Work) -> Option<crate::report::AnalyticProof> {
+/// time left (the descents need the rest). An internal inconsistency is an
+/// error; any other failure (its share of the budget spent, a size it does
+/// not handle) leaves the route out and is returned as the second value,
+/// for an unfinished statement in the evidence.
+#[allow(clippy::type_complexity)]
+fn analytic_route(data: &CurveData, options: &RankOptions, work: &Work) -> Result<(Option<crate::report::AnalyticProof>, Option<Error>), Error> {
     if !options.analytic_route || *data.conductor() > options.analytic_max_conductor || work.exhausted() {
-        return None;
+        return Ok((None, None));
     }
     work.report(Stage::Analytic, "proving the root number and the leading L-value");
-    let proof = crate::lproof::prove_analytic_rank_of(data, &work.share(0.5)).ok()?;
-    Some(crate::report::AnalyticProof {
-        root_number: proof.root_number.sign,
-        value: proof.value,
-        rank: proof.rank.map(usize::from),
-    })
+    match crate::lproof::prove_analytic_rank_of(data, &work.share(0.5)) {
+        Ok(proof) => Ok((
+            Some(crate::report::AnalyticProof {
+                root_number: proof.root_number.sign,
+                value: proof.value,
+                rank: proof.rank.map(usize::from),
+            }),
+            None,
+        )),
+        Err(e) if *e.kind() == crate::ErrorKind::Internal => Err(e.in_stage("the analytic route")),
+        Err(e) => Ok((None, Some(e))),
+    }
 }
 
 /// The rank decision: the descent bounds and the analytic rank, when both
