@@ -115,5 +115,57 @@ fn cancel_is_honoured_within_milliseconds_in_the_selmer_steps() {
         assert!(rep.rank_lower.unwrap_or(0) <= rep.rank_upper.unwrap_or(usize::MAX));
         assert_eq!(rep.conductor.to_string(), "131670");
     }
-    assert!(worst <= Duration::from_millis(50), "returned {worst:?} after the cancel flag");
+    // 7 ms at worst measured alone; the bound leaves room for the other
+    // tests of this file running beside it on a loaded two-core machine
+    // (one run at load 4 during a build went over 50 ms), and still fails
+    // the old 2^20 spacing (206 ms late)
+    assert!(worst <= Duration::from_millis(150), "returned {worst:?} after the cancel flag");
+}
+
+/// Saturation holds the cancel flag (issue: every stage honours the budget).
+/// y^2 + y = x^3 - 7x + 6 (conductor 5077, rank 3; the points (0,2), (1,0),
+/// (2,0) are checked on the curve below) with 6 and 10 times two generators,
+/// so that a full run must divide; with the flag set from the start the
+/// call returns promptly, and whatever it returns is consistent.
+#[test]
+fn saturation_honours_the_cancel_flag() {
+    use malachite::Natural;
+    use twofold::heights::{mordell_weil_basis, SaturationOptions};
+    use twofold::local::bad_primes_data;
+    use twofold::{ErrorKind, Point, Work};
+    let e = Curve::from_coefficients([0i64, 0, 1, -7, 6]).unwrap();
+    let local = bad_primes_data(&e, &[Natural::from(5077u32)]).unwrap();
+    let gens = [Point::from_ints(0, 2), Point::from_ints(1, 0), Point::from_ints(2, 0)];
+    assert!(gens.iter().all(|p| e.contains(p)));
+    let pts = [e.multiple(&gens[0], 6), e.multiple(&gens[1], 10), gens[2].clone()];
+    let flag = Arc::new(AtomicBool::new(true));
+    let work = Work::new(&RankOptions::default().with_cancel(flag));
+    let t = Instant::now();
+    let out = mordell_weil_basis(&e, &pts, &local, 96, &SaturationOptions::within(&work));
+    let took = t.elapsed();
+    assert!(took < Duration::from_millis(500), "{took:?}");
+    match out {
+        Ok(b) => assert!(b.generators.iter().all(|p| e.contains(p))),
+        Err(err) => assert_eq!(*err.kind(), ErrorKind::Budget, "{err}"),
+    }
+}
+
+/// The certificate builder's short searches hold the cancel flag: a report
+/// of y^2 + y = x^3 - 7x + 6, then the certificate built under a raised flag
+/// returns promptly (classes may be recorded without a point) and still
+/// verifies or fails with a typed error, never an internal one.
+#[test]
+fn certificate_builder_honours_the_cancel_flag() {
+    use twofold::{Certificate, ErrorKind, Work};
+    let e = Curve::from_coefficients([0i64, 0, 1, -7, 6]).unwrap();
+    let r = analyse(&e, &RankOptions::default()).unwrap();
+    let flag = Arc::new(AtomicBool::new(true));
+    let work = Work::new(&RankOptions::default().with_cancel(flag));
+    let t = Instant::now();
+    let c = Certificate::from_report_within(&r, &work);
+    let took = t.elapsed();
+    assert!(took < Duration::from_millis(500), "{took:?}");
+    if let Err(err) = c {
+        assert!(*err.kind() != ErrorKind::Internal, "{err}");
+    }
 }
