@@ -132,3 +132,21 @@ fn default_budget_is_documented() {
     let all = format!("{}{}", String::from_utf8_lossy(&out.stdout), String::from_utf8_lossy(&out.stderr));
     assert!(all.contains("default 30"), "{all}");
 }
+
+/// The closing summary of a batch names the slowest curves and those cut
+/// short: y^2 + y = x^3 - x (Cremona 1997, rank 1, quick) beside the
+/// published curve [1,-1,0,-314603520,2147876881280] (conductor 131670),
+/// whose searches a budget of 0.3 s cuts short.
+#[test]
+fn batch_summary_names_the_slowest_and_the_cut_short() {
+    let input = b"[0,0,1,-1,0]\n[1,-1,0,-314603520,2147876881280]\n".to_vec();
+    let Some(out) = run(&[os("--json"), os("--budget"), os("0.3"), os("--threads"), os("1")], &input) else { return };
+    no_panic(&out);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("slowest: line "), "{err}");
+    // (both may be cut short at 0.3 s: a proven rank can come from the
+    // analytic route while a search was stopped)
+    let cut = err.lines().find(|l| l.starts_with("cut short (")).unwrap_or_else(|| panic!("{err}"));
+    assert!(cut.contains("line 2 [1,-1,0,-314603520"), "{err}");
+    assert_eq!(String::from_utf8(out.stdout).unwrap().lines().count(), 2);
+}
