@@ -681,7 +681,19 @@ fn heegner_point(report: &mut RankReport, data: &CurveData, options: &RankOption
         cancel: work.cancel_flag().cloned(),
         ..crate::heegner::HeegnerOptions::default()
     };
-    let Ok(Some(found)) = crate::heegner::point_of_rank_one(data.minimal(), data.conductor(), &opts) else { return Ok(()) };
+    let started = std::time::Instant::now();
+    let found = match crate::heegner::point_of_rank_one(data.minimal(), data.conductor(), &opts) {
+        Ok(Some(found)) => found,
+        Err(e) if *e.kind() == crate::error::ErrorKind::Internal => return Err(e),
+        // a route stopped by its share of the budget leaves the report
+        // marked as cut short, so that a rerun may differ only there
+        other => {
+            if other.is_err() || started.elapsed() >= limit || work.exhausted() {
+                report.budget_exhausted = true;
+            }
+            return Ok(());
+        }
+    };
     let g = &found.generator;
     if !data.minimal().contains(g) {
         return Err(Error::internal("the Heegner route", "the generator is not on the minimal model"));
