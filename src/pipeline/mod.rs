@@ -97,7 +97,11 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         descents(&mut report, data, &torsion, &floor_only, work, enough)?;
         heegner_point(&mut report, data, options, work)?;
         if report.points.is_empty() && !work.exhausted() {
+            // a Heegner step stopped by its share of the budget marked the
+            // report as cut short: the mark survives the second descent run
+            let cut_short = report.budget_exhausted;
             report = before;
+            report.budget_exhausted |= cut_short;
             descents(&mut report, data, &torsion, options, work, enough)?;
         }
     } else {
