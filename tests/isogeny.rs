@@ -222,6 +222,11 @@ fn cassels_on(r: &common::Row, rep: &twofold::RankReport) -> (usize, usize) {
         checked += 1;
         nonzero += (t != 0) as usize;
     }
+    // the check is stated in the evidence, one proven statement per isogeny
+    if let Some(ev) = &rep.evidence {
+        let stated = ev.statements.iter().filter(|s| s.claim.starts_with("Cassels' formula holds") && s.standing.label() == "proven").count();
+        assert_eq!(stated, rep.isogeny_runs.len(), "{:?}", r.coefficients);
+    }
     (checked, nonzero)
 }
 

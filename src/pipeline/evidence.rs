@@ -31,6 +31,18 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
     if let Some(s) = report.two_selmer_dim {
         st.push(proven(format!("dim Sel^2(E) = {s}")));
     }
+    // Cassels' formula, checked on every finished 2-isogeny descent (a
+    // mismatch is an internal error before this point)
+    for run in &report.isogeny_runs {
+        if let Some(e) = run.tamagawa_ratio {
+            st.push(proven(format!(
+                "Cassels' formula holds for the 2-isogeny from y^2 = x(x^2 + {} x + {}): dim S^phi(E) - dim S^phi'(E') = {} = {e},                  the exponent of the Tamagawa ratio found from the Tamagawa numbers of both curves and the real place                  (Cassels 1965; each local factor also equals the size of the descent's local image)",
+                run.side_e.a,
+                run.side_e.b,
+                run.side_e_prime.selmer_dim as i64 - run.side_e.selmer_dim as i64,
+            )));
+        }
+    }
     // root number and parity
     let rn = crate::rootno::root_number_of(data, &crate::arith::FactorLimits::within(work));
     if let Err(e) = &rn {
