@@ -657,7 +657,6 @@ impl NumberField {
         let b0 = base_bound(self).min(gen_bound).max(MIN_FACTOR_BASE_BOUND);
         let mut rels = RelationSearch::new(self, b0, gen_bound, extra_primes, &stop)?;
         let kfb = rels.fb.len();
-        let fb0_len = rels.fb0_len;
         let r = self.r1 + self.r2 - 1;
         let (w, zeta) = self.roots_of_unity();
         let target = self.analytic_class_number_formula(EULER_PRODUCT_LIMIT)?;
@@ -673,21 +672,8 @@ impl NumberField {
         let mut ratio: f64;
         let mut found: Vec<Found> = Vec::new();
         loop {
-            if stop() {
-                return Err(budget());
-            }
             round += 1;
-            if round > max_rounds {
-                return Err(Error::new(ErrorKind::Budget, "class group: too many rounds without completion"));
-            }
-            // an ideal: one factor-base prime times a random product, the
-            // search widening as rounds pass without completion
-            let widen = round / (4 * kfb + 4);
-            let first = if round == 1 { None } else { Some((round - 2) % kfb) };
-            let span = if round == 1 { 3 } else if self.n == 2 { 4 + widen.min(4) as i64 } else { 2 + widen.min(2) as i64 };
-            let extra_factors = if round <= kfb + 1 { 0 } else { 1 + rels.rnd(2 + widen.min(3) as u64) as usize };
-            found.clear();
-            rels.search_ideal(first, extra_factors, (8 + 4 * widen).min(fb0_len), span, &mut found)?;
+            rels.round(round, max_rounds, &stop, "class group", &mut found)?;
             for fnd in found.drain(..) {
                 let Found { exps, v, logs, err } = fnd;
                 // two relations with the same valuation vector give a unit of small height

@@ -98,6 +98,7 @@ mod ideal;
 mod classgroup;
 mod sunits;
 mod relations;
+mod modular;
 
 pub use field::{Element, NumberField};
 pub use ideal::{Ideal, PrimeIdeal};

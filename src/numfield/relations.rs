@@ -484,6 +484,27 @@ impl<'a> RelationSearch<'a> {
         self.state % m.max(1)
     }
 
+    /// One round of the relation search, numbered from 1: checks the
+    /// budget and the round limit (`what` names the caller in the errors),
+    /// then reduces one ideal (a factor-base prime times a random product,
+    /// the search widening as rounds pass without completion) and leaves
+    /// the relations found in `found` (cleared first).
+    pub(crate) fn round(&mut self, round: usize, max_rounds: usize, stop: &dyn Fn() -> bool, what: &str, found: &mut Vec<Found>) -> Result<(), Error> {
+        if stop() {
+            return Err(Error::new(ErrorKind::Budget, format!("{what}: budget exhausted")));
+        }
+        if round > max_rounds {
+            return Err(Error::new(ErrorKind::Budget, format!("{what}: too many rounds of relation search")));
+        }
+        let kfb = self.fb.len();
+        let widen = round / (4 * kfb + 4);
+        let first = if round == 1 { None } else { Some((round - 2) % kfb) };
+        let span = if round == 1 { 3 } else if self.k.n == 2 { 4 + widen.min(4) as i64 } else { 2 + widen.min(2) as i64 };
+        let extra_factors = if round <= kfb + 1 { 0 } else { 1 + self.rnd(2 + widen.min(3) as u64) as usize };
+        found.clear();
+        self.search_ideal(first, extra_factors, (8 + 4 * widen).min(self.fb0_len), span, found)
+    }
+
     /// Reduces the ideal `fb[first] * (extra random base primes among the
     /// first `pool`)` and tests the small combinations of its reduced basis.
     pub(crate) fn search_ideal(&mut self, first: Option<usize>, extra: usize, pool: usize, span: i64, out: &mut Vec<Found>) -> Result<(), Error> {

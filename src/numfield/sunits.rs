@@ -338,7 +338,6 @@ impl NumberField {
         let b0 = (base_bound(self) / 2).min(gen_bound).max(MIN_FACTOR_BASE_BOUND);
         let mut rels = RelationSearch::new(self, b0, gen_bound, &s_primes, &stop)?;
         let kfb = rels.fb.len();
-        let fb0_len = rels.fb0_len;
         let target = kfb + self.r1 + self.r2;
         let fb_words = kfb.div_ceil(64);
         let ch = Characters::new(self, gen_bound.max(*s_primes.last().unwrap_or(&0)) + 1, CHARACTERS);
@@ -398,19 +397,8 @@ impl NumberField {
         let mut round = 0usize;
         let mut found: Vec<Found> = Vec::new();
         while echelon.rank < target {
-            if stop() {
-                return Err(budget());
-            }
             round += 1;
-            if round > max_rounds {
-                return Err(Error::new(ErrorKind::Budget, "K(S,2): too many rounds of relation search"));
-            }
-            let widen = round / (4 * kfb + 4);
-            let first = if round == 1 { None } else { Some((round - 2) % kfb) };
-            let span = if round == 1 { 3 } else if self.n == 2 { 4 + widen.min(4) as i64 } else { 2 + widen.min(2) as i64 };
-            let extra_factors = if round <= kfb + 1 { 0 } else { 1 + rels.rnd(2 + widen.min(3) as u64) as usize };
-            found.clear();
-            rels.search_ideal(first, extra_factors, (8 + 4 * widen).min(fb0_len), span, &mut found)?;
+            rels.round(round, max_rounds, &stop, "K(S,2)", &mut found)?;
             for f in found.drain(..) {
                 offer(&f, &rels, false, &mut elem_chars, &mut echelon, &mut gens);
                 if echelon.rank == target {
