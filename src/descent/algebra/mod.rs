@@ -39,8 +39,10 @@
 //! assert_eq!((d.selmer_dim, d.two_torsion_dim, d.upper), (3, 2, 1));
 //! ```
 
+mod cubic;
 pub mod local;
 mod quadratic;
+mod roots;
 mod selmer;
 
 use crate::budget::Work;
@@ -175,7 +177,11 @@ pub fn two_selmer_over_algebra(
             let s = s_primes(&cubic, &roots, primes)?;
             return quadratic::rational_times_quadratic(cubic, roots[0].clone(), s, work).map(Some);
         }
-        _ => return Ok(None),
+        0 => {
+            let s = s_primes(&cubic, &roots, primes)?;
+            return cubic::cubic_field(cubic, s, work).map(Some);
+        }
+        _ => return Err(Error::internal("the algebra descent", "two points of order 2 without the third")),
     }
     let s = s_primes(&cubic, &roots, primes)?;
     selmer::three_rational(cubic, [roots[0].clone(), roots[1].clone(), roots[2].clone()], s, work).map(Some)
