@@ -224,6 +224,12 @@ pub(super) fn cubic_field(cubic: [Integer; 3], s: Vec<Natural>, work: &Work) -> 
                 // then a wider net: residues up to p^3 (64 to 512; 2048 at 2) about 0 and the roots
                 let reach = if *p == 2u32 { 2048 } else { u64::try_from(p).map_or(512, |q| q.saturating_pow(3).clamp(64, 512)) as i64 };
                 let mut centres = centres;
+                if centres.len() == 1 {
+                    // the midpoint of the two conjugate roots, where the
+                    // reduction's singular point lies when they are close
+                    let mid = (Rational::from(-cubic[2].clone()) - &centres[0]) / Rational::from(2);
+                    centres.push(mid);
+                }
                 centres.push(Rational::ZERO);
                 for (count, x) in near_torsion.into_iter().chain(candidates(p, centres, depth, reach)).enumerate() {
                     if span.dim() >= target {

@@ -23,8 +23,11 @@
 //! where `A(S,2)` is `Q(S,2)^2` and no class group is needed, and
 //! `Q x K` with `K` quadratic (one rational point of order 2), where the
 //! candidates are `K(S,2)` from [`crate::numfield`] (see `quadratic.rs` for
-//! the local square classes of `K (x) Q_v`). The cubic shape returns
-//! `Ok(None)`.
+//! the local square classes of `K (x) Q_v`), and `K` cubic (no rational
+//! point of order 2; see `cubic.rs`: the square test there goes through a
+//! resolvent quartic). `K(S,2)` of a cubic field is unconditional (the
+//! Minkowski bound) up to `|d_K| = 10^12`, else it may rest on GRH, and
+//! [`AlgebraDescent::conditional_on_grh`] says so.
 //!
 //! ```
 //! use twofold::descent::algebra::two_selmer_over_algebra;
@@ -96,7 +99,9 @@ pub struct AlgebraDescent {
     pub primes: Vec<Natural>,
     /// A basis of `Sel^2(E)`; for `Q x Q x Q` each element is the triple of
     /// square-free integers `(a1, a2, a1 a2 / square)` standing for
-    /// `X - e1, X - e2, X - e3`.
+    /// `X - e1, X - e2, X - e3`; for `Q x K` the pair (square-free norm
+    /// class, bit mask over the `K(S,2)` basis); for `K` cubic the bit mask
+    /// over the `K(S,2)` basis alone.
     #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub selmer_basis: Vec<Vec<Integer>>,
     /// The F2-dimension of `Sel^2(E)` (including the image of `E(Q)[2]`).
