@@ -247,10 +247,18 @@ pub(super) fn cubic_field(cubic: [Integer; 3], s: Vec<Natural>, work: &Work) -> 
                 }
             }
         }
-        if span.dim() != target {
+        if span.dim() > target {
             return Err(Error::internal(
                 "the algebra descent",
-                format!("the local image at {place:?} has dimension {} instead of {target}", span.dim()),
+                format!("the local image at {place:?} has dimension {} above its known {target}", span.dim()),
+            ));
+        }
+        if span.dim() < target {
+            // the point search stopped short: the route is left unfinished
+            // (the pipeline leaves it out), never a larger Selmer group
+            return Err(Error::new(
+                ErrorKind::TooLarge,
+                format!("the local point search at {place:?} reached dimension {} of {target}", span.dim()),
             ));
         }
         let loc: Vec<u64> = basis.iter().map(|b| kv.class_of(b)).collect::<Result<_, _>>()?;
