@@ -120,6 +120,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         }
         report.evidence = Some(ev);
     }
+    note_conditional_bound(&mut report);
     cross_check_analytic(&report)?;
     settle_sha2(&mut report)?;
     settle_isogeny_sha(&mut report)?;
@@ -173,8 +174,10 @@ fn descents(report: &mut RankReport, data: &CurveData, torsion: &TorsionGroup, o
         Some(quartic_route(minimal, torsion, primes, options, work, enough, report).map_err(|e| e.in_stage("the quartic descent"))?)
     };
     // the descent over Q[X]/(f): Sel^2(E) beside the isogeny Selmer groups
-    // (for rational 2-torsion: A = Q x Q x Q or Q x K; the cubic shape gives None)
-    let algebra = if work.exhausted() || twos.is_empty() {
+    // (for rational 2-torsion: A = Q x Q x Q or Q x K), and for the cubic
+    // algebra where the quartic enumeration gave no Sel^2
+    let quartic_done = full.as_ref().is_some_and(|f| f.selmer_dim.is_some());
+    let algebra = if work.exhausted() || (twos.is_empty() && quartic_done) {
         None
     } else {
         algebra_route(minimal, torsion, primes, work, report)?
@@ -514,6 +517,11 @@ fn combine_algebra(report: &mut RankReport, runs: &[IsogenyDescent], full: Optio
     if report.rank_lower.is_some_and(|l| l > a.upper) {
         return Err(Error::internal("the report", "the descent routes contradict each other"));
     }
+    if a.conditional_on_grh {
+        // K(S,2) rests on GRH: a conditional bound, never a proven one
+        // (stated in the evidence by `note_conditional_bound`)
+        return Ok(());
+    }
     report.two_selmer_dim = Some(a.selmer_dim);
     if report.rank_upper.is_none_or(|u| a.upper < u) {
         report.rank_upper = Some(a.upper);
@@ -523,6 +531,19 @@ fn combine_algebra(report: &mut RankReport, runs: &[IsogenyDescent], full: Optio
         }
     }
     Ok(())
+}
+
+/// The algebra route's bound when its `K(S,2)` rests on GRH (Bach's
+/// bound): a conditional statement in the evidence, never a proven bound.
+fn note_conditional_bound(report: &mut RankReport) {
+    let Some(a) = report.algebra_descent.as_ref().filter(|a| a.conditional_on_grh) else { return };
+    let claim = format!(
+        "rank <= {} (dim Sel^2(E) = {} by the descent over Q[X]/(f), with K(S,2) from a factor base up to Bach's bound)",
+        a.upper, a.selmer_dim
+    );
+    if let Some(ev) = report.evidence.as_mut() {
+        ev.statements.push(Statement { claim, standing: Standing::Conditional("the generalised Riemann hypothesis".into()) });
+    }
 }
 
 /// Once the rank is proven and dim Sel^2(E) known, Sha(E)\[2\] is determined:

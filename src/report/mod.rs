@@ -227,10 +227,11 @@ pub(crate) fn known_by_default() -> bool {
 impl RankReport {
     /// Which descent gave `two_selmer_dim`: `"quartic"` (the enumeration of
     /// quartic 2-coverings), `"algebra"` (the descent over `Q[X]/(f)`),
-    /// `"quartic+algebra"` (both, and they agree), or `None`.
+    /// `"quartic+algebra"` (both, and they agree), or `None` (an algebra
+    /// descent conditional on GRH gives no proven `Sel^2`).
     pub fn two_selmer_route(&self) -> Option<&'static str> {
         let quartic = self.full_descent.as_ref().is_some_and(|f| f.selmer_dim.is_some());
-        match (quartic, self.algebra_descent.is_some()) {
+        match (quartic, self.algebra_descent.as_ref().is_some_and(|a| !a.conditional_on_grh)) {
             (true, true) => Some("quartic+algebra"),
             (true, false) => Some("quartic"),
             (false, true) => Some("algebra"),

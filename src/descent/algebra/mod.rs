@@ -23,8 +23,11 @@
 //! where `A(S,2)` is `Q(S,2)^2` and no class group is needed, and
 //! `Q x K` with `K` quadratic (one rational point of order 2), where the
 //! candidates are `K(S,2)` from [`crate::numfield`] (see `quadratic.rs` for
-//! the local square classes of `K (x) Q_v`). The cubic shape returns
-//! `Ok(None)`.
+//! the local square classes of `K (x) Q_v`), and `K` cubic (no rational
+//! point of order 2; see `cubic.rs`: the square test there goes through a
+//! resolvent quartic). `K(S,2)` of a cubic field is unconditional (the
+//! Minkowski bound) up to `|d_K| = 10^12`, else it may rest on GRH, and
+//! [`AlgebraDescent::conditional_on_grh`] says so.
 //!
 //! ```
 //! use twofold::descent::algebra::two_selmer_over_algebra;
@@ -39,8 +42,10 @@
 //! assert_eq!((d.selmer_dim, d.two_torsion_dim, d.upper), (3, 2, 1));
 //! ```
 
+mod cubic;
 pub mod local;
 mod quadratic;
+mod roots;
 mod selmer;
 
 use crate::budget::Work;
@@ -94,7 +99,9 @@ pub struct AlgebraDescent {
     pub primes: Vec<Natural>,
     /// A basis of `Sel^2(E)`; for `Q x Q x Q` each element is the triple of
     /// square-free integers `(a1, a2, a1 a2 / square)` standing for
-    /// `X - e1, X - e2, X - e3`.
+    /// `X - e1, X - e2, X - e3`; for `Q x K` the pair (square-free norm
+    /// class, bit mask over the `K(S,2)` basis); for `K` cubic the bit mask
+    /// over the `K(S,2)` basis alone.
     #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
     pub selmer_basis: Vec<Vec<Integer>>,
     /// The F2-dimension of `Sel^2(E)` (including the image of `E(Q)[2]`).
@@ -175,7 +182,11 @@ pub fn two_selmer_over_algebra(
             let s = s_primes(&cubic, &roots, primes)?;
             return quadratic::rational_times_quadratic(cubic, roots[0].clone(), s, work).map(Some);
         }
-        _ => return Ok(None),
+        0 => {
+            let s = s_primes(&cubic, &roots, primes)?;
+            return cubic::cubic_field(cubic, s, work).map(Some);
+        }
+        _ => return Err(Error::internal("the algebra descent", "two points of order 2 without the third")),
     }
     let s = s_primes(&cubic, &roots, primes)?;
     selmer::three_rational(cubic, [roots[0].clone(), roots[1].clone(), roots[2].clone()], s, work).map(Some)

@@ -26,7 +26,8 @@ use super::local::{class_width, rational_class};
 use super::{eval_cubic, AlgebraDescent, AlgebraLocalImage, AlgebraShape};
 use crate::arith::{sqrt_mod_prime_power, valuation, FactorLimits};
 use crate::budget::Work;
-use crate::descent::f2::{kernel, F2Span, SquareClasses as RationalClasses};
+use super::selmer::restrict_to_image;
+use crate::descent::f2::{F2Span, SquareClasses as RationalClasses};
 use crate::error::{Error, ErrorKind};
 use crate::numfield::{ClassGroupOptions, FactorBaseBound, NumberField};
 use crate::solubility::Place;
@@ -200,7 +201,7 @@ impl Split {
 
 /// `n / p^(2k)`, `c + n p^k` for the given centres `c` (the rational root,
 /// approximations of the other roots in `Q_p`, their midpoint).
-fn candidates(p: &Natural, roots: Vec<Rational>, depth: u32, reach: i64) -> impl Iterator<Item = Rational> {
+pub(super) fn candidates(p: &Natural, roots: Vec<Rational>, depth: u32, reach: i64) -> impl Iterator<Item = Rational> {
     let p = Rational::from(p.clone());
     (0..=depth).flat_map(move |k| {
         let pk = (&p).pow(k as u64);
@@ -221,6 +222,26 @@ fn candidates(p: &Natural, roots: Vec<Rational>, depth: u32, reach: i64) -> impl
             v
         })
     })
+}
+
+/// Fields with `|d_K|` at most this use the Minkowski bound (an
+/// unconditional `K(S,2)`; the bound is then below about `2 * 10^5`).
+const UNCONDITIONAL_DISC: u64 = 1_000_000_000_000;
+
+/// The class group options for `K(S,2)` within `work`: unconditional (the
+/// Minkowski bound) for cubic fields with `|d_K|` up to [`UNCONDITIONAL_DISC`], else the
+/// number-field module's choice (Bach's bound, conditional on GRH, when it
+/// is the smaller).
+pub(super) fn grh_options(k: &NumberField, work: &Work) -> ClassGroupOptions {
+    let mut opts = ClassGroupOptions::default();
+    if let Some(t) = work.deadline() {
+        opts = opts.with_deadline(t);
+    }
+    if let Some(c) = work.cancel_flag() {
+        opts = opts.with_cancel(c.clone());
+    }
+    let d = k.discriminant();
+    opts.with_unconditional(k.degree() == 3 && *d <= UNCONDITIONAL_DISC && *d >= -Integer::from(UNCONDITIONAL_DISC))
 }
 
 /// `Sel^2(E)` for `A = Q x K`.
@@ -255,14 +276,7 @@ pub(super) fn rational_times_quadratic(cubic: [Integer; 3], e: Integer, s: Vec<N
         _ => return Err(Error::new(ErrorKind::InvalidValue, "a prime of disc(q) is missing from S")),
     };
     let k = NumberField::with_limits(&[-d0.clone(), Integer::ZERO, Integer::ONE], &limits)?;
-    let mut opts = ClassGroupOptions::default();
-    if let Some(t) = work.deadline() {
-        opts = opts.with_deadline(t);
-    }
-    if let Some(c) = work.cancel_flag() {
-        opts = opts.with_cancel(c.clone());
-    }
-    let ks = k.square_classes(&s_words, &opts)?;
+    let ks = k.square_classes(&s_words, &grh_options(&k, work))?;
     let grh = ks.bound_kind == FactorBaseBound::BachGrh;
     let n = ks.dimension();
     if n > 64 {
@@ -381,31 +395,7 @@ pub(super) fn rational_times_quadratic(cubic: [Integer; 3], e: Integer, s: Vec<N
             }
             loc.push(v);
         }
-        let reduced: Vec<u128> = current
-            .iter()
-            .map(|&c| {
-                let mut v = 0u64;
-                for (j, l) in loc.iter().enumerate() {
-                    if c >> j & 1 == 1 {
-                        v ^= l;
-                    }
-                }
-                span.reduce(v) as u128
-            })
-            .collect();
-        let ker = kernel(&reduced);
-        current = ker
-            .iter()
-            .map(|&comb| {
-                let mut v = 0u64;
-                for (i, c) in current.iter().enumerate() {
-                    if comb >> i & 1 == 1 {
-                        v ^= c;
-                    }
-                }
-                v
-            })
-            .collect();
+        current = restrict_to_image(&current, &loc, &span);
         images.push(AlgebraLocalImage { place: place.clone(), dim: span.dim(), witnesses });
     }
     let mut selmer = F2Span::new();

@@ -111,6 +111,18 @@ fn local_image(e: &[Rational; 3], cubic: &[Integer; 3], place: &Place, work: &Wo
     Ok((span, witnesses))
 }
 
+/// The candidates kept at one place: `current` lists candidates as bit
+/// masks over the columns `loc` (the localisations of the candidate basis);
+/// returns a basis of those combinations whose localisation lies in `span`
+/// (the local image), as masks over the same columns.
+pub(super) fn restrict_to_image(current: &[u64], loc: &[u64], span: &F2Span) -> Vec<u64> {
+    let combine = |mask: u64, vectors: &[u64]| -> u64 {
+        vectors.iter().enumerate().filter(|(j, _)| mask >> j & 1 == 1).fold(0u64, |v, (_, l)| v ^ l)
+    };
+    let reduced: Vec<u128> = current.iter().map(|&c| span.reduce(combine(c, loc)) as u128).collect();
+    kernel(&reduced).iter().map(|&comb| combine(comb, current)).collect()
+}
+
 /// `Sel^2(E)` for `A = Q x Q x Q`: candidates `(a1, a2)` in `Q(S,2)^2`.
 pub(super) fn three_rational(cubic: [Integer; 3], roots: [Integer; 3], s: Vec<Natural>, work: &Work) -> Result<AlgebraDescent, Error> {
     let m = 1 + s.len();
@@ -141,31 +153,7 @@ pub(super) fn three_rational(cubic: [Integer; 3], roots: [Integer; 3], s: Vec<Na
                 }
             })
             .collect();
-        let reduced: Vec<u128> = current
-            .iter()
-            .map(|&c| {
-                let mut v = 0u64;
-                for (j, l) in loc.iter().enumerate() {
-                    if c >> j & 1 == 1 {
-                        v ^= l;
-                    }
-                }
-                span.reduce(v) as u128
-            })
-            .collect();
-        let ker = kernel(&reduced);
-        current = ker
-            .iter()
-            .map(|&comb| {
-                let mut v = 0u64;
-                for (i, c) in current.iter().enumerate() {
-                    if comb >> i & 1 == 1 {
-                        v ^= c;
-                    }
-                }
-                v
-            })
-            .collect();
+        current = restrict_to_image(&current, &loc, &span);
         images.push(AlgebraLocalImage { place: place.clone(), dim: span.dim(), witnesses });
     }
     let mut selmer = F2Span::new();
@@ -173,7 +161,7 @@ pub(super) fn three_rational(cubic: [Integer; 3], roots: [Integer; 3], s: Vec<Na
         selmer.insert(c);
     }
     // the image of E(Q)[2] must lie in the Selmer group
-        for ei in &e {
+    for ei in &e {
         let (a1, a2) = image_pair(ei, &e);
         let v1 = classes.vector_of(&a1).ok_or_else(|| Error::internal("the algebra descent", "a torsion image outside Q(S,2)"))?;
         let v2 = classes.vector_of(&a2).ok_or_else(|| Error::internal("the algebra descent", "a torsion image outside Q(S,2)"))?;
