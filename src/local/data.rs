@@ -4,7 +4,7 @@
 //! each of them and the conductor. Built once per analysis; every stage
 //! reads it instead of factoring or running Tate's algorithm again.
 
-use super::{local_data, LocalData};
+use super::{local_data, LocalData, Reduction};
 use crate::arith::{factor, is_probable_prime_within, valuation, FactorLimits};
 use crate::budget::Work;
 use crate::curve::{Curve, ModelChange, Point};
@@ -134,6 +134,33 @@ impl CurveData {
     /// The conductor.
     pub fn conductor(&self) -> &Natural {
         &self.conductor
+    }
+    /// `(p, a_p)` at the primes dividing the conductor: `1` at split and
+    /// `-1` at non-split multiplicative primes, `0` at additive ones (the
+    /// Euler factors of the L-series at the bad primes), read from the
+    /// local data. An error of kind [`ErrorKind::TooLarge`] when a prime
+    /// does not fit a word.
+    ///
+    /// ```
+    /// use twofold::{Curve, CurveData, Work};
+    /// // y^2 + y = x^3 - x^2 - 10x - 20: split I5 at 11 (Cremona 1997, Table 1)
+    /// let d = CurveData::new(&Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap(), &Work::unlimited()).unwrap();
+    /// assert_eq!(d.bad_prime_traces().unwrap(), vec![(11, 1)]);
+    /// ```
+    pub fn bad_prime_traces(&self) -> Result<Vec<(u64, i64)>, Error> {
+        let mut out = Vec::new();
+        for d in &self.local {
+            let ap = match d.reduction {
+                Reduction::SplitMultiplicative => 1,
+                Reduction::NonSplitMultiplicative => -1,
+                Reduction::Additive => 0,
+                Reduction::Good => continue,
+            };
+            let p = u64::try_from(&d.prime)
+                .map_err(|_| Error::new(ErrorKind::TooLarge, format!("the bad prime {} does not fit a word", d.prime)))?;
+            out.push((p, ap));
+        }
+        Ok(out)
     }
     /// A point of the minimal model, on the input model.
     pub fn to_input(&self, p: &Point) -> Point {

@@ -686,7 +686,7 @@ fn heegner_point(report: &mut RankReport, data: &CurveData, options: &RankOption
         ..crate::heegner::HeegnerOptions::default()
     };
     let started = std::time::Instant::now();
-    let found = match crate::heegner::point_of_rank_one(data.minimal(), data.conductor(), &opts) {
+    let found = match crate::heegner::point_of_rank_one_of(data, &opts) {
         Ok(Some(found)) => found,
         Err(e) if *e.kind() == crate::error::ErrorKind::Internal => return Err(e),
         // a route stopped by its share of the budget leaves the report
