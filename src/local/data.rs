@@ -100,11 +100,23 @@ impl CurveData {
         let primes: Vec<Natural> =
             primes.into_iter().filter(|p| valuation(minimal.discriminant(), p).unwrap_or(0) > 0).collect();
         let local: Vec<LocalData> = primes.iter().map(|p| local_data(&minimal, p)).collect::<Result<_, _>>()?;
-        let mut conductor = Natural::ONE;
-        for d in &local {
-            conductor *= (&d.prime).pow(u64::from(d.conductor_exponent));
-        }
+        let conductor = conductor_of(&local);
         Ok(CurveData { input: curve.clone(), minimal, change, primes, local, conductor })
+    }
+
+    /// The value recorded in a report: the models, the change between them
+    /// and the local data, checked for consistency without factoring or
+    /// running Tate's algorithm (the local data must cover the minimal
+    /// discriminant with minimal valuations, the change must carry `input`
+    /// to `minimal`).
+    pub(crate) fn from_parts(input: &Curve, minimal: &Curve, change: &ModelChange, local: &[LocalData]) -> Result<CurveData, Error> {
+        super::check_minimal(minimal, local)?;
+        if input.apply_change(change)? != *minimal {
+            return Err(Error::new(ErrorKind::InvalidValue, "the change of model does not carry the input model to the minimal one"));
+        }
+        let conductor = conductor_of(local);
+        let primes = local.iter().map(|d| d.prime.clone()).collect();
+        Ok(CurveData { input: input.clone(), minimal: minimal.clone(), change: change.clone(), primes, local: local.to_vec(), conductor })
     }
 
     /// The model the caller gave.
@@ -183,4 +195,13 @@ impl CurveData {
             Point::Affine(x, y) => self.change.map_point(&(x.clone(), y.clone())).map(|(x, y)| Point::Affine(x, y)),
         }
     }
+}
+
+/// The product of `p^f_p` over the local data.
+fn conductor_of(local: &[LocalData]) -> Natural {
+    let mut conductor = Natural::ONE;
+    for d in local {
+        conductor *= (&d.prime).pow(u64::from(d.conductor_exponent));
+    }
+    conductor
 }

@@ -5,7 +5,7 @@
 
 use crate::budget::{Stage, Work};
 use crate::curve::Point;
-use crate::heights::{mordell_weil_basis, PeriodLattice, SaturationOptions};
+use crate::heights::{mordell_weil_basis_of, PeriodLattice, SaturationOptions};
 use crate::local::CurveData;
 use crate::report::{Evidence, RankReport, Standing, Statement, EVIDENCE_MAX_CONDUCTOR};
 use malachite::Natural;
@@ -135,7 +135,7 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
     };
     if !on_min.is_empty() && on_min.len() == report.points.len() {
         let opts = SaturationOptions::within(work);
-        let basis = mordell_weil_basis(data.minimal(), &on_min, data.local(), PRECISION, &opts);
+        let basis = mordell_weil_basis_of(data, &on_min, PRECISION, &opts);
         if let Err(e) = &basis {
             st.push(unfinished("heights and saturation were not computed", e));
         }
