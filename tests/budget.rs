@@ -169,3 +169,49 @@ fn certificate_builder_honours_the_cancel_flag() {
         assert!(*err.kind() != ErrorKind::Internal, "{err}");
     }
 }
+
+/// The f64 L-series of the evidence step looks at the work every few
+/// thousand primes and terms: with the cancel flag raised it stops with a
+/// budget error instead of summing. Curve: y^2 = x^3 - 1009^2 x (the
+/// congruent-number curve of n = 1009, conductor 32 n^2 = 32,578,592 for
+/// odd n: Koblitz, Introduction to Elliptic Curves and Modular Forms, from
+/// memory), about 30,000 terms.
+#[test]
+fn a_raised_cancel_flag_stops_the_l_series() {
+    use twofold::{lseries::special_values_of, CurveData, ErrorKind, Work};
+    let e = Curve::from_coefficients([0i64, 0, 0, -1009 * 1009, 0]).unwrap();
+    let data = CurveData::new(&e, &Work::unlimited()).unwrap();
+    assert_eq!(data.conductor().to_string(), "32578592");
+    assert!(special_values_of(&data, 1, 1, &Work::unlimited()).is_ok());
+    let flag = Arc::new(AtomicBool::new(true));
+    let t = Instant::now();
+    let err = special_values_of(&data, 1, 1, &Work::until(None, Some(flag))).unwrap_err();
+    assert_eq!(err.kind(), &ErrorKind::Budget);
+    assert!(t.elapsed() < Duration::from_millis(500), "took {:?}", t.elapsed());
+}
+
+/// A cancel flag raised as the evidence step starts stops it promptly: the
+/// analysis returns with the report marked as cut short and the evidence
+/// saying what was not computed. Curve: y^2 = x^3 - 25x (conductor 800,
+/// rank 1: n = 5 is congruent, Koblitz, ch. I; from memory).
+#[test]
+fn a_cancel_flag_raised_in_the_evidence_step_is_honoured() {
+    use std::sync::Mutex;
+    use twofold::Stage;
+    let flag = Arc::new(AtomicBool::new(false));
+    let raised: Arc<Mutex<Option<Instant>>> = Arc::new(Mutex::new(None));
+    let (f, r) = (flag.clone(), raised.clone());
+    let progress: twofold::budget::ProgressFn = Arc::new(move |stage: Stage, _: &str| {
+        if stage == Stage::Evidence && !f.load(Ordering::Relaxed) {
+            *r.lock().unwrap() = Some(Instant::now());
+            f.store(true, Ordering::Relaxed);
+        }
+    });
+    let e = Curve::from_coefficients([0i64, 0, 0, -25, 0]).unwrap();
+    let rep = analyse(&e, &RankOptions::default().with_cancel(flag).with_progress(progress)).unwrap();
+    let at = raised.lock().unwrap().expect("the evidence step started");
+    assert!(at.elapsed() < Duration::from_millis(500), "returned {:?} after the flag", at.elapsed());
+    assert!(rep.budget_exhausted);
+    let ev = rep.evidence.expect("the evidence says what it did not compute");
+    assert!(ev.statements.iter().any(|s| s.standing == twofold::report::Standing::Unfinished));
+}

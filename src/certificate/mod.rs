@@ -395,6 +395,7 @@ impl Certificate {
                 torsion.push(q);
             }
         }
+        let data = crate::local::CurveData::from_parts(&report.input, minimal, change, &report.local)?;
         let mut points = Vec::new();
         for p in &report.points {
             if let Some((x, y)) = to_min(p)? {
@@ -407,7 +408,7 @@ impl Certificate {
                 let pt = crate::curve::Point::Affine(x.clone(), y.clone());
                 let height = recorded
                     .or_else(|| {
-                        crate::heights::canonical_height(minimal, &report.local, &pt, 64).ok().map(|h| crate::heights::float_to_f64(&h))
+                        crate::heights::canonical_height_of(&data, &pt, 64).ok().map(|h| crate::heights::float_to_f64(&h))
                     })
                     .filter(|h| h.is_finite())
                     .map(|h| format!("{h:.12e}"));

@@ -185,12 +185,7 @@ fn enumerate_coverings(i: &Integer, j: &Integer, options: &RankOptions, work: &W
     quartics_with_invariants(
         i,
         j,
-        &SearchOptions {
-            include_negative_definite: false,
-            max_candidates: Some(options.max_quartic_candidates),
-            deadline: work.deadline(),
-            cancel: work.cancel_flag().cloned(),
-        },
+        &SearchOptions::within(work).with_negative_definite(false).with_max_candidates(options.max_quartic_candidates),
     )
 }
 

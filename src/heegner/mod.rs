@@ -65,7 +65,7 @@ use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
 use crate::heights::real::{fi, to_f64, Cx};
 use crate::heights::{canonical_height, height_difference_bound, mordell_weil_basis, PeriodLattice, Saturation, SaturationOptions};
-use crate::local::{bad_primes_data, LocalData, Reduction};
+use crate::local::{CurveData, LocalData};
 use crate::torsion::TorsionGroup;
 use analytic::Lattice;
 use malachite::base::num::arithmetic::traits::Abs;
@@ -137,6 +137,11 @@ impl HeegnerOptions {
     /// ```
     pub fn from_rank_options(o: &RankOptions) -> HeegnerOptions {
         HeegnerOptions { time_limit: o.time_limit, cancel: o.cancel.clone(), ..HeegnerOptions::default() }
+    }
+
+    /// The deadline (from `start` plus the time limit) and cancel flag as a work value.
+    fn work(&self, start: Instant) -> Work {
+        Work::until(self.time_limit.and_then(|d| start.checked_add(d)), self.cancel.clone())
     }
 }
 
@@ -213,32 +218,24 @@ struct Setup {
     slack: f64,
 }
 
-fn setup(curve: &Curve, conductor: &Natural) -> Result<Option<Setup>, Error> {
+/// The invariants of `curve`, a global minimal model of the curve that
+/// `data` describes (its local data, conductor and reduction types hold for
+/// every minimal model): nothing is factored and Tate's algorithm is not
+/// run again.
+fn setup(curve: &Curve, data: &CurveData, work: &Work) -> Result<Option<Setup>, Error> {
+    let conductor = data.conductor();
     let n = u64::try_from(conductor)
         .ok()
         .filter(|&n| n > 0 && n <= crate::lseries::MAX_CONDUCTOR)
         .ok_or_else(|| err(ErrorKind::TooLarge, format!("conductor {conductor} out of range for the Heegner method")))?;
-    let rn = crate::rootno::root_number(curve)?;
-    if rn.conductor != *conductor {
-        return Err(err(ErrorKind::InvalidValue, format!("the conductor of the curve is {}, not {conductor}", rn.conductor)));
-    }
+    let rn = crate::rootno::root_number_of(data, &crate::arith::FactorLimits::within(work))?;
     if rn.global != -1 {
         return Ok(None);
     }
-    let primes: Vec<Natural> = crate::arith::factor_u64(n)?.into_iter().map(|(p, _)| Natural::from(p)).collect();
-    let local = bad_primes_data(curve, &primes)?;
-    let bad_ap = local
-        .iter()
-        .map(|d| {
-            let ap = match d.reduction {
-                Reduction::SplitMultiplicative => 1,
-                Reduction::NonSplitMultiplicative => -1,
-                _ => 0,
-            };
-            (u64::try_from(&d.prime).unwrap_or(0), ap)
-        })
-        .collect();
-    let v = crate::lseries::special_values(curve, conductor, -1, 1)?;
+    let primes: Vec<Natural> = data.bad_primes().to_vec();
+    let local = data.local().to_vec();
+    let bad_ap = data.bad_prime_traces()?;
+    let v = crate::lseries::special_values_of(data, -1, 1, work)?;
     let d1 = &v[1];
     if d1.value.abs() <= 1000.0 * d1.error {
         // analytic rank >= 3 (numerically): the Heegner points are torsion
@@ -311,8 +308,39 @@ pub fn heegner_discriminants(n: u64, count: usize) -> Result<Vec<HeegnerData>, E
 /// the coefficients cost `O(p^{1/4})` group operations per prime.
 pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOptions) -> Result<Option<HeegnerResult>, Error> {
     let start = Instant::now();
-    let budget = Work::until(opts.time_limit.and_then(|d| start.checked_add(d)), opts.cancel.clone());
-    let Some(s) = setup(minimal, conductor)? else { return Ok(None) };
+    let budget = opts.work(start);
+    let data = CurveData::new(minimal, &budget)?;
+    if data.minimal().discriminant() != minimal.discriminant() {
+        return Err(err(ErrorKind::InvalidValue, format!("the model {minimal} is not minimal")));
+    }
+    if data.conductor() != conductor {
+        return Err(err(ErrorKind::InvalidValue, format!("the conductor of the curve is {}, not {conductor}", data.conductor())));
+    }
+    point_on_model(minimal, &data, opts, start)
+}
+
+/// [`point_of_rank_one`] for a curve whose data is known: the search runs
+/// on the global minimal model of `data`, with its conductor, local data
+/// and root number read from `data` (nothing is factored or recomputed).
+/// The generator lies on [`CurveData::minimal`]; [`CurveData::to_input`]
+/// carries it to the model the caller gave. Errors as there.
+///
+/// ```
+/// use twofold::{Curve, CurveData, Work};
+/// use twofold::heegner::{point_of_rank_one_of, HeegnerOptions};
+/// // y^2 + y = x^3 - x, conductor 37, rank 1 (Cremona 1997, Table 1)
+/// let d = CurveData::new(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(), &Work::unlimited()).unwrap();
+/// let r = point_of_rank_one_of(&d, &HeegnerOptions::default()).unwrap().unwrap();
+/// assert!(d.minimal().contains(&r.generator) && !r.generator.is_infinity());
+/// ```
+pub fn point_of_rank_one_of(data: &CurveData, opts: &HeegnerOptions) -> Result<Option<HeegnerResult>, Error> {
+    point_on_model(data.minimal(), data, opts, Instant::now())
+}
+
+/// The search on `minimal`, a global minimal model of the curve of `data`.
+fn point_on_model(minimal: &Curve, data: &CurveData, opts: &HeegnerOptions, start: Instant) -> Result<Option<HeegnerResult>, Error> {
+    let budget = opts.work(start);
+    let Some(s) = setup(minimal, data, &budget)? else { return Ok(None) };
     if opts.use_twist {
         if let Some(t) = twist::smallest_twist(minimal, s.n)? {
             check_twist(minimal, &s, &t)?;

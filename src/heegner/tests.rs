@@ -1,5 +1,6 @@
 //! Tests of the Heegner point route against published values.
 
+use crate::local::bad_primes_data;
 use super::*;
 
 fn run(c: [i64; 5], n: u32) -> HeegnerResult {

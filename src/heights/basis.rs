@@ -7,7 +7,7 @@ use super::saturation::{siksek_test, SiksekOutcome};
 use crate::arith::primes_up_to;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
-use crate::local::LocalData;
+use crate::local::{CurveData, LocalData};
 use crate::search::{search_curve, SearchLimits};
 use crate::torsion::TorsionGroup;
 use malachite::base::num::arithmetic::traits::Abs;
@@ -324,6 +324,34 @@ pub fn mordell_weil_basis(
     options: &SaturationOptions,
 ) -> Result<MordellWeilBasis, Error> {
     check_minimal(curve, local)?;
+    basis_on_minimal(curve, points, local, precision, options)
+}
+
+/// [`mordell_weil_basis`] for a curve whose data is known: `points` lie on
+/// the global minimal model [`CurveData::minimal`], whose minimality the
+/// value guarantees (nothing is checked again at run time).
+///
+/// ```
+/// use twofold::{Curve, CurveData, Point, Work};
+/// use twofold::heights::{mordell_weil_basis_of, SaturationOptions};
+/// // y^2 + y = x^3 - x: (0,0) generates, regulator 0.0511114082 (Cremona 1997, Table 3; from memory)
+/// let d = CurveData::new(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(), &Work::unlimited()).unwrap();
+/// let b = mordell_weil_basis_of(&d, &[Point::from_ints(0, 0)], 96, &SaturationOptions::default()).unwrap();
+/// assert!((b.regulator_f64() - 0.0511114082).abs() < 1e-9);
+/// ```
+pub fn mordell_weil_basis_of(data: &CurveData, points: &[Point], precision: u64, options: &SaturationOptions) -> Result<MordellWeilBasis, Error> {
+    basis_on_minimal(data.minimal(), points, data.local(), precision, options)
+}
+
+/// The body of [`mordell_weil_basis`] once `local` is known to describe the
+/// minimal model `curve`.
+fn basis_on_minimal(
+    curve: &Curve,
+    points: &[Point],
+    local: &[LocalData],
+    precision: u64,
+    options: &SaturationOptions,
+) -> Result<MordellWeilBasis, Error> {
     for p in points {
         if !curve.contains(p) {
             return Err(Error::new(ErrorKind::InvalidValue, format!("the point {p} is not on the curve")));

@@ -23,7 +23,7 @@ use super::real::{fi, fq, fz, ln, ln_q, sqrt};
 use crate::arith::valuation;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
-use crate::local::{Kodaira, LocalData};
+use crate::local::{CurveData, Kodaira, LocalData};
 use malachite::base::num::arithmetic::traits::Abs;
 use malachite::base::num::basic::traits::{One, Zero};
 use malachite::base::num::logic::traits::SignificantBits;
@@ -43,29 +43,9 @@ pub(crate) fn val_q(x: &Rational, p: &Natural) -> Option<i64> {
     Some(n - d)
 }
 
-/// Checks that `local` describes `curve` as a globally minimal model: every
-/// prime dividing the discriminant is listed and the discriminant valuation
-/// at each listed prime is the minimal one.
-pub(crate) fn check_minimal(curve: &Curve, local: &[LocalData]) -> Result<(), Error> {
-    let primes: Vec<Natural> = local.iter().map(|d| d.prime.clone()).collect();
-    let rest = crate::local::strip_primes(curve.discriminant(), &primes);
-    if rest != 1u32 {
-        return Err(Error::new(
-            ErrorKind::InvalidValue,
-            format!("the local data do not cover the discriminant {} (factor {rest} left)", curve.discriminant()),
-        ));
-    }
-    for d in local {
-        let v = valuation(curve.discriminant(), &d.prime).unwrap_or(0);
-        if v != d.minimal_valuation_disc {
-            return Err(Error::new(
-                ErrorKind::InvalidValue,
-                format!("the model is not minimal at {} (v(Delta) = {v}, minimal {})", d.prime, d.minimal_valuation_disc),
-            ));
-        }
-    }
-    Ok(())
-}
+/// Checks that `local` describes `curve` as a globally minimal model (see
+/// [`crate::local::check_minimal`]).
+pub(crate) use crate::local::check_minimal;
 
 /// The non-archimedean local height at `d.prime` as an exact rational
 /// multiple of `log p`: returns `c` with `lambda_p(P) = c log p`.
@@ -217,6 +197,22 @@ pub fn canonical_height(curve: &Curve, local: &[LocalData], point: &Point, prec:
     height_unchecked(curve, local, point, prec)
 }
 
+/// [`canonical_height`] of a point on the global minimal model
+/// [`CurveData::minimal`] (minimal by construction: nothing is checked
+/// again at run time).
+///
+/// ```
+/// use twofold::{Curve, CurveData, Point, Work};
+/// use twofold::heights::{canonical_height_of, float_to_f64};
+/// // the generator (0,0) of y^2 + y = x^3 - x: 0.0511114082... (from memory)
+/// let d = CurveData::new(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(), &Work::unlimited()).unwrap();
+/// let h = canonical_height_of(&d, &Point::from_ints(0, 0), 64).unwrap();
+/// assert!((float_to_f64(&h) - 0.0511114082).abs() < 1e-9);
+/// ```
+pub fn canonical_height_of(data: &CurveData, point: &Point, prec: u64) -> Result<Float, Error> {
+    height_unchecked(data.minimal(), data.local(), point, prec)
+}
+
 pub(crate) fn height_unchecked(curve: &Curve, local: &[LocalData], point: &Point, prec: u64) -> Result<Float, Error> {
     Ok(local_parts(curve, local, point, prec)?.total(prec))
 }
@@ -325,19 +321,8 @@ fn local_parts(curve: &Curve, local: &[LocalData], point: &Point, prec: u64) -> 
 /// assert!((float_to_f64(&h) - 0.0511114082).abs() < 1e-9);
 /// ```
 pub fn canonical_height_on_model(curve: &Curve, primes: &[Natural], point: &Point, prec: u64) -> Result<Float, Error> {
-    if !curve.contains(point) {
-        return Err(Error::new(ErrorKind::InvalidValue, format!("the point {point} is not on the curve")));
-    }
-    let (min, change) = curve.minimal_model(primes)?;
-    let local = crate::local::bad_primes_data(&min, primes)?;
-    let p = match point {
-        Point::Infinity => Point::Infinity,
-        Point::Affine(x, y) => {
-            let (x, y) = change.map_point(&(x.clone(), y.clone()))?;
-            Point::Affine(x, y)
-        }
-    };
-    canonical_height(&min, &local, &p, prec)
+    let data = CurveData::with_known_primes(curve, primes)?;
+    canonical_height_of(&data, &data.to_minimal(point)?, prec)
 }
 
 /// The naive (logarithmic) height `log max(|a|, b)` of `x = a/b`.

@@ -55,10 +55,10 @@ pub(crate) mod real;
 mod saturation;
 
 pub use basis::{
-    height_difference_bound, is_p_saturated, local_height_bound, mordell_weil_basis, MordellWeilBasis, Saturation,
+    height_difference_bound, is_p_saturated, local_height_bound, mordell_weil_basis, mordell_weil_basis_of, MordellWeilBasis, Saturation,
     SaturationOptions,
 };
-pub use canonical::{canonical_height, canonical_height_on_model, local_heights, naive_height, LocalHeights};
+pub use canonical::{canonical_height, canonical_height_of, canonical_height_on_model, local_heights, naive_height, LocalHeights};
 pub use lattice::{height_pairing_matrix, lll_reduce, regulator, LllReduction};
 pub use real::PeriodLattice;
 

@@ -4,7 +4,7 @@
 //! each of them and the conductor. Built once per analysis; every stage
 //! reads it instead of factoring or running Tate's algorithm again.
 
-use super::{local_data, LocalData};
+use super::{local_data, LocalData, Reduction};
 use crate::arith::{factor, is_probable_prime_within, valuation, FactorLimits};
 use crate::budget::Work;
 use crate::curve::{Curve, ModelChange, Point};
@@ -100,11 +100,23 @@ impl CurveData {
         let primes: Vec<Natural> =
             primes.into_iter().filter(|p| valuation(minimal.discriminant(), p).unwrap_or(0) > 0).collect();
         let local: Vec<LocalData> = primes.iter().map(|p| local_data(&minimal, p)).collect::<Result<_, _>>()?;
-        let mut conductor = Natural::ONE;
-        for d in &local {
-            conductor *= (&d.prime).pow(u64::from(d.conductor_exponent));
-        }
+        let conductor = conductor_of(&local);
         Ok(CurveData { input: curve.clone(), minimal, change, primes, local, conductor })
+    }
+
+    /// The value recorded in a report: the models, the change between them
+    /// and the local data, checked for consistency without factoring or
+    /// running Tate's algorithm (the local data must cover the minimal
+    /// discriminant with minimal valuations, the change must carry `input`
+    /// to `minimal`).
+    pub(crate) fn from_parts(input: &Curve, minimal: &Curve, change: &ModelChange, local: &[LocalData]) -> Result<CurveData, Error> {
+        super::check_minimal(minimal, local)?;
+        if input.apply_change(change)? != *minimal {
+            return Err(Error::new(ErrorKind::InvalidValue, "the change of model does not carry the input model to the minimal one"));
+        }
+        let conductor = conductor_of(local);
+        let primes = local.iter().map(|d| d.prime.clone()).collect();
+        Ok(CurveData { input: input.clone(), minimal: minimal.clone(), change: change.clone(), primes, local: local.to_vec(), conductor })
     }
 
     /// The model the caller gave.
@@ -135,6 +147,33 @@ impl CurveData {
     pub fn conductor(&self) -> &Natural {
         &self.conductor
     }
+    /// `(p, a_p)` at the primes dividing the conductor: `1` at split and
+    /// `-1` at non-split multiplicative primes, `0` at additive ones (the
+    /// Euler factors of the L-series at the bad primes), read from the
+    /// local data. An error of kind [`ErrorKind::TooLarge`] when a prime
+    /// does not fit a word.
+    ///
+    /// ```
+    /// use twofold::{Curve, CurveData, Work};
+    /// // y^2 + y = x^3 - x^2 - 10x - 20: split I5 at 11 (Cremona 1997, Table 1)
+    /// let d = CurveData::new(&Curve::from_coefficients([0, -1, 1, -10, -20]).unwrap(), &Work::unlimited()).unwrap();
+    /// assert_eq!(d.bad_prime_traces().unwrap(), vec![(11, 1)]);
+    /// ```
+    pub fn bad_prime_traces(&self) -> Result<Vec<(u64, i64)>, Error> {
+        let mut out = Vec::new();
+        for d in &self.local {
+            let ap = match d.reduction {
+                Reduction::SplitMultiplicative => 1,
+                Reduction::NonSplitMultiplicative => -1,
+                Reduction::Additive => 0,
+                Reduction::Good => continue,
+            };
+            let p = u64::try_from(&d.prime)
+                .map_err(|_| Error::new(ErrorKind::TooLarge, format!("the bad prime {} does not fit a word", d.prime)))?;
+            out.push((p, ap));
+        }
+        Ok(out)
+    }
     /// A point of the minimal model, on the input model.
     pub fn to_input(&self, p: &Point) -> Point {
         match p {
@@ -156,4 +195,13 @@ impl CurveData {
             Point::Affine(x, y) => self.change.map_point(&(x.clone(), y.clone())).map(|(x, y)| Point::Affine(x, y)),
         }
     }
+}
+
+/// The product of `p^f_p` over the local data.
+fn conductor_of(local: &[LocalData]) -> Natural {
+    let mut conductor = Natural::ONE;
+    for d in local {
+        conductor *= (&d.prime).pow(u64::from(d.conductor_exponent));
+    }
+    conductor
 }

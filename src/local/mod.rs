@@ -20,7 +20,7 @@ mod tate;
 pub use data::CurveData;
 pub(crate) use tate::tate;
 
-use crate::arith::is_prime_u64;
+use crate::arith::{is_prime_u64, valuation};
 use crate::curve::Curve;
 use crate::error::{Error, ErrorKind};
 use malachite::base::num::arithmetic::traits::{DivisibleBy, ModPow, Pow, UnsignedAbs};
@@ -289,6 +289,31 @@ pub(crate) fn checked_primes(primes: &[Natural]) -> Result<Vec<Natural>, Error> 
 }
 
 /// `|n|` with every factor from `primes` removed.
+/// Checks that `local` describes `curve` as a globally minimal model: every
+/// prime dividing the discriminant is listed and the discriminant valuation
+/// at each listed prime is the minimal one (an error of kind
+/// [`ErrorKind::InvalidValue`] otherwise).
+pub(crate) fn check_minimal(curve: &Curve, local: &[LocalData]) -> Result<(), Error> {
+    let primes: Vec<Natural> = local.iter().map(|d| d.prime.clone()).collect();
+    let rest = strip_primes(curve.discriminant(), &primes);
+    if rest != 1u32 {
+        return Err(Error::new(
+            ErrorKind::InvalidValue,
+            format!("the local data do not cover the discriminant {} (factor {rest} left)", curve.discriminant()),
+        ));
+    }
+    for d in local {
+        let v = valuation(curve.discriminant(), &d.prime).unwrap_or(0);
+        if v != d.minimal_valuation_disc {
+            return Err(Error::new(
+                ErrorKind::InvalidValue,
+                format!("the model is not minimal at {} (v(Delta) = {v}, minimal {})", d.prime, d.minimal_valuation_disc),
+            ));
+        }
+    }
+    Ok(())
+}
+
 pub(crate) fn strip_primes(n: &Integer, primes: &[Natural]) -> Natural {
     let mut m = n.unsigned_abs();
     for p in primes {

@@ -539,22 +539,11 @@ pub fn prove_analytic_rank(minimal: &Curve, conductor: &Natural, limits: &Factor
 /// assert_eq!(prove_analytic_rank_of(&d, &Work::unlimited()).unwrap().rank, Some(1));
 /// ```
 pub fn prove_analytic_rank_of(data: &crate::local::CurveData, work: &crate::budget::Work) -> Result<AnalyticRankProof, Error> {
-    use crate::local::Reduction;
     let n = u64::try_from(data.conductor())
         .ok()
         .filter(|&n| n <= PROOF_MAX_CONDUCTOR)
         .ok_or_else(|| bad(ErrorKind::TooLarge, format!("conductor {} above the limit {PROOF_MAX_CONDUCTOR}", data.conductor())))?;
-    let mut bad_ap = Vec::new();
-    for d in data.local() {
-        let p = u64::try_from(&d.prime).map_err(|_| bad(ErrorKind::TooLarge, "a bad prime above 2^64 with the conductor below it"))?;
-        let ap = match d.reduction {
-            Reduction::SplitMultiplicative => 1,
-            Reduction::NonSplitMultiplicative => -1,
-            Reduction::Additive => 0,
-            Reduction::Good => continue,
-        };
-        bad_ap.push((p, ap));
-    }
+    let bad_ap = data.bad_prime_traces()?;
     let limits = FactorLimits::within(work);
     let mut src = CoefficientSource::new(data.minimal(), bad_ap);
     let root = root_number_from(&mut src, n, &limits)?;

@@ -51,9 +51,10 @@ mod gfun;
 pub(crate) use coeffs::{coefficients_from, coefficients_with};
 
 use crate::arith::{factor_u64, primes_up_to};
+use crate::budget::Work;
 use crate::curve::{Curve, PointCounter};
 use crate::error::{Error, ErrorKind};
-use crate::local::{local_data, Reduction};
+use crate::local::{local_data, CurveData, Reduction};
 use malachite::{Integer, Natural};
 
 /// The truncation error allowed for each series (absolute).
@@ -344,23 +345,78 @@ impl CompensatedSum {
 /// assert!((v[3].value / 6.0 - 1.7318).abs() < 1e-3);
 /// ```
 pub fn special_values(curve: &Curve, conductor: &Natural, w: i8, max_order: usize) -> Result<Vec<SpecialValue>, Error> {
+    check_order_and_sign(w, max_order)?;
+    let n = checked_conductor(conductor)?;
+    let bad_ap = bad_primes(curve, n)?;
+    values_from(curve, n, &bad_ap, w, max_order, &Work::unlimited())
+}
+
+/// [`special_values`] for a curve whose data is known (the minimal model,
+/// the conductor and the reduction types come from `data`, nothing is
+/// checked again), held to the deadline and cancel flag of `work`: the
+/// point counts and the sum look at it every [`WORK_CHECK_EVERY`] primes or
+/// terms and stop with an error of kind [`ErrorKind::Budget`].
+///
+/// ```
+/// use twofold::{Curve, CurveData, Work, lseries::special_values_of};
+/// // y^2 + y = x^3 - x (conductor 37, rank 1, Cremona 1997, Table 1): L(E,1) = 0 by the sign
+/// let d = CurveData::new(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(), &Work::unlimited()).unwrap();
+/// let v = special_values_of(&d, -1, 1, &Work::unlimited()).unwrap();
+/// assert!(v[0].by_sign && v[1].value > 0.3);
+/// ```
+pub fn special_values_of(data: &CurveData, w: i8, max_order: usize, work: &Work) -> Result<Vec<SpecialValue>, Error> {
+    check_order_and_sign(w, max_order)?;
+    let n = checked_conductor(data.conductor())?;
+    values_from(data.minimal(), n, &data.bad_prime_traces()?, w, max_order, work)
+}
+
+/// [`analytic_rank`] for a curve whose data is known, within `work` (see
+/// [`special_values_of`]).
+pub fn analytic_rank_of(data: &CurveData, w: i8, work: &Work) -> Result<AnalyticRank, Error> {
+    rank_from_values(&special_values_of(data, w, 3, work)?)
+}
+
+/// How many primes (point counts) or terms (the sum) pass between two looks
+/// at the deadline and the cancel flag.
+pub const WORK_CHECK_EVERY: usize = 4096;
+
+fn check_order_and_sign(w: i8, max_order: usize) -> Result<(), Error> {
     if w != 1 && w != -1 {
         return Err(bad(ErrorKind::InvalidValue, format!("a root number is 1 or -1, not {w}")));
     }
     if max_order > 3 {
         return Err(bad(ErrorKind::InvalidValue, format!("derivatives up to order 3 only, not {max_order}")));
     }
-    let n = checked_conductor(conductor)?;
-    let bad_ap = bad_primes(curve, n)?;
+    Ok(())
+}
+
+fn cut_short() -> Error {
+    bad(ErrorKind::Budget, "the L-series was stopped by the deadline or the cancel flag")
+}
+
+/// The sums of [`special_values`] once the conductor and the traces at the
+/// bad primes are known.
+fn values_from(curve: &Curve, n: u64, bad_ap: &[(u64, i64)], w: i8, max_order: usize, work: &Work) -> Result<Vec<SpecialValue>, Error> {
     let c = 2.0 * std::f64::consts::PI / (n as f64).sqrt();
     let m = terms_needed(c, max_order);
     let mut counter = PointCounter::new(curve);
-    let a = coefficients_from(&mut counter, &bad_ap, m);
+    let mut counted = 0usize;
+    let mut trace = |p: u64| {
+        counted += 1;
+        if counted % WORK_CHECK_EVERY == 0 && work.exhausted() {
+            return None;
+        }
+        Some(counter.trace(p))
+    };
+    let a = coefficients_with(&mut trace, bad_ap, m).ok_or_else(cut_short)?;
     let wanted: Vec<bool> = (0..=max_order).map(|r| if r % 2 == 0 { w == 1 } else { w == -1 }).collect();
     let eps = f64::EPSILON / 2.0;
     let mut sums = [CompensatedSum::default(); 4];
     let mut term_err = [0.0f64; 4];
     for (k, &an) in a.iter().enumerate().skip(1) {
+        if k % WORK_CHECK_EVERY == 0 && work.exhausted() {
+            return Err(cut_short());
+        }
         if an == 0 {
             continue;
         }

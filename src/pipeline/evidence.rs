@@ -5,7 +5,7 @@
 
 use crate::budget::{Stage, Work};
 use crate::curve::Point;
-use crate::heights::{mordell_weil_basis, PeriodLattice, SaturationOptions};
+use crate::heights::{mordell_weil_basis_of, PeriodLattice, SaturationOptions};
 use crate::local::CurveData;
 use crate::report::{Evidence, RankReport, Standing, Statement, EVIDENCE_MAX_CONDUCTOR};
 use malachite::Natural;
@@ -147,7 +147,7 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
     };
     if !on_min.is_empty() && on_min.len() == report.points.len() {
         let opts = SaturationOptions::within(work);
-        let basis = mordell_weil_basis(data.minimal(), &on_min, data.local(), PRECISION, &opts);
+        let basis = mordell_weil_basis_of(data, &on_min, PRECISION, &opts);
         if let Err(e) = &basis {
             st.push(unfinished("heights and saturation were not computed", e));
         }
@@ -189,18 +189,25 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
         } else if work.exhausted() {
             st.push(unfinished("L-values were not computed", &"the budget ran out"));
         } else {
-            analytic(report, data, n, w, &mut ev, &mut st);
+            analytic(report, data, w, work, &mut ev, &mut st);
         }
     }
     ev.statements = st;
     ev
 }
 
-fn analytic(report: &RankReport, data: &CurveData, n: &Natural, w: i8, ev: &mut Evidence, st: &mut Vec<Statement>) {
-    use crate::lseries::{analytic_rank, bsd_sha, BsdInputs, RankBasis};
-    let Ok(ar) = analytic_rank(data.minimal(), n, w) else {
-        st.push(Statement { claim: "the analytic rank was not decided to the accuracy reached".into(), standing: Standing::Numerical });
-        return;
+fn analytic(report: &RankReport, data: &CurveData, w: i8, work: &Work, ev: &mut Evidence, st: &mut Vec<Statement>) {
+    use crate::lseries::{analytic_rank_of, bsd_sha, BsdInputs, RankBasis};
+    let ar = match analytic_rank_of(data, w, work) {
+        Ok(ar) => ar,
+        Err(e) if *e.kind() == crate::ErrorKind::Budget && work.exhausted() => {
+            st.push(Statement { claim: format!("L-values were not computed: {e}"), standing: Standing::Unfinished });
+            return;
+        }
+        Err(_) => {
+            st.push(Statement { claim: "the analytic rank was not decided to the accuracy reached".into(), standing: Standing::Numerical });
+            return;
+        }
     };
     let (lead, err) = ar.leading_coefficient();
     ev.vanishing_order = Some(ar.rank);

@@ -81,6 +81,9 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     report.torsion_points = torsion.points().iter().map(|p| data.to_input(p)).collect();
     // the analytic route first: a rank it proves tells the descents' point
     // searches when to stop
+    // statements of stages that failed without an inconsistency, for the
+    // evidence (a stage's failure is never dropped silently)
+    let mut unfinished: Vec<Statement> = Vec::new();
     let (analytic, analytic_unfinished) = analytic_route(data, options, work)?;
     let enough: Option<usize> = analytic.as_ref().and_then(|a| a.rank);
     report.analytic = analytic;
@@ -94,7 +97,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     if heegner_first {
         let before = report.clone();
         let floor_only = RankOptions { search_height_ceiling: options.search_height, ..options.clone() };
-        descents(&mut report, data, &torsion, &floor_only, work, enough)?;
+        descents(&mut report, data, &torsion, &floor_only, work, enough, &mut unfinished)?;
         heegner_point(&mut report, data, options, work)?;
         if report.points.is_empty() && !work.exhausted() {
             // a Heegner step stopped by its share of the budget marked the
@@ -102,10 +105,11 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
             let cut_short = report.budget_exhausted;
             report = before;
             report.budget_exhausted |= cut_short;
-            descents(&mut report, data, &torsion, options, work, enough)?;
+            unfinished.clear();
+            descents(&mut report, data, &torsion, options, work, enough, &mut unfinished)?;
         }
     } else {
-        descents(&mut report, data, &torsion, options, work, enough)?;
+        descents(&mut report, data, &torsion, options, work, enough, &mut unfinished)?;
         heegner_point(&mut report, data, options, work)?;
     }
     for p in &report.points {
@@ -118,6 +122,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         if let Some(e) = analytic_unfinished {
             ev.statements.push(Statement { claim: format!("the analytic route did not finish: {e}"), standing: Standing::Unfinished });
         }
+        ev.statements.append(&mut unfinished);
         report.evidence = Some(ev);
     }
     note_conditional_bound(&mut report);
@@ -148,7 +153,16 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
 
 /// The descents (2-isogeny, full 2-descent, descent over the algebra), their
 /// combination and the rank decision, written into `report`.
-fn descents(report: &mut RankReport, data: &CurveData, torsion: &TorsionGroup, options: &RankOptions, work: &Work, enough: Option<usize>) -> Result<(), Error> {
+#[allow(clippy::too_many_arguments)]
+fn descents(
+    report: &mut RankReport,
+    data: &CurveData,
+    torsion: &TorsionGroup,
+    options: &RankOptions,
+    work: &Work,
+    enough: Option<usize>,
+    unfinished: &mut Vec<Statement>,
+) -> Result<(), Error> {
     let minimal = data.minimal();
     let primes = data.bad_primes();
     let twos = torsion.two_torsion();
@@ -180,7 +194,7 @@ fn descents(report: &mut RankReport, data: &CurveData, torsion: &TorsionGroup, o
     let algebra = if work.exhausted() || (twos.is_empty() && quartic_done) {
         None
     } else {
-        algebra_route(minimal, torsion, primes, work, report)?
+        algebra_route(minimal, torsion, primes, work, report, unfinished)?
     };
     combine(report, data, &runs, full.as_ref())?;
     if let Some(a) = &algebra {
@@ -468,25 +482,42 @@ fn settle_isogeny_sha(report: &mut RankReport) -> Result<(), Error> {
     Ok(())
 }
 
-/// The descent over the algebra `Q[X]/(f)` (see [`crate::descent::algebra`]):
-/// an inconsistency is an error, a budget that runs out leaves it out.
+/// The descent over the algebra `Q[X]/(f)` (see [`crate::descent::algebra`]);
+/// a failure is settled by [`stage_failure`].
 fn algebra_route(
     minimal: &Curve,
     torsion: &TorsionGroup,
     primes: &[Natural],
     work: &Work,
     report: &mut RankReport,
+    unfinished: &mut Vec<Statement>,
 ) -> Result<Option<AlgebraDescent>, Error> {
     work.report(Stage::Solubility, "Sel^2(E) over the algebra Q[X]/(f)");
     match two_selmer_over_algebra(minimal, torsion, primes, work) {
         Ok(a) => Ok(a),
-        Err(e) if *e.kind() == crate::ErrorKind::Budget => {
-            report.budget_exhausted = true;
+        Err(e) => {
+            stage_failure("the algebra descent", e, report, unfinished)?;
             Ok(None)
         }
-        Err(e) if *e.kind() == crate::ErrorKind::Internal => Err(e.in_stage("the algebra descent")),
-        // a shape or size the route does not handle: the other routes stand
-        Err(_) => Ok(None),
+    }
+}
+
+/// What the failure `e` of a stage that the report can do without leaves
+/// behind: an internal inconsistency is returned as the error of the
+/// analysis; a budget that ran out marks the report as cut short; any other
+/// failure (a shape or size the stage does not handle) becomes an
+/// unfinished statement naming the stage. The other routes stand.
+fn stage_failure(stage: &str, e: Error, report: &mut RankReport, unfinished: &mut Vec<Statement>) -> Result<(), Error> {
+    match e.kind() {
+        crate::ErrorKind::Internal => Err(e.in_stage(stage)),
+        crate::ErrorKind::Budget => {
+            report.budget_exhausted = true;
+            Ok(())
+        }
+        _ => {
+            unfinished.push(Statement { claim: format!("{stage} did not finish: {e}"), standing: Standing::Unfinished });
+            Ok(())
+        }
     }
 }
 
@@ -707,7 +738,7 @@ fn heegner_point(report: &mut RankReport, data: &CurveData, options: &RankOption
         ..crate::heegner::HeegnerOptions::default()
     };
     let started = std::time::Instant::now();
-    let found = match crate::heegner::point_of_rank_one(data.minimal(), data.conductor(), &opts) {
+    let found = match crate::heegner::point_of_rank_one_of(data, &opts) {
         Ok(Some(found)) => found,
         Err(e) if *e.kind() == crate::error::ErrorKind::Internal => return Err(e),
         // a route stopped by its share of the budget leaves the report
@@ -745,4 +776,38 @@ fn heegner_point(report: &mut RankReport, data: &CurveData, options: &RankOption
         report.rank_proven_by.insert(0, crate::report::ProofRoute::Descent);
     }
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::error::ErrorKind;
+
+    /// A report of y^2 + y = x^3 - x (conductor 37, Cremona 1997, Table 1)
+    /// before any stage ran.
+    fn blank() -> RankReport {
+        let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
+        let work = Work::unlimited();
+        empty_report(&CurveData::new(&e, &work).unwrap(), &work)
+    }
+
+    #[test]
+    fn a_failed_stage_is_never_dropped() {
+        // an inconsistency is the error of the analysis
+        let mut r = blank();
+        let mut notes = Vec::new();
+        let e = stage_failure("the algebra descent", Error::internal("x", "y"), &mut r, &mut notes).unwrap_err();
+        assert_eq!(e.kind(), &ErrorKind::Internal);
+        assert!(notes.is_empty() && !r.budget_exhausted);
+        // a budget that ran out marks the report as cut short
+        stage_failure("the algebra descent", Error::new(ErrorKind::Budget, "out of time"), &mut r, &mut notes).unwrap();
+        assert!(r.budget_exhausted && notes.is_empty());
+        // any other failure is an unfinished statement naming the stage
+        let mut r = blank();
+        stage_failure("the algebra descent", Error::new(ErrorKind::TooLarge, "K(S,2) of dimension above 64"), &mut r, &mut notes).unwrap();
+        assert!(!r.budget_exhausted);
+        assert_eq!(notes.len(), 1);
+        assert_eq!(notes[0].standing, Standing::Unfinished);
+        assert!(notes[0].claim.starts_with("the algebra descent did not finish") && notes[0].claim.contains("dimension above 64"));
+    }
 }

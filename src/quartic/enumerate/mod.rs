@@ -114,6 +114,16 @@ impl SearchOptions {
         self
     }
     crate::budget::deadline_and_cancel_setters!();
+    /// The default options held to the deadline and cancel flag of `work`.
+    ///
+    /// ```
+    /// use twofold::{quartic::SearchOptions, Work};
+    /// let o = SearchOptions::within(&Work::unlimited());
+    /// assert!(o.deadline.is_none() && o.cancel.is_none() && o.include_negative_definite);
+    /// ```
+    pub fn within(work: &crate::budget::Work) -> SearchOptions {
+        SearchOptions { deadline: work.deadline(), cancel: work.cancel_flag().cloned(), ..SearchOptions::default() }
+    }
 }
 
 impl Default for SearchOptions {
