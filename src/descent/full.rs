@@ -127,6 +127,7 @@ pub(crate) fn full_two_descent(
     options: &RankOptions,
     work: &Work,
     enough: Option<usize>,
+    parity_floor: Option<usize>,
 ) -> Result<FullDescent, Error> {
     work.report(Stage::Solubility, "enumerating quartic 2-coverings");
     let i = curve.c4().clone();
@@ -162,6 +163,11 @@ pub(crate) fn full_two_descent(
     work.report(Stage::Search, "searching the curve and its quartic coverings");
     add_curve_points(curve, options, work, &mut span, &mut out)?;
     lift_coverings(curve, &mut distinct, options, work, enough, &mut span, &mut out)?;
+    if !complete {
+        // no complete list of coverings to search: the points must come
+        // from the curve itself, at rising heights
+        raise_curve_search(curve, options, work, enough.or(parity_floor), &mut span, &mut out)?;
+    }
     finish(distinct, &span, out)
 }
 
@@ -314,6 +320,42 @@ fn add_curve_points(curve: &Curve, options: &RankOptions, work: &Work, span: &mu
     Ok(())
 }
 
+/// The highest height the direct search on the curve is raised to when the
+/// coverings are not available: `curve_search_height` times the square of
+/// the covering ladder's ratio `search_height_ceiling / search_height` (a
+/// point of height `h` on a 2-covering gives one of height about `h^2` on
+/// the curve), at most `2^31`. With one fixed covering height (no covering
+/// ladder) the curve is not searched beyond `curve_search_height` either.
+fn curve_search_ceiling(options: &RankOptions) -> u64 {
+    let ratio = options.search_height_ceiling / options.search_height.max(1);
+    options.curve_search_height.saturating_mul(ratio.saturating_mul(ratio)).min(1 << 31)
+}
+
+/// The direct search on the curve, raised step by step (doubling from
+/// `curve_search_height` up to [`curve_search_ceiling`]) while the span of
+/// the points found stays below `goal` (the rank proven by another route,
+/// or the least rank the root number allows by parity) and the work has
+/// time. Run when the enumeration gave no complete list of coverings, so
+/// that the covering ladder had nothing to raise: without it a curve whose
+/// generator lies just above `curve_search_height` kept the lower bound 0.
+fn raise_curve_search(curve: &Curve, options: &RankOptions, work: &Work, goal: Option<usize>, span: &mut ClassSpan, out: &mut FullDescent) -> Result<(), Error> {
+    let Some(goal) = goal else { return Ok(()) };
+    let ceiling = curve_search_ceiling(options);
+    let mut height = options.curve_search_height;
+    while span.dim() - out.two_torsion_dim < goal && height < ceiling && !work.exhausted() {
+        height = height.saturating_mul(2).min(ceiling);
+        let found = search_curve(curve, &SearchLimits::within(work, height));
+        out.search_complete &= found.complete;
+        for (x, y) in found.points {
+            if span.dim() - out.two_torsion_dim >= goal {
+                break;
+            }
+            add_point(curve, Point::Affine(x, y), span, out)?;
+        }
+    }
+    Ok(())
+}
+
 /// Points on the coverings not yet explained, at heights raised step by
 /// step (doubling from `search_height` up to `search_height_ceiling`) while
 /// the bounds do not meet and the work has time; a rank proven by another
@@ -418,5 +460,5 @@ pub fn full_descent(curve: &Curve, options: &RankOptions) -> Result<FullDescent,
     let work = Work::new(options);
     let data = crate::local::CurveData::new(curve, &work)?;
     let torsion = TorsionGroup::compute(data.minimal(), data.bad_primes());
-    full_two_descent(data.minimal(), &torsion, data.bad_primes(), options, &work, None)
+    full_two_descent(data.minimal(), &torsion, data.bad_primes(), options, &work, None, None)
 }

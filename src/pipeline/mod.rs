@@ -284,25 +284,28 @@ fn quartic_route(
     report: &mut RankReport,
 ) -> Result<FullDescent, Error> {
     use malachite::base::num::arithmetic::traits::UnsignedAbs;
+    // root number -1 proven: the rank is odd, so at least 1, by the parity
+    // conjecture (only a reason to keep searching, never a claim)
+    let floor = report.analytic.as_ref().and_then(|a| a.root_number).filter(|w| *w == -1).map(|_| 1);
     if minimal.c4().unsigned_abs() < ISOGENY_SHORTCUT_C4 {
-        return full_two_descent(minimal, torsion, primes, options, work, enough);
+        return full_two_descent(minimal, torsion, primes, options, work, enough, floor);
     }
     work.report(Stage::IsogenyClass, "odd-degree isogeny class");
     let class = match crate::isogeny::odd_isogeny_class_within(minimal, primes, work) {
         Ok(c) => c,
         // cut short: the descent on the curve itself, which stops at once
         // on the spent budget and reports no upper bound
-        Err(e) if *e.kind() == crate::ErrorKind::Budget => return full_two_descent(minimal, torsion, primes, options, work, enough),
+        Err(e) if *e.kind() == crate::ErrorKind::Budget => return full_two_descent(minimal, torsion, primes, options, work, enough, floor),
         Err(e) => return Err(e),
     };
     let best = class.smallest_c4();
     if best == 0 || class.curves[best].c4().unsigned_abs() * Natural::from(2u32) > minimal.c4().unsigned_abs() {
-        return full_two_descent(minimal, torsion, primes, options, work, enough);
+        return full_two_descent(minimal, torsion, primes, options, work, enough, floor);
     }
     let other = &class.curves[best];
     let degree = class.degree(0, best).unwrap_or(0);
     let other_torsion = TorsionGroup::compute(other, primes);
-    let mut f = full_two_descent(other, &other_torsion, primes, options, work, enough)?;
+    let mut f = full_two_descent(other, &other_torsion, primes, options, work, enough, floor)?;
     let mut mapped = Vec::new();
     for p in &f.points {
         match class.map_point(best, 0, p) {
