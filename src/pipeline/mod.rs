@@ -512,10 +512,11 @@ fn cubic_algebra_first(minimal: &Curve) -> bool {
 /// becomes the goal of the point searches (where the enumeration is refused
 /// or cut short they then raise the direct search on the curve towards it).
 /// The goal only tells the searches when to stop, it is never a claim.
+/// With `cross_check_routes` the enumeration is never skipped.
 fn plan_enumeration(options: &RankOptions, enough: Option<usize>, algebra: Option<&AlgebraDescent>) -> (RankOptions, Option<usize>) {
     let Some(a) = algebra.filter(|a| !a.conditional_on_grh) else { return (options.clone(), enough) };
     let mut o = options.clone();
-    if a.upper == 0 {
+    if a.upper == 0 && !options.cross_check_routes {
         o.max_quartic_candidates = 0;
     }
     (o, Some(enough.map_or(a.upper, |e| e.min(a.upper))))
