@@ -506,17 +506,20 @@ fn cubic_algebra_first(minimal: &Curve) -> bool {
 }
 
 /// The options and the search goal of the quartic route once the algebra
-/// route may have run: with an unconditional `Sel^2(E)` of bound 0 the
-/// enumeration is skipped (a candidate limit of 0 refuses it at once; the
-/// short search on the curve still runs), and any unconditional bound
-/// becomes the goal of the point searches (where the enumeration is refused
-/// or cut short they then raise the direct search on the curve towards it).
-/// The goal only tells the searches when to stop, it is never a claim.
-/// With `cross_check_routes` the enumeration is never skipped.
+/// route may have run: with an unconditional `Sel^2(E)` of bound 0 and the
+/// rank 0 also proven by the analytic route the enumeration is skipped (a
+/// candidate limit of 0 refuses it at once; the short search on the curve
+/// still runs). The certificate records the enumeration's classes but not
+/// yet the algebra route, so without the analytic proof the enumeration
+/// still runs to back the bound there. Any unconditional bound becomes the
+/// goal of the point searches (where the enumeration is refused or cut
+/// short they then raise the direct search on the curve towards it). The
+/// goal only tells the searches when to stop, it is never a claim. With
+/// `cross_check_routes` the enumeration is never skipped.
 fn plan_enumeration(options: &RankOptions, enough: Option<usize>, algebra: Option<&AlgebraDescent>) -> (RankOptions, Option<usize>) {
     let Some(a) = algebra.filter(|a| !a.conditional_on_grh) else { return (options.clone(), enough) };
     let mut o = options.clone();
-    if a.upper == 0 && !options.cross_check_routes {
+    if a.upper == 0 && enough == Some(0) && !options.cross_check_routes {
         o.max_quartic_candidates = 0;
     }
     (o, Some(enough.map_or(a.upper, |e| e.min(a.upper))))
