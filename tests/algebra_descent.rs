@@ -447,3 +447,22 @@ fn cubic_fields_of_even_class_number() {
     }
     assert_eq!(found, 4, "too few cubic fields of even class number (the first must be x^3 + 1234x + 56789)");
 }
+
+/// The plan by cost through the pipeline: two rank-2 rows of
+/// curves-wider.tsv (published table) whose quartic enumeration is refused
+/// as too large get Sel^2 from the cubic algebra, run first, and the rank 2
+/// proven (the point searches raised towards the algebra's bound); the
+/// published rank is the check.
+#[test]
+fn the_plan_runs_the_cubic_algebra_first() {
+    let rows = common::read_table("curves-wider.tsv");
+    for c in [[1, -1, 1, -1171805, -641179803], [0, 0, 1, -65988, 6920795]] {
+        let row = rows.iter().find(|r| r.coefficients == c).expect("a row of curves-wider.tsv");
+        let e = Curve::from_coefficients(c).unwrap();
+        let rep = analyse(&e, &RankOptions::default().with_time_limit(std::time::Duration::from_secs(60))).unwrap();
+        assert!(rep.algebra_descent.is_some(), "{c:?}: no algebra descent");
+        assert_eq!(rep.two_selmer_dim, Some(2), "{c:?}");
+        assert_eq!(rep.rank_upper, Some(row.rank), "{c:?}: the bound");
+        assert_eq!(rep.rank(), Some(row.rank), "{c:?}: the rank");
+    }
+}
