@@ -243,19 +243,6 @@ fn two_torsion_roots(e: &Curve) -> Vec<malachite::Rational> {
     t.two_torsion().iter().filter_map(twofold::descent::algebra::big_x).collect()
 }
 
-/// The images `(X - e1, X - e2)` of the abscissa `x` in `(Q*/Q*^2)^2`, with
-/// the usual correction at the roots (Silverman AEC X.1.4).
-fn pair_image(x: &malachite::Rational, e: &[malachite::Rational; 3]) -> (malachite::Rational, malachite::Rational) {
-    let d = |i: usize, j: usize| &e[i] - &e[j];
-    if *x == e[0] {
-        (d(0, 1) * d(0, 2), d(0, 1))
-    } else if *x == e[1] {
-        (d(1, 0), d(1, 0) * d(1, 2))
-    } else {
-        (x - &e[0], x - &e[1])
-    }
-}
-
 /// Whether the F2 vector `v` lies in the span of `gens` (bit vectors).
 fn in_span(v: u64, gens: &[u64]) -> bool {
     let mut basis: Vec<u64> = Vec::new();
@@ -330,7 +317,7 @@ fn the_selmer_group_is_a_group() {
             d.local_images.iter().all(|li| {
                 let w = class_width(&li.place);
                 let class = |p: &(Rational, Rational)| rational_class(&p.0, &li.place).unwrap() | rational_class(&p.1, &li.place).unwrap() << w;
-                let gens: Vec<u64> = li.witnesses.iter().chain(roots.iter()).map(|x| class(&pair_image(x, &ee))).collect();
+                let gens: Vec<u64> = li.witnesses.iter().chain(roots.iter()).map(|x| class(&twofold::descent::algebra::image_pair(x, &ee))).collect();
                 // the third coordinate is fixed by the first two (square norm)
                 elements.iter().all(|(a1, a2, _)| in_span(class(&(a1.clone(), a2.clone())), &gens))
             })
