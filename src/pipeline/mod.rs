@@ -179,23 +179,26 @@ fn descents(
     let settled = runs.iter().any(|r| r.upper == Some(r.lower))
         || (runs.iter().filter_map(|r| r.upper).min() == runs.iter().map(|r| r.lower).max());
     let settled = settled && !runs.is_empty();
+    // planned by cost: without rational 2-torsion and with an expensive
+    // enumeration, the cubic algebra runs first (see `cubic_algebra_first`)
+    let first = twos.is_empty() && !work.exhausted() && cubic_algebra_first(minimal);
+    let mut algebra = if first { algebra_route(minimal, torsion, primes, work, report, unfinished)? } else { None };
+    let (quartic_options, goal) = plan_enumeration(options, enough, algebra.as_ref());
     let full: Option<FullDescent> = if work.exhausted() {
         report.budget_exhausted = true;
         None
     } else if settled && !options.cross_check_routes {
         None
     } else {
-        Some(quartic_route(minimal, torsion, primes, options, work, enough, report).map_err(|e| e.in_stage("the quartic descent"))?)
+        Some(quartic_route(minimal, torsion, primes, &quartic_options, work, goal, report).map_err(|e| e.in_stage("the quartic descent"))?)
     };
     // the descent over Q[X]/(f): Sel^2(E) beside the isogeny Selmer groups
     // (for rational 2-torsion: A = Q x Q x Q or Q x K), and for the cubic
     // algebra where the quartic enumeration gave no Sel^2
     let quartic_done = full.as_ref().is_some_and(|f| f.selmer_dim.is_some());
-    let algebra = if work.exhausted() || (twos.is_empty() && quartic_done) {
-        None
-    } else {
-        algebra_route(minimal, torsion, primes, work, report, unfinished)?
-    };
+    if !first && !work.exhausted() && !(twos.is_empty() && quartic_done) {
+        algebra = algebra_route(minimal, torsion, primes, work, report, unfinished)?;
+    }
     combine(report, data, &runs, full.as_ref())?;
     if let Some(a) = &algebra {
         combine_algebra(report, &runs, full.as_ref(), a)?;
@@ -483,6 +486,43 @@ fn settle_isogeny_sha(report: &mut RankReport) -> Result<(), Error> {
     }
     report.isogeny_sha_dims = dims;
     Ok(())
+}
+
+/// Curves without rational 2-torsion whose `|c4|` reaches this run the
+/// cubic algebra route before the quartic enumeration. The enumeration
+/// costs about `|c4|^{3/2}` candidates: measured with the example `rank`
+/// (wall time at load 6) on curves-wider.tsv rows, 0.27 s at `|c4|` =
+/// 1.2e5, 0.8 s at 2e5, 3-4 s at 6e5 to 9e5, 8.7 s at 1.5e6; `Sel^2(E)`
+/// over the cubic field takes 50-600 ms at these sizes, about constant.
+/// Below the threshold the enumeration alone is cheaper.
+const CUBIC_FIRST_C4: u64 = 100_000;
+
+/// Whether the cubic algebra route runs before the quartic enumeration
+/// (the curve must have no rational 2-torsion): when `|c4|` reaches
+/// [`CUBIC_FIRST_C4`].
+fn cubic_algebra_first(minimal: &Curve) -> bool {
+    use malachite::base::num::arithmetic::traits::UnsignedAbs;
+    minimal.c4().unsigned_abs() >= Natural::from(CUBIC_FIRST_C4)
+}
+
+/// The options and the search goal of the quartic route once the algebra
+/// route may have run: with an unconditional `Sel^2(E)` of bound 0 and the
+/// rank 0 also proven by the analytic route the enumeration is skipped (a
+/// candidate limit of 0 refuses it at once; the short search on the curve
+/// still runs). The certificate records the enumeration's classes but not
+/// yet the algebra route, so without the analytic proof the enumeration
+/// still runs to back the bound there. Any unconditional bound becomes the
+/// goal of the point searches (where the enumeration is refused or cut
+/// short they then raise the direct search on the curve towards it). The
+/// goal only tells the searches when to stop, it is never a claim. With
+/// `cross_check_routes` the enumeration is never skipped.
+fn plan_enumeration(options: &RankOptions, enough: Option<usize>, algebra: Option<&AlgebraDescent>) -> (RankOptions, Option<usize>) {
+    let Some(a) = algebra.filter(|a| !a.conditional_on_grh) else { return (options.clone(), enough) };
+    let mut o = options.clone();
+    if a.upper == 0 && enough == Some(0) && !options.cross_check_routes {
+        o.max_quartic_candidates = 0;
+    }
+    (o, Some(enough.map_or(a.upper, |e| e.min(a.upper))))
 }
 
 /// The descent over the algebra `Q[X]/(f)` (see [`crate::descent::algebra`]);

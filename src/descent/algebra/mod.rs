@@ -48,6 +48,8 @@ mod quadratic;
 mod roots;
 mod selmer;
 
+pub use selmer::image_pair;
+
 use crate::budget::Work;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};

@@ -14,7 +14,15 @@ use malachite::{Integer, Natural, Rational};
 /// The two coordinates `(X - e1, X - e2)` of the image of the point with
 /// abscissa `x` in `(Q*/Q*^2)^2` (the third is their product), with the
 /// correction at `x = e1` and `x = e2`.
-fn image_pair(x: &Rational, e: &[Rational; 3]) -> (Rational, Rational) {
+///
+/// ```
+/// use malachite::Rational;
+/// use twofold::descent::algebra::image_pair;
+/// let e = [Rational::from(-24), Rational::from(0), Rational::from(24)];
+/// // X = 4x on y^2 = x^3 - 36x: the point (-3, 9) has X = -12
+/// assert_eq!(image_pair(&Rational::from(-12), &e), (Rational::from(12), Rational::from(-12)));
+/// ```
+pub fn image_pair(x: &Rational, e: &[Rational; 3]) -> (Rational, Rational) {
     let d = |i: usize, j: usize| &e[i] - &e[j];
     if *x == e[0] {
         (d(0, 1) * d(0, 2), d(0, 1))
