@@ -35,7 +35,7 @@
 //!   (Neumaier) summation.
 //!
 //! For values that are proofs (interval arithmetic, every rounding
-//! directed, conductors up to `10^13`) see [`crate::lproof`]; this module
+//! directed, conductors up to `10^14`) see [`crate::lproof`]; this module
 //! stays the fast path for the evidence and for orders 2 and 3.
 //!
 //! The bound is "rigorous-ish": it follows the operations in `f64` with the

@@ -127,6 +127,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     }
     note_conditional_bound(&mut report);
     cross_check_analytic(&report)?;
+    root_number_by_parity(&mut report, data)?;
     settle_sha2(&mut report)?;
     settle_isogeny_sha(&mut report)?;
     if options.certificate {
@@ -760,6 +761,61 @@ fn cross_check_analytic(report: &RankReport) -> Result<(), Error> {
         }
     }
     Ok(())
+}
+
+/// The root number from the parity of an unconditional `Sel^2(E)`
+/// (Monsky 1996; see [`crate::rootno::root_number_by_selmer_parity`]),
+/// after the descents. It must agree with the root numbers of the analytic
+/// route and of the evidence (local formulas, functional equation, twist):
+/// a clash is an internal inconsistency. Where the evidence has no root
+/// number (a wild curve at 2 or 3 beyond the numerical test's reach) it
+/// becomes the report's, with a proven statement naming the route.
+fn root_number_by_parity(report: &mut RankReport, data: &CurveData) -> Result<(), Error> {
+    let Some(s) = report.two_selmer_dim else { return Ok(()) };
+    let t = report.torsion.iter().filter(|n| *n % 2 == 0).count();
+    let rn = crate::rootno::root_number_by_selmer_parity(data, s, t).map_err(|e| match e.kind() {
+        crate::ErrorKind::Internal => e.in_stage("the root number by 2-Selmer parity"),
+        _ => Error::internal("the root number by 2-Selmer parity", e.to_string()),
+    })?;
+    let w = rn.global;
+    let clash = |other: i8, route: &str| {
+        Error::internal(
+            "the root number",
+            format!("{route} gives w = {other}, but dim Sel^2(E) - dim E(Q)[2] = {} gives w = {w} (Monsky 1996)", s - t),
+        )
+    };
+    if let Some(w1) = report.analytic.as_ref().and_then(|a| a.root_number).filter(|w1| *w1 != w) {
+        return Err(clash(w1, "the functional-equation test of the analytic route"));
+    }
+    let Some(ev) = report.evidence.as_mut() else { return Ok(()) };
+    match ev.root_number {
+        Some(w2) if w2 != w => return Err(clash(w2, "the root-number stage of the evidence")),
+        // the evidence already states the agreement with Monsky's theorem
+        Some(_) => {}
+        None => {
+            ev.root_number = Some(w);
+            let locals = match (rn.local.iter().find(|(p, _)| deduced_at(&rn, p)), rn.joint.is_empty()) {
+                (Some((p, wp)), _) => format!("; so the local root number at {p}, which no local formula here covers, is {wp}"),
+                (None, false) => "; the local root numbers at 2 and 3 are known only through their product".to_string(),
+                (None, true) => String::new(),
+            };
+            ev.statements.push(Statement {
+                claim: format!(
+                    "the root number is {w} (by 2-Selmer parity, Monsky 1996: w = (-1)^(dim Sel^2(E) - dim E(Q)[2]) = (-1)^{}, \
+                     as the finite part of Sha[2^oo] has square order by the Cassels-Tate pairing, Poonen-Stoll 1999; \
+                     modularity: Wiles 1995, Breuil-Conrad-Diamond-Taylor 2001{locals})",
+                    s - t
+                ),
+                standing: Standing::Proven,
+            });
+        }
+    }
+    Ok(())
+}
+
+/// Whether the local root number at `p` in `rn` was deduced from the global one.
+fn deduced_at(rn: &crate::rootno::RootNumber, p: &Natural) -> bool {
+    matches!(&rn.method, crate::rootno::RootNumberMethod::SelmerParity { deduced } if deduced.contains(p))
 }
 
 /// Analytic rank one proven but no point found by the descent's search: the

@@ -80,6 +80,7 @@
 //! product.
 
 mod numeric;
+mod parity;
 mod transfer;
 
 use crate::arith::{factor, hilbert_symbol_integers, kronecker, FactorLimits, Place};
@@ -91,6 +92,7 @@ use malachite::base::num::basic::traits::One;
 use malachite::{Integer, Natural};
 
 pub use numeric::{NUMERIC_CHECK_CONDUCTOR, NUMERIC_MAX_CONDUCTOR, NUMERIC_REACH_CONDUCTOR};
+pub use parity::root_number_by_selmer_parity;
 
 /// How the global root number in a [`RootNumber`] was decided.
 ///
@@ -136,6 +138,15 @@ pub enum RootNumberMethod {
         /// well (and agreed).
         cross_checked: bool,
         /// The primes whose local root number was deduced.
+        #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+        deduced: Vec<Natural>,
+    },
+    /// The parity of an unconditionally computed 2-Selmer group decided the
+    /// global sign: `w = (-1)^(dim Sel^2(E) - dim E(Q)[2])` (Monsky 1996,
+    /// see [`root_number_by_selmer_parity`]). `deduced` is as in
+    /// [`RootNumberMethod::Numerical`].
+    SelmerParity {
+        /// The primes whose local root number was deduced from the global one.
         #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
         deduced: Vec<Natural>,
     },

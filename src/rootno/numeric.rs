@@ -44,7 +44,9 @@ pub(crate) enum Verdict {
 /// The largest conductor for which the test is run, when the local
 /// formulas and the auxiliary twists leave the sign open, for a caller
 /// whose limits carry a deadline (the test then runs until the sign is
-/// proven or the deadline ends it: tens of seconds at `10^12`); callers
+/// proven or the deadline ends it: tens of seconds at `10^12`, about a
+/// minute and a half at `10^13` and five minutes at `10^14` on a loaded
+/// machine, see [`crate::lproof::PROOF_MAX_CONDUCTOR`]); callers
 /// without a deadline stop at [`NUMERIC_MAX_CONDUCTOR`].
 ///
 /// ```
