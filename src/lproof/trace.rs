@@ -270,30 +270,6 @@ impl MCurve {
         Proj { x: self.mul(v, a), y: self.sub(self.mul(u, self.sub(r, a)), self.mul(vvv, p.y)), z: self.mul(vvv, p.z) }
     }
 
-    /// `p + q` (both projective).
-    fn add_proj(&self, p: Proj, q: Proj) -> Proj {
-        if p.z == 0 {
-            return q;
-        }
-        if q.z == 0 {
-            return p;
-        }
-        let y1z2 = self.mul(p.y, q.z);
-        let x1z2 = self.mul(p.x, q.z);
-        let z1z2 = self.mul(p.z, q.z);
-        let u = self.sub(self.mul(q.y, p.z), y1z2);
-        let v = self.sub(self.mul(q.x, p.z), x1z2);
-        if v == 0 {
-            return if u == 0 { self.double(p) } else { self.zero() };
-        }
-        let uu = self.mul(u, u);
-        let vv = self.mul(v, v);
-        let vvv = self.mul(v, vv);
-        let r = self.mul(vv, x1z2);
-        let a = self.sub(self.sub(self.mul(uu, z1z2), vvv), self.add(r, r));
-        Proj { x: self.mul(v, a), y: self.sub(self.mul(u, self.sub(r, a)), self.mul(vvv, y1z2)), z: self.mul(vvv, z1z2) }
-    }
-
     /// `k (x, y)` for an affine point, left to right.
     fn scalar_affine(&self, x: u64, y: u64, k: u64) -> Proj {
         let mut r = self.zero();
@@ -305,21 +281,6 @@ impl MCurve {
             r = self.double(r);
             if (k >> i) & 1 == 1 {
                 r = self.add_affine(r, x, y);
-            }
-        }
-        r
-    }
-
-    fn scalar(&self, p: Proj, k: u64) -> Proj {
-        let mut r = self.zero();
-        if k == 0 {
-            return r;
-        }
-        let bits = 64 - k.leading_zeros();
-        for i in (0..bits).rev() {
-            r = self.double(r);
-            if (k >> i) & 1 == 1 {
-                r = self.add_proj(r, p);
             }
         }
         r
@@ -455,7 +416,6 @@ impl Bsgs {
             let c = MCurve { m: mont, a: mont.to_mont(a * v2 % p) };
             let (px, py) = (mont.to_mont(v * x0 % p), mont.to_mont(v2));
             // baby steps j P (j = 1..=m), then G = (2m + 1) P = 2 (m P) + P
-            // and the first giant point Q - kmax G with Q = (p + 1) P
             self.points.clear();
             let mut r = Proj { x: px, y: py, z: mont.one };
             self.points.push(r);
@@ -470,10 +430,7 @@ impl Bsgs {
             if g.z == 0 {
                 continue;
             }
-            let q = c.scalar_affine(px, py, p + 1);
-            let t0 = c.add_proj(q, c.neg(c.scalar(g, kmax)));
             self.points.push(g);
-            self.points.push(t0);
             self.normalize(&c, 0);
             // Distinct x and y != 0 among jP (1 <= j <= m) exclude
             // (j ± j')P = O and 2jP = O, so the order of P exceeds 2m: then
@@ -484,9 +441,25 @@ impl Bsgs {
                 continue;
             }
             let (gx, gy) = (self.points[m as usize].x, self.points[m as usize].y);
-            // T_k = Q - k G for k = kmax down to -kmax
-            let mut t = self.points[m as usize + 1];
             self.points.truncate(m as usize);
+            // the first giant point Q - kmax G with Q = (p + 1) P written as
+            // u G + rem P (0 <= rem < stride): (u - kmax) G from the affine G,
+            // then rem P from the table (rem P = G - (stride - rem) P when
+            // rem > m), which saves the doublings of a multiplication by p + 1
+            let (u, rem) = ((p + 1) / stride, (p + 1) % stride);
+            let mut t = if u >= kmax {
+                c.scalar_affine(gx, gy, u - kmax)
+            } else {
+                c.neg(c.scalar_affine(gx, gy, kmax - u))
+            };
+            if rem >= 1 && rem <= m {
+                let q = self.points[rem as usize - 1];
+                t = c.add_affine(t, q.x, q.y);
+            } else if rem > m {
+                let q = self.points[(stride - rem) as usize - 1];
+                t = c.add_affine(c.add_affine(t, gx, gy), q.x, mont.sub(0, q.y));
+            }
+            // T_k = Q - k G for k = kmax down to -kmax
             for _ in 0..(2 * kmax + 1) {
                 self.points.push(t);
                 t = c.add_affine(t, gx, gy);
