@@ -90,8 +90,8 @@ pub struct RankOptions {
     /// route finds nothing. Default `true`.
     pub heegner_route: bool,
     /// The most time the Heegner route may take on one curve (within the
-    /// curve's own limit, if any; at most half of the time left). Default
-    /// 10 s.
+    /// curve's own limit, if any; at most three quarters of the time left).
+    /// Default 20 s.
     pub heegner_time_limit: Duration,
     /// Also compute the evidence beyond the rank bounds (root number,
     /// heights and saturation, real period, L-values, the Birch and
@@ -139,7 +139,7 @@ impl Default for RankOptions {
             analytic_route: true,
             analytic_max_conductor: 10_000_000_000,
             heegner_route: true,
-            heegner_time_limit: Duration::from_secs(10),
+            heegner_time_limit: Duration::from_secs(20),
             evidence: true,
             certificate: false,
             known_primes: None,

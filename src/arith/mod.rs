@@ -9,7 +9,6 @@ mod word;
 mod symbols;
 mod primality;
 mod mont;
-pub(crate) use mont::Mont64;
 mod factor;
 mod siqs;
 mod sqrt;

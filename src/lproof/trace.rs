@@ -19,7 +19,7 @@
 //! single candidate; if 64 points do not, the exact `O(p)` count is used.
 
 use crate::curve::PointCounter;
-use malachite::base::num::arithmetic::traits::Mod;
+use malachite::base::num::arithmetic::traits::UnsignedAbs;
 use malachite::Integer;
 
 /// Below this prime the `O(p)` count of [`PointCounter`] is faster
@@ -31,24 +31,48 @@ pub(crate) const BSGS_FROM: u64 = 600;
 /// baby-step giant-step above.
 pub(crate) struct TraceOracle {
     naive: PointCounter,
-    a: Integer,
-    b: Integer,
+    a: Limbs,
+    b: Limbs,
     work: Bsgs,
     /// How many primes fell back to the exact count (for tests).
     pub(crate) fallbacks: u64,
 }
 
-fn residue(n: &Integer, p: u64) -> u64 {
-    let r: Integer = n.mod_op(Integer::from(p));
-    // invariant: a residue mod p < 2^64 is in [0, p) and fits a u64
-    u64::try_from(&r).expect("residue fits a word")
+/// An integer as a sign and its 64-bit limbs (least significant first), so
+/// that its residue modulo a word is taken without allocating.
+struct Limbs {
+    negative: bool,
+    limbs: Vec<u64>,
+}
+
+impl Limbs {
+    fn new(n: &Integer) -> Limbs {
+        Limbs { negative: *n < 0, limbs: n.unsigned_abs().to_limbs_asc() }
+    }
+
+    /// The residue in `[0, p)` for `p >= 1`, by a Horner pass over the limbs
+    /// in `u128` (no allocation).
+    fn residue(&self, p: u64) -> u64 {
+        let m = u128::from(p);
+        let mut r = 0u128;
+        for &w in self.limbs.iter().rev() {
+            r = ((r << 64) | u128::from(w)) % m;
+        }
+        // invariant: r < p, a word
+        let r = r as u64;
+        if self.negative && r != 0 {
+            p - r
+        } else {
+            r
+        }
+    }
 }
 
 impl TraceOracle {
     pub(crate) fn new(curve: &crate::Curve) -> TraceOracle {
         let a = Integer::from(-27) * curve.c4();
         let b = Integer::from(-54) * curve.c6();
-        TraceOracle { naive: PointCounter::new(curve), a, b, work: Bsgs::default(), fallbacks: 0 }
+        TraceOracle { naive: PointCounter::new(curve), a: Limbs::new(&a), b: Limbs::new(&b), work: Bsgs::default(), fallbacks: 0 }
     }
 
     /// `a_p` for a prime `p < 2^32` of good reduction.
@@ -56,7 +80,7 @@ impl TraceOracle {
         if p < BSGS_FROM {
             return self.naive.trace(p);
         }
-        let (a, b) = (residue(&self.a, p), residue(&self.b, p));
+        let (a, b) = (self.a.residue(p), self.b.residue(p));
         match self.work.trace(a, b, p) {
             Some(t) => t,
             None => {
@@ -69,23 +93,77 @@ impl TraceOracle {
     /// `a_p` by baby-step giant-step only (`None` if undecided), for tests.
     #[cfg(test)]
     pub(crate) fn trace_bsgs(&mut self, p: u64) -> Option<i64> {
-        let (a, b) = (residue(&self.a, p), residue(&self.b, p));
+        let (a, b) = (self.a.residue(p), self.b.residue(p));
         self.work.trace(a, b, p)
     }
 }
 
-#[inline]
-fn mulm(a: u64, b: u64, p: u64) -> u64 {
-    a * b % p
+/// Montgomery arithmetic modulo an odd `p < 2^32` with `R = 2^32`: every
+/// product fits a `u64`, no `u128` and no division in the hot loop.
+#[derive(Clone, Copy)]
+struct Mont32 {
+    p: u64,
+    /// `p^{-1} mod 2^32`.
+    pinv: u32,
+    /// `R mod p` (the Montgomery form of 1).
+    one: u64,
+    /// `R^2 mod p`.
+    r2: u64,
 }
 
-#[inline]
-fn addm(a: u64, b: u64, p: u64) -> u64 {
-    let s = a + b;
-    if s >= p {
-        s - p
-    } else {
-        s
+impl Mont32 {
+    fn new(p: u64) -> Mont32 {
+        debug_assert!(p % 2 == 1 && p < 1 << 32);
+        let p32 = p as u32;
+        // Newton's iteration for the inverse modulo 2^32 (p p = 1 mod 8)
+        let mut inv = p32;
+        for _ in 0..4 {
+            inv = inv.wrapping_mul(2u32.wrapping_sub(p32.wrapping_mul(inv)));
+        }
+        let one = (1u64 << 32) % p;
+        Mont32 { p, pinv: inv, one, r2: one * one % p }
+    }
+
+    /// `u v R^{-1} mod p` for `u, v < p`.
+    #[inline(always)]
+    fn mul(&self, u: u64, v: u64) -> u64 {
+        let t = u * v;
+        let m = u64::from((t as u32).wrapping_mul(self.pinv));
+        // t - m p is divisible by 2^32: the low halves agree
+        let (hi, mp) = (t >> 32, (m * self.p) >> 32);
+        if hi >= mp {
+            hi - mp
+        } else {
+            hi + self.p - mp
+        }
+    }
+    #[inline(always)]
+    fn add(&self, u: u64, v: u64) -> u64 {
+        let s = u + v;
+        if s >= self.p {
+            s - self.p
+        } else {
+            s
+        }
+    }
+    #[inline(always)]
+    fn sub(&self, u: u64, v: u64) -> u64 {
+        if u >= v {
+            u - v
+        } else {
+            u + self.p - v
+        }
+    }
+    #[inline(always)]
+    fn to_mont(&self, x: u64) -> u64 {
+        self.mul(x, self.r2)
+    }
+    /// The inverse of a non-zero `x` in Montgomery form, in Montgomery form.
+    fn inv(&self, x: u64) -> u64 {
+        // x = y R; invm gives y^{-1} R^{-1}; two multiplications by R^2
+        // (each divides by R once more) give y^{-1} R
+        let r3 = self.mul(self.r2, self.r2);
+        self.mul(invm(x, self.p), r3)
     }
 }
 
@@ -109,7 +187,7 @@ fn invm(a: u64, p: u64) -> u64 {
 /// coordinates in Montgomery form modulo `p`; `Z = 0` is the point at
 /// infinity. Formulas: H. Cohen, A. Miyaji and T. Ono, "Efficient elliptic
 /// curve exponentiation using mixed coordinates", ASIACRYPT 1998.
-#[derive(Clone, Copy, Debug)]
+#[derive(Clone, Copy, Debug, Default)]
 struct Proj {
     x: u64,
     y: u64,
@@ -117,23 +195,27 @@ struct Proj {
 }
 
 struct MCurve {
-    m: crate::arith::Mont64,
+    m: Mont32,
     /// `a` in Montgomery form.
     a: u64,
 }
 
 impl MCurve {
-    #[inline]
+    #[inline(always)]
     fn mul(&self, u: u64, v: u64) -> u64 {
         self.m.mul(u, v)
     }
-    #[inline]
+    #[inline(always)]
     fn add(&self, u: u64, v: u64) -> u64 {
         self.m.add(u, v)
     }
-    #[inline]
+    #[inline(always)]
     fn sub(&self, u: u64, v: u64) -> u64 {
         self.m.sub(u, v)
+    }
+
+    fn zero(&self) -> Proj {
+        Proj { x: 0, y: self.m.one, z: 0 }
     }
 
     fn double(&self, p: Proj) -> Proj {
@@ -168,32 +250,29 @@ impl MCurve {
         Proj { x: x3, y: y3, z: z3 }
     }
 
-    /// `p + q` (both projective).
-    fn add_proj(&self, p: Proj, q: Proj) -> Proj {
+    /// `p + q` with `q` given by its affine coordinates `(x2, y2)`
+    /// (Z2 = 1: the products by Z2 of the projective sum drop out).
+    #[inline]
+    fn add_affine(&self, p: Proj, x2: u64, y2: u64) -> Proj {
         if p.z == 0 {
-            return q;
+            return Proj { x: x2, y: y2, z: self.m.one };
         }
-        if q.z == 0 {
-            return p;
-        }
-        let y1z2 = self.mul(p.y, q.z);
-        let x1z2 = self.mul(p.x, q.z);
-        let z1z2 = self.mul(p.z, q.z);
-        let u = self.sub(self.mul(q.y, p.z), y1z2);
-        let v = self.sub(self.mul(q.x, p.z), x1z2);
+        let u = self.sub(self.mul(y2, p.z), p.y);
+        let v = self.sub(self.mul(x2, p.z), p.x);
         if v == 0 {
-            return if u == 0 { self.double(p) } else { Proj { x: 0, y: self.m.one, z: 0 } };
+            return if u == 0 { self.double(p) } else { self.zero() };
         }
         let uu = self.mul(u, u);
         let vv = self.mul(v, v);
         let vvv = self.mul(v, vv);
-        let r = self.mul(vv, x1z2);
-        let a = self.sub(self.sub(self.mul(uu, z1z2), vvv), self.add(r, r));
-        Proj { x: self.mul(v, a), y: self.sub(self.mul(u, self.sub(r, a)), self.mul(vvv, y1z2)), z: self.mul(vvv, z1z2) }
+        let r = self.mul(vv, p.x);
+        let a = self.sub(self.sub(self.mul(uu, p.z), vvv), self.add(r, r));
+        Proj { x: self.mul(v, a), y: self.sub(self.mul(u, self.sub(r, a)), self.mul(vvv, p.y)), z: self.mul(vvv, p.z) }
     }
 
-    fn scalar(&self, p: Proj, k: u64) -> Proj {
-        let mut r = Proj { x: 0, y: self.m.one, z: 0 };
+    /// `k (x, y)` for an affine point, left to right.
+    fn scalar_affine(&self, x: u64, y: u64, k: u64) -> Proj {
+        let mut r = self.zero();
         if k == 0 {
             return r;
         }
@@ -201,7 +280,7 @@ impl MCurve {
         for i in (0..bits).rev() {
             r = self.double(r);
             if (k >> i) & 1 == 1 {
-                r = self.add_proj(r, p);
+                r = self.add_affine(r, x, y);
             }
         }
         r
@@ -215,10 +294,11 @@ impl MCurve {
 /// Reusable work space for the search (no allocation per prime once grown).
 #[derive(Default)]
 struct Bsgs {
-    baby: Vec<(u64, u32)>,
-    baby_y: Vec<u64>,
     points: Vec<Proj>,
     prefix: Vec<u64>,
+    /// Open-addressing table of the baby steps: `x` and `j` (0 = empty).
+    keys: Vec<u64>,
+    slots: Vec<u32>,
     found: Vec<i64>,
     cands: Vec<i64>,
 }
@@ -235,90 +315,156 @@ pub(super) fn isqrt(n: u64) -> u64 {
     r
 }
 
+/// The slot of `x` in a table of `2^bits` entries (Fibonacci hashing).
+#[inline(always)]
+fn slot_of(x: u64, bits: u32) -> usize {
+    (x.wrapping_mul(0x9e37_79b9_7f4a_7c15) >> (64 - bits)) as usize
+}
+
 impl Bsgs {
-    /// Replaces every point with `Z != 0` by its affine form `(x/z, y/z, 1)`
-    /// with one inversion (Montgomery's simultaneous inversion).
-    fn normalize(&mut self, c: &MCurve, r3: u64, p: u64) {
+    /// Replaces every point of `points[from..]` with `Z != 0` by its affine
+    /// form `(x/z, y/z, 1)` with one inversion (Montgomery's simultaneous
+    /// inversion).
+    fn normalize(&mut self, c: &MCurve, from: usize) {
         self.prefix.clear();
         let mut acc = c.m.one;
-        for q in &self.points {
+        for q in &self.points[from..] {
             self.prefix.push(acc);
             if q.z != 0 {
                 acc = c.mul(acc, q.z);
             }
         }
-        // acc = ∏ z (Montgomery form zR); its inverse in Montgomery form
-        let mut inv = c.mul(invm(acc, p), r3);
-        for i in (0..self.points.len()).rev() {
+        let mut inv = c.m.inv(acc);
+        for i in (from..self.points.len()).rev() {
             let q = self.points[i];
             if q.z == 0 {
                 continue;
             }
-            let zi = c.mul(inv, self.prefix[i]);
+            let zi = c.mul(inv, self.prefix[i - from]);
             inv = c.mul(inv, q.z);
             self.points[i] = Proj { x: c.mul(q.x, zi), y: c.mul(q.y, zi), z: c.m.one };
         }
     }
 
+    /// Enters the affine baby steps `points[..m]` (as `j = 1..=m`) into the
+    /// table; `false` if two share an `x` or one has `y = 0` (then the order
+    /// of the point is at most `2m`).
+    fn fill_table(&mut self, m: usize) -> bool {
+        let bits = (2 * m + 2).next_power_of_two().trailing_zeros().max(4);
+        let size = 1usize << bits;
+        self.keys.clear();
+        self.keys.resize(size, 0);
+        self.slots.clear();
+        self.slots.resize(size, 0);
+        for j in 0..m {
+            let q = self.points[j];
+            if q.y == 0 {
+                return false;
+            }
+            let mut s = slot_of(q.x, bits);
+            while self.slots[s] != 0 {
+                if self.keys[s] == q.x {
+                    return false;
+                }
+                s = (s + 1) & (size - 1);
+            }
+            self.keys[s] = q.x;
+            self.slots[s] = j as u32 + 1;
+        }
+        true
+    }
+
+    /// The `j` with `x(jP) = x`, if any.
+    #[inline]
+    fn lookup(&self, x: u64) -> Option<usize> {
+        let size = self.keys.len();
+        let bits = size.trailing_zeros();
+        let mut s = slot_of(x, bits);
+        loop {
+            let j = self.slots[s];
+            if j == 0 {
+                return None;
+            }
+            if self.keys[s] == x {
+                return Some(j as usize);
+            }
+            s = (s + 1) & (size - 1);
+        }
+    }
+
     /// `a_p` of `y^2 = x^3 + a x + b` over `F_p` (non-singular, `p >= 5`
-    /// odd), or `None` if 64 values of `x0` leave more than one candidate.
+    /// odd, `p < 2^32`), or `None` if 64 values of `x0` leave more than one
+    /// candidate.
     fn trace(&mut self, a: u64, b: u64, p: u64) -> Option<i64> {
+        if p >= 1 << 32 || p % 2 == 0 {
+            return None;
+        }
         let h = isqrt(4 * p) as i64; // |a_p| <= h (Hasse)
         let m = isqrt(h as u64) + 1;
         let stride = 2 * m + 1;
         let kmax = (h as u64 + m) / stride + 1;
-        let mont = crate::arith::Mont64::new(p);
-        let r2 = mont.to_mont(mont.one);
-        let r3 = mont.to_mont(r2);
+        let mont = Mont32::new(p);
         let mut have_cands = false;
         for x0 in 0..64u64.min(p) {
-            let v = addm(addm(mulm(mulm(x0, x0, p), x0, p), mulm(a, x0, p), p), b, p);
+            // values below p < 2^32: every product fits a word
+            let v = ((x0 * x0 % p * x0 + a * x0 % p) % p + b) % p;
             if v == 0 {
                 continue;
             }
             let chi: i64 = if crate::arith::jacobi_u64(v, p) == 1 { 1 } else { -1 };
-            let v2 = mulm(v, v, p);
-            let c = MCurve { m: mont, a: mont.to_mont(mulm(a, v2, p)) };
-            let one = mont.one;
-            let pt = Proj { x: mont.to_mont(mulm(v, x0, p)), y: mont.to_mont(v2), z: one };
-            // baby steps j P (j = 1..=m), then the giant steps, all projective
+            let v2 = v * v % p;
+            let c = MCurve { m: mont, a: mont.to_mont(a * v2 % p) };
+            let (px, py) = (mont.to_mont(v * x0 % p), mont.to_mont(v2));
+            // baby steps j P (j = 1..=m), then G = (2m + 1) P = 2 (m P) + P
             self.points.clear();
-            let mut r = pt;
+            let mut r = Proj { x: px, y: py, z: mont.one };
             self.points.push(r);
             for _ in 2..=m {
-                r = c.add_proj(r, pt);
+                r = c.add_affine(r, px, py);
                 self.points.push(r);
             }
             if self.points.iter().any(|q| q.z == 0) {
                 continue; // order at most m
             }
-            let q = c.scalar(pt, p + 1);
-            let g = c.scalar(pt, stride);
+            let g = c.add_affine(c.double(r), px, py);
             if g.z == 0 {
                 continue;
             }
-            // T_k = Q - k G for k = kmax down to -kmax
-            let mut t = c.add_proj(q, c.neg(c.scalar(g, kmax)));
-            for _ in 0..(2 * kmax + 1) {
-                self.points.push(t);
-                t = c.add_proj(t, g);
-            }
-            self.normalize(&c, r3, p);
-            self.baby.clear();
-            self.baby_y.clear();
-            for (j, q) in self.points[..m as usize].iter().enumerate() {
-                self.baby.push((q.x, j as u32 + 1));
-                self.baby_y.push(q.y);
-            }
-            self.baby.sort_unstable();
+            self.points.push(g);
+            self.normalize(&c, 0);
             // Distinct x and y != 0 among jP (1 <= j <= m) exclude
             // (j ± j')P = O and 2jP = O, so the order of P exceeds 2m: then
             // each window k·stride + [-m, m] holds at most one valid b, and
             // the matches below list every b. (Without the y check an order
             // of exactly 2m slipped through and gave a wrong unique b.)
-            if self.baby.windows(2).any(|w| w[0].0 == w[1].0) || self.baby_y.contains(&0) {
-                continue; // order at most 2m: useless here
+            if !self.fill_table(m as usize) {
+                continue;
             }
+            let (gx, gy) = (self.points[m as usize].x, self.points[m as usize].y);
+            self.points.truncate(m as usize);
+            // the first giant point Q - kmax G with Q = (p + 1) P written as
+            // u G + rem P (0 <= rem < stride): (u - kmax) G from the affine G,
+            // then rem P from the table (rem P = G - (stride - rem) P when
+            // rem > m), which saves the doublings of a multiplication by p + 1
+            let (u, rem) = ((p + 1) / stride, (p + 1) % stride);
+            let mut t = if u >= kmax {
+                c.scalar_affine(gx, gy, u - kmax)
+            } else {
+                c.neg(c.scalar_affine(gx, gy, kmax - u))
+            };
+            if rem >= 1 && rem <= m {
+                let q = self.points[rem as usize - 1];
+                t = c.add_affine(t, q.x, q.y);
+            } else if rem > m {
+                let q = self.points[(stride - rem) as usize - 1];
+                t = c.add_affine(c.add_affine(t, gx, gy), q.x, mont.sub(0, q.y));
+            }
+            // T_k = Q - k G for k = kmax down to -kmax
+            for _ in 0..(2 * kmax + 1) {
+                self.points.push(t);
+                t = c.add_affine(t, gx, gy);
+            }
+            self.normalize(&c, m as usize);
             self.found.clear();
             for (i, tk) in self.points[m as usize..].iter().enumerate() {
                 let k = kmax as i64 - i as i64;
@@ -326,13 +472,7 @@ impl Bsgs {
                 let b_opt = if tk.z == 0 {
                     Some(base)
                 } else {
-                    match self.baby.binary_search_by(|e| e.0.cmp(&tk.x)) {
-                        Ok(ix) => {
-                            let j = self.baby[ix].1 as i64;
-                            Some(if self.baby_y[j as usize - 1] == tk.y { base + j } else { base - j })
-                        }
-                        Err(_) => None,
-                    }
+                    self.lookup(tk.x).map(|j| if self.points[j - 1].y == tk.y { base + j as i64 } else { base - j as i64 })
                 };
                 if let Some(bv) = b_opt {
                     if bv.abs() <= h {
@@ -409,7 +549,8 @@ mod tests {
         for lo in [300u64, 600, 1000, 1500, 2500, 5000] {
             let ps: Vec<u64> = primes_up_to(lo + lo / 5).into_iter().filter(|&p| p >= lo).take(200).collect();
             assert!(ps.len() >= 5, "too few primes near {lo}");
-            for p in ps.into_iter().filter(|&p| residue(&disc, p) != 0) {
+            let disc_limbs = Limbs::new(&disc);
+            for p in ps.into_iter().filter(|&p| disc_limbs.residue(p) != 0) {
                 let exact = naive.trace(p);
                 assert_eq!(o.trace(p), exact, "the oracle differs from the exact count at {p}");
                 if let Some(t) = o.trace_bsgs(p) {
@@ -447,6 +588,53 @@ mod tests {
             }
         }
         assert!(undecided < 20, "{undecided}");
+    }
+
+    /// The word residues of [`Limbs`] equal malachite's `Integer` residues
+    /// (an independent second computation) on integers of one to five limbs,
+    /// both signs, and moduli from 3 to just below 2^64.
+    #[test]
+    fn fast_residues_equal_the_malachite_ones() {
+        use malachite::base::num::arithmetic::traits::Mod;
+        let mut state = 0x2545_f491_4f6c_dd1du64;
+        let mut next = || {
+            state ^= state << 13;
+            state ^= state >> 7;
+            state ^= state << 17;
+            state
+        };
+        for round in 0..400 {
+            let len = 1 + round % 5;
+            let limbs: Vec<u64> = (0..len).map(|_| next()).collect();
+            let mut n = Integer::from(malachite::Natural::from_limbs_asc(&limbs));
+            if round % 2 == 1 {
+                n = -n;
+            }
+            let fast = Limbs::new(&n);
+            for p in [3u64, 601, 1_000_003, 4_294_967_291, next() >> (round % 60) | 1, u64::MAX - 58] {
+                let slow: Integer = (&n).mod_op(Integer::from(p));
+                assert_eq!(Integer::from(fast.residue(p)), slow, "{n} mod {p}");
+            }
+        }
+        assert_eq!(Limbs::new(&Integer::from(0)).residue(7), 0);
+        assert_eq!(Limbs::new(&Integer::from(-14)).residue(7), 0);
+        assert_eq!(Limbs::new(&Integer::from(-15)).residue(7), 6);
+    }
+
+    /// The word Montgomery arithmetic against plain `u128` arithmetic.
+    #[test]
+    fn word_montgomery_products() {
+        for p in [601u64, 65_537, 1_000_003, 2_147_483_647, 4_294_967_291] {
+            let m = Mont32::new(p);
+            for (u, v) in [(0u64, 5u64), (1, 1), (p - 1, p - 1), (p / 2, p / 3 + 7), (123_456 % p, 987_654_321 % p)] {
+                let prod = m.mul(m.to_mont(u), m.to_mont(v));
+                assert_eq!(m.mul(prod, 1), (u as u128 * v as u128 % p as u128) as u64, "{u} {v} mod {p}");
+                if u != 0 {
+                    let inv = m.mul(m.inv(m.to_mont(u)), 1);
+                    assert_eq!(inv as u128 * u as u128 % p as u128, 1);
+                }
+            }
+        }
     }
 
     #[test]

@@ -97,8 +97,17 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     if heegner_first {
         let before = report.clone();
         let floor_only = RankOptions { search_height_ceiling: options.search_height, ..options.clone() };
+        // where the quartic enumeration is expected to be slow, the Heegner
+        // step runs before the descents (it would otherwise find the budget
+        // spent), and its point is adopted after them
+        let early = quartic_enumeration_is_costly(data);
+        let found = if early { heegner_search(&mut report, data, options, work)? } else { None };
         descents(&mut report, data, &torsion, &floor_only, work, enough, &mut unfinished)?;
-        heegner_point(&mut report, data, options, work)?;
+        match &found {
+            Some(f) => adopt_heegner_point(&mut report, data, f)?,
+            None if !early => heegner_point(&mut report, data, options, work)?,
+            None => {}
+        }
         if report.points.is_empty() && !work.exhausted() {
             // a Heegner step stopped by its share of the budget marked the
             // report as cut short: the mark survives the second descent run
@@ -824,12 +833,44 @@ fn deduced_at(rn: &crate::rootno::RootNumber, p: &Natural) -> bool {
 /// outside the torsion subgroup; it then also proves the descent's lower
 /// bound 1. A failure or a cut-short search leaves the report as it was.
 fn heegner_point(report: &mut RankReport, data: &CurveData, options: &RankOptions, work: &Work) -> Result<(), Error> {
+    match heegner_search(report, data, options, work)? {
+        Some(found) => adopt_heegner_point(report, data, &found),
+        None => Ok(()),
+    }
+}
+
+/// `|c4|^{3/2}` of the minimal model beyond which the quartic enumeration
+/// of the full 2-descent is expected to take seconds (its search box, and
+/// so its cost, grows like `|c4|^{3/2}`). Calibrated by hand on the rank-one
+/// rows of conductors 7155 and 7182 of curves-wider.tsv (load average 8):
+/// `|c4|^{3/2}` = 1.6e9 and 3.6e9 took 15 s each before the Heegner step
+/// could run, 2e8-2.4e8 took 1.6-2.9 s; the Heegner step there costs
+/// about 0.2 s.
+const COSTLY_QUARTIC_C4_POW: f64 = 5e8;
+
+/// Whether the quartic enumeration is expected to be slow on this curve
+/// (see [`COSTLY_QUARTIC_C4_POW`]).
+fn quartic_enumeration_is_costly(data: &CurveData) -> bool {
+    use malachite::base::num::arithmetic::traits::UnsignedAbs;
+    use malachite::base::num::conversion::traits::RoundingFrom;
+    use malachite::base::rounding_modes::RoundingMode;
+    let c4 = f64::rounding_from(&data.minimal().c4().unsigned_abs(), RoundingMode::Nearest).0;
+    c4.powf(1.5) > COSTLY_QUARTIC_C4_POW
+}
+
+/// The Heegner route's generator, when the analytic rank is proven 1 and
+/// no point is known yet (`None` otherwise, or when the route found none;
+/// a route stopped by its share of the budget marks the report cut short).
+fn heegner_search(report: &mut RankReport, data: &CurveData, options: &RankOptions, work: &Work) -> Result<Option<crate::heegner::HeegnerResult>, Error> {
     let proven_one = report.analytic.as_ref().and_then(|a| a.rank) == Some(1);
     if !options.heegner_route || !proven_one || !report.points.is_empty() || work.exhausted() {
-        return Ok(());
+        return Ok(None);
     }
     work.report(Stage::Heegner, "a generator by the Heegner point method");
-    let share = work.share(0.5);
+    // three quarters of the time left: with the analytic rank proven 1 and
+    // no point from the floor-height search, the Heegner step is the likely
+    // route to the point (the ladder after it keeps the last quarter)
+    let share = work.share(0.75);
     let limit = share.remaining().map_or(options.heegner_time_limit, |r| r.min(options.heegner_time_limit));
     let opts = crate::heegner::HeegnerOptions {
         time_limit: Some(limit),
@@ -837,18 +878,27 @@ fn heegner_point(report: &mut RankReport, data: &CurveData, options: &RankOption
         ..crate::heegner::HeegnerOptions::default()
     };
     let started = std::time::Instant::now();
-    let found = match crate::heegner::point_of_rank_one_of(data, &opts) {
-        Ok(Some(found)) => found,
-        Err(e) if *e.kind() == crate::error::ErrorKind::Internal => return Err(e),
+    match crate::heegner::point_of_rank_one_of(data, &opts) {
+        Ok(Some(found)) => Ok(Some(found)),
+        Err(e) if *e.kind() == crate::error::ErrorKind::Internal => Err(e),
         // a route stopped by its share of the budget leaves the report
         // marked as cut short, so that a rerun may differ only there
         other => {
             if other.is_err() || started.elapsed() >= limit || work.exhausted() {
                 report.budget_exhausted = true;
             }
-            return Ok(());
+            Ok(None)
         }
-    };
+    }
+}
+
+/// Enters the Heegner route's generator into the report, checked on both
+/// models and against the descents' upper bound, unless the descents have
+/// already found a point.
+fn adopt_heegner_point(report: &mut RankReport, data: &CurveData, found: &crate::heegner::HeegnerResult) -> Result<(), Error> {
+    if !report.points.is_empty() {
+        return Ok(());
+    }
     let g = &found.generator;
     if !data.minimal().contains(g) {
         return Err(Error::internal("the Heegner route", "the generator is not on the minimal model"));
