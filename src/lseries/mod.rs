@@ -107,6 +107,7 @@ pub struct SpecialValue {
 /// assert_ne!(RankBasis::NonZeroValue, RankBasis::NumericalZeros);
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub enum RankBasis {
     /// Rank 0 or 1: the lower value (if any) vanishes by the sign of the
     /// functional equation, and `L^{(r)}(E, 1)` is bounded away from zero
@@ -378,7 +379,7 @@ pub fn analytic_rank_of(data: &CurveData, w: i8, work: &Work) -> Result<Analytic
 
 /// How many primes (point counts) or terms (the sum) pass between two looks
 /// at the deadline and the cancel flag.
-pub const WORK_CHECK_EVERY: usize = 4096;
+pub(crate) const WORK_CHECK_EVERY: usize = 4096;
 
 fn check_order_and_sign(w: i8, max_order: usize) -> Result<(), Error> {
     if w != 1 && w != -1 {

@@ -33,6 +33,7 @@ const CHARACTER_PRIMES: usize = 400;
 /// }
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub enum CertificateError {
     /// The text could not be parsed.
     Malformed {
@@ -63,6 +64,7 @@ impl std::error::Error for CertificateError {}
 /// assert_ne!(UpperBoundBasis::IsogenySelmer, UpperBoundBasis::QuarticSelmerTrustingEnumeration);
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub enum UpperBoundBasis {
     /// The Selmer groups of a 2-isogeny, recomputed from the local tables:
     /// every soluble class has a checked local point and every insoluble one
