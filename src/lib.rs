@@ -37,7 +37,7 @@
 //! | points | [`search`] (sieved search on coverings and on `E`), [`heegner`] (Heegner points for analytic rank one) |
 //! | heights, regulator, saturation | [`heights`] (periods, canonical heights, LLL, `mordell_weil_basis`) |
 //! | L-values and root numbers | [`lseries`] (f64 with error bounds, BSD quotient), [`lproof`] (proven by interval arithmetic, [`enclosure`]), [`rootno`] ([`RootNumber`]) |
-//! | a proof someone else can check | [`Certificate`] and [`certificate::verify`] |
+//! | a proof someone else can check | [`Certificate`] and [`verify`] -> [`VerifiedClaims`] |
 //! | odd isogenies | [`isogeny`] (the odd part of the isogeny class) |
 //! | number fields | [`numfield`] (maximal orders, ideals, class groups, units, `K(S,2)`) |
 //! | integers | [`arith`] (factorisation, primality, residue symbols, Hilbert symbols) |
@@ -142,7 +142,7 @@ mod error;
 // The entry points and the result types, flat at the root.
 pub use batch::{analyse_batch, analyse_batch_with, analyse_text, BatchItem, BatchObserver, BatchOptions, BatchOutcome, BatchProgress, BatchSummary, CurveInput};
 pub use budget::{RankOptions, Stage, Work};
-pub use certificate::Certificate;
+pub use certificate::{verify, Certificate, CertificateError, VerifiedClaims};
 pub use curve::{Curve, ModelChange, Point};
 pub use descent::full::FullDescent;
 pub use descent::isogeny::IsogenyDescent;
@@ -151,4 +151,7 @@ pub use local::{CurveData, Kodaira, LocalData, Reduction};
 pub use pipeline::{analyse, analyse_data};
 pub use report::{AnalyticProof, Evidence, ProofRoute, RankReport, Route, ShaSuspect, Standing, Statement};
 pub use rootno::RootNumber;
+pub use heegner::{HeegnerOptions, HeegnerResult};
+pub use quartic::Quartic;
+pub use solubility::{LocalWitness, Place};
 pub use torsion::TorsionGroup;

@@ -122,7 +122,7 @@ impl TorsionGroup {
 
 /// `gcd` of `#E(F_p)` over the first good primes `p >= 3`, which the torsion
 /// order divides (AEC VII.3.1). Uses up to 30 primes.
-pub fn order_bound(curve: &Curve) -> u64 {
+pub(crate) fn order_bound(curve: &Curve) -> u64 {
     let mut g = 0u64;
     let mut used = 0;
     let disc = curve.discriminant();

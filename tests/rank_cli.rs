@@ -150,3 +150,21 @@ fn batch_summary_names_the_slowest_and_the_cut_short() {
     assert!(cut.contains("line 2 [1,-1,0,-314603520"), "{err}");
     assert_eq!(String::from_utf8(out.stdout).unwrap().lines().count(), 2);
 }
+
+/// `rank --budget 2` on [0,1,0,-106288797,-421808991201] (no rational
+/// 2-torsion, a large c4: minutes without a budget; see tests/budget.rs)
+/// finishes within 3 s, process start and exit included, with one line
+/// that keeps the conductor 100068 (as computed in tests/budget.rs).
+#[test]
+fn a_two_second_budget_holds_on_the_command_line() {
+    let t = std::time::Instant::now();
+    let Some(out) = run(&[os("--json"), os("--budget"), os("2"), os("--threads"), os("1")], b"[0,1,0,-106288797,-421808991201]\n") else {
+        return;
+    };
+    let took = t.elapsed();
+    no_panic(&out);
+    assert!(took < std::time::Duration::from_secs(3), "took {took:?} with --budget 2");
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert_eq!(text.lines().count(), 1, "{text}");
+    assert!(text.contains("100068"), "{text}");
+}

@@ -5,6 +5,7 @@
 
 use malachite::base::num::arithmetic::traits::{CheckedSqrt, DivisibleBy, Mod, ModPow, Pow};
 use malachite::base::num::basic::traits::{One, Zero};
+use crate::solubility::Place;
 use malachite::{Integer, Natural, Rational};
 
 /// `v_p(n)` and the unit part `n / p^v` of a non-zero integer.
@@ -416,6 +417,38 @@ pub(crate) fn pow_mod(mut a: u64, mut e: u64, q: u64) -> u64 {
     a
 }
 
+/// F2 coordinates of a non-zero integer in `Q_v*/Q_v*^2`: 1 bit at R,
+/// (valuation, non-residue) at odd p, (valuation, -1, 5) at 2.
+pub(crate) fn local_coords(d: &Integer, place: &Place) -> u8 {
+    match place {
+        Place::Real => (*d < 0u32) as u8,
+        Place::Prime(p) => {
+            let pi = Integer::from(p.clone());
+            let (v, u) = split(d, &pi);
+            if *p == 2u32 {
+                // invariant: a residue mod 8 is in [0, 8) and fits a u64
+                let r = u64::try_from(&u.mod_op(Integer::from(8))).expect("reduced");
+                ((v % 2) as u8) | (((r % 4) == 3) as u8) << 1 | ((r == 3 || r == 5) as u8) << 2
+            } else {
+                ((v % 2) as u8) | ((legendre(&u, &pi) == -1) as u8) << 1
+            }
+        }
+    }
+}
+
+/// `x mod q` for a rational `x` and a prime `q`, or `None` when `q`
+/// divides the denominator (the point reduces to infinity).
+pub(crate) fn rational_mod(x: &Rational, q: u64) -> Option<u64> {
+    let (n, d) = x.to_numerator_and_denominator();
+    let dq = modq(&Integer::from(d), q);
+    if dq == 0 {
+        return None;
+    }
+    let nq = if *x < 0u32 { modq(&-Integer::from(n), q) } else { modq(&Integer::from(n), q) };
+    let inv = pow_mod(dq, q - 2, q);
+    Some((nq as u128 * inv as u128 % q as u128) as u64)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -456,4 +489,3 @@ mod tests {
         assert_eq!(f2_rank(&[0b11, 0b01, 0b10]), 2);
     }
 }
-

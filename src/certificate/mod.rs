@@ -313,6 +313,7 @@ pub struct Certificate {
 /// number from the local data and the enclosure from the curve, and only
 /// checks these records against its own results.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct AnalyticRecord {
     /// 0 for `L(E,1)`, 1 for `L'(E,1)`; the rank this proves.
     pub order: u8,
@@ -368,7 +369,8 @@ impl Certificate {
     /// Builds the certificate of a report: every point moved to the minimal
     /// model, local points for every Selmer class, and a rational point on
     /// each quartic class that the descent explained by a point found on
-    /// the covering (the short search is repeated to record it).
+    /// the covering. Everything is read from the report (the report is the
+    /// record): nothing is searched or factored again.
     ///
     /// Errors: an internal inconsistency in the report (a Selmer class
     /// without a local point, a point off its curve).
@@ -376,10 +378,9 @@ impl Certificate {
         Certificate::from_report_within(report, &Work::unlimited())
     }
 
-    /// As [`Certificate::from_report`], with the short searches for points
-    /// on the Selmer classes explained by points of E (the only computation
-    /// not read from the report) held to the deadline and cancel flag of
-    /// `work`; a class left without a point is recorded without one.
+    /// As [`Certificate::from_report`], with the one computation not read
+    /// from the report (the local root numbers of the analytic record) held
+    /// to the deadline and cancel flag of `work`.
     pub fn from_report_within(report: &RankReport, work: &Work) -> Result<Certificate, Error> {
         let change = &report.change;
         let minimal = &report.minimal;
@@ -399,17 +400,13 @@ impl Certificate {
         let mut points = Vec::new();
         for p in &report.points {
             if let Some((x, y)) = to_min(p)? {
-                // the canonical height (numerical, BSD normalisation; not checked by verify)
-                // (read from the report's evidence where it has the point)
+                // the canonical height (numerical, BSD normalisation; not checked by verify),
+                // read from the report's evidence where it has the point (never recomputed)
                 let recorded = report
                     .evidence
                     .as_ref()
                     .and_then(|ev| ev.reduced_points.iter().position(|q| q == p).and_then(|i| ev.heights.get(i).copied()));
-                let pt = crate::curve::Point::Affine(x.clone(), y.clone());
                 let height = recorded
-                    .or_else(|| {
-                        crate::heights::canonical_height_of(&data, &pt, 64).ok().map(|h| crate::heights::float_to_f64(&h))
-                    })
                     .filter(|h| h.is_finite())
                     .map(|h| format!("{h:.12e}"));
                 points.push(CertPoint { x, y, height });
@@ -421,8 +418,8 @@ impl Certificate {
             isogeny.push(isogeny_proof(minimal, run, &primes)?);
         }
         let quartic = match (&report.full_descent, &report.descent_curve) {
-            (Some(f), None) => Some(quartic_proof(minimal, f, None, work)?),
-            (Some(f), Some((other, d))) => Some(quartic_proof(other, f, Some(*d), work)?),
+            (Some(f), None) => Some(quartic_proof(minimal, f, None)?),
+            (Some(f), Some((other, d))) => Some(quartic_proof(other, f, Some(*d))?),
             (None, _) => None,
         };
         Ok(Certificate {
@@ -437,21 +434,22 @@ impl Certificate {
             points,
             isogeny,
             quartic,
-            analytic: analytic_record(report, work)?,
+            analytic: analytic_record(report, &data, work)?,
         })
     }
 }
 
 /// The analytic record of a report whose analytic route proved the rank.
-fn analytic_record(report: &RankReport, work: &Work) -> Result<Option<AnalyticRecord>, Error> {
+fn analytic_record(report: &RankReport, data: &crate::local::CurveData, work: &Work) -> Result<Option<AnalyticRecord>, Error> {
     let Some(a) = &report.analytic else { return Ok(None) };
     let (Some(v), Some(w)) = (&a.value, a.root_number) else { return Ok(None) };
     if !v.nonzero_proven() {
         return Ok(None);
     }
-    let primes: Vec<Natural> = report.local.iter().map(|l| l.prime.clone()).collect();
-    let data = crate::local::CurveData::with_known_primes_within(&report.minimal, &primes, work)?;
-    let rn = crate::rootno::root_number_of(&data, &crate::arith::FactorLimits::within(work))?;
+    // the curve's data is rebuilt from the report (no factoring, no Tate's
+    // algorithm); the local root numbers are not in the report and are
+    // computed from it
+    let rn = crate::rootno::root_number_of(data, &crate::arith::FactorLimits::within(work))?;
     if rn.global != w {
         return Err(Error::internal(
             "certificate",
@@ -562,15 +560,14 @@ fn isogeny_proof(
 
 /// `curve` is the curve the quartics cover: the minimal model, or the
 /// odd-degree isogenous curve of degree `degree` the descent ran on.
-fn quartic_proof(curve: &Curve, f: &crate::descent::full::FullDescent, degree: Option<u64>, work: &Work) -> Result<QuarticProof, Error> {
+fn quartic_proof(curve: &Curve, f: &crate::descent::full::FullDescent, degree: Option<u64>) -> Result<QuarticProof, Error> {
     let mut classes = Vec::new();
     for sq in &f.classes {
         let g = sq.quartic.coeffs();
         let local_points = sq.witnesses.iter().map(|(pl, w)| local_point(&g, pl, w)).collect();
         // a class explained by a point found on the covering records that
-        // point (read from the descent, not searched again); the others get a
-        // short search within the work's budget (points found on E itself
-        // usually have small preimages)
+        // point (read from the descent, not searched again); a class the
+        // descent explained by a point of E alone is recorded without one
         let lift = match &sq.covering_point {
             Some([x, z, y]) => {
                 let (xr, zr, yr) = (Rational::from(x.clone()), Rational::from(z.clone()), Rational::from(y.clone()));
@@ -580,8 +577,7 @@ fn quartic_proof(curve: &Curve, f: &crate::descent::full::FullDescent, degree: O
                     .ok_or_else(|| Error::internal("the certificate builder", "a recorded covering point has no image on the curve"))?;
                 Some(Lift { x: x.clone(), z: z.clone(), y: y.clone(), image })
             }
-            None if work.exhausted() => None,
-            None => find_lift(curve, &sq.quartic, LIFT_SEARCH_HEIGHT, work)?,
+            None => None,
         };
         classes.push(SelmerClass { label: None, quartic: g, local_points, lift });
     }
@@ -595,33 +591,4 @@ fn quartic_proof(curve: &Curve, f: &crate::descent::full::FullDescent, degree: O
         upper: f.upper,
         descent_curve: degree.map(|d| (curve.coefficients().clone(), d)),
     })
-}
-
-/// The search height for a rational point on a quartic class that the
-/// descent explained by a point of E (not by a point on the covering).
-const LIFT_SEARCH_HEIGHT: u64 = 64;
-
-/// Searches the reduced form of `g` for a rational point with `y != 0`
-/// and moves it back to `g` itself.
-fn find_lift(curve: &Curve, g: &crate::quartic::Quartic, height: u64, work: &Work) -> Result<Option<Lift>, Error> {
-    use crate::search::{search_quartic, SearchLimits};
-    let (red, m) = crate::quartic::reduce(g);
-    let out = search_quartic(&red.coeffs(), &SearchLimits { first_only: true, ..SearchLimits::within(work, height) });
-    let coeffs = g.coeffs();
-    for qp in out.points.iter().take(32) {
-        if qp.y == 0u32 {
-            continue;
-        }
-        let [[al, be], [ga, de]] = &m;
-        let x = al * &qp.x + be * &qp.z;
-        let z = ga * &qp.x + de * &qp.z;
-        if check::eval4(&coeffs, &x, &z) != &qp.y * &qp.y {
-            continue;
-        }
-        let (xr, zr, yr) = (Rational::from(x.clone()), Rational::from(z.clone()), Rational::from(qp.y.clone()));
-        if let Some(image) = g.image_on_curve(curve, &xr, &zr, &yr)? {
-            return Ok(Some(Lift { x, z, y: qp.y.clone(), image }));
-        }
-    }
-    Ok(None)
 }

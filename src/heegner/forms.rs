@@ -83,7 +83,7 @@ pub fn is_fundamental(d: i64) -> bool {
 
 /// The reduced primitive forms of discriminant `d < 0` (one per class of the
 /// form class group; their number is the class number `h(d)`).
-pub fn reduced_forms(d: i64) -> Vec<QuadraticForm> {
+pub(crate) fn reduced_forms(d: i64) -> Vec<QuadraticForm> {
     let d = d as i128;
     let mut out = Vec::new();
     let mut a: i128 = 1;
@@ -146,13 +146,13 @@ impl HeegnerData {
 
 /// Whether every prime dividing `n` splits in `Q(sqrt d)` (with `d`
 /// fundamental): the Heegner hypothesis. Then `d` is a square modulo `4n`.
-pub fn heegner_hypothesis(d: i64, primes_of_n: &[u64]) -> bool {
+pub(crate) fn heegner_hypothesis(d: i64, primes_of_n: &[u64]) -> bool {
     primes_of_n.iter().all(|&p| kronecker_i64(d, p) == 1)
 }
 
 /// The Heegner data for `(d, n)`: `beta` and one form per class. `None` if
 /// the hypothesis fails.
-pub fn heegner_data(d: i64, n: u64) -> Result<Option<HeegnerData>, Error> {
+pub(crate) fn heegner_data(d: i64, n: u64) -> Result<Option<HeegnerData>, Error> {
     let primes: Vec<u64> = factor_u64(n)?.into_iter().map(|(p, _)| p).collect();
     if !heegner_hypothesis(d, &primes) || d >= -4 || !is_fundamental(d) {
         return Ok(None);

@@ -64,7 +64,7 @@ use crate::budget::{RankOptions, Work};
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
 use crate::heights::real::{fi, to_f64, Cx};
-use crate::heights::{canonical_height, height_difference_bound, mordell_weil_basis, PeriodLattice, Saturation, SaturationOptions};
+use crate::heights::{canonical_height_of, height_difference_bound, mordell_weil_basis_of, PeriodLattice, Saturation, SaturationOptions};
 use crate::local::{CurveData, LocalData};
 use crate::torsion::TorsionGroup;
 use analytic::Lattice;
@@ -316,7 +316,13 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
     if data.conductor() != conductor {
         return Err(err(ErrorKind::InvalidValue, format!("the conductor of the curve is {}, not {conductor}", data.conductor())));
     }
-    point_on_model(minimal, &data, opts, start)
+    // the search runs on the data's minimal model (which may differ from
+    // `minimal` by a change of minimal models); carry its points back
+    Ok(point_on_model(&data, opts, start)?.map(|mut r| {
+        r.generator = data.to_input(&r.generator);
+        r.recognised_point = data.to_input(&r.recognised_point);
+        r
+    }))
 }
 
 /// [`point_of_rank_one`] for a curve whose data is known: the search runs
@@ -334,22 +340,23 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
 /// assert!(d.minimal().contains(&r.generator) && !r.generator.is_infinity());
 /// ```
 pub fn point_of_rank_one_of(data: &CurveData, opts: &HeegnerOptions) -> Result<Option<HeegnerResult>, Error> {
-    point_on_model(data.minimal(), data, opts, Instant::now())
+    point_on_model(data, opts, Instant::now())
 }
 
-/// The search on `minimal`, a global minimal model of the curve of `data`.
-fn point_on_model(minimal: &Curve, data: &CurveData, opts: &HeegnerOptions, start: Instant) -> Result<Option<HeegnerResult>, Error> {
+/// The search on the global minimal model of the curve of `data`.
+fn point_on_model(data: &CurveData, opts: &HeegnerOptions, start: Instant) -> Result<Option<HeegnerResult>, Error> {
+    let minimal = data.minimal();
     let budget = opts.work(start);
     let Some(s) = setup(minimal, data, &budget)? else { return Ok(None) };
     if opts.use_twist {
         if let Some(t) = twist::smallest_twist(minimal, s.n)? {
             check_twist(minimal, &s, &t)?;
-            if let Some(r) = search(minimal, &s, opts, &budget, start, Some(&t))? {
+            if let Some(r) = search(data, &s, opts, &budget, start, Some(&t))? {
                 return Ok(Some(r));
             }
         }
     }
-    search(minimal, &s, opts, &budget, start, None)
+    search(data, &s, opts, &budget, start, None)
 }
 
 /// `a_p(E) = χ_d(p) a_p(E0)` for the primes below 300: the twist route
@@ -459,13 +466,14 @@ impl Series {
 
 #[allow(clippy::too_many_arguments)]
 fn search(
-    minimal: &Curve,
+    data: &CurveData,
     s: &Setup,
     opts: &HeegnerOptions,
     budget: &Work,
     start: Instant,
     tw: Option<&twist::Twist>,
 ) -> Result<Option<HeegnerResult>, Error> {
+    let minimal = data.minimal();
     let discs = heegner_discriminants(s.n, if tw.is_some() { opts.max_discriminants.max(1) * 4 } else { opts.max_discriminants })?;
     let mut plans: Vec<(HeegnerData, Series)> = Vec::new();
     for h in discs {
@@ -576,7 +584,7 @@ fn search(
                             if let Some(pt) = recognise(minimal, &x, bits) {
                                 let (q, _) = divide_out(minimal, &tors, &lat, &b2, zr, pt.clone(), bits, budget);
                                 let class_number = h.forms.len();
-                                return finish(minimal, s, h, class_number, pt, q, mult, k, bits, coeffs.len() - 1, budget, start).map(Some);
+                                return finish(data, s, h, class_number, pt, q, mult, k, bits, coeffs.len() - 1, budget, start).map(Some);
                             }
                         }
                     }
@@ -670,7 +678,7 @@ impl PowU for malachite::Integer {
 
 #[allow(clippy::too_many_arguments)]
 fn finish(
-    curve: &Curve,
+    data: &CurveData,
     s: &Setup,
     h: &HeegnerData,
     class_number: usize,
@@ -683,15 +691,16 @@ fn finish(
     budget: &Work,
     start: Instant,
 ) -> Result<HeegnerResult, Error> {
+    let curve = data.minimal();
     let sat_opts = SaturationOptions::within(budget);
     let prec = 128u64.max(bits / 4);
-    let basis = mordell_weil_basis(curve, std::slice::from_ref(&divided), &s.local, prec, &sat_opts)?;
+    let basis = mordell_weil_basis_of(data, std::slice::from_ref(&divided), prec, &sat_opts)?;
     let generator = basis.generators.first().cloned().ok_or_else(|| err(ErrorKind::InvalidValue, "the point found is torsion"))?;
     if !curve.contains(&generator) || curve.torsion_order_of(&generator).is_some() {
         return Err(err(ErrorKind::InvalidValue, "internal check failed: the generator is not a point of infinite order"));
     }
-    let hg = canonical_height(curve, &s.local, &generator, prec)?;
-    let hp = canonical_height(curve, &s.local, &pt, prec)?;
+    let hg = canonical_height_of(data, &generator, prec)?;
+    let hp = canonical_height_of(data, &pt, prec)?;
     let ratio = to_f64(&(&hp / &hg));
     let k = ratio.sqrt().round();
     let index = if k >= 1.0 && k < 1e9 {

@@ -1,5 +1,6 @@
 //! Tests of the Heegner point route against published values.
 
+use crate::heights::canonical_height;
 use crate::local::bad_primes_data;
 use super::*;
 

@@ -107,6 +107,7 @@ pub struct SpecialValue {
 /// assert_ne!(RankBasis::NonZeroValue, RankBasis::NumericalZeros);
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub enum RankBasis {
     /// Rank 0 or 1: the lower value (if any) vanishes by the sign of the
     /// functional equation, and `L^{(r)}(E, 1)` is bounded away from zero
@@ -354,8 +355,8 @@ pub fn special_values(curve: &Curve, conductor: &Natural, w: i8, max_order: usiz
 /// [`special_values`] for a curve whose data is known (the minimal model,
 /// the conductor and the reduction types come from `data`, nothing is
 /// checked again), held to the deadline and cancel flag of `work`: the
-/// point counts look at it every 64 primes and the sum every
-/// [`WORK_CHECK_EVERY`] terms, and both stop with an error of kind [`ErrorKind::Budget`].
+/// point counts look at it every 64 primes and the sum every 4096 terms,
+/// and both stop with an error of kind [`ErrorKind::Budget`].
 ///
 /// ```
 /// use twofold::{Curve, CurveData, Work, lseries::special_values_of};
@@ -378,7 +379,7 @@ pub fn analytic_rank_of(data: &CurveData, w: i8, work: &Work) -> Result<Analytic
 
 /// How many terms of the sum pass between two looks at the deadline and the
 /// cancel flag.
-pub const WORK_CHECK_EVERY: usize = 4096;
+pub(crate) const WORK_CHECK_EVERY: usize = 4096;
 
 /// How many point counts pass between two looks at the deadline and the
 /// cancel flag: each count costs `O(p)`, so 4096 of them near `p = 40,000`

@@ -35,7 +35,7 @@ use std::sync::Arc;
 use std::time::Instant;
 
 /// Primes up to this bound enter the Euler product of the zeta residue.
-pub const EULER_PRODUCT_LIMIT: u64 = 100_000;
+pub(crate) const EULER_PRODUCT_LIMIT: u64 = 100_000;
 
 /// The factor base always holds the prime ideals of norm up to this
 /// (more generators than the bound needs: relations come easier).
@@ -82,6 +82,7 @@ impl ClassGroupOptions {
 /// A unit (or S-unit) as a product `prod base_i^exp_i` of field elements
 /// with integer exponents, never expanded unless asked.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct CompactProduct {
     /// The factors and their exponents.
     pub factors: Vec<(Element, i64)>,

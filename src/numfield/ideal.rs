@@ -80,6 +80,7 @@ impl Ideal {
 /// the two-element form `P = pO + gen O`, and an element `anti` with
 /// `anti P ⊂ pO`, `anti ∉ pO` used for valuations.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct PrimeIdeal {
     /// The rational prime below.
     pub p: u64,

@@ -102,5 +102,5 @@ mod modular;
 
 pub use field::{Element, NumberField};
 pub use ideal::{Ideal, PrimeIdeal};
-pub use classgroup::{ClassGroup, ClassGroupOptions, CompactProduct, FactorBaseBound, EULER_PRODUCT_LIMIT, MIN_FACTOR_BASE_BOUND};
+pub use classgroup::{ClassGroup, ClassGroupOptions, CompactProduct, FactorBaseBound, MIN_FACTOR_BASE_BOUND};
 pub use sunits::SquareClasses;

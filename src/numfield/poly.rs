@@ -113,7 +113,7 @@ pub fn discriminant(f: &[Integer]) -> Integer {
 
 /// Clears denominators of a rational polynomial: the primitive integer
 /// polynomial with positive leading coefficient and the same roots.
-pub fn primitive_part(f: &[Rational]) -> Vec<Integer> {
+pub(crate) fn primitive_part(f: &[Rational]) -> Vec<Integer> {
     use malachite::base::num::arithmetic::traits::{Gcd, Lcm};
     let mut l = malachite::Natural::ONE;
     for c in f {

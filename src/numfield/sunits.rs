@@ -40,6 +40,7 @@ const CHARACTERS: usize = 128;
 
 /// The group `K(S,2)` for `S` the prime ideals above a set of rational primes.
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct SquareClasses {
     /// The rational primes whose prime ideals form `S`.
     pub primes: Vec<u64>,

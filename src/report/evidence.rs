@@ -16,6 +16,7 @@ use malachite::Natural;
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
 pub enum Standing {
     /// Proven: exact computation resting only on theorems.
     Proven,
