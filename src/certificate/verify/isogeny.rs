@@ -2,6 +2,7 @@
 //! models, their local tables and Selmer bases, and the images of points.
 
 use super::{place_name, q, reject, CertificateError, Ctx};
+use super::curve::CheckedCurve;
 use crate::certificate::check::{f2_rank, local_coords, split, square_class_vector, Model};
 use crate::certificate::{IsogenyProof, SideProof};
 use crate::solubility::Place;
@@ -20,17 +21,8 @@ fn side_to_minimal(min: &Model, b2: &Integer, x0: &Integer, u: &Integer, x: &Rat
     (ex, ey)
 }
 
-#[allow(clippy::too_many_arguments)]
-pub(super) fn verify_run(
-    ctx: &mut Ctx,
-    min: &Model,
-    c4: &Integer,
-    c6: &Integer,
-    b2: &Integer,
-    primes: &[Natural],
-    run: &IsogenyProof,
-    k: usize,
-) -> Result<(usize, Option<usize>), CertificateError> {
+pub(super) fn verify_run(ctx: &mut Ctx, cc: &CheckedCurve, primes: &[Natural], run: &IsogenyProof, k: usize) -> Result<(usize, Option<usize>), CertificateError> {
+    let (min, c4, c6, b2) = (&cc.min, &cc.c4, &cc.c6, &cc.b2);
     let what = format!("2-isogeny run {k}");
     let (xt, yt) = &run.kernel;
     let [a1, _, a3, _, _] = &min.a;

@@ -269,10 +269,10 @@ pub(crate) fn place_name(p: &Place) -> String {
 pub fn verify(c: &Certificate) -> Result<VerifiedClaims, CertificateError> {
     let mut ctx = Ctx { trusted: vec![], local_points: 0, insoluble: 0, points: 0, explained: 0 };
     let mut theorems: Vec<String> = Vec::new();
-    let checked = curve::check_curve(&mut ctx, c)?;
+    let mut checked = curve::check_curve(&mut ctx, c)?;
     let t = curve::two_torsion_dim(&mut ctx, c, &checked)?;
     let mut lower = curve::points_lower_bound(&mut ctx, c, &checked, t)?;
-    let curve::CheckedCurve { min, c4, c6, b2, mut minimality_trust, .. } = checked;
+    let mut minimality_trust = std::mem::take(&mut checked.minimality_trust);
     if !c.points.is_empty() {
         theorems.push(
             "points with independent images in E(Q)/2E(Q) modulo torsion generate a subgroup of rank at least their number"
@@ -291,7 +291,7 @@ pub fn verify(c: &Certificate) -> Result<VerifiedClaims, CertificateError> {
         }
     };
     for (k, run) in c.isogeny.iter().enumerate() {
-        let (lo, up) = isogeny::verify_run(&mut ctx, &min, &c4, &c6, &b2, &c.primes, run, k)?;
+        let (lo, up) = isogeny::verify_run(&mut ctx, &checked, &c.primes, run, k)?;
         lower = lower.max(lo);
         if let Some(u) = up {
             keep_upper(u, UpperBoundBasis::IsogenySelmer, &mut upper);
@@ -303,7 +303,7 @@ pub fn verify(c: &Certificate) -> Result<VerifiedClaims, CertificateError> {
     }
     // ---- the full 2-descent ----
     if let Some(qp) = &c.quartic {
-        if let Some((u, enumeration)) = quartic::verify_quartic(&mut ctx, &min, &c4, &c6, &b2, &c.primes, t, qp)? {
+        if let Some((u, enumeration)) = quartic::verify_quartic(&mut ctx, &checked, &c.primes, t, qp)? {
             keep_upper(u, UpperBoundBasis::QuarticSelmerTrustingEnumeration, &mut upper);
             if upper.is_some_and(|b| b.1 == UpperBoundBasis::QuarticSelmerTrustingEnumeration) {
                 ctx.trust(enumeration);

@@ -2,6 +2,7 @@
 //! and lifts, the quartics ruled out, and the Selmer dimension.
 
 use super::{as_integer, place_name, q, reject, CertificateError, Ctx};
+use super::curve::CheckedCurve;
 use crate::certificate::check::{eval4, invariants4, Model};
 use crate::certificate::QuarticProof;
 use crate::solubility::Place;
@@ -47,17 +48,8 @@ fn covariants_at(g: &[Integer; 5], x: &Integer, z: &Integer) -> (Integer, Intege
     (ev(&g4), ev(&g6))
 }
 
-#[allow(clippy::too_many_arguments)]
-pub(super) fn verify_quartic(
-    ctx: &mut Ctx,
-    min: &Model,
-    c4: &Integer,
-    c6: &Integer,
-    b2: &Integer,
-    primes: &[Natural],
-    t: usize,
-    qp: &QuarticProof,
-) -> Result<Option<(usize, String)>, CertificateError> {
+pub(super) fn verify_quartic(ctx: &mut Ctx, cc: &CheckedCurve, primes: &[Natural], t: usize, qp: &QuarticProof) -> Result<Option<(usize, String)>, CertificateError> {
+    let (min, c4, c6, b2) = (&cc.min, &cc.c4, &cc.c6, &cc.b2);
     let what = "quartic route";
     if qp.two_torsion_dim != t {
         return reject(format!("{what}: dim `E(Q)[2]` is {t}, not {}", qp.two_torsion_dim));

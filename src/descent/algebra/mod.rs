@@ -121,7 +121,7 @@ pub struct AlgebraDescent {
 
 /// The monic model `Y^2 = X^3 + b2 X^2 + 8 b4 X + 16 b6` of `curve`
 /// (`X = 4x`): returns `[c0, c1, c2]`.
-pub(crate) fn monic_cubic(curve: &Curve) -> [Integer; 3] {
+pub fn monic_cubic(curve: &Curve) -> [Integer; 3] {
     let [b2, b4, b6, _] = curve.b_invariants();
     [Integer::from(16) * b6, Integer::from(8) * b4, b2.clone()]
 }
@@ -138,7 +138,7 @@ pub(crate) fn eval_cubic(c: &[Integer; 3], x: &Rational) -> Rational {
 }
 
 /// The `X`-coordinate (`X = 4x`) of a point of the curve's model.
-pub(crate) fn big_x(p: &Point) -> Option<Rational> {
+pub fn big_x(p: &Point) -> Option<Rational> {
     match p {
         Point::Infinity => None,
         Point::Affine(x, _) => Some(Rational::from(4) * x),
