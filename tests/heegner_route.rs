@@ -176,7 +176,10 @@ fn the_ladder_runs_after_the_heegner_route_fails() {
 /// 2-descent takes about 15 s (measured at load average 8), so with an
 /// 8 s budget the Heegner step, which needs about 0.2 s here, must run
 /// before it: the generator is found and verified although the
-/// enumeration is cut short.
+/// enumeration is cut short. Since the descents are planned by cost, the
+/// cubic algebra route also runs before the enumeration and its proven
+/// upper bound 1 sends the search on E after the point, which it may reach
+/// first (the Heegner point is then not needed): either route is accepted.
 #[test]
 fn the_heegner_step_runs_before_a_slow_enumeration() {
     let e = Curve::from_coefficients([0, 0, 1, -28593, -2531986]).unwrap();
@@ -190,5 +193,5 @@ fn the_heegner_step_runs_before_a_slow_enumeration() {
     assert_eq!(r.descent_bounds.0, Some(1), "the lower bound from a point");
     assert_eq!(r.points.len(), 1);
     assert!(e.contains(&r.points[0]), "the point is on the input curve");
-    assert!(r.independence.contains("Heegner"), "{}", r.independence);
+    assert!(r.independence.contains("Heegner") || r.descent_bounds.1 == Some(1), "{}", r.independence);
 }
