@@ -99,7 +99,6 @@ impl SearchLimits {
 /// assert_eq!(p.y, 3);
 /// ```
 #[derive(Clone, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
-#[non_exhaustive]
 pub struct QuarticPoint {
     /// The first coordinate.
     pub x: Integer,
