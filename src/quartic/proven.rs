@@ -59,7 +59,7 @@
 use super::core::{mat_identity, mat_mul, Matrix, Quartic, RootType};
 use super::numeric::significant_bits;
 use crate::error::{Error, ErrorKind};
-use malachite::base::num::arithmetic::traits::{Abs, FloorSqrt};
+use malachite::base::num::arithmetic::traits::{Abs, DivRound, FloorSqrt};
 use malachite::base::num::basic::traits::{One, Zero};
 use malachite::base::num::conversion::traits::RoundingFrom;
 use malachite::base::rounding_modes::RoundingMode::{self, Ceiling, Floor, Nearest};
@@ -191,16 +191,30 @@ fn sign_at(m: &Integer, k: u64, i: &Integer, j: &Integer) -> Ordering {
 /// or `F(lo) > 0 > F(hi)` (strict), or a degenerate bracket at an exact
 /// root. Halved until its width is at most `2^{scale - prec}`, where
 /// `2^scale` is about the size of the roots (`max(|I|^{1/2}, |J|^{1/3})`).
-fn refine(mut lo: Integer, mut hi: Integer, mut k: u64, i: &Integer, j: &Integer, prec: u64) -> (Integer, Integer, u64) {
+fn refine(lo: Integer, hi: Integer, k: u64, i: &Integer, j: &Integer, prec: u64) -> (Integer, Integer, u64) {
     let top = (significant_bits(i) / 2).max(significant_bits(j) / 3) as i64 + 2;
     let lo_sign = sign_at(&lo, k, i, j);
     if lo_sign == Ordering::Equal {
         return (lo.clone(), lo, k);
     }
+    // the scale at which a bracket of width 2 is narrow enough
+    let target = prec as i64 + 2 - top;
+    let width_now = significant_bits(&(&hi - &lo)) as i64 - k as i64;
+    if width_now > top - prec as i64 && target > k as i64 {
+        if let Some(b) = newton_bracket(&lo, &hi, k, i, j, target as u64) {
+            return b;
+        }
+    }
+    bisect(lo, hi, k, i, j, top - prec as i64, lo_sign)
+}
+
+/// Halve `[lo, hi] / 2^k` (with `lo_sign` the sign of `F` at `lo`) until
+/// its width is at most `2^width_exp`.
+fn bisect(mut lo: Integer, mut hi: Integer, mut k: u64, i: &Integer, j: &Integer, width_exp: i64, lo_sign: Ordering) -> (Integer, Integer, u64) {
     loop {
         let width = &hi - &lo;
-        // width / 2^k <= 2^(top - prec)
-        if (significant_bits(&width) as i64) - (k as i64) <= top - prec as i64 {
+        // width / 2^k <= 2^width_exp
+        if (significant_bits(&width) as i64) - (k as i64) <= width_exp {
             return (lo, hi, k);
         }
         lo <<= 1u32;
@@ -212,6 +226,73 @@ fn refine(mut lo: Integer, mut hi: Integer, mut k: u64, i: &Integer, j: &Integer
             s if s == lo_sign => lo = mid,
             _ => hi = mid,
         }
+    }
+}
+
+/// A fast path for [`refine`]: Newton's method on dyadic numbers `m / 2^kk`
+/// from a floating-point root, the scale doubling with the correct bits,
+/// ending at scale `target`. Only the answer's check is trusted: the bracket
+/// `[m - 1, m + 1] / 2^target` is returned when `F` takes strictly opposite
+/// signs (or zero) at its ends, computed exactly, and it lies inside the given
+/// bracket `[lo, hi] / 2^k`, so it holds the same root. `None` sends the
+/// caller to bisection.
+fn newton_bracket(lo: &Integer, hi: &Integer, k: u64, i: &Integer, j: &Integer, target: u64) -> Option<(Integer, Integer, u64)> {
+    use super::numeric::{resolvent_roots, to_f64, CubicRoots};
+    if k > 1000 || target > MAX_PREC {
+        return None;
+    }
+    let scale = 2f64.powi(-(k as i32));
+    let (lo_f, hi_f) = (to_f64(lo) * scale, to_f64(hi) * scale);
+    let (i_f, j_f) = (to_f64(i), to_f64(j));
+    let roots: Vec<f64> = match resolvent_roots(i_f, j_f, 4.0 * i_f * i_f * i_f > j_f * j_f) {
+        CubicRoots::Three(r) => r.to_vec(),
+        CubicRoots::One { real, .. } => vec![real],
+    };
+    let mid = (lo_f + hi_f) / 2.0;
+    let guess = roots.into_iter().filter(|r| r.is_finite() && lo_f <= *r && *r <= hi_f).next().unwrap_or(mid);
+    if !guess.is_finite() {
+        return None;
+    }
+    let e: i64 = if guess.abs() < 1e-300 { 0 } else { guess.abs().log2().ceil() as i64 };
+    let mut kk: u64 = (40 - e).clamp(0, target as i64) as u64;
+    let mut m = Integer::rounding_from(guess * 2f64.powi(kk as i32), RoundingMode::Nearest).0;
+    let three = Integer::from(3);
+    let mut last = false;
+    for _ in 0..64 {
+        // one Newton step at scale kk: m -= F(x) 2^{3kk} / (F'(x) 2^{2kk})
+        let fm = resolvent_at(&m, kk, i, j);
+        let dm = &three * (&m * &m) - &three * i * (Integer::ONE << (2 * kk));
+        if dm == 0u32 {
+            return None;
+        }
+        let (q, _) = fm.div_round(&dm, RoundingMode::Nearest);
+        m -= q;
+        if last {
+            break;
+        }
+        if kk >= target {
+            last = true;
+            continue;
+        }
+        let next = (2 * kk as i64 + e - 4).max(kk as i64 + 1).min(target as i64) as u64;
+        m <<= next - kk;
+        kk = next;
+    }
+    if kk != target || !last {
+        return None;
+    }
+    let (a, b) = (&m - Integer::ONE, &m + Integer::ONE);
+    // inside the given bracket (scales kk >= k)
+    let shift = kk - k;
+    if a < (lo << shift) || b > (hi << shift) {
+        return None;
+    }
+    let (sa, sb) = (sign_at(&a, kk, i, j), sign_at(&b, kk, i, j));
+    match (sa, sb) {
+        (Ordering::Equal, _) => Some((a.clone(), a, kk)),
+        (_, Ordering::Equal) => Some((b.clone(), b, kk)),
+        (x, y) if x != y => Some((a, b, kk)),
+        _ => None,
     }
 }
 
@@ -357,11 +438,8 @@ fn may_meet_domain(re: &Iv, ab2: &Iv) -> bool {
 /// [`act_box`] and [`may_meet_domain`] in `f64` interval arithmetic (the
 /// box rounded outwards first): `false` only when the image provably misses
 /// `F`.
-fn may_meet_domain_f64(n: &[[i64; 2]; 2], x: &Iv, y2: &Iv) -> bool {
+fn may_meet_domain_f64(n: &[[i64; 2]; 2], xi: crate::enclosure::Interval, yi: crate::enclosure::Interval) -> bool {
     use crate::enclosure::Interval as R;
-    let down = |v: &Float| f64::rounding_from(v, Floor).0;
-    let up = |v: &Float| f64::rounding_from(v, Ceiling).0;
-    let (xi, yi) = (R::new(down(&x.lo), up(&x.hi)), R::new(down(&y2.lo), up(&y2.hi)));
     let sq = |v: R| {
         let far = v.lo().abs().max(v.hi().abs());
         let near = if v.lo() > 0.0 || v.hi() < 0.0 { v.lo().abs().min(v.hi().abs()) } else { 0.0 };
@@ -377,9 +455,17 @@ fn may_meet_domain_f64(n: &[[i64; 2]; 2], x: &Iv, y2: &Iv) -> bool {
     !(re.lo() > 0.5 || re.hi() < -0.5 || ab2.hi() < 1.0)
 }
 
+/// The interval rounded outwards to `f64` end points.
+fn outward_f64(v: &Iv) -> crate::enclosure::Interval {
+    crate::enclosure::Interval::new(f64::rounding_from(&v.lo, Floor).0, f64::rounding_from(&v.hi, Ceiling).0)
+}
+
 fn start_prec(h: &Quartic) -> u64 {
+    // enough for most forms (the box need only fit in `F_ε`, margin 1/64,
+    // after the cancellation in `P = 4φg - g_H`, about `2·bits`); the loop
+    // doubles it where it does not decide
     let bits = h.coeff_refs().iter().map(|c| significant_bits(c)).max().unwrap_or(0);
-    128 + 2 * bits
+    64 + 2 * bits
 }
 
 /// A form `h = g∘m` whose covariant point provably lies in `F_ε`, with the
@@ -435,11 +521,23 @@ fn proven_reduction(g: &Quartic) -> Result<(Quartic, Matrix, Iv, Iv, u64), Error
 pub(crate) fn candidate_set(g: &Quartic) -> Result<Vec<(Quartic, Matrix)>, Error> {
     let (h, m, x, y2, prec) = proven_reduction(g)?;
     let mut out: Vec<(Quartic, Matrix)> = Vec::new();
+    let (xi, yi) = (outward_f64(&x), outward_f64(&y2));
+    let tight = xi.hi() - xi.lo() < 1e-12 && yi.hi() - yi.lo() < 1e-12 * yi.hi().max(1.0);
     for n in super::reduction::neighbours() {
         // a quick rigorous filter first: the box rounded outwards to f64
         // intervals (crate::enclosure, outward rounding); only a candidate
         // it cannot exclude is checked again at full precision
-        if !may_meet_domain_f64(n, &x, &y2) {
+        if !may_meet_domain_f64(n, xi, yi) {
+            continue;
+        }
+        if tight {
+            // the f64 box is already narrow: the full-precision image could
+            // exclude only forms whose image lies within rounding of the
+            // boundary; keeping them keeps the set complete (a superset)
+            let c = candidate(&h, &m, n);
+            if !out.iter().any(|(f, _)| *f == c.0) {
+                out.push(c);
+            }
             continue;
         }
         let Some((re, ab2)) = act_box(n, &x, &y2, prec) else {
@@ -478,6 +576,39 @@ mod tests {
             let den = Integer::ONE << k;
             assert!(Rational::from_integers(lo, den.clone()) <= r && r <= Rational::from_integers(hi, den));
         }
+    }
+
+    #[test]
+    fn newton_brackets_hold_the_root_bisection_finds() {
+        // resolvents with three real roots and with one, small and large
+        // invariants; the Newton bracket must overlap the bisection bracket
+        // of the same root (each holds exactly that root) and meet the width
+        let (mut tried, mut hits) = (0, 0);
+        for (i, j) in [(13i64, 70i64), (1, 0), (7, -3), (100003, 12345), (3, 100), (48, -1000), (123456789, 987654321)] {
+            let (i, j) = (Integer::from(i), Integer::from(j));
+            let brackets: Vec<(Integer, Integer, u64)> = match three_brackets(&i, &j) {
+                Some(b) if Integer::from(4) * &i * &i * &i > &j * &j => b.to_vec(),
+                _ => vec![one_bracket(&i, &j)],
+            };
+            let top = (significant_bits(&i) / 2).max(significant_bits(&j) / 3) as i64 + 2;
+            for prec in [60u64, 100, 300] {
+                for (lo, hi, k) in &brackets {
+                    let target = (prec as i64 + 2 - top) as u64;
+                    tried += 1;
+                    let Some((a, b, kk)) = newton_bracket(lo, hi, *k, &i, &j, target) else { continue };
+                    hits += 1;
+                    let lo_sign = sign_at(lo, *k, &i, &j);
+                    let (c, d, kb) = bisect(lo.clone(), hi.clone(), *k, &i, &j, top - prec as i64, lo_sign);
+                    let (ra, rb) = (Rational::from_integers(a, Integer::ONE << kk), Rational::from_integers(b, Integer::ONE << kk));
+                    let (rc, rd) = (Rational::from_integers(c, Integer::ONE << kb), Rational::from_integers(d, Integer::ONE << kb));
+                    assert!(ra <= rd && rc <= rb, "i = {i}, j = {j}, prec = {prec}");
+                    use malachite::base::num::arithmetic::traits::PowerOf2;
+                    assert!(&rb - &ra <= <Rational as PowerOf2<i64>>::power_of_2(top - prec as i64), "width at prec {prec}");
+                }
+            }
+        }
+        // the fast path is taken (it may decline, never mislead)
+        assert!(hits * 10 >= tried * 9, "{hits} of {tried}");
     }
 
     #[test]

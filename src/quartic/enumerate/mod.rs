@@ -63,7 +63,7 @@
 
 use super::core::{Quartic, RootType};
 use super::numeric::{resolvent_roots, sqrt_if_square_u128, to_f64, CubicRoots};
-use super::reduction::{near_reduced_set, size_key};
+use super::reduction::{near_reduced_set, reduce_tau, size_key};
 use crate::curve::Curve;
 use crate::error::{Error, ErrorKind};
 use malachite::Integer;
@@ -754,14 +754,30 @@ pub(crate) fn distinct_classes(forms: Vec<Quartic>) -> Result<Vec<Quartic>, Erro
         if class_of.contains_key(&g) {
             continue;
         }
+        // a cheap exact step first: the floating-point reduction moves `g` by
+        // integer matrices, so its result `h` is exactly equivalent to `g`
+        // (`h = g∘M`, `det M = ±1`, whatever the rounding did); if `h` is
+        // already known, `g` joins that class without the proven candidate
+        // set. Completeness is untouched: every class met for the first time
+        // still goes through `near_reduced_set`, which holds all reduced forms
+        // of that class, so two forms of one class always end up joined.
+        let fast = reduce_tau(&g).map(|(h, _, _)| h);
+        if let Some(k) = fast.as_ref().and_then(|h| class_of.get(h)).copied() {
+            class_of.insert(g, k);
+            continue;
+        }
         let set = near_reduced_set(&g)
             .ok_or_else(|| Error::new(ErrorKind::TooLarge, format!("floating-point reduction failed for {g:?}")))?;
         let id = parent.len();
         parent.push(id);
         members.push(Vec::new());
         let forms_here: Vec<Quartic> = set.into_iter().map(|x| x.0).collect();
-        // the found form itself is recorded (to skip repeats) but is not a candidate representative
+        // the found form itself (and its floating-point reduction) is
+        // recorded (to skip repeats) but is not a candidate representative
         class_of.entry(g).or_insert(id);
+        if let Some(h) = fast {
+            class_of.entry(h).or_insert(id);
+        }
         for f in forms_here {
             if let Some(&k) = class_of.get(&f) {
                 let (ra, rb) = (find(&mut parent, k), find(&mut parent, id));
