@@ -31,7 +31,7 @@ use std::time::Instant;
 /// use twofold::heights::{mordell_weil_basis_of, SaturationOptions};
 /// // y^2 + y = x^3 - x: (0,0) generates (Cremona 1997; from memory)
 /// let d = CurveData::new(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(), &Work::unlimited()).unwrap();
-/// let o = SaturationOptions::default().with_max_saturation_prime(100).with_max_aux_prime(5_000);
+/// let o = SaturationOptions::default().with_max_saturation_prime(1_000).with_max_aux_prime(20_000);
 /// let b = mordell_weil_basis_of(&d, &[Point::from_ints(0, 0)], 96, &o).unwrap();
 /// assert!(b.saturation.is_saturated());
 /// ```
