@@ -108,3 +108,26 @@ impl std::error::Error for Error {
         self.cause.as_deref().map(|e| e as &(dyn std::error::Error + 'static))
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use std::error::Error as _;
+
+    /// The three families of kinds stay apart through `in_stage`: an
+    /// internal inconsistency keeps its kind and its request for a report,
+    /// and `source()` gives back the stage's own error.
+    #[test]
+    fn a_wrapped_stage_error_keeps_its_kind_and_source() {
+        let inner = Error::internal("the descent", "two routes disagree");
+        assert!(inner.message().contains("please report"));
+        let outer = inner.clone().in_stage("the analytic route");
+        assert_eq!(outer.kind(), &ErrorKind::Internal);
+        let src = outer.source().and_then(|s| s.downcast_ref::<Error>()).expect("the wrapped error");
+        assert_eq!(*src, inner);
+        let budget = Error::new(ErrorKind::Budget, "out of time").in_stage("the torsion");
+        assert_eq!(budget.kind(), &ErrorKind::Budget);
+        assert!(budget.to_string().contains("out of time"));
+        assert!(Error::new(ErrorKind::Parse, "x").source().is_none());
+    }
+}

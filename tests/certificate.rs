@@ -7,12 +7,64 @@ mod common;
 use malachite::{Integer, Natural};
 use twofold::certificate::{verify, Certificate, CertificateError};
 use twofold::solubility::{check_witness, LocalWitness, Place};
-use twofold::{analyse, Curve, RankOptions};
+use std::sync::atomic::AtomicBool;
+use std::sync::Arc;
+use std::time::Duration;
+use twofold::{analyse, Curve, Point, RankOptions, RankReport, Work};
 
 fn certificate(a: [i64; 5]) -> Certificate {
+    report_and_certificate(a).1
+}
+
+fn report_and_certificate(a: [i64; 5]) -> (RankReport, Certificate) {
     let e = Curve::from_coefficients(a).unwrap();
     let r = analyse(&e, &RankOptions::default()).unwrap();
-    Certificate::from_report(&r).unwrap()
+    let c = Certificate::from_report(&r).unwrap();
+    (r, c)
+}
+
+/// A work past its deadline and cancelled before it starts: any stage run
+/// under it stops at once with a budget error.
+fn spent_work() -> Work {
+    Work::new(&RankOptions::default().with_time_limit(Duration::ZERO).with_cancel(Arc::new(AtomicBool::new(true))))
+}
+
+/// The certificate is read from the report (issue 10: the report is the
+/// record). Built again under a spent and cancelled work it is the same
+/// certificate, so no stage ran again; the side models' torsion is the
+/// descent's, and on the side of E it has the published torsion order; the
+/// analytic record carries the report's local root numbers and conductor,
+/// the published conductor, and the root number `(-1)^rank` of the
+/// published rank (a proven analytic rank 0 or 1 is the rank:
+/// Gross-Zagier 1986, Kolyvagin 1988-1990). Published values: Cremona 1997,
+/// tests/data/README.md.
+fn check_records(row: &common::Row, r: &RankReport, c: &Certificate) {
+    let a = row.coefficients;
+    let again = Certificate::from_report_within(r, &spent_work()).unwrap_or_else(|e| panic!("{a:?}: {e}"));
+    assert_eq!(again, *c, "{a:?}");
+    assert_eq!(c.isogeny.len(), r.isogeny_runs.len(), "{a:?}");
+    for (run, proof) in r.isogeny_runs.iter().zip(&c.isogeny) {
+        for (side, rec) in [&run.side_e, &run.side_e_prime].into_iter().zip(&proof.sides) {
+            let affine: Vec<_> = side
+                .torsion_points
+                .iter()
+                .filter_map(|p| match p {
+                    Point::Affine(x, y) => Some((x.clone(), y.clone())),
+                    Point::Infinity => None,
+                })
+                .collect();
+            assert_eq!(rec.torsion, affine, "{a:?}");
+        }
+        // the identity included
+        assert_eq!(run.side_e.torsion_points.len(), row.torsion_order, "{a:?}");
+    }
+    if let Some(rec) = &c.analytic {
+        let rn = r.root_number.as_ref().unwrap_or_else(|| panic!("{a:?}: an analytic record without the report's root number"));
+        assert_eq!(rec.local_root_numbers, rn.local, "{a:?}");
+        assert_eq!(rec.conductor, rn.conductor, "{a:?}");
+        assert_eq!(rec.conductor.to_string(), row.conductor.to_string(), "{a:?}");
+        assert_eq!(rec.root_number, if row.rank % 2 == 0 { 1 } else { -1 }, "{a:?}");
+    }
 }
 
 fn rejected(c: &Certificate) -> bool {
@@ -23,7 +75,8 @@ fn check_table(name: &str) -> (usize, usize, usize) {
     let rows = common::read_table(name);
     let (mut proven, mut fully, mut trusted) = (0, 0, 0);
     for row in &rows {
-        let c = certificate(row.coefficients);
+        let (r, c) = report_and_certificate(row.coefficients);
+        check_records(row, &r, &c);
         let v = verify(&c).unwrap_or_else(|e| panic!("{:?}: {e}", row.coefficients));
         // the verified bounds contain the published rank (published tables, Cremona 1997)
         assert!(v.lower_bound <= row.rank, "{:?}", row.coefficients);

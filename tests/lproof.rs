@@ -7,27 +7,23 @@ use twofold::lproof::{prove_analytic_rank, prove_l_value, prove_root_number};
 use twofold::lseries::special_values;
 use twofold::Curve;
 
-fn rows(path: &str, with_class: bool) -> Vec<(u64, u32, [i64; 5], u32)> {
-    let text = std::fs::read_to_string(path).expect("table in ../shared/data");
-    let mut out = Vec::new();
-    for line in text.lines().filter(|l| !l.starts_with('#') && !l.trim().is_empty()) {
-        let f: Vec<i64> = line.split_whitespace().map(|x| x.parse().unwrap()).collect();
-        let (n, class, k) = if with_class { (f[0] as u64, f[1] as u32, 2) } else { (f[0] as u64, 0, 1) };
-        let a = [f[k], f[k + 1], f[k + 2], f[k + 3], f[k + 4]];
-        out.push((n, class, a, f[k + 5] as u32));
-    }
-    out
+mod common;
+
+/// The rows of a published table through the shared reader (tests/common):
+/// conductor, isogeny class (0 where the table has none), a-invariants, rank.
+fn rows(name: &str) -> Vec<(u64, u32, [i64; 5], u32)> {
+    common::read_table(name).into_iter().map(|r| (r.conductor, r.class.unwrap_or(0), r.coefficients, r.rank as u32)).collect()
 }
 
 fn all_table_curves() -> Vec<(u64, u32, [i64; 5], u32)> {
-    let mut v = rows("../shared/data/curves-small-conductor.tsv", true);
-    v.extend(rows("../shared/data/curves-with-sha.tsv", false));
+    let mut v = rows("curves-small-conductor.tsv");
+    v.extend(rows("curves-with-sha.tsv"));
     v
 }
 
 /// Every curve of both tables (J. E. Cremona, Algorithms for Modular
 /// Elliptic Curves, 2nd ed., 1997, Table 1, and the list of curves with
-/// non-trivial Sha in ../shared/data): the proven root number is
+/// non-trivial Sha in tests/data, copies of ../shared/data): the proven root number is
 /// (-1)^rank, the proven leading value excludes 0 (every curve there has
 /// analytic rank 0 or 1), and contains the f64 value of lseries (an
 /// independent computation with its own error bound).
@@ -57,7 +53,7 @@ fn every_table_curve_gets_its_rank_proven() {
 #[test]
 fn equal_for_isogenous_curves_and_invariant_under_change_of_model() {
     let lim = FactorLimits::default();
-    let curves = rows("../shared/data/curves-small-conductor.tsv", true);
+    let curves = rows("curves-small-conductor.tsv");
     let mut prev: Option<((u64, u32), twofold::lproof::ProvenLValue)> = None;
     for (n, class, a, rank) in curves.into_iter().take(200) {
         let e = Curve::from_coefficients(a).unwrap();

@@ -188,7 +188,7 @@ pub(crate) fn f2_rank(vs: &[u64]) -> usize {
 /// formulas (Silverman, AEC III.1) and the chord-and-tangent law (AEC III.2.3).
 #[derive(Clone, Debug)]
 pub(crate) struct Model {
-    pub a: [Rational; 5],
+    pub(crate) a: [Rational; 5],
 }
 
 impl Model {

@@ -43,7 +43,7 @@ pub use verify::{verify, CertificateError, UpperBoundBasis, VerifiedClaims};
 
 use crate::budget::Work;
 use crate::curve::{Curve, Point};
-use crate::error::Error;
+use crate::error::{Error, ErrorKind};
 use crate::report::RankReport;
 use crate::solubility::{local_witness, LocalWitness, Place};
 use malachite::base::num::arithmetic::traits::DivisibleBy;
@@ -370,18 +370,28 @@ impl Certificate {
     /// model, local points for every Selmer class, and a rational point on
     /// each quartic class that the descent explained by a point found on
     /// the covering. Everything is read from the report (the report is the
-    /// record): nothing is searched or factored again.
+    /// record): no stage runs again (no point search, factoring, Tate's
+    /// algorithm, torsion, heights or root number). The one computation of
+    /// its own is a local point on the covering of each 2-isogeny Selmer
+    /// basis class (the descent keeps local points for its local class
+    /// representatives only).
     ///
     /// Errors: an internal inconsistency in the report (a Selmer class
-    /// without a local point, a point off its curve).
+    /// without a local point, a point off its curve); kind
+    /// [`ErrorKind::InvalidValue`] when the analytic route proved the rank
+    /// but the report has no [`RankReport::root_number`] (its stage did not
+    /// finish).
     pub fn from_report(report: &RankReport) -> Result<Certificate, Error> {
         Certificate::from_report_within(report, &Work::unlimited())
     }
 
-    /// As [`Certificate::from_report`], with the one computation not read
-    /// from the report (the local root numbers of the analytic record) held
-    /// to the deadline and cancel flag of `work`.
-    pub fn from_report_within(report: &RankReport, work: &Work) -> Result<Certificate, Error> {
+    /// As [`Certificate::from_report`], for callers that hold the `Work` of
+    /// an analysis. The builder computes nothing (no stage runs again: the
+    /// side models' torsion comes from the 2-isogeny runs, the local root
+    /// numbers from [`RankReport::root_number`], heights from the
+    /// evidence), so it never consults `work` and succeeds under a work
+    /// that is spent or cancelled (tests/certificate.rs checks it).
+    pub fn from_report_within(report: &RankReport, _work: &Work) -> Result<Certificate, Error> {
         let change = &report.change;
         let minimal = &report.minimal;
         let to_min = |p: &Point| -> Result<Option<(Rational, Rational)>, Error> {
@@ -396,7 +406,6 @@ impl Certificate {
                 torsion.push(q);
             }
         }
-        let data = crate::local::CurveData::from_parts(&report.input, minimal, change, &report.local)?;
         let mut points = Vec::new();
         for p in &report.points {
             if let Some((x, y)) = to_min(p)? {
@@ -415,7 +424,7 @@ impl Certificate {
         let primes: Vec<Natural> = report.local.iter().map(|l| l.prime.clone()).collect();
         let mut isogeny = Vec::new();
         for run in &report.isogeny_runs {
-            isogeny.push(isogeny_proof(minimal, run, &primes)?);
+            isogeny.push(isogeny_proof(minimal, run)?);
         }
         let quartic = match (&report.full_descent, &report.descent_curve) {
             (Some(f), None) => Some(quartic_proof(minimal, f, None)?),
@@ -434,22 +443,25 @@ impl Certificate {
             points,
             isogeny,
             quartic,
-            analytic: analytic_record(report, &data, work)?,
+            analytic: analytic_record(report)?,
         })
     }
 }
 
-/// The analytic record of a report whose analytic route proved the rank.
-fn analytic_record(report: &RankReport, data: &crate::local::CurveData, work: &Work) -> Result<Option<AnalyticRecord>, Error> {
+/// The analytic record of a report whose analytic route proved the rank,
+/// with the local root numbers of the report's root number stage.
+fn analytic_record(report: &RankReport) -> Result<Option<AnalyticRecord>, Error> {
     let Some(a) = &report.analytic else { return Ok(None) };
     let (Some(v), Some(w)) = (&a.value, a.root_number) else { return Ok(None) };
     if !v.nonzero_proven() {
         return Ok(None);
     }
-    // the curve's data is rebuilt from the report (no factoring, no Tate's
-    // algorithm); the local root numbers are not in the report and are
-    // computed from it
-    let rn = crate::rootno::root_number_of(data, &crate::arith::FactorLimits::within(work))?;
+    let rn = report.root_number.as_ref().ok_or_else(|| {
+        Error::new(
+            ErrorKind::InvalidValue,
+            "the report carries no local root numbers (its root number stage did not run or did not finish), so the analytic record cannot be written",
+        )
+    })?;
     if rn.global != w {
         return Err(Error::internal(
             "certificate",
@@ -460,9 +472,9 @@ fn analytic_record(report: &RankReport, data: &crate::local::CurveData, work: &W
     Ok(Some(AnalyticRecord {
         order: v.order,
         terms: v.terms,
-        conductor: data.conductor().clone(),
+        conductor: rn.conductor.clone(),
         root_number: w,
-        local_root_numbers: rn.local,
+        local_root_numbers: rn.local.clone(),
         low,
         high,
         theorem: ANALYTIC_THEOREM.to_string(),
@@ -490,24 +502,11 @@ fn side_change(curve: &Curve, t: &(Rational, Rational)) -> Option<(Integer, Inte
     Some((x0, u))
 }
 
-fn isogeny_proof(
-    curve: &Curve,
-    run: &crate::descent::isogeny::IsogenyDescent,
-    primes: &[Natural],
-) -> Result<IsogenyProof, Error> {
+fn isogeny_proof(curve: &Curve, run: &crate::descent::isogeny::IsogenyDescent) -> Result<IsogenyProof, Error> {
     let kernel = affine(&run.kernel_point).ok_or_else(|| Error::internal("the certificate builder", "kernel point at infinity"))?;
     let (x0, u) = side_change(curve, &kernel).ok_or_else(|| Error::internal("the certificate builder", "kernel point not integral on the short model"))?;
-    let mut all_primes: Vec<Natural> = primes.to_vec();
-    for q in [2u32, 3] {
-        if !all_primes.contains(&Natural::from(q)) {
-            all_primes.push(Natural::from(q));
-        }
-    }
-    all_primes.sort();
     let mut sides = Vec::new();
     for side in [&run.side_e, &run.side_e_prime] {
-        let model = Curve::new([Integer::from(0), side.a.clone(), Integer::from(0), side.b.clone(), Integer::from(0)])?;
-        let tors = crate::torsion::TorsionGroup::compute(&model, &all_primes);
         let local: Vec<LocalTable> = side
             .local_images
             .iter()
@@ -545,7 +544,8 @@ fn isogeny_proof(
             a: side.a.clone(),
             b: side.b.clone(),
             selmer_dim: complete.then_some(side.selmer_dim),
-            torsion: tors.points().iter().filter_map(affine).collect(),
+            // the side's torsion as the descent found it (never computed again)
+            torsion: side.torsion_points.iter().filter_map(affine).collect(),
             local,
             classes,
             images,

@@ -58,6 +58,13 @@ pub struct IsogenySide {
     /// For every place tested, the local image (classes of `Q_v*/Q_v*^2`,
     /// as integer representatives) with a witness for each soluble class.
     pub local_images: Vec<LocalImage>,
+    /// The torsion points of this side's model `y^2 = x(x^2 + a x + b)`
+    /// (the whole torsion subgroup, the point at infinity included), as the
+    /// descent found them for the torsion images: the curve's own torsion
+    /// carried over on the side of E, computed on the side of E'. The
+    /// certificate records them from here.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub torsion_points: Vec<Point>,
 }
 
 /// The local image at one place: the classes of `Q_v*/Q_v*^2` (given by
@@ -277,6 +284,7 @@ struct SideWork {
     classes: SquareClasses,
     selmer: F2Span,
     torsion: F2Span,
+    torsion_points: Vec<Point>,
     found: F2Span,
     points: Vec<(Integer, Point)>,
     local_images: Vec<LocalImage>,
@@ -292,6 +300,7 @@ impl SideWork {
             classes: SquareClasses::new(side_primes),
             selmer: F2Span::new(),
             torsion: F2Span::new(),
+            torsion_points: vec![],
             found: F2Span::new(),
             points: vec![],
             local_images: vec![],
@@ -318,6 +327,7 @@ impl SideWork {
             points: self.points.clone(),
             unexplained: if complete_selmer { unexplained } else { vec![] },
             local_images: self.local_images.clone(),
+            torsion_points: self.torsion_points.clone(),
         }
     }
 }
@@ -591,8 +601,9 @@ fn check_cassels(primes: &[Natural], sides: &[SideWork; 2]) -> Result<i64, Error
 }
 
 /// The images of the torsion of both sides (the torsion of `e1_model` is
-/// computed here); with a complete Selmer group they must lie in it. The
-/// points found start as the torsion.
+/// computed here, that of the side of E carried over from `torsion`; both
+/// lists are kept for the record); with a complete Selmer group they must
+/// lie in it. The points found start as the torsion.
 fn add_torsion_images(
     curve: &Curve,
     model: &TwoTorsionModel,
@@ -607,10 +618,12 @@ fn add_torsion_images(
         let q = model.from_user(curve, p);
         let v = sides[0].classes.vector_of(&alpha(&q, &sides[0].b)).ok_or_else(|| Error::internal("the 2-isogeny descent", "torsion image outside S"))?;
         sides[0].torsion.insert(v);
+        sides[0].torsion_points.push(q);
     }
     for p in tors_e1.points() {
         let v = sides[1].classes.vector_of(&alpha(p, &sides[1].b)).ok_or_else(|| Error::internal("the 2-isogeny descent", "torsion image outside S"))?;
         sides[1].torsion.insert(v);
+        sides[1].torsion_points.push(p.clone());
     }
     for w in sides.iter_mut() {
         w.found = w.torsion.clone();

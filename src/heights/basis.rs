@@ -16,12 +16,24 @@ use std::sync::atomic::{AtomicBool, Ordering};
 use std::sync::Arc;
 use std::time::Instant;
 
-/// Budgets for [`mordell_weil_basis`].
+/// Budgets for [`mordell_weil_basis`], set with the `with_...` builders:
+/// the largest naive height `max(|m|, k^2)` (for `x = m/k^2`) searched for
+/// points of small height (default 200,000; the lower bound for heights of
+/// non-torsion points, and the candidates for division by p), the largest
+/// auxiliary prime q of Siksek's test (default 20,000), the largest prime p
+/// for which p-saturation is attempted (default 1,000; primes between it
+/// and the index bound stay unproven), and a deadline and cancel flag
+/// ([`SaturationOptions::within`] takes them from a `Work`), past which the
+/// result is returned unproven.
 ///
 /// ```
-/// use twofold::heights::SaturationOptions;
-/// let o = SaturationOptions::default();
-/// assert!(o.max_search_height >= 1000);
+/// use twofold::{Curve, CurveData, Point, Work};
+/// use twofold::heights::{mordell_weil_basis_of, SaturationOptions};
+/// // y^2 + y = x^3 - x: (0,0) generates (Cremona 1997; from memory)
+/// let d = CurveData::new(&Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap(), &Work::unlimited()).unwrap();
+/// let o = SaturationOptions::default().with_max_saturation_prime(1_000).with_max_aux_prime(20_000);
+/// let b = mordell_weil_basis_of(&d, &[Point::from_ints(0, 0)], 96, &o).unwrap();
+/// assert!(b.saturation.is_saturated());
 /// ```
 #[derive(Clone, Debug)]
 #[non_exhaustive]
@@ -29,16 +41,16 @@ pub struct SaturationOptions {
     /// The largest naive height `max(|m|, k^2)` (for `x = m/k^2`) searched
     /// for points of small height (the lower bound for heights of
     /// non-torsion points, and the candidates for division by p).
-    pub max_search_height: u64,
+    pub(crate) max_search_height: u64,
     /// The largest auxiliary prime q used in Siksek's test.
-    pub max_aux_prime: u64,
+    pub(crate) max_aux_prime: u64,
     /// The largest prime p for which p-saturation is attempted; primes
     /// between this and the index bound stay unproven.
-    pub max_saturation_prime: u64,
+    pub(crate) max_saturation_prime: u64,
     /// Stop (with an unproven result) once this instant has passed.
-    pub deadline: Option<Instant>,
+    pub(crate) deadline: Option<Instant>,
     /// Stop (with an unproven result) once this flag is set.
-    pub cancel: Option<Arc<AtomicBool>>,
+    pub(crate) cancel: Option<Arc<AtomicBool>>,
 }
 
 impl SaturationOptions {
@@ -62,7 +74,8 @@ impl SaturationOptions {
     ///
     /// ```
     /// use twofold::{heights::SaturationOptions, Work};
-    /// assert!(SaturationOptions::within(&Work::unlimited()).cancel.is_none());
+    /// let o = SaturationOptions::within(&Work::unlimited());
+    /// assert!(format!("{o:?}").contains("cancel: None"));
     /// ```
     pub fn within(work: &crate::budget::Work) -> SaturationOptions {
         SaturationOptions { deadline: work.deadline(), cancel: work.cancel_flag().cloned(), ..SaturationOptions::default() }
@@ -323,8 +336,9 @@ pub fn mordell_weil_basis(
     precision: u64,
     options: &SaturationOptions,
 ) -> Result<MordellWeilBasis, Error> {
-    check_minimal(curve, local)?;
-    basis_on_minimal(curve, points, local, precision, options)
+    // the minimality check of `local` (no factoring, no Tate's algorithm)
+    let data = CurveData::from_parts(curve, curve, &crate::curve::ModelChange::identity(), local)?;
+    mordell_weil_basis_of(&data, points, precision, options)
 }
 
 /// [`mordell_weil_basis`] for a curve whose data is known: `points` lie on
@@ -340,18 +354,7 @@ pub fn mordell_weil_basis(
 /// assert!((b.regulator_f64() - 0.0511114082).abs() < 1e-9);
 /// ```
 pub fn mordell_weil_basis_of(data: &CurveData, points: &[Point], precision: u64, options: &SaturationOptions) -> Result<MordellWeilBasis, Error> {
-    basis_on_minimal(data.minimal(), points, data.local(), precision, options)
-}
-
-/// The body of [`mordell_weil_basis`] once `local` is known to describe the
-/// minimal model `curve`.
-fn basis_on_minimal(
-    curve: &Curve,
-    points: &[Point],
-    local: &[LocalData],
-    precision: u64,
-    options: &SaturationOptions,
-) -> Result<MordellWeilBasis, Error> {
+    let (curve, local) = (data.minimal(), data.local());
     for p in points {
         if !curve.contains(p) {
             return Err(Error::new(ErrorKind::InvalidValue, format!("the point {p} is not on the curve")));

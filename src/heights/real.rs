@@ -56,8 +56,8 @@ pub(crate) fn abs(x: &Float) -> Float {
 /// A complex number with Float parts.
 #[derive(Clone, Debug)]
 pub(crate) struct Cx {
-    pub re: Float,
-    pub im: Float,
+    pub(crate) re: Float,
+    pub(crate) im: Float,
 }
 
 impl Cx {

@@ -21,8 +21,8 @@ pub(crate) type ModPt = Option<(u64, u64)>;
 /// the group law in machine words.
 #[derive(Clone, Debug)]
 pub(crate) struct ModCurve {
-    pub q: u64,
-    pub a: [u64; 5],
+    pub(crate) q: u64,
+    pub(crate) a: [u64; 5],
 }
 
 fn residue(n: &Integer, q: u64) -> u64 {

@@ -15,9 +15,11 @@ const PRECISION: u64 = 128;
 
 /// The evidence for `report`, whose curve is described by `data`. A part
 /// that cannot be computed leaves an [`Standing::Unfinished`] statement
-/// saying why; none is dropped silently.
-pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evidence {
-    work.report(Stage::Evidence, "root number, heights, periods, L-values");
+/// saying why; none is dropped silently. The root number is read from the
+/// report (its stage ran once before); `root_number_failure` is why that
+/// stage did not finish, if it did not.
+pub(crate) fn compute(report: &RankReport, data: &CurveData, root_number_failure: Option<&crate::error::Error>, work: &Work) -> Evidence {
+    work.report(Stage::Evidence, "heights, periods, L-values");
     let unfinished = |what: &str, why: &dyn std::fmt::Display| Statement { claim: format!("{what}: {why}"), standing: Standing::Unfinished };
     let mut st: Vec<Statement> = Vec::new();
     let proven = |claim: String| Statement { claim, standing: Standing::Proven };
@@ -44,11 +46,11 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
         }
     }
     // root number and parity
-    let rn = crate::rootno::root_number_of(data, &crate::arith::FactorLimits::within(work));
-    if let Err(e) = &rn {
+    if let Some(e) = root_number_failure {
         st.push(unfinished("the root number was not computed", e));
     }
-    let w = rn.as_ref().ok().map(|r| r.global);
+    let rn = report.root_number.as_ref();
+    let w = rn.map(|r| r.global);
     // the analytic route's proven L-value and what it proves
     if let Some(v) = report.analytic.as_ref().and_then(|a| a.value.as_ref()) {
         let what = if v.order == 0 { "L(E,1)" } else { "L'(E,1)" };
@@ -70,7 +72,7 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
             });
         }
     }
-    if let Ok(r) = &rn {
+    if let Some(r) = rn {
         use crate::rootno::RootNumberMethod;
         let w = r.global;
         let local = "local root numbers: -1 at split and +1 at non-split multiplicative primes, Rohrlich 1993 for p >= 5, \
@@ -130,7 +132,14 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
     }
     let tamagawa: Vec<(Natural, u32)> = data.local().iter().map(|d| (d.prime.clone(), d.tamagawa)).collect();
     // heights, regulator, saturation
-    let on_min: Vec<Point> = report.points.iter().filter_map(|p| data.to_minimal(p).ok()).filter(|p| !p.is_infinity()).collect();
+    let mut on_min: Vec<Point> = Vec::new();
+    for p in &report.points {
+        match data.to_minimal(p) {
+            Ok(q) if !q.is_infinity() => on_min.push(q),
+            Ok(_) => {}
+            Err(e) => st.push(unfinished(&format!("heights were not computed: the point {p} was not carried to the minimal model"), &e)),
+        }
+    }
     let mut ev = Evidence {
         root_number: w,
         generators: None,
@@ -176,6 +185,11 @@ pub(crate) fn compute(report: &RankReport, data: &CurveData, work: &Work) -> Evi
                 }
                 ev.reduced_points = back;
                 ev.saturation = Some(b.saturation);
+            } else {
+                st.push(unfinished(
+                    "heights and saturation were not reported",
+                    &format!("the reduced basis has {} point(s) for {} independent point(s), or a point off the input curve", back.len(), on_min.len()),
+                ));
             }
         }
     } else if report.rank() == Some(0) {
@@ -204,8 +218,8 @@ fn analytic(report: &RankReport, data: &CurveData, w: i8, work: &Work, ev: &mut 
             st.push(Statement { claim: format!("L-values were not computed: {e}"), standing: Standing::Unfinished });
             return;
         }
-        Err(_) => {
-            st.push(Statement { claim: "the analytic rank was not decided to the accuracy reached".into(), standing: Standing::Numerical });
+        Err(e) => {
+            st.push(Statement { claim: format!("the analytic rank was not decided to the accuracy reached ({e})"), standing: Standing::Numerical });
             return;
         }
     };
@@ -264,7 +278,14 @@ fn analytic(report: &RankReport, data: &CurveData, w: i8, work: &Work, ev: &mut 
         tamagawa_product,
         relative_error: 1e-12,
     };
-    if let Ok(sha) = bsd_sha(&inputs) {
+    let sha = match bsd_sha(&inputs) {
+        Ok(sha) => sha,
+        Err(e) => {
+            st.push(Statement { claim: format!("the analytic order of Sha was not computed: {e}"), standing: Standing::Unfinished });
+            return;
+        }
+    };
+    {
         ev.sha_bsd_estimate = Some(sha.value);
         st.push(Statement {
             claim: format!(

@@ -126,8 +126,25 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
             return Err(Error::internal("the report", "a reported point is not on the input curve"));
         }
     }
-    if options.evidence && !work.exhausted() {
-        let mut ev = evidence::compute(&report, data, work);
+    // the root number stage runs once: the evidence states it and the
+    // certificate records its local factors, both from the report
+    // (decided before the stage runs: a budget spent inside it leaves the
+    // evidence with a statement saying so, never without evidence)
+    let evidence_now = options.evidence && !work.exhausted();
+    let root_number = (evidence_now || (options.certificate && !work.exhausted())).then(|| {
+        work.report(if options.evidence { Stage::Evidence } else { Stage::Certificate }, "root number");
+        crate::rootno::root_number_of(data, &crate::arith::FactorLimits::within(work))
+    });
+    let root_number_failure = match root_number {
+        Some(Ok(rn)) => {
+            report.root_number = Some(rn);
+            None
+        }
+        Some(Err(e)) => Some(e),
+        None => None,
+    };
+    if evidence_now {
+        let mut ev = evidence::compute(&report, data, root_number_failure.as_ref(), work);
         if let Some(e) = analytic_unfinished {
             ev.statements.push(Statement { claim: format!("the analytic route did not finish: {e}"), standing: Standing::Unfinished });
         }
@@ -141,7 +158,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     settle_isogeny_sha(&mut report)?;
     if options.certificate {
         work.report(Stage::Certificate, "certificate of the rank proof");
-        match crate::certificate::Certificate::from_report_within(&report, work) {
+        match crate::certificate::Certificate::from_report(&report) {
             Ok(c) => report.certificate = Some(c.to_text()),
             Err(e) => {
                 if let Some(ev) = report.evidence.as_mut() {
@@ -238,6 +255,7 @@ fn empty_report(data: &CurveData, work: &Work) -> RankReport {
         descent_bounds: (None, None),
         rank_proven_by: vec![],
         analytic: None,
+        root_number: None,
         sha2_dim: None,
         isogeny_sha_dims: vec![],
         route: Route::None,

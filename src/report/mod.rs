@@ -163,6 +163,16 @@ pub struct RankReport {
     /// `L(E,1)` or `L'(E,1)`, and the rank it proves (0 or 1) when the
     /// enclosure excludes zero.
     pub analytic: Option<AnalyticProof>,
+    /// The root number stage as it ran once for this report (local
+    /// formulas, the twist transfer or the functional-equation test: see
+    /// [`crate::rootno::root_number_of`]), with the local root numbers and
+    /// the conductor: set when the evidence or the certificate was asked
+    /// for and the stage finished. The evidence states it and the
+    /// certificate records its local factors from here. The global sign
+    /// settled over every route (2-Selmer parity included) is
+    /// [`Evidence::root_number`].
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub root_number: Option<crate::rootno::RootNumber>,
     /// The proven dimension over F2 of Sha(E)\[2\] (its order is
     /// `2^sha2_dim`): `dim Sel^2(E) - rank - dim E(Q)[2]`, known once the rank
     /// is proven and Sel^2(E) computed.

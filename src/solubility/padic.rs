@@ -48,9 +48,9 @@ pub(crate) struct Overflow;
 /// such that every `t' = t (mod p^K)` is a witness as well.
 #[derive(Debug, Clone)]
 pub(crate) struct PadicHit {
-    pub x_chart: bool,
-    pub t: Integer,
-    pub radius: u32,
+    pub(crate) x_chart: bool,
+    pub(crate) t: Integer,
+    pub(crate) radius: u32,
 }
 
 enum LargeClass<C> {

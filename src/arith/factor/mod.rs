@@ -27,21 +27,26 @@ use std::sync::{Arc, OnceLock};
 use std::time::Instant;
 
 /// Limits on the work [`factor`] may do: a wall-clock deadline and a
-/// cancellation flag, both optional. The default has neither.
+/// cancellation flag, both optional (set with `with_deadline` and
+/// `with_cancel`; [`FactorLimits::within`] takes both from a `Work`). The
+/// default has neither. Past the deadline or with the flag set, [`factor`]
+/// stops with an error of kind [`ErrorKind::FactorBudget`].
 ///
 /// ```
 /// use std::time::{Duration, Instant};
-/// use twofold::arith::FactorLimits;
+/// use twofold::arith::{factor, FactorLimits};
+/// use malachite::Integer;
 /// let limits = FactorLimits::default().with_deadline(Instant::now() + Duration::from_secs(5));
-/// assert!(limits.cancel.is_none());
+/// // 91 = 7 * 13
+/// assert_eq!(factor(&Integer::from(91), &limits).unwrap().factors().len(), 2);
 /// ```
 #[derive(Clone, Debug, Default)]
 #[non_exhaustive]
 pub struct FactorLimits {
     /// Stop with [`ErrorKind::FactorBudget`] once this instant has passed.
-    pub deadline: Option<Instant>,
+    pub(crate) deadline: Option<Instant>,
     /// Stop with [`ErrorKind::FactorBudget`] once this flag is set.
-    pub cancel: Option<Arc<AtomicBool>>,
+    pub(crate) cancel: Option<Arc<AtomicBool>>,
 }
 
 impl FactorLimits {

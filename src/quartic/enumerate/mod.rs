@@ -78,28 +78,32 @@ use scan::{scan_i128, scan_i64, ResidueFilter};
 /// Options for [`quartics_with_invariants`].
 ///
 /// ```
-/// use twofold::quartic::SearchOptions;
+/// use malachite::Integer;
+/// use twofold::quartic::{quartics_with_invariants, SearchOptions};
 /// let opts = SearchOptions::default().with_negative_definite(false);
-/// assert!(opts.max_candidates.is_none());
+/// // I = 12, J = 0: leaving out the negative definite quartics never adds any
+/// let (i, j) = (Integer::from(12), Integer::from(0));
+/// let qs = quartics_with_invariants(&i, &j, &opts).unwrap();
+/// assert!(qs.len() <= quartics_with_invariants(&i, &j, &SearchOptions::default()).unwrap().len());
 /// ```
 #[derive(Clone, Debug)]
 #[non_exhaustive]
 pub struct SearchOptions {
     /// Also return negative definite quartics (never soluble over R). Default `true`.
-    pub include_negative_definite: bool,
+    pub(crate) include_negative_definite: bool,
     /// Stop with an error of kind [`ErrorKind::Budget`] after this many
     /// candidates: pairs `(a, H)` tested (see the module documentation; for
     /// `a = 0`, pairs `(b, c)`). The budget is charged before each `a` is
     /// scanned. A search whose estimated size (from the same box, summed
     /// over `a` before searching) exceeds the limit is refused at once with
     /// the same error, so hopeless cases cost milliseconds. Default: no limit.
-    pub max_candidates: Option<u64>,
+    pub(crate) max_candidates: Option<u64>,
     /// Stop with an error of kind [`ErrorKind::Budget`] once this instant
     /// has passed (checked about every million candidates). Default: none.
-    pub deadline: Option<std::time::Instant>,
+    pub(crate) deadline: Option<std::time::Instant>,
     /// Stop with an error of kind [`ErrorKind::Budget`] once this flag is
     /// set (checked as often as the deadline). Default: none.
-    pub cancel: Option<std::sync::Arc<std::sync::atomic::AtomicBool>>,
+    pub(crate) cancel: Option<std::sync::Arc<std::sync::atomic::AtomicBool>>,
 }
 
 impl SearchOptions {
@@ -119,7 +123,7 @@ impl SearchOptions {
     /// ```
     /// use twofold::{quartic::SearchOptions, Work};
     /// let o = SearchOptions::within(&Work::unlimited());
-    /// assert!(o.deadline.is_none() && o.cancel.is_none() && o.include_negative_definite);
+    /// assert!(format!("{o:?}").contains("deadline: None"));
     /// ```
     pub fn within(work: &crate::budget::Work) -> SearchOptions {
         SearchOptions { deadline: work.deadline(), cancel: work.cancel_flag().cloned(), ..SearchOptions::default() }
