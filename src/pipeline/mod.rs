@@ -15,7 +15,7 @@ mod evidence;
 
 use crate::budget::{RankOptions, Stage, Work};
 use crate::curve::{Curve, Point};
-use crate::descent::algebra::{two_selmer_over_algebra, AlgebraDescent};
+use crate::descent::algebra::{class_mask, search_coverings, two_selmer_with_context, AlgebraDescent, CubicContext};
 use crate::descent::full::{full_two_descent, FullDescent};
 use crate::descent::isogeny::{covering_quartic, descend_via_isogeny, IsogenyDescent};
 use crate::error::Error;
@@ -93,6 +93,8 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     // the search ladder up to its ceiling (generators too large for any
     // plain search, like the congruent-number curve for n = 157, would
     // otherwise spend the budget on the ladder first)
+    // the algebra route's result, kept for a second run of the descents
+    let mut algebra_once: AlgebraOnce = None;
     let heegner_first = options.heegner_route && enough == Some(1) && options.search_height_ceiling > options.search_height;
     if heegner_first {
         let before = report.clone();
@@ -102,7 +104,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
         // spent), and its point is adopted after them
         let early = quartic_enumeration_is_costly(data);
         let found = if early { heegner_search(&mut report, data, options, work)? } else { None };
-        descents(&mut report, data, &torsion, &floor_only, work, enough, &mut unfinished)?;
+        descents(&mut report, data, &torsion, &floor_only, work, enough, &mut unfinished, &mut algebra_once)?;
         match &found {
             Some(f) => adopt_heegner_point(&mut report, data, f)?,
             None if !early => heegner_point(&mut report, data, options, work)?,
@@ -115,10 +117,10 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
             report = before;
             report.budget_exhausted |= cut_short;
             unfinished.clear();
-            descents(&mut report, data, &torsion, options, work, enough, &mut unfinished)?;
+            descents(&mut report, data, &torsion, options, work, enough, &mut unfinished, &mut algebra_once)?;
         }
     } else {
-        descents(&mut report, data, &torsion, options, work, enough, &mut unfinished)?;
+        descents(&mut report, data, &torsion, options, work, enough, &mut unfinished, &mut algebra_once)?;
         heegner_point(&mut report, data, options, work)?;
     }
     for p in &report.points {
@@ -189,6 +191,7 @@ fn descents(
     work: &Work,
     enough: Option<usize>,
     unfinished: &mut Vec<Statement>,
+    once: &mut AlgebraOnce,
 ) -> Result<(), Error> {
     let minimal = data.minimal();
     let primes = data.bad_primes();
@@ -209,7 +212,7 @@ fn descents(
     // planned by cost: without rational 2-torsion and with an expensive
     // enumeration, the cubic algebra runs first (see `cubic_algebra_first`)
     let first = twos.is_empty() && !work.exhausted() && cubic_algebra_first(minimal);
-    let mut algebra = if first { algebra_route(minimal, torsion, primes, work, report, unfinished)? } else { None };
+    let (mut algebra, mut context) = if first { algebra_route(minimal, torsion, primes, work, report, unfinished, once)? } else { (None, None) };
     let (quartic_options, goal) = plan_enumeration(options, enough, algebra.as_ref());
     let full: Option<FullDescent> = if work.exhausted() {
         report.budget_exhausted = true;
@@ -224,11 +227,14 @@ fn descents(
     // algebra where the quartic enumeration gave no Sel^2
     let quartic_done = full.as_ref().is_some_and(|f| f.selmer_dim.is_some());
     if !first && !work.exhausted() && !(twos.is_empty() && quartic_done) {
-        algebra = algebra_route(minimal, torsion, primes, work, report, unfinished)?;
+        (algebra, context) = algebra_route(minimal, torsion, primes, work, report, unfinished, once)?;
     }
     combine(report, data, &runs, full.as_ref())?;
     if let Some(a) = &algebra {
         combine_algebra(report, &runs, full.as_ref(), a)?;
+    }
+    if let (Some(a), Some(ctx)) = (&algebra, &context) {
+        covering_points(report, data, full.as_ref(), a, ctx, enough, work, unfinished)?;
     }
     report.isogeny_runs = runs;
     report.full_descent = full;
@@ -553,8 +559,14 @@ fn plan_enumeration(options: &RankOptions, enough: Option<usize>, algebra: Optio
     (o, Some(enough.map_or(a.upper, |e| e.min(a.upper))))
 }
 
-/// The descent over the algebra `Q[X]/(f)` (see [`crate::descent::algebra`]);
-/// a failure is settled by [`stage_failure`].
+/// A finished algebra route, kept so that a second run of the descents
+/// (the Heegner-first plan) does not repeat it.
+type AlgebraOnce = Option<(AlgebraDescent, Option<CubicContext>)>;
+
+/// The descent over the algebra `Q[X]/(f)` (see [`crate::descent::algebra`]),
+/// or the one kept in `once` from an earlier run; a failure is settled by
+/// [`stage_failure`].
+#[allow(clippy::too_many_arguments)]
 fn algebra_route(
     minimal: &Curve,
     torsion: &TorsionGroup,
@@ -562,15 +574,88 @@ fn algebra_route(
     work: &Work,
     report: &mut RankReport,
     unfinished: &mut Vec<Statement>,
-) -> Result<Option<AlgebraDescent>, Error> {
+    once: &mut AlgebraOnce,
+) -> Result<(Option<AlgebraDescent>, Option<CubicContext>), Error> {
+    if let Some((a, c)) = once {
+        return Ok((Some(a.clone()), c.clone()));
+    }
     work.report(Stage::Solubility, "Sel^2(E) over the algebra Q[X]/(f)");
-    match two_selmer_over_algebra(minimal, torsion, primes, work) {
-        Ok(a) => Ok(a),
+    match two_selmer_with_context(minimal, torsion, primes, work) {
+        Ok(Some((a, c))) => {
+            *once = Some((a.clone(), c.clone()));
+            Ok((Some(a), c))
+        }
+        Ok(None) => Ok((None, None)),
         Err(e) => {
             stage_failure("the algebra descent", e, report, unfinished)?;
-            Ok(None)
+            Ok((None, None))
         }
     }
+}
+
+/// The heights the 2-coverings of the cubic route are searched to, in turn.
+const COVERING_HEIGHTS: [u64; 3] = [128, 1024, 8192];
+
+/// Points from the 2-coverings of the cubic route's Selmer elements (see
+/// `descent::algebra::covering`), when the lower bound is below the
+/// route's bound (or the proven analytic rank, if smaller): the classes of
+/// the points already found are taken out, the other elements' coverings
+/// are searched within half of the time left, and every point found is
+/// checked on the curve and in its class. Without rational 2-torsion,
+/// points of independent classes are independent in `E(Q)/2E(Q)`.
+#[allow(clippy::too_many_arguments)]
+fn covering_points(
+    report: &mut RankReport,
+    data: &CurveData,
+    full: Option<&FullDescent>,
+    a: &AlgebraDescent,
+    ctx: &CubicContext,
+    enough: Option<usize>,
+    work: &Work,
+    unfinished: &mut Vec<Statement>,
+) -> Result<(), Error> {
+    let goal = enough.map_or(a.upper, |e| e.min(a.upper));
+    let lower = report.rank_lower.unwrap_or(0);
+    if lower >= goal || work.exhausted() {
+        return Ok(());
+    }
+    work.report(Stage::Solubility, "points on the 2-coverings of Sel^2(E)");
+    let mut span = crate::descent::f2::F2Span::new();
+    let mut chosen: Vec<Point> = Vec::new();
+    for p in full.map(|f| f.points.as_slice()).unwrap_or(&[]) {
+        let Point::Affine(x, _) = p else { continue };
+        match class_mask(ctx, x)? {
+            Some(m) => {
+                if span.insert(m) {
+                    chosen.push(p.clone());
+                }
+            }
+            None => return Err(Error::internal("the 2-coverings", "a point's class is not in Sel^2(E)")),
+        }
+    }
+    let share = work.share(0.5);
+    let runs = match search_coverings(data.minimal(), ctx, span.basis(), goal, &COVERING_HEIGHTS, &share) {
+        Ok(r) => r,
+        Err(e) => {
+            stage_failure("the 2-covering search", e, report, unfinished)?;
+            return Ok(());
+        }
+    };
+    for r in runs {
+        if let Some(p) = r.point {
+            if span.insert(r.mask) {
+                chosen.push(p);
+            }
+        }
+    }
+    if chosen.len() > lower {
+        report.rank_lower = Some(chosen.len());
+        report.points = chosen.iter().map(|p| data.to_input(p)).collect();
+        report.independence =
+            "their images in Sel^2(E), in (Q[X]/f(X))*/squares, are independent and E(Q)[2] is trivial (points found on the 2-coverings of the Selmer elements)"
+                .to_string();
+    }
+    Ok(())
 }
 
 /// What the failure `e` of a stage that the report can do without leaves

@@ -18,6 +18,7 @@
 //! * the enumeration of all `GL2(Z)`-classes with given invariants
 //!   ([`quartics_with_invariants`]);
 //! * the invariants to enumerate for a curve ([`covering_invariants`]);
+//! * minimisation at a prime ([`minimise_at`], [`minimise_covering`]);
 //! * the class of a quartic in `(Q[φ]/F(φ))^* / squares` and the
 //!   `GL2(Q)`-equivalence test ([`covering_class`], [`same_covering`]).
 //!
@@ -48,8 +49,10 @@ mod enumerate;
 mod classes;
 mod numeric;
 mod proven;
+mod minimise;
 
 pub use self::core::{Matrix, Quartic, RootType};
 pub use self::reduction::{gl2z_decide, gl2z_equivalence, gl2z_equivalent, reduce};
 pub use self::enumerate::{covering_invariants, covering_invariants_conservative, quartics_with_invariants, SearchOptions};
 pub use self::classes::{covering_class, same_covering, CoveringClass};
+pub use self::minimise::{minimise_at, minimise_covering, MinimisedQuartic};

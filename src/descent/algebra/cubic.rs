@@ -32,6 +32,7 @@
 //! `dim E(Q_v)[2] + [v = 2]` (`- 1` at the real place), found from local
 //! points kept as witnesses.
 
+use super::covering::CubicContext;
 use super::local::{class_width, rational_class};
 use super::quadratic::{candidates, grh_options};
 use super::roots::{has_root_in_qp, integral_roots, real_root_count};
@@ -121,8 +122,9 @@ fn egg_point(cubic: &[Integer; 3]) -> Option<Rational> {
     None
 }
 
-/// `Sel^2(E)` for `A = K` cubic.
-pub(super) fn cubic_field(cubic: [Integer; 3], s: Vec<Natural>, work: &Work) -> Result<AlgebraDescent, Error> {
+/// `Sel^2(E)` for `A = K` cubic, with the field and the explicit Selmer
+/// basis (for the coverings).
+pub(super) fn cubic_field(cubic: [Integer; 3], s: Vec<Natural>, work: &Work) -> Result<(AlgebraDescent, CubicContext), Error> {
     let s_words: Vec<u64> = s
         .iter()
         .map(|p| u64::try_from(p).map_err(|_| Error::new(ErrorKind::TooLarge, "a prime of S above 2^64")))
@@ -271,7 +273,12 @@ pub(super) fn cubic_field(cubic: [Integer; 3], s: Vec<Natural>, work: &Work) -> 
     }
     let selmer_basis = selmer.basis().iter().map(|&v| vec![Integer::from(v)]).collect();
     let dim = selmer.dim();
-    Ok(AlgebraDescent {
+    let elements: Vec<Element> = selmer
+        .basis()
+        .iter()
+        .map(|&v| (0..n).filter(|j| v >> j & 1 == 1).fold(k.one(), |acc, j| k.mul(&acc, &basis[j])))
+        .collect();
+    let descent = AlgebraDescent {
         shape: AlgebraShape::Cubic,
         cubic,
         primes: s,
@@ -281,5 +288,6 @@ pub(super) fn cubic_field(cubic: [Integer; 3], s: Vec<Natural>, work: &Work) -> 
         upper: dim,
         local_images: images,
         conditional_on_grh: grh,
-    })
+    };
+    Ok((descent, CubicContext { k, selmer: elements }))
 }

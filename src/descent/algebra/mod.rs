@@ -42,6 +42,8 @@
 //! assert_eq!((d.selmer_dim, d.two_torsion_dim, d.upper), (3, 2, 1));
 //! ```
 
+mod conic;
+mod covering;
 mod cubic;
 pub mod local;
 mod quadratic;
@@ -49,6 +51,8 @@ mod roots;
 mod selmer;
 
 pub use selmer::image_pair;
+pub use covering::CoveringRun;
+pub(crate) use covering::{class_mask, search_coverings, CubicContext};
 
 use crate::budget::Work;
 use crate::curve::{Curve, Point};
@@ -159,6 +163,17 @@ pub fn two_selmer_over_algebra(
     primes: &[Natural],
     work: &Work,
 ) -> Result<Option<AlgebraDescent>, Error> {
+    Ok(two_selmer_with_context(curve, torsion, primes, work)?.map(|(d, _)| d))
+}
+
+/// As [`two_selmer_over_algebra`], with the cubic field and the explicit
+/// Selmer basis when `A = K` is a cubic field (for the 2-coverings).
+pub(crate) fn two_selmer_with_context(
+    curve: &Curve,
+    torsion: &TorsionGroup,
+    primes: &[Natural],
+    work: &Work,
+) -> Result<Option<(AlgebraDescent, Option<CubicContext>)>, Error> {
     let cubic = monic_cubic(curve);
     let roots: Vec<Integer> = torsion
         .two_torsion()
@@ -182,16 +197,49 @@ pub fn two_selmer_over_algebra(
         3 => {}
         1 => {
             let s = s_primes(&cubic, &roots, primes)?;
-            return quadratic::rational_times_quadratic(cubic, roots[0].clone(), s, work).map(Some);
+            return quadratic::rational_times_quadratic(cubic, roots[0].clone(), s, work).map(|d| Some((d, None)));
         }
         0 => {
             let s = s_primes(&cubic, &roots, primes)?;
-            return cubic::cubic_field(cubic, s, work).map(Some);
+            return cubic::cubic_field(cubic, s, work).map(|(d, c)| Some((d, Some(c))));
         }
         _ => return Err(Error::internal("the algebra descent", "two points of order 2 without the third")),
     }
     let s = s_primes(&cubic, &roots, primes)?;
-    selmer::three_rational(cubic, [roots[0].clone(), roots[1].clone(), roots[2].clone()], s, work).map(Some)
+    selmer::three_rational(cubic, [roots[0].clone(), roots[1].clone(), roots[2].clone()], s, work).map(|d| Some((d, None)))
+}
+
+/// For a curve without rational 2-torsion: `Sel^2(E)` over the cubic field
+/// and a search for points on the 2-coverings of its elements (each
+/// element's conic, quartic, minimisation and reduction: see
+/// `covering.rs`), at the heights `heights` in turn, until the classes
+/// found span `Sel^2(E)` or `work` runs out. `Ok(None)` for a curve with
+/// rational 2-torsion. Every point returned is on `curve` and of the class
+/// of its element (an internal error otherwise).
+///
+/// ```
+/// use twofold::descent::algebra::points_on_coverings;
+/// use twofold::{Curve, CurveData, Work};
+/// use twofold::torsion::TorsionGroup;
+/// // y^2 + y = x^3 - x: rank 1, Sha trivial (published table, Cremona 1997)
+/// let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
+/// let work = Work::unlimited();
+/// let data = CurveData::new(&e, &work).unwrap();
+/// let t = TorsionGroup::compute(&e, data.bad_primes());
+/// let (d, runs) = points_on_coverings(&e, &t, data.bad_primes(), &[64], &work).unwrap().unwrap();
+/// assert_eq!(d.selmer_dim, 1);
+/// assert!(runs[0].point.is_some());
+/// ```
+pub fn points_on_coverings(
+    curve: &Curve,
+    torsion: &TorsionGroup,
+    primes: &[Natural],
+    heights: &[u64],
+    work: &Work,
+) -> Result<Option<(AlgebraDescent, Vec<CoveringRun>)>, Error> {
+    let Some((d, Some(ctx))) = two_selmer_with_context(curve, torsion, primes, work)? else { return Ok(None) };
+    let runs = search_coverings(curve, &ctx, &[], d.selmer_dim, heights, work)?;
+    Ok(Some((d, runs)))
 }
 
 /// `S`: 2 and the primes of `primes` that divide `disc(f)`; every prime of

@@ -13,7 +13,7 @@
 
 use crate::arith::valuation;
 use crate::error::{Error, ErrorKind};
-use malachite::base::num::arithmetic::traits::{Lcm, ModInverse, Pow};
+use malachite::base::num::arithmetic::traits::{DivisibleBy, Lcm, ModInverse, Pow};
 use malachite::base::num::basic::traits::{One, Zero};
 use malachite::{Integer, Natural, Rational};
 use std::cmp::Ordering;
@@ -22,7 +22,29 @@ use std::cmp::Ordering;
 const MAX_DEPTH: u32 = 400;
 
 fn pvalue(n: &Integer, p: &Natural) -> u32 {
+    if *p == 2u32 {
+        // the number of trailing zero bits, without a division per bit
+        return n.trailing_zeros().map_or(u32::MAX, |v| u32::try_from(v).unwrap_or(u32::MAX));
+    }
     valuation(n, p).unwrap_or(u32::MAX)
+}
+
+/// `min(v_p(n), cap)` by at most `cap` divisions (`cap` for `n = 0`).
+fn pvalue_capped(n: &Integer, p: &Natural, cap: u32) -> u32 {
+    if *n == 0 {
+        return cap;
+    }
+    if *p == 2u32 {
+        return pvalue(n, p).min(cap);
+    }
+    let pi = Integer::from(p.clone());
+    let mut m = n.clone();
+    let mut v = 0;
+    while v < cap && (&m).divisible_by(&pi) {
+        m /= &pi;
+        v += 1;
+    }
+    v
 }
 
 fn eval(g: &[Integer], x: &Integer) -> Integer {
@@ -56,7 +78,17 @@ fn substitute(g: &[Integer], a: &Integer, b: &Integer) -> Vec<Integer> {
 
 /// Divides out the largest power of `p` dividing every coefficient.
 fn strip_content(g: &mut [Integer], p: &Natural) {
-    let v = g.iter().filter(|c| **c != 0).map(|c| pvalue(c, p)).min().unwrap_or(0);
+    // the smallest valuation, each coefficient counted only up to the least so far
+    let mut v = u32::MAX;
+    for c in g.iter().filter(|c| **c != 0) {
+        v = pvalue_capped(c, p, v);
+        if v == 0 {
+            return;
+        }
+    }
+    if v == u32::MAX {
+        return;
+    }
     if v > 0 {
         let pv = Integer::from(p.pow(u64::from(v)));
         for c in g.iter_mut() {
@@ -119,7 +151,7 @@ fn descend(g: &[Integer], p: &Natural, pw: u64, prec: u32, first: bool, depth: u
     let dg = derivative(g);
     for r in crate::numfield::fp::roots(&words, pw) {
         let r = Integer::from(r);
-        if pvalue(&eval(&dg, &r), p) == 0 {
+        if !eval(&dg, &r).divisible_by(&pi) {
             if prec > 0 {
                 out.push(newton(g, r, p, prec));
             } else {
