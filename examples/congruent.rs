@@ -2,7 +2,12 @@
 //! congruent number (the area of a right triangle with rational sides),
 //! i.e. whether y^2 = x^3 - n^2 x has positive rank, and prints the proof.
 //!
-//! Usage: congruent [FROM] [TO]      (default 1 to 60)
+//! Usage: congruent [FROM] [TO] [--odd-sign]      (default 1 to 60)
+//!
+//! With `--odd-sign` only the n whose curve has root number -1 and whose
+//! Tunnell counts satisfy A = 2B are run (the n that the criterion calls
+//! congruent, conditionally on BSD, with odd analytic rank), and a summary
+//! line counts the points found, the misses and the time.
 //!
 //! Every n gets a wall-clock budget of 30 s (what is proven in time is
 //! printed; an open gap says so).
@@ -19,6 +24,7 @@
 //! Birch and Swinnerton-Dyer conjecture holds for the curve (conditional).
 
 use malachite::Rational;
+use std::time::Instant;
 use twofold::{analyse, Curve, Point, RankOptions};
 
 fn squarefree(n: u64) -> bool {
@@ -84,6 +90,7 @@ fn triangle(p: &Point, n: u64) -> Option<(Rational, Rational, Rational)> {
 }
 
 fn main() {
+    let odd_sign = std::env::args().any(|a| a == "--odd-sign");
     let args: Vec<u64> = std::env::args().skip(1).filter_map(|a| a.parse().ok()).collect();
     let (from, to) = match args.as_slice() {
         [a, b] => (*a, *b),
@@ -93,6 +100,8 @@ fn main() {
     let options = RankOptions::default()
         .with_time_limit(std::time::Duration::from_secs(30))
         .with_heegner_time_limit(std::time::Duration::from_secs(20));
+    let started = Instant::now();
+    let (mut run, mut by_heegner, mut by_search, mut misses) = (0usize, 0usize, 0usize, Vec::new());
     for n in from..=to {
         if !squarefree(n) {
             continue;
@@ -100,6 +109,11 @@ fn main() {
         let n2 = (n * n) as i64;
         let curve = Curve::from_coefficients([0, 0, 0, -n2, 0]).expect("non-singular for n > 0");
         let (ta, tb) = tunnell(n);
+        if odd_sign && (ta != 2 * tb || !matches!(twofold::rootno::root_number(&curve), Ok(w) if w.global == -1)) {
+            continue;
+        }
+        run += 1;
+        let t = Instant::now();
         let tunnell_says = if ta == 2 * tb {
             "Tunnell: A = 2B, congruent if BSD holds (conditional)"
         } else {
@@ -109,21 +123,30 @@ fn main() {
             Ok(r) => r,
             Err(e) => {
                 println!("n = {n}: error {e}");
+                misses.push(format!("{n} (error: {e})"));
                 continue;
             }
         };
-        let verdict = match (report.rank_lower, report.rank_upper) {
-            (Some(l), _) if l > 0 => {
-                let p = &report.points[0];
+        let secs = t.elapsed().as_secs_f64();
+        match report.points.first() {
+            Some(_) if report.independence.contains("Heegner") => by_heegner += 1,
+            Some(_) => by_search += 1,
+            None => misses.push(format!("{n} ({}, {secs:.1} s)", if report.budget_exhausted { "cut short" } else { "no point" })),
+        }
+        let verdict = match (report.rank_lower, report.rank_upper, report.points.first()) {
+            (Some(l), _, Some(p)) if l > 0 => {
                 let (a, b, c) = triangle(p, n).expect("a point of infinite order has y != 0");
                 let by = if report.independence.contains("Heegner") { "the Heegner point method" } else { "the point search" };
                 format!("congruent (proven): point {p} (found by {by}) gives the triangle {a}, {b}, {c} of area {n}")
             }
-            (_, Some(0)) => {
+            // the rank proven positive by another route (the analytic rank
+            // 1 with Gross-Zagier and Kolyvagin), no point within the budget
+            (Some(l), _, None) if l > 0 => format!("congruent (proven: rank at least {l}), no point found within the budget"),
+            (_, Some(0), _) => {
                 let (s, t) = report.isogeny_selmer_dims.unwrap_or((0, 0));
                 format!("not congruent (proven): 2-isogeny Selmer dimensions {s} and {t} bound the rank by 0")
             }
-            (l, u) => format!(
+            (l, u, _) => format!(
                 "open: rank between {} and {}; Sha could hide in {} covering(s), e.g. {}",
                 l.map_or("?".into(), |v| v.to_string()),
                 u.map_or("?".into(), |v| v.to_string()),
@@ -135,6 +158,13 @@ fn main() {
                     .unwrap_or_default()
             ),
         };
-        println!("n = {n:>4}: {verdict}\n          A = {ta}, B = {tb}; {tunnell_says}");
+        println!("n = {n:>4}: {verdict}\n          A = {ta}, B = {tb}; {tunnell_says}; {secs:.2} s");
+    }
+    if odd_sign {
+        println!(
+            "{run} n in {from}..={to} with A = 2B and root number -1: {} with a point ({by_heegner} by the Heegner point method, {by_search} by the search), misses: {misses:?}; {:.1} s in all",
+            by_heegner + by_search,
+            started.elapsed().as_secs_f64()
+        );
     }
 }

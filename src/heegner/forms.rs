@@ -84,26 +84,40 @@ pub fn is_fundamental(d: i64) -> bool {
 /// The reduced primitive forms of discriminant `d < 0` (one per class of the
 /// form class group; their number is the class number `h(d)`).
 pub(crate) fn reduced_forms(d: i64) -> Vec<QuadraticForm> {
-    let d = d as i128;
+    // machine words while b^2 - d fits (|b| <= a <= sqrt(|d| / 3)): the
+    // ranking of the Heegner discriminants calls this some 10^4 times
+    let d = i128::from(d);
     let mut out = Vec::new();
     let mut a: i128 = 1;
     while 3 * a * a <= -d {
-        for b in -a + 1..=a {
-            if (b * b - d) % (4 * a) != 0 {
-                continue;
+        let step = |b: i128| -> Option<QuadraticForm> {
+            let (b64, d64, a64) = (b as i64, d as i64, a as i64);
+            let num = if d > i128::from(i64::MIN / 4) { b64 * b64 - d64 } else { return slow(a, b, d) };
+            if num % (4 * a64) != 0 {
+                return None;
             }
-            let c = (b * b - d) / (4 * a);
-            if c < a || (b < 0 && a == c) {
-                continue;
+            let c = num / (4 * a64);
+            if c < a64 || (b < 0 && a64 == c) {
+                return None;
             }
-            let g = gcd128(gcd128(a, b.abs()), c);
-            if g == 1 {
-                out.push(QuadraticForm { a, b, c });
-            }
-        }
+            (gcd128(gcd128(a, b.abs()), i128::from(c)) == 1).then_some(QuadraticForm { a, b, c: i128::from(c) })
+        };
+        out.extend((-a + 1..=a).filter_map(step));
         a += 1;
     }
     out
+}
+
+/// One candidate `[a, b, c]` of [`reduced_forms`] in 128-bit arithmetic.
+fn slow(a: i128, b: i128, d: i128) -> Option<QuadraticForm> {
+    if (b * b - d) % (4 * a) != 0 {
+        return None;
+    }
+    let c = (b * b - d) / (4 * a);
+    if c < a || (b < 0 && a == c) {
+        return None;
+    }
+    (gcd128(gcd128(a, b.abs()), c) == 1).then_some(QuadraticForm { a, b, c })
 }
 
 fn gcd128(mut a: i128, mut b: i128) -> i128 {
@@ -150,6 +164,59 @@ pub(crate) fn heegner_hypothesis(d: i64, primes_of_n: &[u64]) -> bool {
     primes_of_n.iter().all(|&p| kronecker_i64(d, p) == 1)
 }
 
+/// The least `beta` in `[0, 2n)` with `beta^2 = d mod 4n` (`beta^2 mod 4n`
+/// depends on `beta mod 2n` only), from the square roots modulo the prime
+/// powers of `4n` (Hensel lifting in [`crate::arith::sqrt_mod_prime_power`]),
+/// every combination joined by the Chinese remainder theorem: `O(2^ω(n))`
+/// work instead of a scan of `[0, 2n)`. `None` when there is none.
+pub(crate) fn least_beta(d: i64, n: u64) -> Result<Option<i128>, Error> {
+    use malachite::{Integer, Natural};
+    let four_n = 4 * i128::from(n);
+    let dd = i128::from(d);
+    // (modulus, square roots of d modulo it)
+    let mut parts: Vec<(i128, Vec<i128>)> = Vec::new();
+    let mut two_part = 4i128;
+    for (p, k) in factor_u64(n)? {
+        if p == 2 {
+            two_part <<= k;
+            continue;
+        }
+        let pk = i128::from(p).pow(k as u32);
+        let Some(r) = crate::arith::sqrt_mod_prime_power(&Integer::from(d), &Natural::from(p), k as u32) else { return Ok(None) };
+        let r = i128::try_from(&r).map_err(|_| Error::internal("the Heegner forms", "a square root out of range"))?.rem_euclid(pk);
+        parts.push((pk, if r == 0 || 2 * r == pk { vec![r] } else { vec![r, pk - r] }));
+    }
+    if two_part > 1 << 24 {
+        return Err(Error::new(crate::error::ErrorKind::TooLarge, format!("level {n}: the power of 2 is too large for the Heegner forms")));
+    }
+    let roots_two: Vec<i128> = (0..two_part).filter(|x| (x * x - dd).rem_euclid(two_part) == 0).collect();
+    if roots_two.is_empty() {
+        return Ok(None);
+    }
+    parts.push((two_part, roots_two));
+    // x = a mod m1 and x = b mod m2 (coprime): a + m1 ((b - a) / m1 mod m2)
+    let join = |a: i128, m1: i128, b: i128, m2: i128| -> i128 {
+        let (mut r0, mut r1, mut s0, mut s1) = (m1.rem_euclid(m2), m2, 1i128, 0i128);
+        while r1 != 0 {
+            let q = r0.div_euclid(r1);
+            (r0, r1) = (r1, r0 - q * r1);
+            (s0, s1) = (s1, s0 - q * s1);
+        }
+        // r0 = gcd = 1 and s0 m1 = 1 mod m2
+        let t = ((b - a).rem_euclid(m2) * s0.rem_euclid(m2)).rem_euclid(m2);
+        a + m1 * t
+    };
+    let mut residues: Vec<i128> = vec![0];
+    let mut modulus = 1i128;
+    for (m, roots) in &parts {
+        residues = residues.iter().flat_map(|&x| roots.iter().map(move |&r| (x, r))).map(|(x, r)| join(x, modulus, r, *m)).collect();
+        modulus *= m;
+    }
+    debug_assert_eq!(modulus, four_n);
+    let beta = residues.into_iter().map(|x| x.rem_euclid(2 * i128::from(n))).min();
+    Ok(beta.filter(|b| (b * b - dd).rem_euclid(four_n) == 0))
+}
+
 /// The Heegner data for `(d, n)`: `beta` and one form per class. `None` if
 /// the hypothesis fails.
 pub(crate) fn heegner_data(d: i64, n: u64) -> Result<Option<HeegnerData>, Error> {
@@ -157,17 +224,8 @@ pub(crate) fn heegner_data(d: i64, n: u64) -> Result<Option<HeegnerData>, Error>
     if !heegner_hypothesis(d, &primes) || d >= -4 || !is_fundamental(d) {
         return Ok(None);
     }
-    let four_n = 4 * n as i128;
     let dd = d as i128;
-    // beta mod 2N with beta^2 = D mod 4N (beta^2 mod 4N depends on beta mod 2N)
-    let mut beta = None;
-    for b in 0..(2 * n as i128) {
-        if (b * b - dd).rem_euclid(four_n) == 0 {
-            beta = Some(b);
-            break;
-        }
-    }
-    let Some(beta) = beta else { return Ok(None) };
+    let Some(beta) = least_beta(d, n)? else { return Ok(None) };
     let classes = reduced_forms(d);
     let h = classes.len();
     let mut found: Vec<(QuadraticForm, QuadraticForm)> = Vec::new(); // (reduced, heegner form)
@@ -214,6 +272,19 @@ mod tests {
         assert_eq!(reduced_forms(-71).len(), 7);
         assert_eq!(reduced_forms(-84).len(), 4);
         assert!(!is_fundamental(-12) && !is_fundamental(-16) && !is_fundamental(-5));
+    }
+
+    /// `least_beta` equals the least root found by scanning `[0, 2n)`
+    /// (the definition) for every fundamental `d` down to -400 and levels
+    /// with odd and even prime powers.
+    #[test]
+    fn least_beta_equals_the_scan() {
+        for n in [11u64, 37, 800, 7130, 130050, 4 * 27 * 25, 256 * 7] {
+            for d in (5i64..400).map(|k| -k).filter(|&d| is_fundamental(d)) {
+                let scan = (0..2 * n as i128).find(|b| (b * b - d as i128).rem_euclid(4 * n as i128) == 0);
+                assert_eq!(least_beta(d, n).unwrap(), scan, "d = {d}, n = {n}");
+            }
+        }
     }
 
     #[test]

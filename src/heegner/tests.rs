@@ -162,6 +162,48 @@ fn twist_and_direct_routes_agree() {
     }
 }
 
+/// `z(W_N τ) = z(τ)` for root number -1 (Atkin and Lehner 1970: the
+/// newform is a `W_N`-eigenform with eigenvalue `-w`; the constant vanishes
+/// at the fixed point `i / sqrt N`): on y^2 + y = x^3 - x (conductor 37,
+/// w = -1; Cremona 1997, Table 1) and the rank-one curve
+/// [1, -1, 0, 2781, 114151] of conductor 130014 (curves-wider.tsv), every
+/// Heegner form that `nearer_to_infinity` replaces gives the same value of
+/// the series modulo the period lattice, and none gets a larger first
+/// coefficient.
+#[test]
+fn involution_images_give_the_same_value() {
+    let work = crate::Work::unlimited();
+    let mut replaced = 0;
+    for (c, n) in [([0, 0, 1, -1, 0], 37u64), ([1, -1, 0, 2781, 114151], 130014)] {
+        let e = Curve::from_coefficients(c).unwrap();
+        let primes: Vec<Natural> = crate::arith::factor_u64(n).unwrap().into_iter().map(|(p, _)| Natural::from(p)).collect();
+        let bad: Vec<(u64, i64)> = crate::local::CurveData::new(&e, &work).unwrap().bad_prime_traces().unwrap();
+        assert_eq!(primes.len(), bad.len());
+        let lat = analytic::Lattice::new(&PeriodLattice::compute(&e, 120).unwrap(), 120);
+        let mut pairs = Vec::new();
+        for h in heegner_discriminants(n, 4).unwrap() {
+            let moved = nearer_to_infinity(&h.forms, n);
+            for (f, g) in h.forms.iter().zip(moved) {
+                assert!(g.a <= f.a && g.a % n as i128 == 0 && g.discriminant() == f.discriminant());
+                if *f != g {
+                    pairs.push((*f, g, h.discriminant));
+                }
+            }
+        }
+        replaced += pairs.len();
+        let m = pairs.iter().map(|(f, _, d)| analytic::terms_needed(f.a as f64, (-d) as f64, 80)).max().unwrap_or(1);
+        let a = traces::dirichlet_coefficients_fast(&e, &bad, m + 10, &|| false).unwrap();
+        for (f, g, d) in pairs {
+            let zf = analytic::modular_sum(&a, &[f], d, 80, &work).unwrap();
+            let zg = analytic::modular_sum(&a, &[g], d, 80, &work).unwrap();
+            let (x, y) = lat.coordinates(&zf.sub(&zg));
+            let (x, y) = (to_f64(&x), to_f64(&y));
+            assert!((x - x.round()).abs() < 1e-15 && (y - y.round()).abs() < 1e-15, "{c:?} {f:?} {g:?}: {x} {y}");
+        }
+    }
+    assert!(replaced > 0);
+}
+
 mod property {
     use super::*;
     use proptest::prelude::*;
