@@ -99,8 +99,12 @@ mod classgroup;
 mod sunits;
 mod relations;
 mod modular;
+mod precise;
+mod lattice;
+mod wide;
 
 pub use field::{Element, NumberField};
 pub use ideal::{Ideal, PrimeIdeal};
 pub use classgroup::{ClassGroup, ClassGroupOptions, CompactProduct, FactorBaseBound, MIN_FACTOR_BASE_BOUND};
 pub use sunits::SquareClasses;
+pub use wide::WideProduct;
