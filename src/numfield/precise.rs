@@ -131,6 +131,7 @@ fn refined_roots(k: &NumberField, prec: u64) -> Vec<Cx> {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use malachite::base::num::arithmetic::traits::Abs;
 
     #[test]
     fn precise_logs_agree_with_f64_and_sum_to_the_norm() {
