@@ -29,7 +29,10 @@ fn main() {
         let r = k.class_group(&opts);
         let t2 = t.elapsed();
         match r {
-            Ok(cg) => println!("a={} b={} d={} field {:?} total {:?} h={} R={:.6} ratio={:.3} fb={} kind={:?}", pair[0], pair[1], k.discriminant(), t1, t2, cg.class_number, cg.regulator, cg.analytic_ratio, cg.factor_base.len(), cg.bound_kind),
+            Ok(cg) => {
+                let bits: Vec<u64> = cg.unit_products.iter().map(|u| u.exponent_bits()).collect();
+                println!("a={} b={} d={} field {:?} total {:?} h={} R={:.6} ratio={:.3} fb={} kind={:?} unit-exponent-bits={:?} compact={}", pair[0], pair[1], k.discriminant(), t1, t2, cg.class_number, cg.regulator, cg.analytic_ratio, cg.factor_base.len(), cg.bound_kind, bits, !cg.units.is_empty() || bits.is_empty())
+            }
             Err(e) => println!("a={} b={} d={} field {:?} total {:?} ERR {}", pair[0], pair[1], k.discriminant(), t1, t2, e),
         }
     }

@@ -233,7 +233,10 @@ fn random_cubic_fields_laws() {
         tested += 1;
         assert!((cg.analytic_ratio - 1.0).abs() < 0.2, "{f:?}: ratio {}", cg.analytic_ratio);
         assert!(cg.regulator > 0.1);
-        assert_eq!(cg.units.len(), k.signature().0 + k.signature().1 - 1);
+        assert_eq!(cg.unit_products.len(), k.signature().0 + k.signature().1 - 1);
+        for u in &cg.unit_products {
+            assert!(u.is_unit(&k), "{f:?}");
+        }
         for u in &cg.units {
             // exact units (every valuation zero); the f64 log norm of a compact
             // product with large exponents carries a rounding error
@@ -284,9 +287,11 @@ fn larger_cubic_fields_laws() {
         let want = if cg.bound_kind == twofold::numfield::FactorBaseBound::BachGrh { k.bach_bound() } else { k.minkowski_bound() };
         assert!(cg.generation_bound as f64 >= want.floor());
         let r = k.signature().0 + k.signature().1 - 1;
-        assert_eq!(cg.units.len(), r);
+        assert_eq!(cg.unit_products.len(), r);
         assert!(r == 0 || cg.regulator > 0.01);
-        for u in &cg.units {
+        for u in &cg.unit_products {
+            // norm +-1 decided exactly (coprime base of the factors' norms), and log norm 0
+            assert!(u.is_unit(&k), "{f:?}");
             let l: f64 = u.log_embedding(&k).iter().sum();
             assert!(l.abs() < 1e-4, "{f:?}: log norm {l}");
         }

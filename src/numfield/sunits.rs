@@ -520,7 +520,7 @@ mod tests {
                 assert_eq!(cg.class_number, h, "{f:?}");
                 // independent: Cl_S = Z^FB / (relations + S columns), its 2-rank by Smith form
                 let kfb = cg.factor_base.len();
-                let mut m: Vec<Vec<Integer>> = cg.echelon.iter().map(|(v, _)| v.iter().map(|&x| Integer::from(x)).collect()).collect();
+                let mut m: Vec<Vec<Integer>> = cg.echelon.clone();
                 for (j, q) in cg.factor_base.iter().enumerate() {
                     if s.contains(&q.p) {
                         let mut e = vec![Integer::from(0); kfb];
