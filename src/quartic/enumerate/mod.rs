@@ -770,7 +770,9 @@ pub(crate) fn distinct_classes(forms: Vec<Quartic>) -> Result<Vec<Quartic>, Erro
             class_of.insert(g, k);
             continue;
         }
-        let set = near_reduced_set(&g)
+        // `h` is exactly equivalent to `g` and already reduced, so its
+        // proven set is the same and its reduction is not run a second time
+        let set = near_reduced_set(fast.as_ref().unwrap_or(&g))
             .ok_or_else(|| Error::new(ErrorKind::TooLarge, format!("floating-point reduction failed for {g:?}")))?;
         let id = parent.len();
         parent.push(id);
