@@ -49,6 +49,7 @@ mod enumerate;
 mod classes;
 mod numeric;
 mod proven;
+mod quick_box;
 mod minimise;
 
 pub use self::core::{Matrix, Quartic, RootType};

@@ -70,7 +70,7 @@ use std::cmp::Ordering;
 const MAX_PREC: u64 = 1 << 22;
 
 /// `ε` of the enlarged domain `F_ε` (see the module documentation).
-const EPS: f64 = 1.0 / 64.0;
+pub(super) const EPS: f64 = 1.0 / 64.0;
 
 /// A closed interval `[lo, hi]` of `Float`s; every operation rounds outwards.
 #[derive(Clone, Debug)]
@@ -191,7 +191,7 @@ fn sign_at(m: &Integer, k: u64, i: &Integer, j: &Integer) -> Ordering {
 /// or `F(lo) > 0 > F(hi)` (strict), or a degenerate bracket at an exact
 /// root. Halved until its width is at most `2^{scale - prec}`, where
 /// `2^scale` is about the size of the roots (`max(|I|^{1/2}, |J|^{1/3})`).
-fn refine(lo: Integer, hi: Integer, k: u64, i: &Integer, j: &Integer, prec: u64) -> (Integer, Integer, u64) {
+pub(super) fn refine(lo: Integer, hi: Integer, k: u64, i: &Integer, j: &Integer, prec: u64) -> (Integer, Integer, u64) {
     let top = (significant_bits(i) / 2).max(significant_bits(j) / 3) as i64 + 2;
     let lo_sign = sign_at(&lo, k, i, j);
     if lo_sign == Ordering::Equal {
@@ -301,7 +301,7 @@ fn newton_bracket(lo: &Integer, hi: &Integer, k: u64, i: &Integer, j: &Integer, 
 /// `s ≤ √I ≤ s' = s + 2^-k`, accepted once `F(-s') > 0`, `F(-s) > 0`,
 /// `F(s) < 0`, `F(s') < 0` hold (then, with `F(-2s') < 0 < F(2s')`, each bracket
 /// holds exactly one root: three sign changes for a cubic).
-fn three_brackets(i: &Integer, j: &Integer) -> Option<[(Integer, Integer, u64); 3]> {
+pub(super) fn three_brackets(i: &Integer, j: &Integer) -> Option<[(Integer, Integer, u64); 3]> {
     let mut k = 8u64;
     while k < MAX_PREC {
         let scaled = Natural::try_from(i << (2 * k)).ok()?;
@@ -323,7 +323,7 @@ fn three_brackets(i: &Integer, j: &Integer) -> Option<[(Integer, Integer, u64); 
 
 /// The single real root of `F` (when `4I^3 < J^2`): `F(-R) < 0 < F(R)` for
 /// `R = 1 + 3|I| + |J|` (Cauchy's bound).
-fn one_bracket(i: &Integer, j: &Integer) -> (Integer, Integer, u64) {
+pub(super) fn one_bracket(i: &Integer, j: &Integer) -> (Integer, Integer, u64) {
     let r = Integer::ONE + Integer::from(3) * i.abs() + j.abs();
     (-&r, r, 0)
 }
@@ -438,13 +438,9 @@ fn may_meet_domain(re: &Iv, ab2: &Iv) -> bool {
 /// [`act_box`] and [`may_meet_domain`] in `f64` interval arithmetic (the
 /// box rounded outwards first): `false` only when the image provably misses
 /// `F`.
-fn may_meet_domain_f64(n: &[[i64; 2]; 2], xi: crate::enclosure::Interval, yi: crate::enclosure::Interval) -> bool {
+pub(super) fn may_meet_domain_f64(n: &[[i64; 2]; 2], xi: crate::enclosure::Interval, yi: crate::enclosure::Interval) -> bool {
     use crate::enclosure::Interval as R;
-    let sq = |v: R| {
-        let far = v.lo().abs().max(v.hi().abs());
-        let near = if v.lo() > 0.0 || v.hi() < 0.0 { v.lo().abs().min(v.hi().abs()) } else { 0.0 };
-        R::new((R::point(near) * R::point(near)).lo(), (R::point(far) * R::point(far)).hi())
-    };
+    let sq = sq_f64;
     let [[a, b], [c, d]] = *n;
     let (a, b, c, d) = (R::from_i64(a), R::from_i64(b), R::from_i64(c), R::from_i64(d));
     let u = d * xi - b;
@@ -453,6 +449,19 @@ fn may_meet_domain_f64(n: &[[i64; 2]; 2], xi: crate::enclosure::Interval, yi: cr
     let re = (u * v - d * c * yi) / den;
     let ab2 = (sq(u) + sq(d) * yi) / den;
     !(re.lo() > 0.5 || re.hi() < -0.5 || ab2.hi() < 1.0)
+}
+
+/// The square of an `f64` interval (non-negative also when it straddles 0).
+pub(super) fn sq_f64(v: crate::enclosure::Interval) -> crate::enclosure::Interval {
+    use crate::enclosure::Interval as R;
+    let far = v.lo().abs().max(v.hi().abs());
+    let near = if v.lo() > 0.0 || v.hi() < 0.0 { v.lo().abs().min(v.hi().abs()) } else { 0.0 };
+    R::new((R::point(near) * R::point(near)).lo(), (R::point(far) * R::point(far)).hi())
+}
+
+/// The bracket `[lo, hi] / 2^k` as an `f64` interval rounded outwards.
+pub(super) fn bracket_f64(b: &(Integer, Integer, u64), prec: u64) -> crate::enclosure::Interval {
+    outward_f64(&bracket_iv(b, prec))
 }
 
 /// The interval rounded outwards to `f64` end points.

@@ -63,6 +63,7 @@
 
 use super::core::{Quartic, RootType};
 use super::numeric::{resolvent_roots, sqrt_if_square_u128, to_f64, CubicRoots};
+use super::quick_box::ClassTest;
 use super::reduction::{near_reduced_set, reduce_tau, size_key};
 use crate::curve::Curve;
 use crate::error::{Error, ErrorKind};
@@ -754,6 +755,8 @@ pub(crate) fn distinct_classes(forms: Vec<Quartic>) -> Result<Vec<Quartic>, Erro
         x
     }
     let mut members: Vec<Vec<Quartic>> = Vec::new();
+    // what the class test shares between the forms (same invariants)
+    let mut shared: Option<ClassTest> = None;
     for g in forms {
         if class_of.contains_key(&g) {
             continue;
@@ -771,13 +774,22 @@ pub(crate) fn distinct_classes(forms: Vec<Quartic>) -> Result<Vec<Quartic>, Erro
             continue;
         }
         // `h` is exactly equivalent to `g` and already reduced, so its
-        // proven set is the same and its reduction is not run a second time
-        let set = near_reduced_set(fast.as_ref().unwrap_or(&g))
-            .ok_or_else(|| Error::new(ErrorKind::TooLarge, format!("floating-point reduction failed for {g:?}")))?;
+        // proven set is the same and its reduction is not run a second time;
+        // the word path (`quick_box`, f64 intervals with outward rounding)
+        // decides most forms, the multiple-precision path the rest
+        let start = fast.as_ref().unwrap_or(&g);
+        let test = shared.get_or_insert_with(|| ClassTest::new(&start.invariant_i(), &start.invariant_j()));
+        let forms_here: Vec<Quartic> = match test.candidate_forms(start) {
+            Some(v) => v,
+            None => near_reduced_set(start)
+                .ok_or_else(|| Error::new(ErrorKind::TooLarge, format!("floating-point reduction failed for {g:?}")))?
+                .into_iter()
+                .map(|x| x.0)
+                .collect(),
+        };
         let id = parent.len();
         parent.push(id);
         members.push(Vec::new());
-        let forms_here: Vec<Quartic> = set.into_iter().map(|x| x.0).collect();
         // the found form itself (and its floating-point reduction) is
         // recorded (to skip repeats) but is not a candidate representative
         class_of.entry(g).or_insert(id);
