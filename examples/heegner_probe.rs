@@ -14,11 +14,9 @@ fn main() {
         let e = Curve::from_coefficients([c[0], c[1], c[2], c[3], c[4]]).unwrap();
         let (m, n, _) = twofold::rootno::minimal_conductor_sign(&e).unwrap();
         let secs: u64 = args.get(3).map_or(60, |s| s.parse().unwrap());
-        let opts = HeegnerOptions {
-            time_limit: Some(std::time::Duration::from_secs(secs)),
-            use_twist: args.get(4).map(String::as_str) != Some("no-twist"),
-            ..HeegnerOptions::default()
-        };
+        let mut opts = HeegnerOptions::default();
+        opts.time_limit = Some(std::time::Duration::from_secs(secs));
+        opts.use_twist = args.get(4).map(String::as_str) != Some("no-twist");
         let t = Instant::now();
         match point_of_rank_one(&m, &n, &opts) {
             Ok(Some(r)) => println!(
@@ -44,7 +42,8 @@ fn main() {
         let c = [2, 3, 4, 5, 6].map(|i| f[i].parse::<i64>().unwrap());
         let e = Curve::from_coefficients(c).unwrap();
         let t = Instant::now();
-        let opts = HeegnerOptions { time_limit: Some(std::time::Duration::from_secs(20)), ..HeegnerOptions::default() };
+        let mut opts = HeegnerOptions::default();
+        opts.time_limit = Some(std::time::Duration::from_secs(20));
         let r = point_of_rank_one(&e, &Natural::from(n), &opts);
         match r {
             Ok(Some(r)) => println!(

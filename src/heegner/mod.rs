@@ -84,6 +84,7 @@ pub use forms::{HeegnerData, QuadraticForm};
 /// assert!(o.max_precision >= 4096 && o.max_discriminants >= 1);
 /// ```
 #[derive(Clone, Debug)]
+#[non_exhaustive]
 pub struct HeegnerOptions {
     /// Wall-clock limit for the whole computation.
     pub time_limit: Option<Duration>,

@@ -183,7 +183,7 @@ fn resolvent_at(m: &Integer, k: u64, i: &Integer, j: &Integer) -> Integer {
     (&m2 * m) - Integer::from(3) * i * m * (Integer::ONE << (2 * k)) + j * (Integer::ONE << (3 * k))
 }
 
-fn sign_at(m: &Integer, k: u64, i: &Integer, j: &Integer) -> Ordering {
+pub(super) fn sign_at(m: &Integer, k: u64, i: &Integer, j: &Integer) -> Ordering {
     resolvent_at(m, k, i, j).cmp(&Integer::ZERO)
 }
 

@@ -50,6 +50,10 @@ impl ClassTest {
             out.ij = None;
             return out;
         }
+        if let Some(roots) = quick_roots(i, j, three_roots) {
+            out.roots = roots;
+            return out;
+        }
         // 64 bits of the root beyond its size: the f64 enclosure is then
         // about one unit in the last place wide
         let prec = 64;
@@ -88,14 +92,27 @@ impl ClassTest {
         }
         let mut out: Vec<Quartic> = Vec::new();
         let mut seen: Vec<[i64; 5]> = Vec::new();
-        for n in super::reduction::neighbours() {
-            if !may_meet_domain_f64(n, x, y2) {
+        // a point of F has imaginary part at least √3/2, and the image of τ
+        // under N has imaginary part Im τ / D with D = (a - c Re τ)^2 +
+        // c^2 (Im τ)^2 (which depends on the column (a, c) only): a column
+        // with D^2 > (4/3)(Im τ)^2 for the whole box sends no point of it
+        // into F, and its matrices are skipped together
+        let bound = (R::point(4.0) * y2 / R::point(3.0)).hi();
+        for ((a, c0), group) in neighbour_columns() {
+            let (ai, ci) = (R::point(*a as f64), R::point(*c0 as f64));
+            let den = sq(ai - ci * x) + sq(ci) * y2;
+            if sq(den).lo() > bound {
                 continue;
             }
-            let f = transform_small(&c, n);
-            if !seen.contains(&f) {
-                seen.push(f);
-                out.push(Quartic::new(f.map(Integer::from)));
+            for n in group {
+                if !may_meet_domain_f64(n, x, y2) {
+                    continue;
+                }
+                let f = transform_small(&c, n);
+                if !seen.contains(&f) {
+                    seen.push(f);
+                    out.push(Quartic::new(f.map(Integer::from)));
+                }
             }
         }
         Some(out)
@@ -172,6 +189,83 @@ impl ClassTest {
         }
         Some((x, y2))
     }
+}
+
+/// The matrices of [`super::reduction::neighbours`] grouped by their first
+/// column `(a, c)`.
+fn neighbour_columns() -> &'static [((i64, i64), Vec<[[i64; 2]; 2]>)] {
+    use std::sync::OnceLock;
+    static LIST: OnceLock<Vec<((i64, i64), Vec<[[i64; 2]; 2]>)>> = OnceLock::new();
+    LIST.get_or_init(|| {
+        let mut v: Vec<((i64, i64), Vec<[[i64; 2]; 2]>)> = Vec::new();
+        for n in super::reduction::neighbours() {
+            let key = (n[0][0], n[1][0]);
+            match v.iter_mut().find(|(k, _)| *k == key) {
+                Some((_, g)) => g.push(*n),
+                None => v.push((key, vec![*n])),
+            }
+        }
+        v
+    })
+}
+
+/// Enclosures of the real roots of `F(φ) = φ^3 - 3Iφ + J` (ascending) from
+/// its floating-point roots: each root `r` is given the bracket `r ± δ`
+/// (`δ` a few units in the last place), accepted only when the signs of `F`
+/// at the ends, computed exactly in integers, change across every bracket
+/// in the order a monic cubic needs (`-, +` for one real root; `-, +`,
+/// `+, -`, `-, +` for three disjoint brackets, which then hold one root
+/// each). `None` sends the caller to the bisection of `proven`.
+fn quick_roots(i: &Integer, j: &Integer, three: bool) -> Option<Vec<R>> {
+    use super::numeric::{resolvent_roots, to_f64, CubicRoots};
+    use std::cmp::Ordering;
+    let (fi, fj) = (to_f64(i), to_f64(j));
+    if !fi.is_finite() || !fj.is_finite() {
+        return None;
+    }
+    let approx: Vec<f64> = match resolvent_roots(fi, fj, three) {
+        CubicRoots::Three(r) if three => r.to_vec(),
+        CubicRoots::One { real, .. } if !three => vec![real],
+        _ => return None,
+    };
+    let mut approx = approx;
+    approx.sort_by(f64::total_cmp);
+    let mut out: Vec<R> = Vec::new();
+    for (n, r) in approx.iter().enumerate() {
+        if !r.is_finite() {
+            return None;
+        }
+        let delta = r.abs() * 1e-13 + 1e-300;
+        let (lo, hi) = (r - delta, r + delta);
+        // F rises through the first and third root and falls through the second
+        let rising = n != 1;
+        let want = if rising { (Ordering::Less, Ordering::Greater) } else { (Ordering::Greater, Ordering::Less) };
+        if (exact_sign(lo, i, j)?, exact_sign(hi, i, j)?) != want {
+            return None;
+        }
+        if let Some(prev) = out.last() {
+            if prev.hi() >= lo {
+                return None;
+            }
+        }
+        out.push(R::new(lo, hi));
+    }
+    Some(out)
+}
+
+/// The sign of `F(x) = x^3 - 3Ix + J` at the finite `f64` number `x`,
+/// exactly (`x = m / 2^k`).
+fn exact_sign(x: f64, i: &Integer, j: &Integer) -> Option<std::cmp::Ordering> {
+    use malachite::base::num::arithmetic::traits::PowerOf2;
+    use malachite::Rational;
+    let q = Rational::try_from(x).ok()?;
+    let (m, den) = q.into_numerator_and_denominator();
+    let k = super::numeric::significant_bits(&Integer::from(den.clone())).checked_sub(1)?;
+    if den != <malachite::Natural as PowerOf2<u64>>::power_of_2(k) {
+        return None;
+    }
+    let m = if x < 0.0 { -Integer::from(m) } else { Integer::from(m) };
+    Some(super::proven::sign_at(&m, k, i, j))
 }
 
 /// `[v, v]` for an `i128` (rounded outwards beyond `2^53`).
@@ -253,6 +347,26 @@ mod tests {
             let nm = n.map(|r| r.map(Integer::from));
             assert_eq!(Quartic::new(transform_small(&g, n).map(Integer::from)), q.transform(&nm), "{n:?}");
         }
+    }
+
+    #[test]
+    fn quick_roots_hold_the_roots_bisection_finds() {
+        // each quick enclosure must meet the exact bisection bracket of the
+        // same root (proven::refine), in the same order
+        let mut quick = 0;
+        for (i, j) in [(13i64, 70i64), (48, -432), (7, -3), (100003, 12345), (3, 100), (48, -1000), (123456789, 987654321), (16, -160)] {
+            let (i, j) = (Integer::from(i), Integer::from(j));
+            let three = Integer::from(4) * &i * &i * &i > &j * &j;
+            let Some(roots) = quick_roots(&i, &j, three) else { continue };
+            quick += 1;
+            let brackets = if three { three_brackets(&i, &j).unwrap().to_vec() } else { vec![one_bracket(&i, &j)] };
+            assert_eq!(roots.len(), brackets.len());
+            for (r, (lo, hi, k)) in roots.iter().zip(brackets) {
+                let b = bracket_f64(&refine(lo, hi, k, &i, &j, 80), 80);
+                assert!(r.overlaps(&b), "i = {i}, j = {j}: {r:?} and {b:?}");
+            }
+        }
+        assert!(quick >= 6, "quick roots for {quick} of 8");
     }
 
     #[test]
