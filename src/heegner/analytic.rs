@@ -5,7 +5,7 @@
 //! rational x-coordinate by continued fractions.
 
 use super::forms::QuadraticForm;
-use crate::budget::Work;
+use super::spend::Halt;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
 use crate::heights::real::{fi, fz, pi, sqrt, to_f64, Cx};
@@ -60,7 +60,7 @@ pub(crate) fn log2_abs(x: &Float) -> i64 {
 /// `2^-prec` (the tail after `M` terms is bounded by `|a_n|/n <= 2`
 /// (Hasse; `d(n) <= 2 sqrt n`) as `2 |q|^{M+1} / (1 - |q|)`). Horner's rule,
 /// one complex product per term. Honours the budget every 4096 terms.
-pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &Work) -> Result<Cx, Error> {
+pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &dyn Halt) -> Result<Cx, Error> {
     if prec <= double_double_capacity(forms, d) {
         return modular_sum_dd(a, forms, d, prec, budget);
     }
@@ -113,7 +113,7 @@ pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64,
 /// [`modular_sum`] in fixed point over machine words (see `words.rs`):
 /// `ceil(wp / 64)` fraction limbs, the same Horner scheme and error
 /// analysis as the multiple-precision form, without allocation.
-fn modular_sum_words(a: &[i64], forms: &[QuadraticForm], d: i64, wp: u64, prec: u64, budget: &Work) -> Result<Cx, Error> {
+fn modular_sum_words(a: &[i64], forms: &[QuadraticForm], d: i64, wp: u64, prec: u64, budget: &dyn Halt) -> Result<Cx, Error> {
     macro_rules! by_limbs {
         ($($k:literal),*) => {
             match (wp as usize).div_ceil(64) + 1 {
@@ -125,7 +125,7 @@ fn modular_sum_words(a: &[i64], forms: &[QuadraticForm], d: i64, wp: u64, prec: 
     by_limbs!(2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 17)
 }
 
-fn modular_sum_limbs<const K: usize>(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &Work) -> Result<Cx, Error> {
+fn modular_sum_limbs<const K: usize>(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &dyn Halt) -> Result<Cx, Error> {
     use super::words::{CWord, Multiplier, Word};
     let fb = 64 * (K as u64 - 1);
     let pi = pi(fb);
@@ -249,7 +249,7 @@ impl Dd {
 /// [`modular_sum`] in double-double arithmetic, for precisions up to
 /// about 90 bits: the same Horner scheme, about 30 times faster than
 /// multiple precision at this size.
-fn modular_sum_dd(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &Work) -> Result<Cx, Error> {
+fn modular_sum_dd(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &dyn Halt) -> Result<Cx, Error> {
     let wp = 160;
     let pi = pi(wp);
     let sd = sqrt(&fi(-d, wp), wp);
