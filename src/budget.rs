@@ -89,9 +89,10 @@ pub struct RankOptions {
     /// raise the height towards `search_height_ceiling` only if the Heegner
     /// route finds nothing. Default `true`.
     pub heegner_route: bool,
-    /// The most time the Heegner route may take on one curve (within the
-    /// curve's own limit, if any; at most three quarters of the time left).
-    /// Default 20 s.
+    /// The most CPU time (of the thread running it) the Heegner route may
+    /// take on one curve, so that the load of the machine does not decide
+    /// the result; the curve's own limit, if any, still binds in wall time
+    /// (the route gets at most three quarters of the time left). Default 20 s.
     pub heegner_time_limit: Duration,
     /// Also compute the evidence beyond the rank bounds (root number,
     /// heights and saturation, real period, L-values, the Birch and
@@ -223,7 +224,7 @@ impl RankOptions {
         self.heegner_route = v;
         self
     }
-    /// Sets the most time the Heegner route may take on one curve.
+    /// Sets the most CPU time the Heegner route may take on one curve.
     pub fn with_heegner_time_limit(mut self, v: Duration) -> Self {
         self.heegner_time_limit = v;
         self

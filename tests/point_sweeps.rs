@@ -21,8 +21,8 @@ use twofold::heights::{canonical_height_on_model, float_to_f64, height_differenc
 use twofold::{analyse, Curve, Point, RankOptions};
 
 /// The sweeps' options: no evidence, and the Heegner route given a minute
-/// (the default 20 s is a wall-clock share that a loaded machine can
-/// spend before the series ends).
+/// of CPU time (the default cap is 20 s of the thread's CPU time; a few
+/// generators of height near 200 need more).
 fn sweep_options() -> RankOptions {
     RankOptions::default().with_evidence(false).with_heegner_time_limit(std::time::Duration::from_secs(60))
 }

@@ -5,7 +5,7 @@
 //! rational x-coordinate by continued fractions.
 
 use super::forms::QuadraticForm;
-use crate::budget::Work;
+use super::spend::Halt;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
 use crate::heights::real::{fi, fz, pi, sqrt, to_f64, Cx};
@@ -59,65 +59,115 @@ pub(crate) fn log2_abs(x: &Float) -> i64 {
 /// `tau_i = (-B_i + sqrt D) / (2 A_i)`, to an absolute error of about
 /// `2^-prec` (the tail after `M` terms is bounded by `|a_n|/n <= 2`
 /// (Hasse; `d(n) <= 2 sqrt n`) as `2 |q|^{M+1} / (1 - |q|)`). Horner's rule,
-/// one complex product per term. Honours the budget every 4096 terms.
-pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &Work) -> Result<Cx, Error> {
+/// one complex product per term, at a precision that falls with `n` (see
+/// [`form_sum`]). Honours the budget every few thousand terms.
+pub(crate) fn modular_sum(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &dyn Halt) -> Result<Cx, Error> {
     if prec <= double_double_capacity(forms, d) {
         return modular_sum_dd(a, forms, d, prec, budget);
     }
-    let wp = prec + 24 + (a.len().max(2) as f64).log2().ceil() as u64;
-    if (wp as usize).div_ceil(64) < super::words::MAX_LIMBS {
-        return modular_sum_words(a, forms, d, wp, prec, budget);
-    }
-    let pi = pi(wp);
-    let sd = sqrt(&fi(-d, wp), wp);
-    let (mut tre, mut tim) = (Integer::ZERO, Integer::ZERO);
-    let one = Integer::ONE << wp;
+    let mut total: Option<Cx> = None;
     for f in forms {
-        let m = terms_needed(f.a as f64, (-d) as f64, prec);
-        if m + 1 > a.len() {
-            return Err(Error::new(ErrorKind::InvalidValue, "not enough coefficients for the series"));
-        }
-        let af = fz(&Integer::from(f.a), wp);
-        let r = exp(&-(&pi * &sd / &af), wp);
-        let theta = -(&pi * fz(&Integer::from(f.b), wp)) / &af;
-        let e = expi(&theta, wp);
-        let qr = fixed(&(&r * &e.re), wp);
-        let qi = fixed(&(&r * &e.im), wp);
-        // Horner's rule in fixed point (integers scaled by 2^wp): one
-        // truncation per product, |q| < 1, so the error stays below
-        // 4 m units of the last place, covered by the log2(m) guard bits
-        let (mut sr, mut si) = (Integer::ZERO, Integer::ZERO);
-        for n in (1..=m).rev() {
-            if n % 4096 == 0 && budget.exhausted() {
-                return Err(Error::new(ErrorKind::Budget, "time budget spent in the modular parametrisation"));
-            }
-            if n < m {
-                let nr = (&sr * &qr - &si * &qi) >> wp;
-                let ni = (&sr * &qi + &si * &qr) >> wp;
-                sr = nr;
-                si = ni;
-            }
-            let an = a[n];
-            if an != 0 {
-                sr += (&one * Integer::from(an)) / Integer::from(n as u64);
-            }
-        }
-        tre += (&sr * &qr - &si * &qi) >> wp;
-        tim += (&sr * &qi + &si * &qr) >> wp;
+        let z = form_sum(a, f, d, prec, budget)?;
+        total = Some(match total {
+            Some(t) => t.add(&z),
+            None => z,
+        });
     }
-    let scale = Rational::from(Integer::ONE << wp);
-    let back = |x: Integer| Float::from_rational_prec(Rational::from(x) / &scale, wp).0;
-    Ok(Cx::new(back(tre), back(tim)))
+    Ok(total.unwrap_or_else(|| Cx::real(fi(0, prec + 24))))
 }
 
-/// [`modular_sum`] in fixed point over machine words (see `words.rs`):
-/// `ceil(wp / 64)` fraction limbs, the same Horner scheme and error
-/// analysis as the multiple-precision form, without allocation.
-fn modular_sum_words(a: &[i64], forms: &[QuadraticForm], d: i64, wp: u64, prec: u64, budget: &Work) -> Result<Cx, Error> {
+/// The series `Σ_{n <= M} a_n / n q^n` of one Heegner point, summed in
+/// segments of falling precision.
+///
+/// The terms from `n = s` on are `q^{s-1} P_s(q)` with
+/// `P_s(q) = Σ_{n >= s} a_n / n q^{n-s+1}`, and `|q^{s-1}| = 2^{-(s-1) c}`
+/// (`c = pi sqrt|D| / (A ln 2)` bits per term). For an absolute error of
+/// `2^-b` in the sum, `P_s` needs only `b - (s-1) c` bits after the point:
+/// the range `1..=M` is cut where that need drops by a 64-bit limb, each
+/// segment is summed by Horner's rule in fixed point with as many limbs as
+/// its first term needs, and the segments are multiplied by `q^{s-1}`
+/// (computed directly as `e^{2 pi i (s-1) tau}`) and added in multiple
+/// precision. A product of `k` limbs costs about `k^2`, so with the need
+/// falling linearly from the full precision to nothing the series costs
+/// about a third of a sum at full precision throughout.
+///
+/// Error: a segment of `L` terms summed with `F >= b - (s-1) c` fraction
+/// bits is off by at most `4 L` units of `2^-F` (truncated products, `|q| < 1`),
+/// which the factor `|q^{s-1}|` brings below `4 L 2^-b`; the guard bits
+/// `log2 M + 24` over `prec` cover the sum of these over all segments.
+pub(crate) fn form_sum(a: &[i64], f: &QuadraticForm, d: i64, prec: u64, budget: &dyn Halt) -> Result<Cx, Error> {
+    let m = terms_needed(f.a as f64, (-d) as f64, prec);
+    if m + 1 > a.len() {
+        return Err(Error::new(ErrorKind::InvalidValue, "not enough coefficients for the series"));
+    }
+    let bits = prec + 24 + (m.max(2) as f64).log2().ceil() as u64;
+    // the angle (s - 1) pi B / A grows to about pi M: 64 more bits keep
+    // the powers q^{s-1} accurate
+    let wp = bits + 64;
+    let per_term = std::f64::consts::PI * ((-d) as f64).sqrt() / (f.a as f64) / std::f64::consts::LN_2;
+    let pi = pi(wp);
+    let sd = sqrt(&fi(-d, wp), wp);
+    let af = fz(&Integer::from(f.a), wp);
+    let bf = fz(&Integer::from(f.b), wp);
+    // q = e^{-pi sqrt|D| / A} e^{-i pi B / A}; its powers q^k by squaring
+    // (about 2 log2 k products at the working precision, each losing at
+    // most a few units of the last place: far inside the 64 extra bits;
+    // exp and sin/cos of the large arguments k pi B / A cost far more)
+    let q = {
+        let r = exp(&-(&pi * &sd / &af), wp);
+        let e = expi(&-(&pi * &bf / &af), wp);
+        Cx::new(&r * &e.re, &r * &e.im)
+    };
+    let power = |k: usize| -> Cx {
+        let mut result = Cx::real(fi(1, wp));
+        let mut base = q.clone();
+        let mut k = k;
+        while k > 0 {
+            if k & 1 == 1 {
+                result = result.mul(&base);
+            }
+            k >>= 1;
+            if k > 0 {
+                base = base.mul(&base);
+            }
+        }
+        result
+    };
+    let mut total = Cx::real(fi(0, wp));
+    let mut s = 1usize;
+    while s <= m {
+        // bits after the point that P_s needs, and the limbs for them
+        let need = (bits as f64 - (s - 1) as f64 * per_term).max(1.0);
+        let limbs = (need.ceil() as u64).div_ceil(64).max(1);
+        let fb = 64 * limbs;
+        // the segment ends where the need falls to the next limb below
+        let end = if limbs == 1 {
+            m
+        } else {
+            let last = ((bits - (fb - 64)) as f64 / per_term).floor() as usize;
+            last.clamp(s, m)
+        };
+        let (re, im) = if (limbs as usize) < super::words::MAX_LIMBS {
+            segment_in_words(a, s, end, &q, limbs as usize, budget)?
+        } else {
+            segment_in_integers(a, s, end, &q, fb, budget)?
+        };
+        let scale = Rational::from(Integer::ONE << fb);
+        let back = |x: Integer| Float::from_rational_prec(Rational::from(x) / &scale, wp).0;
+        let part = Cx::new(back(re), back(im));
+        total = total.add(&if s == 1 { part } else { part.mul(&power(s - 1)) });
+        s = end + 1;
+    }
+    Ok(total)
+}
+
+/// `P = Σ_{n = s}^{e} a_n / n q^{n-s+1}` by Horner's rule in machine words
+/// with `limbs` fraction limbs, as integers scaled by `2^(64 limbs)`.
+fn segment_in_words(a: &[i64], s: usize, e: usize, q: &Cx, limbs: usize, budget: &dyn Halt) -> Result<(Integer, Integer), Error> {
     macro_rules! by_limbs {
         ($($k:literal),*) => {
-            match (wp as usize).div_ceil(64) + 1 {
-                $($k => modular_sum_limbs::<$k>(a, forms, d, prec, budget),)*
+            match limbs + 1 {
+                $($k => segment_limbs::<$k>(a, s, e, q, budget),)*
                 _ => Err(Error::internal("the modular series in machine words", "precision outside the table")),
             }
         };
@@ -125,43 +175,53 @@ fn modular_sum_words(a: &[i64], forms: &[QuadraticForm], d: i64, wp: u64, prec: 
     by_limbs!(2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 17)
 }
 
-fn modular_sum_limbs<const K: usize>(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &Work) -> Result<Cx, Error> {
+fn segment_limbs<const K: usize>(a: &[i64], s: usize, e: usize, q: &Cx, budget: &dyn Halt) -> Result<(Integer, Integer), Error> {
     use super::words::{CWord, Multiplier, Word};
     let fb = 64 * (K as u64 - 1);
-    let pi = pi(fb);
-    let sd = sqrt(&fi(-d, fb), fb);
-    let mut total = CWord::<K>::ZERO;
     let overflow = || Error::internal("the modular series in machine words", "a value outside the fixed-point range");
-    for f in forms {
-        let m = terms_needed(f.a as f64, (-d) as f64, prec);
-        if m + 1 > a.len() {
-            return Err(Error::new(ErrorKind::InvalidValue, "not enough coefficients for the series"));
+    let qr = Word::from_scaled(&fixed(&q.re, fb)).ok_or_else(overflow)?;
+    let qi = Word::from_scaled(&fixed(&q.im, fb)).ok_or_else(overflow)?;
+    let q = Multiplier::new(CWord { re: qr, im: qi });
+    let mut acc = CWord::<K>::ZERO;
+    for n in (s..=e).rev() {
+        if n % 8192 == 0 && budget.exhausted() {
+            return Err(Error::new(ErrorKind::Budget, "time budget spent in the modular parametrisation"));
         }
-        let af = fz(&Integer::from(f.a), fb);
-        let r = exp(&-(&pi * &sd / &af), fb);
-        let theta = -(&pi * fz(&Integer::from(f.b), fb)) / &af;
-        let e = expi(&theta, fb);
-        let qr = Word::from_scaled(&fixed(&(&r * &e.re), fb)).ok_or_else(overflow)?;
-        let qi = Word::from_scaled(&fixed(&(&r * &e.im), fb)).ok_or_else(overflow)?;
-        let q = Multiplier::new(CWord { re: qr, im: qi });
-        let mut s = CWord::<K>::ZERO;
-        for n in (1..=m).rev() {
-            if n % 8192 == 0 && budget.exhausted() {
-                return Err(Error::new(ErrorKind::Budget, "time budget spent in the modular parametrisation"));
-            }
-            if n < m {
-                s = s.mul_by(&q);
-            }
-            let an = a[n];
-            if an != 0 {
-                s.re = super::words::add(&s.re, &Word::ratio(an, n as u64));
-            }
+        if n < e {
+            acc = acc.mul_by(&q);
         }
-        total = total.add(&s.mul_by(&q));
+        let an = a[n];
+        if an != 0 {
+            acc.re = super::words::add(&acc.re, &Word::ratio(an, n as u64));
+        }
     }
-    let scale = Rational::from(Integer::ONE << fb);
-    let back = |x: Integer| Float::from_rational_prec(Rational::from(x) / &scale, fb).0;
-    Ok(Cx::new(back(total.re.to_scaled()), back(total.im.to_scaled())))
+    let acc = acc.mul_by(&q);
+    Ok((acc.re.to_scaled(), acc.im.to_scaled()))
+}
+
+/// [`segment_in_words`] in multiple-precision integers scaled by `2^fb`
+/// (for precisions beyond the machine-word table).
+fn segment_in_integers(a: &[i64], s: usize, e: usize, q: &Cx, fb: u64, budget: &dyn Halt) -> Result<(Integer, Integer), Error> {
+    let qr = fixed(&q.re, fb);
+    let qi = fixed(&q.im, fb);
+    let one = Integer::ONE << fb;
+    let (mut sr, mut si) = (Integer::ZERO, Integer::ZERO);
+    for n in (s..=e).rev() {
+        if n % 4096 == 0 && budget.exhausted() {
+            return Err(Error::new(ErrorKind::Budget, "time budget spent in the modular parametrisation"));
+        }
+        if n < e {
+            let nr = (&sr * &qr - &si * &qi) >> fb;
+            let ni = (&sr * &qi + &si * &qr) >> fb;
+            sr = nr;
+            si = ni;
+        }
+        let an = a[n];
+        if an != 0 {
+            sr += (&one * Integer::from(an)) / Integer::from(n as u64);
+        }
+    }
+    Ok(((&sr * &qr - &si * &qi) >> fb, (&sr * &qi + &si * &qr) >> fb))
 }
 
 /// `x` as an integer scaled by `2^wp` (rounded down).
@@ -249,7 +309,7 @@ impl Dd {
 /// [`modular_sum`] in double-double arithmetic, for precisions up to
 /// about 90 bits: the same Horner scheme, about 30 times faster than
 /// multiple precision at this size.
-fn modular_sum_dd(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &Work) -> Result<Cx, Error> {
+fn modular_sum_dd(a: &[i64], forms: &[QuadraticForm], d: i64, prec: u64, budget: &dyn Halt) -> Result<Cx, Error> {
     let wp = 160;
     let pi = pi(wp);
     let sd = sqrt(&fi(-d, wp), wp);
@@ -523,6 +583,46 @@ mod tests {
         let f = fi(4, prec) * &x * &x * &x - fi(4, prec) * &x + fi(1, prec);
         assert!(to_f64(&f).abs() < 1e-30, "{}", to_f64(&f));
         assert!(to_f64(&p.im).abs() < 1e-30);
+    }
+
+    /// The segmented sum (falling precision) equals the plain Horner sum at
+    /// full precision throughout, to the precision asked, for the Heegner
+    /// forms of y^2 + y = x^3 - x (conductor 37, Cremona 1997, Table 1) at
+    /// D = -139 (any fundamental D with 37 split works) and several
+    /// precisions that cross the machine-word table (up to 1400 bits).
+    #[test]
+    fn segments_of_falling_precision_equal_the_plain_sum() {
+        let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
+        let work = crate::budget::Work::unlimited();
+        let bad = crate::local::CurveData::new(&e, &work).unwrap().bad_prime_traces().unwrap();
+        let hs = crate::heegner::heegner_discriminants(37, 2).unwrap();
+        let mut checked = 0;
+        for h in hs {
+            for prec in [150u64, 700, 1400] {
+                let m = h.forms.iter().map(|f| terms_needed(f.a as f64, (-h.discriminant) as f64, prec)).max().unwrap();
+                let a = super::super::traces::dirichlet_coefficients_fast(&e, &bad, m + 1, &|| false).unwrap();
+                for f in &h.forms {
+                    let z = form_sum(&a, f, h.discriminant, prec, &work).unwrap();
+                    let mf = terms_needed(f.a as f64, (-h.discriminant) as f64, prec);
+                    let fb = prec + 64;
+                    let wp = fb + 64;
+                    let q = {
+                        let pi = pi(wp);
+                        let r = exp(&-(&pi * sqrt(&fi(-h.discriminant, wp), wp) / fz(&Integer::from(f.a), wp)), wp);
+                        let t = expi(&-(&pi * fz(&Integer::from(f.b), wp) / fz(&Integer::from(f.a), wp)), wp);
+                        Cx::new(&r * &t.re, &r * &t.im)
+                    };
+                    let (re, im) = segment_in_integers(&a, 1, mf, &q, fb, &work).unwrap();
+                    let scale = Rational::from(Integer::ONE << fb);
+                    let plain = Cx::new(Float::from_rational_prec(Rational::from(re) / &scale, wp).0, Float::from_rational_prec(Rational::from(im) / &scale, wp).0);
+                    let diff = z.sub(&plain);
+                    let err = to_f64(&diff.re).abs().max(to_f64(&diff.im).abs());
+                    assert!(err == 0.0 || err.log2() < -(prec as f64), "D = {}, {f:?}, {prec} bits: error 2^{}", h.discriminant, err.log2());
+                    checked += 1;
+                }
+            }
+        }
+        assert!(checked >= 6);
     }
 
     #[test]

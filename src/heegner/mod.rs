@@ -56,6 +56,7 @@
 
 mod analytic;
 pub mod forms;
+mod spend;
 mod traces;
 mod twist;
 mod words;
@@ -68,6 +69,7 @@ use crate::heights::{canonical_height_of, height_difference_bound, mordell_weil_
 use crate::local::{CurveData, LocalData};
 use crate::torsion::TorsionGroup;
 use analytic::Lattice;
+use spend::{Halt, Spend};
 use malachite::base::num::arithmetic::traits::Abs;
 use malachite::{Float, Natural, Rational};
 use std::sync::atomic::AtomicBool;
@@ -86,8 +88,14 @@ pub use forms::{HeegnerData, QuadraticForm};
 #[derive(Clone, Debug)]
 #[non_exhaustive]
 pub struct HeegnerOptions {
-    /// Wall-clock limit for the whole computation.
+    /// Wall-clock limit for the whole computation (the caller's overall
+    /// budget).
     pub time_limit: Option<Duration>,
+    /// Limit on the CPU time of the calling thread (the step runs on that
+    /// thread only), so that the machine's load does not decide whether a
+    /// curve gets its point; `None` for no such cap. Where the thread's CPU
+    /// clock cannot be read, it is counted in wall time.
+    pub cpu_time_limit: Option<Duration>,
     /// Set to `true` from another thread to stop promptly.
     pub cancel: Option<Arc<AtomicBool>>,
     /// The largest working precision in bits (the precision starts from
@@ -115,6 +123,7 @@ impl Default for HeegnerOptions {
     fn default() -> Self {
         HeegnerOptions {
             time_limit: None,
+            cpu_time_limit: None,
             cancel: None,
             max_precision: 16_384,
             max_discriminants: 4,
@@ -140,9 +149,10 @@ impl HeegnerOptions {
         HeegnerOptions { time_limit: o.time_limit, cancel: o.cancel.clone(), ..HeegnerOptions::default() }
     }
 
-    /// The deadline (from `start` plus the time limit) and cancel flag as a work value.
-    fn work(&self, start: Instant) -> Work {
-        Work::until(self.time_limit.and_then(|d| start.checked_add(d)), self.cancel.clone())
+    /// The deadline (from `start` plus the time limit) and cancel flag as a
+    /// work value, with the CPU-time cap counted from now on this thread.
+    fn spend(&self, start: Instant) -> Spend {
+        Spend::new(Work::until(self.time_limit.and_then(|d| start.checked_add(d)), self.cancel.clone()), self.cpu_time_limit)
     }
 }
 
@@ -309,8 +319,8 @@ pub fn heegner_discriminants(n: u64, count: usize) -> Result<Vec<HeegnerData>, E
 /// the coefficients cost `O(p^{1/4})` group operations per prime.
 pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOptions) -> Result<Option<HeegnerResult>, Error> {
     let start = Instant::now();
-    let budget = opts.work(start);
-    let data = CurveData::new(minimal, &budget)?;
+    let budget = opts.spend(start);
+    let data = CurveData::new(minimal, budget.work())?;
     if data.minimal().discriminant() != minimal.discriminant() {
         return Err(err(ErrorKind::InvalidValue, format!("the model {minimal} is not minimal")));
     }
@@ -319,7 +329,7 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
     }
     // the search runs on the data's minimal model (which may differ from
     // `minimal` by a change of minimal models); carry its points back
-    Ok(point_on_model(&data, opts, start)?.map(|mut r| {
+    Ok(point_on_model(&data, opts, start, &budget)?.map(|mut r| {
         r.generator = data.to_input(&r.generator);
         r.recognised_point = data.to_input(&r.recognised_point);
         r
@@ -341,23 +351,23 @@ pub fn point_of_rank_one(minimal: &Curve, conductor: &Natural, opts: &HeegnerOpt
 /// assert!(d.minimal().contains(&r.generator) && !r.generator.is_infinity());
 /// ```
 pub fn point_of_rank_one_of(data: &CurveData, opts: &HeegnerOptions) -> Result<Option<HeegnerResult>, Error> {
-    point_on_model(data, opts, Instant::now())
+    let start = Instant::now();
+    point_on_model(data, opts, start, &opts.spend(start))
 }
 
 /// The search on the global minimal model of the curve of `data`.
-fn point_on_model(data: &CurveData, opts: &HeegnerOptions, start: Instant) -> Result<Option<HeegnerResult>, Error> {
+fn point_on_model(data: &CurveData, opts: &HeegnerOptions, start: Instant, budget: &Spend) -> Result<Option<HeegnerResult>, Error> {
     let minimal = data.minimal();
-    let budget = opts.work(start);
-    let Some(s) = setup(minimal, data, &budget)? else { return Ok(None) };
+    let Some(s) = setup(minimal, data, budget.work())? else { return Ok(None) };
     if opts.use_twist {
         if let Some(t) = twist::smallest_twist(minimal, s.n)? {
             check_twist(minimal, &s, &t)?;
-            if let Some(r) = search(data, &s, opts, &budget, start, Some(&t))? {
+            if let Some(r) = search(data, &s, opts, budget, start, Some(&t))? {
                 return Ok(Some(r));
             }
         }
     }
-    search(data, &s, opts, &budget, start, None)
+    search(data, &s, opts, budget, start, None)
 }
 
 /// `a_p(E) = χ_d(p) a_p(E0)` for the primes below 300: the twist route
@@ -407,7 +417,7 @@ fn twist_multiplier(t: &twist::Twist, lat: &Lattice, bits: u64) -> Result<Option
 /// `Σ_plus z0 - Σ_minus z0` over the twisted evaluation points, the
 /// Atkin-Lehner moved ones through `z0(τ) = ε (z0(W τ) - c)` (see
 /// [`twist::twisted_forms`]).
-fn twisted_sum(coeffs: &[i64], p: &twist::TwistPoints, disc: i64, t: &twist::Twist, bits: u64, budget: &Work) -> Result<Cx, Error> {
+fn twisted_sum(coeffs: &[i64], p: &twist::TwistPoints, disc: i64, t: &twist::Twist, bits: u64, budget: &Spend) -> Result<Cx, Error> {
     let wp = bits + 32;
     let zero = || Cx::real(fi(0, wp));
     let sum = |f: &[forms::QuadraticForm]| -> Result<Cx, Error> {
@@ -491,7 +501,7 @@ fn search(
     data: &CurveData,
     s: &Setup,
     opts: &HeegnerOptions,
-    budget: &Work,
+    budget: &Spend,
     start: Instant,
     tw: Option<&twist::Twist>,
 ) -> Result<Option<HeegnerResult>, Error> {
@@ -653,7 +663,7 @@ fn recognise(curve: &Curve, x: &Float, bits: u64) -> Option<Point> {
 /// `± pt + T` exactly (T running over the rational torsion). Returns the
 /// final point and the product of the primes divided out.
 #[allow(clippy::too_many_arguments)]
-fn divide_out(curve: &Curve, tors: &[Point], lat: &Lattice, b2: &Rational, z: Cx, pt: Point, bits: u64, budget: &Work) -> (Point, u64) {
+fn divide_out(curve: &Curve, tors: &[Point], lat: &Lattice, b2: &Rational, z: Cx, pt: Point, bits: u64, budget: &Spend) -> (Point, u64) {
     let wp = lat.precision();
     let (mut cur, mut zc, mut k) = (pt, z, 1u64);
     'primes: for l in [2u64, 3, 5, 7, 11, 13] {
@@ -718,11 +728,11 @@ fn finish(
     divisor: u64,
     bits: u64,
     terms: usize,
-    budget: &Work,
+    budget: &Spend,
     start: Instant,
 ) -> Result<HeegnerResult, Error> {
     let curve = data.minimal();
-    let sat_opts = SaturationOptions::within(budget);
+    let sat_opts = SaturationOptions::within(budget.work());
     let prec = 128u64.max(bits / 4);
     let basis = mordell_weil_basis_of(data, std::slice::from_ref(&divided), prec, &sat_opts)?;
     let generator = basis.generators.first().cloned().ok_or_else(|| err(ErrorKind::InvalidValue, "the point found is torsion"))?;

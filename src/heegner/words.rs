@@ -203,11 +203,6 @@ impl<const K: usize> CWord<K> {
         let t = mul(&s, &m.sum);
         CWord { re: sub(&ac, &bd), im: sub(&sub(&t, &ac), &bd) }
     }
-
-    #[inline]
-    pub(crate) fn add(&self, o: &CWord<K>) -> CWord<K> {
-        CWord { re: add(&self.re, &o.re), im: add(&self.im, &o.im) }
-    }
 }
 
 #[cfg(test)]

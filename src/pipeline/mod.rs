@@ -973,21 +973,23 @@ fn heegner_search(report: &mut RankReport, data: &CurveData, options: &RankOptio
     // three quarters of the time left: with the analytic rank proven 1 and
     // no point from the floor-height search, the Heegner step is the likely
     // route to the point (the ladder after it keeps the last quarter)
+    // the step's own cap counts the CPU time of this thread (so that the
+    // machine's load does not decide whether a curve gets its point); the
+    // curve's budget still binds in wall time
     let share = work.share(0.75);
-    let limit = share.remaining().map_or(options.heegner_time_limit, |r| r.min(options.heegner_time_limit));
     let opts = crate::heegner::HeegnerOptions {
-        time_limit: Some(limit),
+        time_limit: share.remaining(),
+        cpu_time_limit: Some(options.heegner_time_limit),
         cancel: work.cancel_flag().cloned(),
         ..crate::heegner::HeegnerOptions::default()
     };
-    let started = std::time::Instant::now();
     match crate::heegner::point_of_rank_one_of(data, &opts) {
         Ok(Some(found)) => Ok(Some(found)),
         Err(e) if *e.kind() == crate::error::ErrorKind::Internal => Err(e),
         // a route stopped by its share of the budget leaves the report
         // marked as cut short, so that a rerun may differ only there
         other => {
-            if other.is_err() || started.elapsed() >= limit || work.exhausted() {
+            if other.is_err() || work.exhausted() {
                 report.budget_exhausted = true;
             }
             Ok(None)
