@@ -132,3 +132,25 @@ fn cubic_fields_beyond_ten_to_the_eleven() {
         check_laws(&k, &cg, &what);
     }
 }
+
+#[test]
+#[ignore = "reach probe, about 7 s of CPU"]
+fn square_classes_of_a_forty_digit_descent_field() {
+    // The cubic field of y^2 = x^3 + 1234567890121 x + 8765432109876543211 as the
+    // 2-descent builds it, X^3 + 16 a X + 64 b (an invented curve, chosen at random for
+    // the issue-15 speed target), field discriminant about -2.1e39. Its reduced
+    // ideal bases are too skewed for the lattice search; the line search of
+    // a + b theta finds the relations. Laws (Cohen GTM 193, §5.2): the dimension
+    // of K({2},2) is at least r1 + r2 (units and -1) plus the number of prime
+    // ideals above 2, and every basis element has coordinates a unit vector.
+    let f = vec![Integer::from(560_987_655_032_098_765_504i128), Integer::from(19_753_086_241_936i64), Integer::from(0), Integer::from(1)];
+    let k = NumberField::new(&f).unwrap();
+    let ks = k.square_classes(&[2], &ClassGroupOptions::default()).unwrap();
+    assert!(ks.conditional_on_grh());
+    assert!(ks.dimension() >= 2 + ks.prime_ideals, "{}", ks.dimension());
+    for (i, b) in ks.basis.iter().enumerate() {
+        let e = b.expand(&k).unwrap();
+        let c = ks.coordinates_unchecked(&k, &e).unwrap();
+        assert_eq!(c, (0..ks.dimension()).map(|j| u8::from(i == j)).collect::<Vec<_>>());
+    }
+}

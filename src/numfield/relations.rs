@@ -275,6 +275,23 @@ mod tests {
     }
 
     #[test]
+    fn line_norm_agrees_with_the_field_norm() {
+        // two ways: the homogenised polynomial against the norm of a + b theta in the field
+        for f in [vec![-1i64, -1, 0, 1], vec![7, 3, 0, 1], vec![-5, 0, 1], vec![13, -4, 2, 1], vec![1, 0, 1], vec![-1, -2, 1, 1]] {
+            let fz: Vec<Integer> = f.iter().map(|&c| Integer::from(c)).collect();
+            let k = NumberField::new(&fz).unwrap();
+            let coeffs: Vec<i128> = f.iter().map(|&c| c as i128).collect();
+            for a in -7i64..=7 {
+                for b in -3i64..=3 {
+                    let e = k.add(&k.rational(&Rational::from(a)), &k.mul(&k.rational(&Rational::from(b)), &k.generator()));
+                    assert_eq!(Rational::from(line_norm(&coeffs, a as i128, b as i128).unwrap()), k.norm(&e), "{f:?} {a} {b}");
+                }
+            }
+        }
+        assert_eq!(line_norm(&[1, 0, 0, 1], i128::MAX / 2, 1), None);
+    }
+
+    #[test]
     fn division_free_trial_division_agrees() {
         // two ways: the multiply-and-compare divisibility test against plain division
         let primes = primes_up_to(3000);
@@ -357,6 +374,11 @@ pub(crate) struct RelationSearch<'a> {
     pub(crate) table: Vec<(Vec<f64>, f64)>,
     seen: HashSet<Element>,
     state: u64,
+    /// Per degree-one prime ideal: the root `r` with `theta - r` in it
+    /// (`None`: no such root, no line search there).
+    line_roots: HashMap<Key, Option<u64>>,
+    /// Per prime ideal: where its line search goes on (`b`, index of `a`).
+    line_pos: HashMap<Key, (i64, i64)>,
 }
 
 enum Goal {
@@ -388,6 +410,8 @@ impl<'a> RelationSearch<'a> {
             table: Vec::new(),
             seen: HashSet::new(),
             state: 0x2545f4914f6cdd1d,
+            line_roots: HashMap::new(),
+            line_pos: HashMap::new(),
         };
         let mut base: Vec<(u128, Key)> = Vec::new();
         for p in s.small.clone() {
@@ -505,6 +529,25 @@ impl<'a> RelationSearch<'a> {
         self.search_ideal(first, extra_factors, (8 + 4 * widen).min(self.fb0_len), span, found)
     }
 
+    /// One round aimed at the column `col` (a column no relation has
+    /// reached yet, numbered from 0): reduces `fb[col]` times up to two
+    /// random small columns, the box widening with `attempt` (counted from
+    /// 1), and leaves the relations found in `found` (cleared first).
+    pub(crate) fn targeted_round(&mut self, col: usize, attempt: usize, stop: &dyn Fn() -> bool, what: &str, found: &mut Vec<Found>) -> Result<(), Error> {
+        if stop() {
+            return Err(Error::new(ErrorKind::Budget, format!("{what}: budget exhausted")));
+        }
+        found.clear();
+        let key = self.keys[col];
+        self.line_scan(key, LINE_CAP, &Goal::Collect, found)?;
+        if !found.is_empty() {
+            return Ok(());
+        }
+        let extra = self.rnd(3) as usize;
+        let span = if self.k.n == 2 { 4 + (attempt / 2).min(4) as i64 } else { 2 + (attempt / 3).min(2) as i64 };
+        self.search_ideal(Some(col), extra, 16.min(self.fb0_len), span, found)
+    }
+
     /// Reduces the ideal `fb[first] * (extra random base primes among the
     /// first `pool`)` and tests the small combinations of its reduced basis.
     pub(crate) fn search_ideal(&mut self, first: Option<usize>, extra: usize, pool: usize, span: i64, out: &mut Vec<Found>) -> Result<(), Error> {
@@ -571,67 +614,164 @@ impl<'a> RelationSearch<'a> {
                     a = k.add(&a, &k.mul(&k.rational(&Rational::from(*ci)), bi));
                 }
             }
-            if !self.seen.insert(a.clone()) {
-                continue;
-            }
-            let mut hit: Vec<u64> = self.small.iter().copied().filter(|&p| v % p as u128 == 0).collect();
-            hit.extend(&ideal_primes);
-            if cof > 1 {
-                hit.push(cof as u64);
-            }
-            hit.sort_unstable();
-            hit.dedup();
-            let mut vals: Vec<(Key, i64)> = Vec::new();
-            let mut accounted = true;
-            for p in hit {
-                let m = self.ideals(p)?.len();
-                let mut vp = 0u32;
-                let mut t = val;
-                while t % p as u128 == 0 {
-                    t /= p as u128;
-                    vp += 1;
-                }
-                let mut sum_ef = 0u32;
-                if vp == 1 && self.light.contains(&p) {
-                    // p exactly once in the norm: the one degree-one prime
-                    // (p, theta - r) with a(r) = 0 mod p has valuation 1
-                    // (read off the Hermite rows: a(r) = a_0 - sum_i a_i h_i0)
-                    for i in 0..m {
-                        let h = self.above[&p][i].ideal.hnf();
-                        let mut acc = mod_word(&a.coords()[0], p);
-                        for j in 1..k.n {
-                            let t = mul_mod(mod_word(&a.coords()[j], p), mod_word(&h[j][0], p), p);
-                            acc = (acc + p - t) % p;
-                        }
-                        if acc == 0 {
-                            vals.push(((p, i), 1));
-                            sum_ef += 1;
-                            break;
-                        }
-                    }
-                } else {
-                    for i in 0..m {
-                        let e = k.valuation(&a, &self.above[&p][i])?;
-                        if e != 0 {
-                            vals.push(((p, i), e));
-                            sum_ef += e.unsigned_abs() as u32 * self.above[&p][i].f;
-                        }
-                    }
-                }
-                // the listed primes must account for all of p in the norm
-                // (a prime of higher degree left out of a short list is not)
-                if sum_ef != vp {
-                    accounted = false;
-                }
-            }
-            if !accounted {
-                continue;
-            }
-            if self.accept(a, vals, goal, out) {
+            if self.take(a, val, v, cof, &ideal_primes, goal, out)? {
                 return Ok(true);
             }
         }
         Ok(false)
+    }
+
+    /// The root `r` of `f` mod `p` with `theta - r` in the prime ideal
+    /// `key`, when it is of degree one (cached).
+    fn line_root(&mut self, key: Key) -> Result<Option<u64>, Error> {
+        if let Some(r) = self.line_roots.get(&key) {
+            return Ok(*r);
+        }
+        let k = self.k;
+        let p = key.0;
+        self.ideals(p)?;
+        let q = self.above[&p][key.1].clone();
+        let mut found = None;
+        if q.f == 1 && p < (1 << 40) {
+            let fp: Vec<u64> = k.poly.iter().map(|c| mod_word(c, p)).collect();
+            for r in super::fp::roots(&fp, p) {
+                let t = k.add(&k.generator(), &k.rational(&Rational::from(-(r as i64))));
+                if k.valuation(&t, &q)? > 0 {
+                    found = Some(r);
+                    break;
+                }
+            }
+        }
+        self.line_roots.insert(key, found);
+        Ok(found)
+    }
+
+    /// The line search of the number field sieve's relation collection
+    /// (A. K. Lenstra, H. W. Lenstra, M. S. Manasse, J. M. Pollard, "The
+    /// number field sieve", 1990, §4, without the sieve): elements
+    /// `a + b theta` of the degree-one prime ideal `key` (those with
+    /// `a + b r = 0 mod p`), `b = 1, 2, ...`, `|a| <= s b` for `s` the size
+    /// of the roots of `f`, coprime `a, b`; the norm `(-b)^n f(-a/b)` in
+    /// checked `i128` (up to its sign). Goes on where the last call for `key` stopped, at
+    /// most `cap` candidates. Where the reduced ideal bases are too skewed
+    /// for [`RelationSearch::scan`] (a short `1` and long other vectors:
+    /// fields with a root of `f` small beside `sqrt|d|`), these elements
+    /// still have norms about `s^n`. Whether the goal was met.
+    fn line_scan(&mut self, key: Key, cap: usize, goal: &Goal, out: &mut Vec<Found>) -> Result<bool, Error> {
+        let k = self.k;
+        let Some(r) = self.line_root(key)? else { return Ok(false) };
+        let p = key.0;
+        let Ok(coeffs) = k.poly.iter().map(i128::try_from).collect::<Result<Vec<i128>, _>>() else { return Ok(false) };
+        let n = k.n;
+        // the root size: max |c_i|^(1 / (n - i)), at least 1
+        let size = (0..n).map(|i| (coeffs[i] as f64).abs().powf(1.0 / (n - i) as f64)).fold(1.0f64, f64::max).ceil();
+        if size > 1e15 {
+            return Ok(false);
+        }
+        let s = size as i64;
+        let (mut b, mut j) = self.line_pos.get(&key).copied().unwrap_or((1, 0));
+        let theta = k.generator();
+        let mut tried = 0usize;
+        while tried < cap {
+            // a = a0 + (j + lo) p in [-s b, s b], a0 = -b r mod p
+            let a0 = (p as i128 - (b as i128 * r as i128) % p as i128) % p as i128;
+            let lo = (-(s as i128) * b as i128 - a0).div_euclid(p as i128) + 1;
+            let count = (2 * s as i128 * b as i128) / p as i128 + 1;
+            if j as i128 >= count || b > 1 << 20 {
+                b += 1;
+                j = 0;
+                continue;
+            }
+            let a = a0 + (lo + j as i128) * p as i128;
+            j += 1;
+            tried += 1;
+            if crate::arith::gcd_u64(a.unsigned_abs() as u64, b as u64) != 1 {
+                continue;
+            }
+            let Some(norm) = line_norm(&coeffs, a, b as i128) else { continue };
+            let val = norm.unsigned_abs();
+            if val == 0 || val % p as u128 != 0 {
+                continue;
+            }
+            let v = val / p as u128;
+            let cof = self.divisors.cofactor(v, self.gen_bound as u128);
+            if cof != 1 && (cof > self.gen_bound as u128 || !is_prime_u64(cof as u64)) {
+                continue;
+            }
+            let Ok(ai) = i64::try_from(a) else { continue };
+            let elem = k.add(&k.rational(&Rational::from(ai)), &k.mul(&k.rational(&Rational::from(b)), &theta));
+            if self.take(elem, val, v, cof, &[p], goal, out)? {
+                self.line_pos.insert(key, (b, j));
+                return Ok(true);
+            }
+        }
+        self.line_pos.insert(key, (b, j));
+        Ok(false)
+    }
+
+    /// A candidate `a` whose norm `val` (`v` after the ideal's norm) has
+    /// the cofactor `cof` after trial division: its valuations, then
+    /// [`RelationSearch::accept`]; whether the goal was met.
+    #[allow(clippy::too_many_arguments)]
+    fn take(&mut self, a: Element, val: u128, v: u128, cof: u128, ideal_primes: &[u64], goal: &Goal, out: &mut Vec<Found>) -> Result<bool, Error> {
+        let k = self.k;
+        if !self.seen.insert(a.clone()) {
+            return Ok(false);
+        }
+        let mut hit: Vec<u64> = self.small.iter().copied().filter(|&p| v % p as u128 == 0).collect();
+        hit.extend(ideal_primes);
+        if cof > 1 {
+            hit.push(cof as u64);
+        }
+        hit.sort_unstable();
+        hit.dedup();
+        let mut vals: Vec<(Key, i64)> = Vec::new();
+        let mut accounted = true;
+        for p in hit {
+            let m = self.ideals(p)?.len();
+            let mut vp = 0u32;
+            let mut t = val;
+            while t % p as u128 == 0 {
+                t /= p as u128;
+                vp += 1;
+            }
+            let mut sum_ef = 0u32;
+            if vp == 1 && self.light.contains(&p) {
+                // p exactly once in the norm: the one degree-one prime
+                // (p, theta - r) with a(r) = 0 mod p has valuation 1
+                // (read off the Hermite rows: a(r) = a_0 - sum_i a_i h_i0)
+                for i in 0..m {
+                    let h = self.above[&p][i].ideal.hnf();
+                    let mut acc = mod_word(&a.coords()[0], p);
+                    for j in 1..k.n {
+                        let t = mul_mod(mod_word(&a.coords()[j], p), mod_word(&h[j][0], p), p);
+                        acc = (acc + p - t) % p;
+                    }
+                    if acc == 0 {
+                        vals.push(((p, i), 1));
+                        sum_ef += 1;
+                        break;
+                    }
+                }
+            } else {
+                for i in 0..m {
+                    let e = k.valuation(&a, &self.above[&p][i])?;
+                    if e != 0 {
+                        vals.push(((p, i), e));
+                        sum_ef += e.unsigned_abs() as u32 * self.above[&p][i].f;
+                    }
+                }
+            }
+            // the listed primes must account for all of p in the norm
+            // (a prime of higher degree left out of a short list is not)
+            if sum_ef != vp {
+                accounted = false;
+            }
+        }
+        if !accounted {
+            return Ok(false);
+        }
+        Ok(self.accept(a, vals, goal, out))
     }
 
     fn store(&mut self, a: Element) -> (usize, Vec<f64>, f64) {
@@ -734,6 +874,10 @@ impl<'a> RelationSearch<'a> {
                     let j = self.rnd(self.fb0_len.clamp(1, 12) as u64) as usize;
                     factors.push(self.keys[j]);
                 }
+                if attempt % 8 == 4 && self.line_scan(key, LINE_CAP, &Goal::Verify(key), &mut out)? {
+                    done = true;
+                    break;
+                }
                 let span = if self.k.n == 2 { 6 } else { 2 + (attempt as i64 / 8).min(1) };
                 if self.scan(&factors, span, &Goal::Verify(key), &mut out)? {
                     done = true;
@@ -747,6 +891,22 @@ impl<'a> RelationSearch<'a> {
         Ok(())
     }
 }
+
+/// `N(a + b theta)` for `theta` a root of the monic `f` (coefficients
+/// constant first): `(-b)^n f(-a/b) = (-1)^n sum c_i (-a)^i b^(n-i)`;
+/// `None` on `i128` overflow.
+pub(crate) fn line_norm(coeffs: &[i128], a: i128, b: i128) -> Option<i128> {
+    let n = coeffs.len() - 1;
+    let mut norm = 0i128;
+    for (i, c) in coeffs.iter().enumerate() {
+        let term = (-a).checked_pow(i as u32)?.checked_mul(b.checked_pow((n - i) as u32)?)?.checked_mul(*c)?;
+        norm = norm.checked_add(term)?;
+    }
+    Some(if n % 2 == 1 { -norm } else { norm })
+}
+
+/// Candidates per call of the line search.
+const LINE_CAP: usize = 2000;
 
 /// Ideals tried per prime ideal in [`RelationSearch::verify_all`].
 const VERIFY_ATTEMPTS: usize = 200;

@@ -38,6 +38,10 @@ use std::time::Instant;
 /// Number of quadratic characters in the F2 vectors (two words).
 const CHARACTERS: usize = 128;
 
+/// Rounds aimed at one column without a pivot before it is left to the
+/// ordinary rounds.
+const TARGETED_ATTEMPTS: usize = 12;
+
 /// The group `K(S,2)` for `S` the prime ideals above a set of rational primes.
 #[derive(Clone, Debug)]
 #[non_exhaustive]
@@ -397,9 +401,33 @@ impl NumberField {
         let max_rounds = MAX_ROUNDS + 40 * kfb;
         let mut round = 0usize;
         let mut found: Vec<Found> = Vec::new();
+        // every other round after the first sweep aims at a column without
+        // a pivot yet (no relation reaches it), a few attempts per column:
+        // first the line search of `a + b theta` in that prime ideal, which
+        // finds relations where the reduced ideal bases are too skewed
+        // (fields like x^3 + 16 a x + 64 b of the descent with |d| ~ 10^40)
+        let mut attempts = vec![0usize; kfb];
+        let mut cursor = 0usize;
         while echelon.rank < target {
             round += 1;
-            rels.round(round, max_rounds, &stop, "K(S,2)", &mut found)?;
+            let aim = if round > kfb + 1 && round % 2 == 0 {
+                (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| echelon.rows[j].is_none() && attempts[j] < TARGETED_ATTEMPTS)
+            } else {
+                None
+            };
+            let r = match aim {
+                Some(j) => {
+                    attempts[j] += 1;
+                    cursor = j + 1;
+                    if round > max_rounds {
+                        Err(Error::new(ErrorKind::Budget, "K(S,2): too many rounds of relation search"))
+                    } else {
+                        rels.targeted_round(j, attempts[j], &stop, "K(S,2)", &mut found)
+                    }
+                }
+                None => rels.round(round, max_rounds, &stop, "K(S,2)", &mut found),
+            };
+            r?;
             for f in found.drain(..) {
                 offer(&f, &rels, false, &mut elem_chars, &mut echelon, &mut gens);
                 if echelon.rank == target {
