@@ -565,3 +565,21 @@ fn certificates_record_the_algebra_route() {
     assert!(recorded >= 30, "only {recorded} records");
     assert_eq!(shapes.len(), 3, "shapes {shapes:?}");
 }
+
+/// Plan by cost: a curve without rational 2-torsion and a large `c4`
+/// (curves-wider.tsv: [0,1,1,-3807389,2824257170], published rank 2) gets
+/// Sel^2 from the algebra route alone, the quartic enumeration skipped,
+/// and its certificate's upper bound rests on the algebra record.
+#[test]
+fn the_enumeration_is_skipped_where_the_algebra_is_cheaper() {
+    use twofold::certificate::{verify, Certificate, UpperBoundBasis};
+    let e = Curve::from_coefficients([0i64, 1, 1, -3807389, 2824257170]).unwrap();
+    let rep = analyse(&e, &RankOptions::default()).unwrap();
+    assert_eq!(rep.rank(), Some(2));
+    assert_eq!(rep.two_selmer_route(), Some("algebra"));
+    assert!(rep.full_descent.as_ref().is_none_or(|f| f.selmer_dim.is_none()), "the enumeration ran");
+    let cert = Certificate::from_report(&rep).unwrap();
+    let claims = verify(&cert).unwrap();
+    assert_eq!(claims.rank(), Some(2));
+    assert_eq!(claims.upper_bound_basis, Some(UpperBoundBasis::AlgebraSelmer));
+}
