@@ -515,3 +515,71 @@ fn coverings_prove_rank_two_where_the_searches_stopped() {
         assert_eq!(rep.rank(), Some(row.rank), "{c:?}: the rank");
     }
 }
+
+/// The certificate records the algebra route, `verify` re-checks it, and a
+/// tampered record is rejected. Curves: every 12th row of the small
+/// published table and the full 2-torsion congruent-number curve
+/// y^2 = x^3 - 36x (rank 1: published table, Cremona 1997); each of the
+/// three shapes of the algebra occurs. The recomputed bound must be at
+/// least the published rank.
+#[test]
+fn certificates_record_the_algebra_route() {
+    use twofold::certificate::{verify, Certificate, CertificateError};
+    let rows = common::read_table("curves-small-conductor.tsv");
+    let mut shapes = std::collections::BTreeSet::new();
+    let mut recorded = 0;
+    let mut sample: Vec<([i64; 5], usize)> = rows.iter().step_by(12).map(|r| (r.coefficients, r.rank)).collect();
+    sample.push(([0, 0, 0, -36, 0], 1));
+    for (a, rank) in sample {
+        let e = Curve::from_coefficients(a).unwrap();
+        let rep = analyse(&e, &RankOptions::default()).unwrap();
+        let cert = Certificate::from_report(&rep).unwrap();
+        let Some(rec) = cert.algebra.as_ref() else { continue };
+        recorded += 1;
+        shapes.insert(format!("{:?}", rec.shape));
+        let claims = verify(&cert).unwrap_or_else(|err| panic!("{a:?}: {err}"));
+        assert!(claims.upper_bound.is_some_and(|u| u >= rank), "{a:?}");
+        assert_eq!(Certificate::from_text(&cert.to_text()).unwrap(), cert, "{a:?}: text round trip");
+        // tampering: a Selmer dimension one too small, a witness moved off the curve, a basis element changed
+        let mut bad = cert.clone();
+        let r = bad.algebra.as_mut().unwrap();
+        if r.selmer_dim > 0 {
+            r.selmer_dim -= 1;
+            r.selmer.pop();
+            assert!(matches!(verify(&bad), Err(CertificateError::Rejected(_))), "{a:?}: a smaller Selmer group accepted");
+        }
+        let mut bad = cert.clone();
+        let r = bad.algebra.as_mut().unwrap();
+        if let Some(l) = r.local.iter_mut().find(|l| !l.witnesses.is_empty()) {
+            l.witnesses.pop();
+            assert!(matches!(verify(&bad), Err(CertificateError::Rejected(_))), "{a:?}: a local image without its witness accepted");
+        }
+        let mut bad = cert.clone();
+        let r = bad.algebra.as_mut().unwrap();
+        if let Some(s) = r.selmer.first_mut() {
+            s.1[0] += malachite::Rational::from(1);
+            assert!(matches!(verify(&bad), Err(CertificateError::Rejected(_))), "{a:?}: a changed Selmer element accepted");
+        }
+    }
+    eprintln!("{recorded} algebra records verified, shapes {shapes:?}");
+    assert!(recorded >= 30, "only {recorded} records");
+    assert_eq!(shapes.len(), 3, "shapes {shapes:?}");
+}
+
+/// Plan by cost: a curve without rational 2-torsion and a large `c4`
+/// (curves-wider.tsv: [0,1,1,-3807389,2824257170], published rank 2) gets
+/// Sel^2 from the algebra route alone, the quartic enumeration skipped,
+/// and its certificate's upper bound rests on the algebra record.
+#[test]
+fn the_enumeration_is_skipped_where_the_algebra_is_cheaper() {
+    use twofold::certificate::{verify, Certificate, UpperBoundBasis};
+    let e = Curve::from_coefficients([0i64, 1, 1, -3807389, 2824257170]).unwrap();
+    let rep = analyse(&e, &RankOptions::default()).unwrap();
+    assert_eq!(rep.rank(), Some(2));
+    assert_eq!(rep.two_selmer_route(), Some("algebra"));
+    assert!(rep.full_descent.as_ref().is_none_or(|f| f.selmer_dim.is_none()), "the enumeration ran");
+    let cert = Certificate::from_report(&rep).unwrap();
+    let claims = verify(&cert).unwrap();
+    assert_eq!(claims.rank(), Some(2));
+    assert_eq!(claims.upper_bound_basis, Some(UpperBoundBasis::AlgebraSelmer));
+}

@@ -35,9 +35,12 @@
 //! ```
 #![deny(missing_docs)]
 
+mod algebra;
 mod check;
 mod text;
 mod verify;
+
+pub use algebra::{AlgebraCandidate, AlgebraElement, AlgebraLocal, AlgebraRecord};
 
 pub use verify::{verify, CertificateError, UpperBoundBasis, VerifiedClaims};
 
@@ -305,6 +308,8 @@ pub struct Certificate {
     /// The analytic part of the proof, when the analytic route proved the
     /// rank (an L-value enclosure that excludes zero).
     pub analytic: Option<AnalyticRecord>,
+    /// The descent over the algebra `Q[X]/(f)`, when it ran.
+    pub algebra: Option<AlgebraRecord>,
 }
 
 /// The analytic part of a rank proof: the enclosure of `L(E,1)` (rank 0)
@@ -444,6 +449,7 @@ impl Certificate {
             isogeny,
             quartic,
             analytic: analytic_record(report)?,
+            algebra: algebra::algebra_record(report)?,
         })
     }
 }

@@ -53,10 +53,20 @@ impl Certificate {
     ///   ruled a b c d e place
     /// analytic order terms conductor root_number low high theorem...
     ///   rootlocal p w_p
+    /// algebra ...                   (the descent over Q[X]/(f): see below)
     /// end
     /// ```
     ///
-    /// Places are `R` or the prime; heights must not contain spaces.
+    /// Places are `R` or the prime; heights must not contain spaces. The
+    /// algebra record's lines:
+    ///
+    /// ```text
+    /// algebra shape c0 c1 c2 selmer_dim two_torsion_dim grh field_disc bound
+    ///   alg_s p1 p2 ...                 (the primes of S)
+    ///   alg_cand a0 a1 a2 q1 q2 ...     (a candidate a0 + a1 X + a2 X^2; q: primes outside S of its norm)
+    ///   alg_sel mask a0 a1 a2           (a Selmer basis element)
+    ///   alg_local place dim X1 X2 ...   (a local image and its local points)
+    /// ```
     pub fn to_text(&self) -> String {
         let mut out = String::new();
         let _ = writeln!(out, "{HEADER}");
@@ -134,6 +144,9 @@ impl Certificate {
                 let _ = writeln!(out, "rootlocal {p} {w}");
             }
         }
+        if let Some(a) = &self.algebra {
+            super::algebra::write_lines(&mut out, a);
+        }
         out.push_str("end\n");
         out
     }
@@ -158,6 +171,7 @@ struct Parser {
     runs: Vec<(IsogenyProof, Vec<SideProof>)>,
     quartic: Option<QuarticProof>,
     analytic: Option<AnalyticRecord>,
+    algebra: Option<super::AlgebraRecord>,
     in_quartic: bool,
     ended: bool,
 }
@@ -403,6 +417,7 @@ impl Parser {
                 arity(&f, 0)?;
                 self.ended = true;
             }
+            other if super::algebra::is_algebra_line(other) => super::algebra::read_line(&mut self.algebra, other, &f)?,
             other => return Err(format!("unknown record {other:?}")),
         }
         Ok(())
@@ -428,6 +443,7 @@ impl Parser {
             isogeny,
             quartic: self.quartic,
             analytic: self.analytic,
+            algebra: self.algebra,
         })
     }
 }

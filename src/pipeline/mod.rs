@@ -213,7 +213,7 @@ fn descents(
     // enumeration, the cubic algebra runs first (see `cubic_algebra_first`)
     let first = twos.is_empty() && !work.exhausted() && cubic_algebra_first(minimal);
     let (mut algebra, mut context) = if first { algebra_route(minimal, torsion, primes, work, report, unfinished, once)? } else { (None, None) };
-    let (quartic_options, goal) = plan_enumeration(options, enough, algebra.as_ref());
+    let (quartic_options, goal) = plan_enumeration(options, enough, algebra.as_ref(), first);
     let full: Option<FullDescent> = if work.exhausted() {
         report.budget_exhausted = true;
         None
@@ -540,20 +540,22 @@ fn cubic_algebra_first(minimal: &Curve) -> bool {
 }
 
 /// The options and the search goal of the quartic route once the algebra
-/// route may have run: with an unconditional `Sel^2(E)` of bound 0 and the
-/// rank 0 also proven by the analytic route the enumeration is skipped (a
-/// candidate limit of 0 refuses it at once; the short search on the curve
-/// still runs). The certificate records the enumeration's classes but not
-/// yet the algebra route, so without the analytic proof the enumeration
-/// still runs to back the bound there. Any unconditional bound becomes the
-/// goal of the point searches (where the enumeration is refused or cut
-/// short they then raise the direct search on the curve towards it). The
-/// goal only tells the searches when to stop, it is never a claim. With
-/// `cross_check_routes` the enumeration is never skipped.
-fn plan_enumeration(options: &RankOptions, enough: Option<usize>, algebra: Option<&AlgebraDescent>) -> (RankOptions, Option<usize>) {
+/// route may have run. The enumeration is skipped (a candidate limit of 0
+/// refuses it at once; the short search on the curve still runs) where an
+/// unconditional `Sel^2(E)` is known and the enumeration is the expensive
+/// route (`first`: the algebra ran first by cost, see
+/// [`cubic_algebra_first`]), or where the bound is 0 and the analytic
+/// route has proven rank 0. The certificate records the algebra route
+/// (`certificate::AlgebraRecord`), so the bound stands without the
+/// enumeration; points come from the search on the curve and the
+/// 2-coverings of the Selmer elements. Any unconditional bound becomes the
+/// goal of the point searches. The goal only tells the searches when to
+/// stop, it is never a claim. With `cross_check_routes` the enumeration is
+/// never skipped.
+fn plan_enumeration(options: &RankOptions, enough: Option<usize>, algebra: Option<&AlgebraDescent>, first: bool) -> (RankOptions, Option<usize>) {
     let Some(a) = algebra.filter(|a| !a.conditional_on_grh) else { return (options.clone(), enough) };
     let mut o = options.clone();
-    if a.upper == 0 && enough == Some(0) && !options.cross_check_routes {
+    if (first || (a.upper == 0 && enough == Some(0))) && !options.cross_check_routes {
         o.max_quartic_candidates = 0;
     }
     (o, Some(enough.map_or(a.upper, |e| e.min(a.upper))))

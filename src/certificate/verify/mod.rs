@@ -6,6 +6,7 @@
 //! [`quartic`] (the full 2-descent), [`analytic`] (the analytic record).
 //! The exact arithmetic they share lives in `super::check`.
 
+mod algebra;
 mod analytic;
 mod curve;
 mod isogeny;
@@ -78,6 +79,11 @@ pub enum UpperBoundBasis {
     /// `L'(E,1)` that excludes zero and the root number, both recomputed
     /// (Gross-Zagier, Kolyvagin, modularity).
     Analytic,
+    /// The full 2-Selmer group from the descent over `Q[X]/(f)`: local
+    /// images, norms, valuations and the F2 linear algebra recomputed; the
+    /// completeness of `K(S,2)` (class group and units) taken on trust
+    /// where `A` has a factor of degree 2 or 3.
+    AlgebraSelmer,
 }
 
 /// The outcome of [`verify`]: the bounds the certificate proves, and what
@@ -262,7 +268,11 @@ pub(crate) fn place_name(p: &Place) -> String {
 ///   point at R, 2, 3 and every bad prime; the number of classes is
 ///   `2^dim`; every ruled-out quartic is re-checked at its place; every
 ///   recorded rational point on a class maps by the covering map
-///   (covariants g4, g6) onto the recorded point of E.
+///   (covariants g4, g6) onto the recorded point of E;
+/// * the descent over `Q[X]/(f)`: see the `algebra` checks (the cubic of
+///   the minimal model, `S`, even valuations of the candidates outside `S`,
+///   the local points and the dimensions of the local images, the norms,
+///   and the Selmer group recomputed by F2 linear algebra).
 ///
 /// Errors: [`CertificateError::Rejected`] when a recorded fact is false or
 /// a claimed bound is not established.
@@ -314,6 +324,18 @@ pub fn verify(c: &Certificate) -> Result<VerifiedClaims, CertificateError> {
             theorems.push("every everywhere locally soluble 2-covering of a minimal model has an integral quartic model with invariants (c4, 2c6) (Cremona, Fisher and Stoll, Algebra and Number Theory 4, 2010)".to_string());
             theorems.push("y^2 = g(x,z) is soluble at odd primes not dividing its discriminant (Hasse-Weil bound and Hensel's lemma)".to_string());
         }
+    }
+    // ---- the descent over Q[X]/(f) ----
+    if let Some(ar) = &c.algebra {
+        if let Some((u, trust)) = algebra::verify_algebra(&mut ctx, &checked, c, t, ar)? {
+            keep_upper(u, UpperBoundBasis::AlgebraSelmer, &mut upper);
+            if upper.is_some_and(|b| b.1 == UpperBoundBasis::AlgebraSelmer) {
+                for s in trust {
+                    ctx.trust(s);
+                }
+            }
+        }
+        theorems.push("the map X - theta sends E(Q)/2E(Q) into the square-norm classes of Q[X]/(f) unramified outside 2 and the primes of disc(f), and the image of E(Q_v) has dimension dim E(Q_v)[2] + [v = 2] - [v real] (Cassels, Lectures on Elliptic Curves, ch. 15; Schaefer-Stoll 2004; Silverman AEC X.1)".to_string());
     }
     // ---- the analytic part ----
     let mut analytic_rank = None;

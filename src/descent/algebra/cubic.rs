@@ -278,7 +278,18 @@ pub(super) fn cubic_field(cubic: [Integer; 3], s: Vec<Natural>, work: &Work) -> 
         .iter()
         .map(|&v| (0..n).filter(|j| v >> j & 1 == 1).fold(k.one(), |acc, j| k.mul(&acc, &basis[j])))
         .collect();
+    let candidates = basis
+        .iter()
+        .map(|b| {
+            let c = k.to_power_basis(b);
+            std::array::from_fn(|i| c.get(i).cloned().unwrap_or(Rational::ZERO))
+        })
+        .collect();
     let descent = AlgebraDescent {
+        candidates,
+        selmer_masks: selmer.basis().to_vec(),
+        field_discriminant: Some(k.discriminant().clone()),
+        generation_bound: Some(ks.generation_bound),
         shape: AlgebraShape::Cubic,
         cubic,
         primes: s,

@@ -121,7 +121,42 @@ pub struct AlgebraDescent {
     /// Whether a class group behind the result used a bound that rests on
     /// the generalised Riemann hypothesis (never for `Q x Q x Q`).
     pub conditional_on_grh: bool,
+    /// A basis of the candidate group as explicit elements of
+    /// `A = Q[X]/(f)`: `[a0, a1, a2]` stands for `a0 + a1 X + a2 X^2`
+    /// (for `Q x Q x Q` the classes `(b, 1, b)` and `(1, b, b)` of the
+    /// basis `b` of `Q(S,2)`; for `Q x K` the pairs `(N(beta), beta)` for the
+    /// `K(S,2)` basis; for `K` cubic the `K(S,2)` basis itself), each the
+    /// product of the factors of odd exponent of its compact form.
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+    pub candidates: Vec<[Rational; 3]>,
+    /// The basis of `Sel^2(E)` as bit masks over `candidates`.
+    pub selmer_masks: Vec<u64>,
+    /// The discriminant of the number field `K` behind the candidates
+    /// (`None` for `Q x Q x Q`).
+    #[cfg_attr(feature = "serde", serde(with = "crate::decimal_serde::decimal"))]
+    pub field_discriminant: Option<Integer>,
+    /// Every prime ideal of `K` of norm up to this was shown to have its
+    /// class in the subgroup of the factor base (the class group and unit
+    /// computation behind `K(S,2)`; `None` for `Q x Q x Q`).
+    pub generation_bound: Option<u64>,
 }
+
+/// The element of `A = Q[X]/(f)` (coefficients `[a0, a1, a2]`) with the
+/// values `values` at the three rational roots `roots` of `f` (Lagrange
+/// interpolation: the Chinese remainder theorem for `Q x Q x Q`).
+pub(crate) fn interpolate(roots: &[Rational; 3], values: &[Rational; 3]) -> [Rational; 3] {
+    let mut out = [Rational::ZERO, Rational::ZERO, Rational::ZERO];
+    for i in 0..3 {
+        let (j, k) = ((i + 1) % 3, (i + 2) % 3);
+        // L_i = (X - e_j)(X - e_k) / ((e_i - e_j)(e_i - e_k))
+        let scale = &values[i] / ((&roots[i] - &roots[j]) * (&roots[i] - &roots[k]));
+        out[0] += &scale * &roots[j] * &roots[k];
+        out[1] -= &scale * (&roots[j] + &roots[k]);
+        out[2] += scale;
+    }
+    out
+}
+
 
 /// The monic model `Y^2 = X^3 + b2 X^2 + 8 b4 X + 16 b6` of `curve`
 /// (`X = 4x`): returns `[c0, c1, c2]`.

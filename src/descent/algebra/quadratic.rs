@@ -432,10 +432,29 @@ pub(super) fn rational_times_quadratic(cubic: [Integer; 3], e: Integer, s: Vec<N
         })
         .collect::<Result<Vec<_>, Error>>()?;
     let dim = selmer.dim();
+    // the candidates as elements of A = Q[X]/((X - e) q): (N(beta), beta) for
+    // beta = a + b T, T = 2 X + u modulo q, as beta(X) + k q(X) with
+    // k = (N(beta) - beta(e)) / q(e)
+    let qe = sp.q_at(&ef);
+    let candidates = basis_factors
+        .iter()
+        .map(|fs| {
+            let (a, b) = fs.iter().fold((Integer::ONE, Integer::ZERO), |acc, f| pair_mul(&acc, f, &d));
+            let r = Rational::from(pair_norm(&(a.clone(), b.clone()), &d));
+            let c0 = Rational::from(&a + &b * &u);
+            let c1 = Rational::from(Integer::from(2) * &b);
+            let kq = (&r - (&c0 + &c1 * &ef)) / &qe;
+            [c0 + &kq * Rational::from(w.clone()), c1 + &kq * Rational::from(u.clone()), kq]
+        })
+        .collect();
     if dim == 0 {
         return Err(Error::internal("the algebra descent", "Sel^2(E) misses the point of order 2"));
     }
     Ok(AlgebraDescent {
+        candidates,
+        selmer_masks: selmer.basis().to_vec(),
+        field_discriminant: Some(k.discriminant().clone()),
+        generation_bound: Some(ks.generation_bound),
         shape: AlgebraShape::RationalTimesQuadratic,
         cubic,
         primes: s,

@@ -2,7 +2,7 @@
 //! local points, then the F2 kernel of the localisation maps modulo them.
 
 use super::local::{class_width, rational_class};
-use super::{eval_cubic, AlgebraDescent, AlgebraLocalImage, AlgebraShape};
+use super::{eval_cubic, interpolate, AlgebraDescent, AlgebraLocalImage, AlgebraShape};
 use crate::budget::Work;
 use crate::descent::f2::{kernel, F2Span, SquareClasses};
 use crate::error::{Error, ErrorKind};
@@ -193,7 +193,20 @@ pub(super) fn three_rational(cubic: [Integer; 3], roots: [Integer; 3], s: Vec<Na
         })
         .collect();
     let dim = selmer.dim();
+    // the candidates as elements of A: bit j < m is (b_j, 1, b_j), bit m + j is (1, b_j, b_j)
+    let one = Rational::from(1);
+    let candidates = (0..2 * m)
+        .map(|j| {
+            let b = Rational::from(basis_class(j % m));
+            let values = if j < m { [b.clone(), one.clone(), b] } else { [one.clone(), b.clone(), b] };
+            interpolate(&e, &values)
+        })
+        .collect();
     Ok(AlgebraDescent {
+        candidates,
+        selmer_masks: selmer.basis().to_vec(),
+        field_discriminant: None,
+        generation_bound: None,
         shape: AlgebraShape::ThreeRational,
         cubic,
         primes: s,
