@@ -40,7 +40,16 @@ fn a_two_second_budget_is_held() {
     let rep = analyse(&slow_curve(), &opts).unwrap();
     let took = t.elapsed();
     assert!(took < Duration::from_secs(3), "took {took:?} with a 2 s budget");
-    assert!(rep.budget_exhausted);
+    // Since the descent over the algebra replaced the quartic enumeration
+    // for curves like this one (no rational 2-torsion, large c4), the whole
+    // analysis may finish inside the budget (about 1.2 s on one core, tenth
+    // session). Either the budget ran out, or the bounds met.
+    assert!(
+        rep.budget_exhausted || (rep.rank_lower.is_some() && rep.rank_lower == rep.rank_upper),
+        "neither exhausted nor proven: {:?}..{:?}",
+        rep.rank_lower,
+        rep.rank_upper
+    );
     assert_eq!(rep.conductor.to_string(), "100068");
 }
 
