@@ -27,7 +27,7 @@
 //! * The search box grows like `max(|I|^{1/2}, |J|^{1/3})^3`: about a
 //!   millisecond for `|I|` in the hundreds, a tenth of a second for
 //!   `I ≈ 4.5·10^4`, seconds for `I ≈ 5·10^6`. Use
-//!   [`SearchOptions::max_candidates`] to bound it.
+//!   [`SearchOptions::with_max_candidates`] to bound it.
 //! * The `GL2(Z)` test ([`gl2z_decide`], [`gl2z_equivalent`]) is proven
 //!   at any size: the covariant point `τ` is enclosed by interval
 //!   arithmetic in multiple precision (raised until it decides), which makes
