@@ -398,3 +398,41 @@ fn analytic_record_verifies_and_tampering_fails() {
         assert!(rejected(&bad), "{a:?}");
     }
 }
+
+/// The 2-isogeny descent hands every Selmer basis class over with a local
+/// point at every place it tested (issue 10: the certificate builder reads
+/// them and never searches). Each witness is checked here by
+/// `check_witness` on the class's covering `N^2 = d M^4 + a M^2 e^2 +
+/// (b/d) e^4`; a report whose witnesses were dropped gives an internal
+/// error, not a new search. Curves: y^2 = x^3 - 82x (rank 3, from memory:
+/// Silverman-Tate, Rational Points on Elliptic Curves, ch. III) and the
+/// first even-torsion rows of the small table (Cremona 1997).
+#[test]
+fn isogeny_basis_classes_carry_their_local_points() {
+    let rows = common::read_table("curves-small-conductor.tsv");
+    let mut curves: Vec<[i64; 5]> = vec![[0, 0, 0, -82, 0]];
+    curves.extend(rows.iter().filter(|r| r.torsion_order % 2 == 0).take(12).map(|r| r.coefficients));
+    for a in curves {
+        let e = Curve::from_coefficients(a).unwrap();
+        let mut r = analyse(&e, &RankOptions::default()).unwrap();
+        assert!(!r.isogeny_runs.is_empty(), "{a:?}");
+        for run in &r.isogeny_runs {
+            assert!(run.upper.is_some(), "{a:?}");
+            for side in [&run.side_e, &run.side_e_prime] {
+                assert_eq!(side.basis_witnesses.len(), side.selmer_basis.len(), "{a:?}");
+                for (d, wits) in side.selmer_basis.iter().zip(&side.basis_witnesses) {
+                    let g = [d.clone(), Integer::from(0), side.a.clone(), Integer::from(0), &side.b / d];
+                    assert_eq!(wits.len(), side.local_images.len(), "{a:?}");
+                    for (img, w) in side.local_images.iter().zip(wits) {
+                        assert!(check_witness(&g, &img.place, w), "{a:?}: d = {d} at {:?}", img.place);
+                    }
+                }
+            }
+        }
+        assert!(Certificate::from_report(&r).is_ok(), "{a:?}");
+        let run = r.isogeny_runs.iter_mut().find(|run| !run.side_e_prime.selmer_basis.is_empty()).expect("a side with a Selmer basis");
+        run.side_e_prime.basis_witnesses.clear();
+        let err = Certificate::from_report(&r).unwrap_err();
+        assert_eq!(err.kind(), &twofold::ErrorKind::Internal, "{a:?}: {err}");
+    }
+}

@@ -48,7 +48,7 @@ use crate::budget::Work;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
 use crate::report::RankReport;
-use crate::solubility::{local_witness, LocalWitness, Place};
+use crate::solubility::{LocalWitness, Place};
 use malachite::base::num::arithmetic::traits::DivisibleBy;
 use malachite::base::num::basic::traits::One;
 use malachite::{Integer, Natural, Rational};
@@ -531,13 +531,15 @@ fn isogeny_proof(curve: &Curve, run: &crate::descent::isogeny::IsogenyDescent) -
         let complete = run.upper.is_some();
         let mut classes = Vec::new();
         if complete {
-            for d in &side.selmer_basis {
+            if side.basis_witnesses.len() != side.selmer_basis.len() {
+                return Err(Error::internal("the certificate builder", "the 2-isogeny descent kept no local points for its Selmer basis"));
+            }
+            for (d, wits) in side.selmer_basis.iter().zip(&side.basis_witnesses) {
                 let g = [d.clone(), Integer::from(0), side.a.clone(), Integer::from(0), &side.b / d];
-                let mut pts = Vec::new();
-                for img in &side.local_images {
-                    let w = local_witness(&g, &img.place).ok_or_else(|| Error::internal("the certificate builder", "a Selmer class has no local point"))?;
-                    pts.push(local_point(&g, &img.place, &w));
+                if wits.len() != side.local_images.len() {
+                    return Err(Error::internal("the certificate builder", "a Selmer basis class lacks a local point at some place"));
                 }
+                let pts = side.local_images.iter().zip(wits).map(|(img, w)| local_point(&g, &img.place, w)).collect();
                 classes.push(SelmerClass { label: Some(d.clone()), quartic: g, local_points: pts, lift: None });
             }
         }

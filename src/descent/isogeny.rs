@@ -65,6 +65,13 @@ pub struct IsogenySide {
     /// certificate records them from here.
     #[cfg_attr(feature = "serde", serde(default))]
     pub torsion_points: Vec<Point>,
+    /// For each class of `selmer_basis` (same order) and each place of
+    /// `local_images` (same order), a local point on the class's covering
+    /// `N^2 = d M^4 + a M^2 e^2 + (b/d) e^4`: the descent tests every basis
+    /// class once after the linear algebra, so the certificate reads the
+    /// witnesses from here. Empty when the Selmer group is incomplete.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub basis_witnesses: Vec<Vec<LocalWitness>>,
 }
 
 /// The local image at one place: the classes of `Q_v*/Q_v*^2` (given by
@@ -288,6 +295,7 @@ struct SideWork {
     found: F2Span,
     points: Vec<(Integer, Point)>,
     local_images: Vec<LocalImage>,
+    basis_witnesses: Vec<Vec<LocalWitness>>,
 }
 
 impl SideWork {
@@ -304,6 +312,7 @@ impl SideWork {
             found: F2Span::new(),
             points: vec![],
             local_images: vec![],
+            basis_witnesses: vec![],
         }
     }
 
@@ -328,6 +337,7 @@ impl SideWork {
             unexplained: if complete_selmer { unexplained } else { vec![] },
             local_images: self.local_images.clone(),
             torsion_points: self.torsion_points.clone(),
+            basis_witnesses: if complete_selmer { self.basis_witnesses.clone() } else { vec![] },
         }
     }
 }
@@ -400,6 +410,25 @@ fn selmer_of_side(w: &mut SideWork, primes: &[Natural], work: &Work) -> Result<b
     for v in basis {
         w.selmer.insert(v);
     }
+    // every basis class is tested at every place once, so that its local
+    // points travel with the record (the certificate never searches again);
+    // a basis class with no local point contradicts the linear algebra
+    let mut witnesses = Vec::with_capacity(w.selmer.dim());
+    for &v in w.selmer.basis() {
+        if work.exhausted() {
+            return Ok(false);
+        }
+        let d = w.classes.integer_of(v);
+        let g = [d.clone(), Integer::ZERO, w.a.clone(), Integer::ZERO, &w.b / &d];
+        let mut per_place = Vec::with_capacity(w.local_images.len());
+        for img in &w.local_images {
+            let wit = local_witness_with(&g, &img.place, &mut ws)
+                .ok_or_else(|| Error::internal("the 2-isogeny descent", "a Selmer basis class has no local point"))?;
+            per_place.push(wit);
+        }
+        witnesses.push(per_place);
+    }
+    w.basis_witnesses = witnesses;
     Ok(true)
 }
 
