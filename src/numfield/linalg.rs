@@ -303,10 +303,18 @@ pub(crate) fn smith_invariants(m: &[Vec<Integer>]) -> Vec<Integer> {
     out.into_iter().filter(|d| *d != 1).collect()
 }
 
-/// `x mod p` as a word for a word-sized prime.
+/// `x mod p` in `0..p` as a word, for a word-sized modulus `p > 0`.
+/// Horner over the limbs of `|x|` from the top, in `u128`: no allocation
+/// (the character and residue loops call it for every coordinate).
 pub(crate) fn mod_word(x: &Integer, p: u64) -> u64 {
-    let r: Integer = x.mod_op(Integer::from(p));
-    u64::try_from(&r).unwrap_or(0)
+    debug_assert!(p > 0);
+    let m = p as u128;
+    let r = x.unsigned_abs_ref().limbs().rev().fold(0u128, |r, limb| ((r << 64) | limb as u128) % m) as u64;
+    if r != 0 && *x < 0 {
+        p - r
+    } else {
+        r
+    }
 }
 
 #[cfg(test)]
@@ -315,6 +323,34 @@ mod tests {
 
     fn z(v: &[i64]) -> Vec<Integer> {
         v.iter().map(|&x| Integer::from(x)).collect()
+    }
+
+    #[test]
+    fn word_residues_agree_with_the_multiprecision_remainder() {
+        // two ways: the limb-wise Horner residue against malachite's `mod_op`
+        let mut s = 0x9e37_79b9_7f4a_7c15u64;
+        let mut next = || {
+            s ^= s << 13;
+            s ^= s >> 7;
+            s ^= s << 17;
+            s
+        };
+        for k in 0..2000 {
+            let mut x = Integer::from(next());
+            for _ in 0..(k % 5) {
+                x = x * Integer::from(next()) + Integer::from(next() >> (k % 64));
+            }
+            if k % 2 == 1 {
+                x = -x;
+            }
+            for p in [2u64, 3, 65537, u64::MAX - 58, 1 + (next() >> 1), (1 << 63) + 29] {
+                let want: Integer = (&x).mod_op(Integer::from(p));
+                assert_eq!(Integer::from(mod_word(&x, p)), want, "{x} mod {p}");
+            }
+        }
+        assert_eq!(mod_word(&Integer::ZERO, 7), 0);
+        assert_eq!(mod_word(&Integer::from(-14), 7), 0);
+        assert_eq!(mod_word(&Integer::from(-15), 7), 6);
     }
 
     #[test]
