@@ -245,7 +245,7 @@ fn cubic_algebra_where_the_enumeration_is_refused() {
 /// is conditional; the test checks that the flag says so.
 #[test]
 fn forty_digit_curve_gets_an_upper_bound() {
-    let e = Curve::from_coefficients([0, 0, 0, 1234567890121, 8765432109876543211]).unwrap();
+    let e = Curve::from_coefficients([0i64, 0, 0, 1_234_567_890_121, 8_765_432_109_876_543_211]).unwrap();
     let start = std::time::Instant::now();
     let work = Work::until(Some(start + std::time::Duration::from_secs(60)), None);
     let data = CurveData::new(&e, &work).unwrap();

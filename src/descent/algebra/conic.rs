@@ -590,6 +590,51 @@ mod tests {
         }
     }
 
+    /// Legendre forms `a x^2 + b y^2 + c z^2` (square-free, pairwise
+    /// coprime, mixed signs) built around a chosen zero `(x, y, m)`:
+    /// `c m^2 = -(a x^2 + b y^2)`; coefficients up to about 1e15, where a
+    /// short vector of the lattice may miss and Lagrange's descent takes
+    /// over. Invented data; the zero found is checked exactly.
+    #[test]
+    fn legendre_forms_with_a_chosen_zero() {
+        let limits = FactorLimits::default();
+        let mut seed = 4242u64;
+        let mut next = |r: u64| {
+            seed = seed.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            (seed >> 33) % r
+        };
+        let coef = |n: &Integer| {
+            let f = factor(n, &limits).unwrap();
+            Coefficient { negative: *n < 0, primes: f.factors().iter().cloned().collect() }
+        };
+        let mut done = 0;
+        while done < 40 {
+            let a = Integer::from(next(1 << 24) + 1);
+            let b = -Integer::from(next(1 << 24) + 1);
+            let (x, y) = (Integer::from(next(1 << 16)), Integer::from(next(1 << 16) + 1));
+            let n = -(&a * &x * &x + &b * &y * &y);
+            if n == 0 {
+                continue;
+            }
+            let (sa, _, _) = squarefree_split(&a, &limits).unwrap();
+            let (sb, _, _) = squarefree_split(&b, &limits).unwrap();
+            let (c, _, _) = squarefree_split(&n, &limits).unwrap();
+            let g = |u: &Integer, v: &Integer| u.unsigned_abs_ref().gcd(v.unsigned_abs_ref());
+            if sa != a || sb != b || g(&a, &b) != 1u32 || g(&a, &c) != 1u32 || g(&b, &c) != 1u32 {
+                continue;
+            }
+            let coefs = [coef(&a), coef(&b), coef(&c)];
+            let z = legendre(&coefs, &limits).unwrap();
+            assert!(!is_zero(&z));
+            assert_eq!(&a * &z[0] * &z[0] + &b * &z[1] * &z[1] + &c * &z[2] * &z[2], 0);
+            // the fallback alone on the same form: Z^2 = -ac X^2 - bc Y^2
+            let (x2, y2, z2) = lagrange(-(&a * &c), -(&b * &c), &limits).unwrap();
+            assert_eq!(&z2 * &z2, -(&a * &c) * &x2 * &x2 - (&b * &c) * &y2 * &y2);
+            assert!(!(x2 == 0 && y2 == 0 && z2 == 0));
+            done += 1;
+        }
+    }
+
     /// Random soluble conics: the form built around a chosen zero always
     /// gives back a zero (invented data for the check).
     #[test]

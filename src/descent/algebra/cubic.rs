@@ -35,7 +35,7 @@
 use super::covering::CubicContext;
 use super::local::{class_width, rational_class};
 use super::quadratic::{candidates, grh_options};
-use super::roots::{has_root_in_qp, integral_roots, real_root_count};
+use super::roots::{has_root_in_qp, integral_roots, pvalue_capped, real_root_count};
 use super::selmer::restrict_to_image;
 use super::{eval_cubic, AlgebraDescent, AlgebraLocalImage, AlgebraShape};
 use crate::arith::FactorLimits;
@@ -66,7 +66,10 @@ fn reduce_at(k: &NumberField, gamma: &Element, p: &Natural) -> Result<Element, E
     let den = gamma.den().clone();
     let mut coords: Vec<Integer> = gamma.coords().iter().map(|c| c * &den).collect();
     let pi = Integer::from(p.clone());
-    let content_v = coords.iter().filter(|c| **c != 0).map(|c| crate::arith::valuation(c, p).unwrap_or(0)).min().unwrap_or(0);
+    let content_v = coords.iter().filter(|c| **c != 0).fold(u32::MAX, |v, c| pvalue_capped(c, p, v));
+    if content_v == u32::MAX {
+        return Err(Error::internal("the algebra descent", "a square test on zero"));
+    }
     if content_v >= 2 {
         let pk = pi.clone().pow(u64::from(content_v / 2 * 2));
         for c in coords.iter_mut() {
@@ -74,7 +77,11 @@ fn reduce_at(k: &NumberField, gamma: &Element, p: &Natural) -> Result<Element, E
         }
     }
     let integral = k.element(&coords)?;
-    let nv = crate::arith::valuation(&k.norm_num(&integral), p).ok_or_else(|| Error::internal("the algebra descent", "a square test on zero"))?;
+    let norm = k.norm_num(&integral);
+    if norm == 0 {
+        return Err(Error::internal("the algebra descent", "a square test on zero"));
+    }
+    let nv = pvalue_capped(&norm, p, u32::MAX);
     let prec = nv + if *p == 2u32 { 3 } else { 1 };
     let modulus = pi.clone().pow(u64::from(prec));
     if coords.iter().all(|c| c.unsigned_abs_ref() < modulus.unsigned_abs_ref()) {
@@ -93,7 +100,10 @@ fn reduce_at(k: &NumberField, gamma: &Element, p: &Natural) -> Result<Element, E
         .collect();
     let small = k.element(&reduced)?;
     let norm = k.norm_num(&small);
-    let v = crate::arith::valuation(&norm, p).ok_or_else(|| Error::internal("the algebra descent", "a reduced element of norm zero"))?;
+    if norm == 0 {
+        return Err(Error::internal("the algebra descent", "a reduced element of norm zero"));
+    }
+    let v = pvalue_capped(&norm, p, u32::MAX);
     if v != nv {
         return Err(Error::internal("the algebra descent", "the reduction modulo p^N changed the valuation of the norm"));
     }

@@ -13,35 +13,56 @@
 //! denominators, roots of negative valuation from the reversed polynomial
 //! at `p t`. `R`: the number of real roots by a Sturm sequence.
 
-use crate::arith::valuation;
 use crate::error::{Error, ErrorKind};
 use malachite::base::num::arithmetic::traits::{DivisibleBy, Lcm, ModInverse, Pow};
+use malachite::base::num::logic::traits::SignificantBits;
 use malachite::base::num::basic::traits::{One, Zero};
 use malachite::{Integer, Natural, Rational};
 use std::cmp::Ordering;
 
 fn pvalue(n: &Integer, p: &Natural) -> u32 {
-    if *p == 2u32 {
-        // the number of trailing zero bits, without a division per bit
-        return n.trailing_zeros().map_or(u32::MAX, |v| u32::try_from(v).unwrap_or(u32::MAX));
-    }
-    valuation(n, p).unwrap_or(u32::MAX)
+    pvalue_capped(n, p, u32::MAX)
 }
 
-/// `min(v_p(n), cap)` by at most `cap` divisions (`cap` for `n = 0`).
-fn pvalue_capped(n: &Integer, p: &Natural, cap: u32) -> u32 {
+/// `min(v_p(n), cap)` (`cap` for `n = 0`): trailing zero bits at 2, else
+/// by divisions by `p^(2^j)`, climbing then descending, so `O(log v)`
+/// divisions of `n` rather than `v`.
+pub(super) fn pvalue_capped(n: &Integer, p: &Natural, cap: u32) -> u32 {
     if *n == 0 {
         return cap;
     }
     if *p == 2u32 {
-        return pvalue(n, p).min(cap);
+        // the number of trailing zero bits, without a division per bit
+        return n.trailing_zeros().map_or(cap, |v| u32::try_from(v).unwrap_or(u32::MAX).min(cap));
     }
-    let pi = Integer::from(p.clone());
+    let mut pows = vec![Integer::from(p.clone())];
+    if cap == 0 || !n.divisible_by(&pows[0]) {
+        return 0;
+    }
     let mut m = n.clone();
-    let mut v = 0;
-    while v < cap && (&m).divisible_by(&pi) {
-        m /= &pi;
-        v += 1;
+    let mut v = 0u32;
+    // climb: divide by p, p^2, p^4, ... while they divide
+    loop {
+        let j = pows.len() - 1;
+        let step = 1u32 << j.min(31);
+        if j >= 31 || v.saturating_add(step) > cap || !(&m).divisible_by(&pows[j]) {
+            break;
+        }
+        m /= &pows[j];
+        v += step;
+        let sq = &pows[j] * &pows[j];
+        if sq.significant_bits() > m.significant_bits() + 1 {
+            break;
+        }
+        pows.push(sq);
+    }
+    // descend: the rest is below the last power tried, in binary
+    for j in (0..pows.len()).rev() {
+        let step = 1u32 << j;
+        if v.saturating_add(step) <= cap && (&m).divisible_by(&pows[j]) {
+            m /= &pows[j];
+            v += step;
+        }
     }
     v
 }
@@ -425,6 +446,27 @@ mod tests {
                     assert_eq!(found.len(), brute, "p = {p}, a = {a}, b = {b}");
                     for r in found {
                         assert_eq!((eval(&ints(&[b, a, 0, 1]), &r)) % Integer::from(m), 0);
+                    }
+                }
+            }
+        }
+    }
+
+    /// The capped valuation against repeated division (p = 3, 5, 47 and
+    /// 2; n = p^v u with u prime to p).
+    #[test]
+    fn capped_valuations() {
+        for p in [2u64, 3, 5, 47] {
+            let pn = Natural::from(p);
+            for v in [0u32, 1, 2, 3, 7, 8, 63, 64, 65, 1000] {
+                for u in [1i64, -7, 1_000_003] {
+                    if u % p as i64 == 0 {
+                        continue;
+                    }
+                    let n = Integer::from(pn.clone().pow(u64::from(v))) * Integer::from(u);
+                    assert_eq!(pvalue_capped(&n, &pn, u32::MAX), v, "p = {p}, v = {v}");
+                    for cap in [0u32, 1, 5, 64, 999] {
+                        assert_eq!(pvalue_capped(&n, &pn, cap), v.min(cap), "p = {p}, v = {v}, cap = {cap}");
                     }
                 }
             }
