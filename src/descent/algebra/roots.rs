@@ -137,22 +137,38 @@ fn newton(g: &[Integer], r: Integer, p: &Natural, prec: u32) -> Integer {
     x
 }
 
+/// Digit steps tried before the exact bound is computed: most descents end
+/// within a few digits, and the bound costs a resultant.
+const QUICK_DEPTH: u32 = 24;
+
 /// The roots of `g` (integer coefficients, low degree first, not zero) in
 /// `Z_p`, as approximations modulo `p^prec`; with `first`, stops at the
-/// first root found. A repeated factor of `g` is removed first (the
-/// square-free part has the same roots), so each root is found once.
+/// first root found. Each root is found once: when the descent goes deeper
+/// than [`QUICK_DEPTH`] digits, a repeated factor of `g` is divided out
+/// (the square-free part has the same roots) and the descent reruns under
+/// the exact bound [`depth_bound`].
 pub(super) fn integral_roots(g: &[Integer], p: &Natural, prec: u32, first: bool) -> Result<Vec<Integer>, Error> {
     let pw = u64::try_from(p).map_err(|_| Error::new(ErrorKind::TooLarge, "a prime of S above 2^64"))?;
     if pw >= 1 << 62 {
         return Err(Error::new(ErrorKind::TooLarge, "a prime of S above 2^62"));
     }
-    let mut g = squarefree_part(g);
+    let mut g = g.to_vec();
+    while g.last() == Some(&Integer::ZERO) {
+        g.pop();
+    }
     if g.len() < 2 {
         return Ok(Vec::new()); // a non-zero constant (or zero, refused by the callers)
     }
     strip_content(&mut g, p);
-    let cap = depth_bound(&g, p);
-    descend(g, p, pw, prec, first, cap)
+    if let Some(found) = descend(g.clone(), p, pw, prec, first, QUICK_DEPTH) {
+        return Ok(found);
+    }
+    let mut g = if depth_bound(&g, p).is_some() { g } else { squarefree_part(&g) };
+    strip_content(&mut g, p);
+    let cap = depth_bound(&g, p).ok_or_else(|| Error::internal("the algebra descent", "the square-free part has a repeated root"))?;
+    descend(g, p, pw, prec, first, cap).ok_or_else(|| {
+        Error::internal("the algebra descent", format!("the p-adic root descent passed its bound of {cap} digits"))
+    })
 }
 
 /// The largest number of digit steps the descent can take on `g`
@@ -163,15 +179,14 @@ pub(super) fn integral_roots(g: &[Integer], p: &Natural, prec: u32, first: bool)
 /// valuation by the leading coefficient), while `A g + B g' = Res(g, g')`
 /// with `A, B` integral; so `d + 1 <= v_p(Res(g, g'))`, and
 /// `Res(g, g') = +- lead(g) disc(g)`.
-fn depth_bound(g: &[Integer], p: &Natural) -> u32 {
+/// `None` when `g` has a repeated root (the resultant vanishes).
+fn depth_bound(g: &[Integer], p: &Natural) -> Option<u32> {
     let q: Vec<Rational> = g.iter().map(|c| Rational::from(c.clone())).collect();
     let dq: Vec<Rational> = q.iter().enumerate().skip(1).map(|(i, c)| Rational::from(i as u64) * c).collect();
-    let res = resultant(&q, &dq);
-    let v = match Integer::try_from(res) {
-        Ok(r) if r != 0 => pvalue(&r, p),
-        _ => u32::MAX - 2, // not separable: cannot happen after the square-free part
-    };
-    v.saturating_add(1)
+    match Integer::try_from(resultant(&q, &dq)) {
+        Ok(r) if r != 0 => Some(pvalue(&r, p).saturating_add(1)),
+        _ => None,
+    }
 }
 
 /// Work items of the digit descent: the roots of `g` (coefficients low
@@ -186,17 +201,15 @@ struct Disc {
 }
 
 /// The digit descent as a loop over a stack of residue discs, depth first
-/// (children pushed in reverse so the roots come out in increasing digits).
-fn descend(g: Vec<Integer>, p: &Natural, pw: u64, prec: u32, first: bool, cap: u32) -> Result<Vec<Integer>, Error> {
+/// (children pushed in reverse so the roots come out in increasing digits);
+/// `None` when a disc lies deeper than `cap` digits.
+fn descend(g: Vec<Integer>, p: &Natural, pw: u64, prec: u32, first: bool, cap: u32) -> Option<Vec<Integer>> {
     let pi = Integer::from(p.clone());
     let mut out = Vec::new();
     let mut stack = vec![Disc { g, base: Integer::ZERO, scale: Integer::ONE, prec, depth: 0 }];
     while let Some(Disc { g, base, scale, prec, depth }) = stack.pop() {
         if depth > cap {
-            return Err(Error::internal(
-                "the algebra descent",
-                format!("the p-adic root descent passed its bound of {cap} digits (a polynomial that is not separable?)"),
-            ));
+            return None;
         }
         let words: Vec<u64> = g
             .iter()
@@ -217,7 +230,7 @@ fn descend(g: Vec<Integer>, p: &Natural, pw: u64, prec: u32, first: bool, cap: u
                 let t = if prec > 0 { newton(&g, r, p, prec) } else { r };
                 out.push(&base + &scale * t);
                 if first {
-                    return Ok(out);
+                    return Some(out);
                 }
             } else {
                 let mut h = substitute(&g, &r, &pi);
@@ -227,7 +240,7 @@ fn descend(g: Vec<Integer>, p: &Natural, pw: u64, prec: u32, first: bool, cap: u
         }
         stack.extend(children.into_iter().rev());
     }
-    Ok(out)
+    Some(out)
 }
 
 /// `g / gcd(g, g')` with integer coefficients (primitive over Z up to sign),
