@@ -163,9 +163,15 @@ pub(super) fn integral_roots(g: &[Integer], p: &Natural, prec: u32, first: bool)
     if let Some(found) = descend(g.clone(), p, pw, prec, first, QUICK_DEPTH) {
         return Ok(found);
     }
-    let mut g = if depth_bound(&g, p).is_some() { g } else { squarefree_part(&g) };
-    strip_content(&mut g, p);
-    let cap = depth_bound(&g, p).ok_or_else(|| Error::internal("the algebra descent", "the square-free part has a repeated root"))?;
+    let (g, cap) = match depth_bound(&g, p) {
+        Some(cap) => (g, cap),
+        None => {
+            let mut h = squarefree_part(&g);
+            strip_content(&mut h, p);
+            let cap = depth_bound(&h, p).ok_or_else(|| Error::internal("the algebra descent", "the square-free part has a repeated root"))?;
+            (h, cap)
+        }
+    };
     descend(g, p, pw, prec, first, cap).ok_or_else(|| {
         Error::internal("the algebra descent", format!("the p-adic root descent passed its bound of {cap} digits"))
     })
