@@ -1,14 +1,14 @@
-//! Roots of separable polynomials over `Q_p` and `R`, exactly.
+//! Roots of polynomials over `Q_p` and `R`, exactly.
 //!
 //! `Z_p`: the residues `r` of the roots modulo `p` (found in words by the
 //! number-field module's F_p root finder), then for each one either a
 //! simple root modulo `p` (one root of `Z_p` above it, by Hensel's lemma,
 //! lifted by Newton's iteration) or the substitution `x = r + p t` with the
-//! `p`-content removed, recursively. For a separable polynomial the roots
-//! separate into distinct residue discs after at most `v_p(Res(g, g'))`
-//! steps (`depth_bound`), so the descent (a loop over a stack of residue
-//! discs, not a call recursion) ends; a repeated factor is divided out
-//! first.
+//! `p`-content removed, again (a loop over a stack of residue discs, not a
+//! call recursion). For a separable polynomial the roots separate into
+//! distinct residue discs after at most `v_p(Res(g, g'))` steps
+//! (`depth_bound`), so the descent ends; a descent past 24 digits reruns on
+//! the square-free part under that bound, so a repeated root cannot loop.
 //! `Q_p`: roots of valuation `>= 0` from the polynomial cleared of
 //! denominators, roots of negative valuation from the reversed polynomial
 //! at `p t`. `R`: the number of real roots by a Sturm sequence.
