@@ -44,5 +44,25 @@ fn bench(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, bench);
+/// The 40-digit curve of issue 15, y^2 = x^3 + 1234567890121x +
+/// 8765432109876543211 (no rational 2-torsion, discriminant about -3.3e40):
+/// Sel^2(E) over its cubic field, K(S,2) included (several seconds per
+/// run, so ten samples take a minute or more). Set `ALGEBRA_BENCH_LARGE=1`.
+fn bench_large(c: &mut Criterion) {
+    if std::env::var_os("ALGEBRA_BENCH_LARGE").is_none() {
+        return;
+    }
+    let work = Work::unlimited();
+    let e = Curve::from_coefficients([0i64, 0, 0, 1_234_567_890_121, 8_765_432_109_876_543_211]).unwrap();
+    let data = CurveData::new(&e, &work).unwrap();
+    let m = data.minimal().clone();
+    let primes = data.bad_primes().to_vec();
+    let t = TorsionGroup::compute(&m, &primes);
+    let mut g = c.benchmark_group("algebra_sel2_forty_digits");
+    g.sampling_mode(SamplingMode::Flat).sample_size(10).warm_up_time(Duration::from_millis(200)).measurement_time(Duration::from_secs(30));
+    g.bench_function("disc_3.3e40", |b| b.iter(|| std::hint::black_box(two_selmer_over_algebra(&m, &t, &primes, &work).unwrap())));
+    g.finish();
+}
+
+criterion_group!(benches, bench, bench_large);
 criterion_main!(benches);

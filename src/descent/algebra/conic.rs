@@ -17,7 +17,7 @@
 use crate::arith::{factor, sqrt_mod_prime_power, FactorLimits};
 use crate::error::{Error, ErrorKind};
 use malachite::base::num::arithmetic::traits::{Abs, DivRound, Gcd};
-use malachite::base::num::basic::traits::{One, Zero};
+use malachite::base::num::basic::traits::{NegativeOne, One, Zero};
 use malachite::base::rounding_modes::RoundingMode;
 use malachite::{Integer, Natural, Rational};
 use std::collections::BTreeMap;
@@ -246,7 +246,7 @@ pub(crate) fn conic_point(m: &Sym3, limits: &FactorLimits) -> Result<Vec3, Error
     if coefs.iter().all(|c| c.negative) || coefs.iter().all(|c| !c.negative) {
         return Err(Error::new(ErrorKind::InvalidValue, "the conic has no real point"));
     }
-    let sol = legendre(&coefs)?;
+    let sol = legendre(&coefs, limits)?;
     // back to the frame: X_i = scale_i Y_i
     let mut v = [Rational::ZERO, Rational::ZERO, Rational::ZERO];
     for i in 0..3 {
@@ -285,8 +285,9 @@ fn sqrt_mod_squarefree(n: &Integer, primes: &BTreeMap<Natural, u32>) -> Option<I
 }
 
 /// A zero of `a x^2 + b y^2 + c z^2` for square-free, pairwise coprime
-/// coefficients of mixed signs.
-fn legendre(coefs: &[Coefficient]) -> Result<Vec3, Error> {
+/// coefficients of mixed signs: a short vector of Legendre's lattice, else
+/// Lagrange's descent ([`lagrange`]).
+fn legendre(coefs: &[Coefficient], limits: &FactorLimits) -> Result<Vec3, Error> {
     let v: Vec<Integer> = coefs.iter().map(Coefficient::value).collect();
     let (a, b, c) = (&v[0], &v[1], &v[2]);
     let none = || Error::new(ErrorKind::InvalidValue, "the conic has no rational point (no square root modulo a coefficient)");
@@ -338,7 +339,122 @@ fn legendre(coefs: &[Coefficient]) -> Result<Vec3, Error> {
             return Ok(x);
         }
     }
-    Err(Error::new(ErrorKind::TooLarge, "no zero among the short vectors of the conic's lattice"))
+    // no short vector is a zero: Lagrange's descent on Z^2 = A X^2 + B Y^2
+    // with A = -ac, B = -bc (square-free, as a, b, c are pairwise coprime),
+    // Z = c z; its solution (X, Y, Z) gives the zero (c X, c Y, Z)
+    let (x, y, z) = lagrange(-(a * c), -(b * c), limits)?;
+    let out = primitive([c * &x, c * &y, z]);
+    if is_zero(&out) || value(&out) != 0 {
+        return Err(Error::internal("the conic solver", "Lagrange's descent gave a point off the conic"));
+    }
+    Ok(out)
+}
+
+/// The square-free part of a non-zero integer (sign kept) and the square
+/// root of the rest: `n = s m^2`, with the primes of `s`.
+fn squarefree_split(n: &Integer, limits: &FactorLimits) -> Result<(Integer, Integer, BTreeMap<Natural, u32>), Error> {
+    let f = factor(n, limits)?;
+    let mut s = if *n < 0 { Integer::NEGATIVE_ONE } else { Integer::ONE };
+    let mut m = Integer::ONE;
+    let mut primes = BTreeMap::new();
+    for (p, e) in f.factors() {
+        let pi = Integer::from(p.clone());
+        for _ in 0..e / 2 {
+            m *= &pi;
+        }
+        if e % 2 == 1 {
+            s *= &pi;
+            primes.insert(p.clone(), 1);
+        }
+    }
+    Ok((s, m, primes))
+}
+
+/// A non-trivial solution of `Z^2 = A X^2 + B Y^2` (`A`, `B` square-free,
+/// not zero) by Lagrange's descent (Lagrange 1768; Cremona and Rusin 2003,
+/// section 2): with `|A| <= |B|`, a root `t^2 = A (mod B)` with
+/// `|t| <= |B|/2` gives `t^2 - A = B B' m^2` with `B'` square-free and
+/// `|B'| <= |B|/4 + 1 < |B|`; a solution `(X, Y, Z)` for `(A, B')` gives
+/// `(t X + Z, B' m Y, t Z + A X)` for `(A, B)`, since
+/// `N(t + sqrt A) N(Z + X sqrt A) = B (B' m Y)^2`. The larger coefficient
+/// falls at every step. [`ErrorKind::InvalidValue`] when there is no
+/// solution (no real point, or no square root modulo a coefficient:
+/// Legendre's theorem).
+fn lagrange(a: Integer, b: Integer, limits: &FactorLimits) -> Result<(Integer, Integer, Integer), Error> {
+    let none = || Error::new(ErrorKind::InvalidValue, "the conic has no rational point (Lagrange's descent: no square root modulo a coefficient)");
+    // the steps taken: Swap, or Step(t, A, B' m) to map a solution back
+    enum Back {
+        Swap,
+        Diagonal(Integer),
+        Step(Integer, Integer, Integer),
+    }
+    let mut back = Vec::new();
+    let (mut a, mut b) = (a, b);
+    let mut b_primes: Option<BTreeMap<Natural, u32>> = None;
+    let mut guard = 0u32;
+    let (mut x, mut y, mut z) = loop {
+        guard += 1;
+        if guard > 100_000 || a == 0 || b == 0 {
+            return Err(Error::internal("the conic solver", "Lagrange's descent did not end"));
+        }
+        if a < 0 && b < 0 {
+            return Err(Error::new(ErrorKind::InvalidValue, "the conic has no real point"));
+        }
+        if a == 1u32 {
+            break (Integer::ONE, Integer::ZERO, Integer::ONE);
+        }
+        if b == 1u32 {
+            break (Integer::ZERO, Integer::ONE, Integer::ONE);
+        }
+        if a == -b.clone() {
+            break (Integer::ONE, Integer::ONE, Integer::ZERO);
+        }
+        if a == b {
+            // A (X^2 + Y^2) = Z^2 from X'^2 + Z'^2 = A Y'^2, i.e. (-1, A)
+            back.push(Back::Diagonal(a.clone()));
+            a = Integer::NEGATIVE_ONE;
+            b_primes = None;
+            continue;
+        }
+        if a.unsigned_abs_ref() > b.unsigned_abs_ref() {
+            back.push(Back::Swap);
+            std::mem::swap(&mut a, &mut b);
+            b_primes = None;
+            continue;
+        }
+        let primes = match b_primes.take() {
+            Some(pr) => pr,
+            None => squarefree_split(&b, limits)?.2,
+        };
+        let modulus = b.clone().abs();
+        let mut t = sqrt_mod_squarefree(&a, &primes).ok_or_else(none)?;
+        if t.clone() * Integer::from(2) > modulus {
+            t -= &modulus;
+        }
+        let k = (&t * &t - &a) / &b;
+        if k == 0 {
+            return Err(Error::internal("the conic solver", "a square-free coefficient that is a square"));
+        }
+        let (b2, m, primes2) = squarefree_split(&k, limits)?;
+        back.push(Back::Step(t, a.clone(), &b2 * m));
+        b = b2;
+        b_primes = Some(primes2);
+    };
+    while let Some(step) = back.pop() {
+        (x, y, z) = match step {
+            Back::Swap => (y, x, z),
+            // (X', Y', Z') for (-1, A): X'^2 + Z'^2 = A Y'^2, so (X', Z', A Y')
+            Back::Diagonal(a) => (x, z, a * y),
+            Back::Step(t, a, bm) => (&t * &x + &z, bm * y, &t * &z + a * &x),
+        };
+        let g = Integer::from([&x, &y, &z].iter().fold(Natural::ZERO, |g, c| g.gcd(c.unsigned_abs_ref())));
+        if g > 1u32 {
+            x /= &g;
+            y /= &g;
+            z /= &g;
+        }
+    }
+    Ok((x, y, z))
 }
 
 /// Replaces the rows of `basis` by a basis of `{x in span : l . x = 0 (mod m)}`.
@@ -427,6 +543,96 @@ mod tests {
         assert_eq!(bilinear(&m, &p, &p), 0);
         let m = sym([[3, 0, 0], [0, 5, 0], [0, 0, -7]]);
         assert_eq!(*conic_point(&m, &FactorLimits::default()).unwrap_err().kind(), ErrorKind::InvalidValue);
+    }
+
+    /// Lagrange's descent alone (the fallback when no short lattice vector
+    /// is a zero): soluble pairs built by construction from a chosen
+    /// solution, the diagonal and opposite cases, and insoluble ones
+    /// (Legendre's theorem: 3x^2 + 5y^2 - 7z^2 as Z^2 = 21 X^2 + 35 Y^2 has
+    /// no point since 5 is not a square mod 3; Z^2 = 3X^2 + 3Y^2 since -1 is
+    /// not a square mod 3; Z^2 = -2X^2 - 5Y^2 has no real point; by hand).
+    #[test]
+    fn lagrange_descent() {
+        let limits = FactorLimits::default();
+        let check = |a: i64, b: i64| {
+            let (x, y, z) = lagrange(Integer::from(a), Integer::from(b), &limits).unwrap();
+            assert!(!(x == 0 && y == 0 && z == 0));
+            assert_eq!(&z * &z, Integer::from(a) * &x * &x + Integer::from(b) * &y * &y, "A = {a}, B = {b}");
+        };
+        for (a, b) in [(2, 2), (5, 5), (-1, 5), (5, -1), (2, 7), (7, 2), (-7, 7), (13, 17), (-2, 3), (1, 1), (3, 1), (-6, 10)] {
+            check(a, b);
+        }
+        for (a, b) in [(21, 35), (3, 3), (-2, -5), (3, 5), (-1, 3)] {
+            assert_eq!(*lagrange(Integer::from(a), Integer::from(b), &limits).unwrap_err().kind(), ErrorKind::InvalidValue, "A = {a}, B = {b}");
+        }
+        // by construction: Z^2 - A X^2 = s m^2 gives the pair (A, s), soluble
+        let mut seed = 777u64;
+        let mut next = |r: u64| {
+            seed = seed.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            (seed >> 33) % r
+        };
+        let mut tried = 0;
+        while tried < 60 {
+            let a = next(2_000_000) as i64 - 1_000_000;
+            let (x, z) = (next(1_000_000) as i64 + 1, next(1_000_000_000) as i64);
+            let (s, _, _) = squarefree_split(&Integer::from(a), &limits).unwrap();
+            if s != a || a == 0 {
+                continue; // A must be square-free
+            }
+            let n = Integer::from(z) * Integer::from(z) - Integer::from(a) * Integer::from(x) * Integer::from(x);
+            if n == 0 {
+                continue;
+            }
+            let (s, _, _) = squarefree_split(&n, &limits).unwrap();
+            let s = i64::try_from(&s).unwrap();
+            check(a, s);
+            tried += 1;
+        }
+    }
+
+    /// Legendre forms `a x^2 + b y^2 + c z^2` (square-free, pairwise
+    /// coprime, mixed signs) built around a chosen zero `(x, y, m)`:
+    /// `c m^2 = -(a x^2 + b y^2)`; coefficients up to about 1e15, where a
+    /// short vector of the lattice may miss and Lagrange's descent takes
+    /// over. Invented data; the zero found is checked exactly.
+    #[test]
+    fn legendre_forms_with_a_chosen_zero() {
+        let limits = FactorLimits::default();
+        let mut seed = 4242u64;
+        let mut next = |r: u64| {
+            seed = seed.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            (seed >> 33) % r
+        };
+        let coef = |n: &Integer| {
+            let f = factor(n, &limits).unwrap();
+            Coefficient { negative: *n < 0, primes: f.factors().iter().cloned().collect() }
+        };
+        let mut done = 0;
+        while done < 40 {
+            let a = Integer::from(next(1 << 24) + 1);
+            let b = -Integer::from(next(1 << 24) + 1);
+            let (x, y) = (Integer::from(next(1 << 16)), Integer::from(next(1 << 16) + 1));
+            let n = -(&a * &x * &x + &b * &y * &y);
+            if n == 0 {
+                continue;
+            }
+            let (sa, _, _) = squarefree_split(&a, &limits).unwrap();
+            let (sb, _, _) = squarefree_split(&b, &limits).unwrap();
+            let (c, _, _) = squarefree_split(&n, &limits).unwrap();
+            let g = |u: &Integer, v: &Integer| u.unsigned_abs_ref().gcd(v.unsigned_abs_ref());
+            if sa != a || sb != b || g(&a, &b) != 1u32 || g(&a, &c) != 1u32 || g(&b, &c) != 1u32 {
+                continue;
+            }
+            let coefs = [coef(&a), coef(&b), coef(&c)];
+            let z = legendre(&coefs, &limits).unwrap();
+            assert!(!is_zero(&z));
+            assert_eq!(&a * &z[0] * &z[0] + &b * &z[1] * &z[1] + &c * &z[2] * &z[2], 0);
+            // the fallback alone on the same form: Z^2 = -ac X^2 - bc Y^2
+            let (x2, y2, z2) = lagrange(-(&a * &c), -(&b * &c), &limits).unwrap();
+            assert_eq!(&z2 * &z2, -(&a * &c) * &x2 * &x2 - (&b * &c) * &y2 * &y2);
+            assert!(!(x2 == 0 && y2 == 0 && z2 == 0));
+            done += 1;
+        }
     }
 
     /// Random soluble conics: the form built around a chosen zero always

@@ -35,7 +35,7 @@
 use super::covering::CubicContext;
 use super::local::{class_width, rational_class};
 use super::quadratic::{candidates, grh_options};
-use super::roots::{has_root_in_qp, integral_roots, real_root_count};
+use super::roots::{has_root_in_qp, integral_roots, pvalue_capped, real_root_count};
 use super::selmer::restrict_to_image;
 use super::{eval_cubic, AlgebraDescent, AlgebraLocalImage, AlgebraShape};
 use crate::arith::FactorLimits;
@@ -48,8 +48,79 @@ use malachite::base::num::arithmetic::traits::{CheckedSqrt, FloorSqrt, Pow};
 use malachite::base::num::basic::traits::{One, Zero};
 use malachite::{Integer, Natural, Rational};
 
+/// A small element in the square class of `gamma` (norm a rational square,
+/// not zero) in `K (x) Q_p`, again of square norm.
+///
+/// `den^2 gamma` is integral; its even power of `p` in the content is
+/// dropped. Then `gamma'`, its coordinates on the integral basis reduced
+/// modulo `p^N` with `N = v_p(N(gamma)) + 2 v_p(2) + 1`, has
+/// `gamma' / gamma = 1 + x` with `v_P(x) >= N e_P - v_P(gamma) >
+/// 2 v_P(2)` at every prime `P` above `p` (`v_P(gamma) <= v_p(N(gamma))`
+/// for integral `gamma`), a square by Hensel's lemma. Its norm is then a
+/// square in `Q_p`, so `u`, that norm without its even power of `p`, is
+/// a square in `Q_p` and `gamma' u` (norm `u^4 p^(2j)`) is in the class of
+/// `gamma`. Without this the elements of `K(S,2)` (thousands of digits,
+/// divisible by high powers of the primes above `p`) gave resolvents whose
+/// roots agree in tens of thousands of `p`-adic digits.
+fn reduce_at(k: &NumberField, gamma: &Element, p: &Natural) -> Result<Element, Error> {
+    let den = gamma.den().clone();
+    let mut coords: Vec<Integer> = gamma.coords().iter().map(|c| c * &den).collect();
+    let pi = Integer::from(p.clone());
+    let content_v = coords.iter().filter(|c| **c != 0).fold(u32::MAX, |v, c| pvalue_capped(c, p, v));
+    if content_v == u32::MAX {
+        return Err(Error::internal("the algebra descent", "a square test on zero"));
+    }
+    if content_v >= 2 {
+        let pk = pi.clone().pow(u64::from(content_v / 2 * 2));
+        for c in coords.iter_mut() {
+            *c /= &pk;
+        }
+    }
+    let integral = k.element(&coords)?;
+    let norm = k.norm_num(&integral);
+    if norm == 0 {
+        return Err(Error::internal("the algebra descent", "a square test on zero"));
+    }
+    let nv = pvalue_capped(&norm, p, u32::MAX);
+    let prec = nv + if *p == 2u32 { 3 } else { 1 };
+    let modulus = pi.clone().pow(u64::from(prec));
+    if coords.iter().all(|c| c.unsigned_abs_ref() < modulus.unsigned_abs_ref()) {
+        return Ok(gamma.clone()); // already small: keep the exact element
+    }
+    let reduced: Vec<Integer> = coords
+        .iter()
+        .map(|c| {
+            let r = c % &modulus;
+            if r < 0 {
+                r + &modulus
+            } else {
+                r
+            }
+        })
+        .collect();
+    let small = k.element(&reduced)?;
+    let norm = k.norm_num(&small);
+    if norm == 0 {
+        return Err(Error::internal("the algebra descent", "a reduced element of norm zero"));
+    }
+    let v = pvalue_capped(&norm, p, u32::MAX);
+    if v != nv {
+        return Err(Error::internal("the algebra descent", "the reduction modulo p^N changed the valuation of the norm"));
+    }
+    let u = norm / pi.pow(u64::from(v / 2 * 2));
+    Ok(k.mul(&small, &k.rational(&Rational::from(u))))
+}
+
 /// Whether `gamma` (norm a rational square) is a square in `K (x) Q_v`.
 fn is_square_local(k: &NumberField, gamma: &Element, place: &Place) -> Result<bool, Error> {
+    let reduced;
+    let gamma = match place {
+        Place::Prime(p) => {
+            reduced = reduce_at(k, gamma, p)?;
+            &reduced
+        }
+        Place::Real => gamma,
+    };
     let c = k.to_power_basis(gamma);
     if c.iter().skip(1).all(|x| *x == 0) {
         return Ok(true); // a rational with square norm r^3 is a square
