@@ -612,7 +612,7 @@ fn search(
                 // the trace is (index) times a generator up to torsion: try
                 // its k-th parts (zt + i w1 + j w2) / k on the real locus,
                 // which need fewer bits than the trace itself
-                for k in 1..=opts.max_divisor.max(1) {
+                for k in divisors_to_try(opts.max_divisor) {
                     // k R = trace + T with T rational torsion: the parts
                     // (trace + log T + λ) / k; only needed when k and the
                     // torsion order have a common factor (else T = k T')
@@ -646,6 +646,15 @@ fn search(
         }
     }
     Ok(None)
+}
+
+/// The `k` whose `k`-th parts of the trace are tried: every `k <= max`,
+/// then `2^a` and `3 * 2^a` up to `8 max` (with Sha of order 4 the trace
+/// was 64 times the generator on y^2 = x^3 - 959^2 x).
+fn divisors_to_try(max: u64) -> impl Iterator<Item = u64> {
+    let max = max.max(1);
+    let extra = (5..16).flat_map(|a| [1u64 << a, 3u64 << (a - 1)]).filter(move |&k| k > max && k <= 8 * max);
+    (1..=max).chain(extra)
 }
 
 /// The elliptic logarithms of the rational torsion points `tors` on the
