@@ -151,7 +151,7 @@ fn is_rational_square(q: &Rational) -> bool {
 }
 
 /// n = 543 and n = 965 on y^2 = x^3 - n^2 x (Tunnell's A = 2B, root
-/// number -1; the last two n <= 1000 without a point before the twelfth
+/// number -1; the last two n <= 1000 without a point before the eleventh
 /// session). The Heegner trace is `k Q + T` with `T` of order 2 here, so
 /// the route must divide `P + T`, not only `P`: before, n = 543 returned
 /// `2 Q + T` (height 185.6, four times the prediction) as the generator.
