@@ -397,6 +397,13 @@ impl Lattice {
         z.add(&scale(&self.w1, &fi_(i))).add(&scale(&self.w2, &fi_(j)))
     }
 
+    /// `(a w1 + b w2) / m`: a point of order dividing `m` of `C / Λ`.
+    pub(crate) fn fraction(&self, a: i64, b: i64, m: i64) -> Cx {
+        let p = self.shifted(&Cx::real(fi(0, self.prec)), a, b);
+        let m = fi(m, self.prec);
+        Cx::new(&p.re / &m, &p.im / &m)
+    }
+
     /// The real coordinates `(s, t)` of `z = s w1 + t w2` (`w1` real).
     pub(crate) fn coordinates(&self, z: &Cx) -> (Float, Float) {
         let t = &z.im / &self.w2.im;

@@ -21,7 +21,10 @@
 //!    locus, its trace `z + conj(z)` to `E(Q)` is used; `x = ℘(z) - b2/12`
 //!    by the q-expansion of `℘`, recognised as a rational by continued
 //!    fractions, and the point checked **exactly** on the curve;
-//! 5. the point divided by its index with the saturation machinery of
+//! 5. the point divided by its index: the `k`-th parts `(z + log T + λ) / k`
+//!    of the trace for `k <= max_divisor` (`T` running over the rational
+//!    torsion, whose logarithms are found once per precision), small primes
+//!    `l` dividing out the same way, then the saturation machinery of
 //!    [`crate::heights`].
 //!
 //! The modular parametrisation lands on the optimal curve of the isogeny
@@ -102,7 +105,9 @@ pub struct HeegnerOptions {
     /// the guess of the Birch and Swinnerton-Dyer formula and doubles while
     /// recognition fails).
     pub max_precision: u64,
-    /// How many discriminants to try before giving up.
+    /// How many discriminants to try before giving up (on the
+    /// congruent-number curves for n = 205, 390, 438, 590 the first four
+    /// give torsion traces, detected at the first precision).
     pub max_discriminants: usize,
     /// The most coefficients `a_n` to compute (memory: 8 bytes each).
     pub max_terms: usize,
@@ -111,7 +116,8 @@ pub struct HeegnerOptions {
     pub max_multiplier: u32,
     /// The largest `k` for which the `k`-th parts of the Heegner trace are
     /// tried before raising the precision (the trace is the index times a
-    /// generator, and its parts need fewer bits).
+    /// generator plus a torsion point, and its parts need fewer bits; on
+    /// `y^2 = x^3 - n^2 x` for n = 543 and 965 it is 16).
     pub max_divisor: u64,
     /// Whether to use the twist route when the curve is the quadratic
     /// twist of a curve of smaller conductor (see the module
@@ -126,10 +132,10 @@ impl Default for HeegnerOptions {
             cpu_time_limit: None,
             cancel: None,
             max_precision: 16_384,
-            max_discriminants: 4,
+            max_discriminants: 12,
             max_terms: 60_000_000,
             max_multiplier: 4,
-            max_divisor: 12,
+            max_divisor: 24,
             use_twist: true,
         }
     }
@@ -595,6 +601,7 @@ fn search(
                 }
             }
             let wp = bits + 32;
+            let all_shifts = torsion_shifts(minimal, &tors, &lat, &b2, bits);
             for mult in (1..=opts.max_multiplier.max(1)).map(|k| k * mult_base) {
                 let zm = Cx::new(&z.re * fi(mult as i64, wp), &z.im * fi(mult as i64, wp));
                 let zt = match lat.on_real_locus(&zm, bits / 3) {
@@ -607,13 +614,17 @@ fn search(
                 // the trace is (index) times a generator up to torsion: try
                 // its k-th parts (zt + i w1 + j w2) / k on the real locus,
                 // which need fewer bits than the trace itself
-                for k in 1..=opts.max_divisor.max(1) {
-                    for i in 0..k {
-                        for j in 0..k {
+                for k in divisors_to_try(opts.max_divisor) {
+                    // k R = trace + T with T rational torsion: the parts
+                    // (trace + log T + λ) / k; only needed when k and the
+                    // torsion order have a common factor (else T = k T')
+                    let shifts = if crate::arith::gcd_u64(k, tors.len() as u64) > 1 { &all_shifts[..] } else { &all_shifts[..1] };
+                    for zs in shifts.iter().map(|t| zt.add(t)) {
+                        for (i, j) in (0..k).flat_map(|i| (0..k).map(move |j| (i, j))) {
                             if budget.exhausted() {
                                 return Err(err(ErrorKind::Budget, "time budget spent recognising the point"));
                             }
-                            let w = lat.shifted(&zt, i as i64, j as i64);
+                            let w = lat.shifted(&zs, i as i64, j as i64);
                             let w = Cx::new(&w.re / fi(k as i64, wp), &w.im / fi(k as i64, wp));
                             let Some(zr) = lat.on_real_locus(&w, bits / 3) else { continue };
                             if lat.is_near_torsion(&zr, bits / 2, 1) {
@@ -622,7 +633,7 @@ fn search(
                             let p = lat.weierstrass_p(&zr);
                             let x = &p.re - Float::from_rational_prec_ref(&b2, wp).0 / fi(12, wp);
                             if let Some(pt) = recognise(minimal, &x, bits) {
-                                let (q, _) = divide_out(minimal, &tors, &lat, &b2, zr, pt.clone(), bits, budget);
+                                let (q, _) = divide_out(minimal, &tors, &all_shifts, &lat, &b2, zr, pt.clone(), bits, budget);
                                 let class_number = h.forms.len();
                                 return finish(data, s, h, class_number, pt, q, mult, k, bits, coeffs.len() - 1, budget, start).map(Some);
                             }
@@ -637,6 +648,52 @@ fn search(
         }
     }
     Ok(None)
+}
+
+/// The `k` whose `k`-th parts of the trace are tried: every `k <= max`,
+/// then `2^a` and `3 * 2^a` up to `8 max` (with Sha of order 4 the trace
+/// was 64 times the generator on y^2 = x^3 - 959^2 x).
+fn divisors_to_try(max: u64) -> impl Iterator<Item = u64> {
+    let max = max.max(1);
+    let extra = (5..16).flat_map(|a| [1u64 << a, 3u64 << (a - 1)]).filter(move |&k| k > max && k <= 8 * max);
+    (1..=max).chain(extra)
+}
+
+/// The elliptic logarithms of the rational torsion points `tors` on the
+/// real locus, `0` (the origin) first, then one logarithm of each other
+/// point (both `±T` are in `tors`, so matching `x` alone finds the set):
+/// a torsion point of order `m` has logarithm `(a w1 + b w2) / m`, and the
+/// one whose `℘(z) - b2/12` is `x(T)` to within `2^-(bits/4)` relative is
+/// kept. Needed to divide `P + T` rather than `P` (on `y^2 = x^3 - n^2 x`
+/// the trace is often `2 Q + T` with `T` of order 2).
+fn torsion_shifts(curve: &Curve, tors: &[Point], lat: &Lattice, b2: &Rational, bits: u64) -> Vec<Cx> {
+    let wp = lat.precision();
+    let mut out = vec![Cx::real(fi(0, wp))];
+    let b2_12 = Float::from_rational_prec_ref(b2, wp).0 / fi(12, wp);
+    let tol = 2f64.powi(-((bits / 4).clamp(8, 1000) as i32));
+    for t in tors {
+        let Point::Affine(xt, _) = t else { continue };
+        let Some(m) = curve.torsion_order_of(t) else { continue };
+        let m = i64::from(m);
+        let xf = to_f64(&Float::from_rational_prec_ref(xt, wp).0);
+        let xw = Float::from_rational_prec_ref(xt, wp).0;
+        let mut best: Option<(f64, Cx)> = None;
+        for (a, b) in (0..m).flat_map(|a| (0..m).map(move |b| (a, b))) {
+            if a == 0 && b == 0 {
+                continue;
+            }
+            let Some(z) = lat.on_real_locus(&lat.fraction(a, b, m), bits / 3) else { continue };
+            let x = &lat.weierstrass_p(&z).re - &b2_12;
+            let d = to_f64(&(&x - &xw)).abs() / (1.0 + xf.abs());
+            if d < tol && best.as_ref().is_none_or(|(e, _)| d < *e) {
+                best = Some((d, z));
+            }
+        }
+        if let Some((_, z)) = best {
+            out.push(z);
+        }
+    }
+    out
 }
 
 /// The point of infinite order with x-coordinate near `x` (a convergent
@@ -663,18 +720,22 @@ fn recognise(curve: &Curve, x: &Float, bits: u64) -> Option<Point> {
 /// `± pt + T` exactly (T running over the rational torsion). Returns the
 /// final point and the product of the primes divided out.
 #[allow(clippy::too_many_arguments)]
-fn divide_out(curve: &Curve, tors: &[Point], lat: &Lattice, b2: &Rational, z: Cx, pt: Point, bits: u64, budget: &Spend) -> (Point, u64) {
+fn divide_out(curve: &Curve, tors: &[Point], tors_shifts: &[Cx], lat: &Lattice, b2: &Rational, z: Cx, pt: Point, bits: u64, budget: &Spend) -> (Point, u64) {
     let wp = lat.precision();
     let (mut cur, mut zc, mut k) = (pt, z, 1u64);
     'primes: for l in [2u64, 3, 5, 7, 11, 13] {
+        // l Q = ± cur + T: the candidates (z + log T + λ) / l; the shift by
+        // log T matters only when l divides the torsion order
+        let shifts = if (tors.len() as u64).is_multiple_of(l) { tors_shifts } else { &tors_shifts[..1] };
         loop {
             if budget.exhausted() {
                 break 'primes;
             }
             let mut found = None;
-            'cand: for i in 0..l {
-                for j in 0..l {
-                    let w = lat.shifted(&zc, i as i64, j as i64);
+            'cand: for s in shifts {
+                let zs = zc.add(s);
+                for (i, j) in (0..l).flat_map(|i| (0..l).map(move |j| (i, j))) {
+                    let w = lat.shifted(&zs, i as i64, j as i64);
                     let w = Cx::new(&w.re / fi(l as i64, wp), &w.im / fi(l as i64, wp));
                     let Some(wr) = lat.on_real_locus(&w, bits / 3) else { continue };
                     let p = lat.weierstrass_p(&wr);

@@ -59,6 +59,10 @@ fn all_rank_one_curves_of_small_conductor() {
             r.discriminant, r.class_number, r.multiplier, r.precision, r.index, r.height, reg, r.predicted_height, t.elapsed()
         );
         assert!((r.height - reg).abs() < 1e-8 * reg.max(1.0), "{c:?}: {} vs {reg}", r.height);
+        // Sha = 1 on these curves (Cremona 1997 lists no non-trivial Sha
+        // below conductor 571), so the Birch and Swinnerton-Dyer
+        // prediction is the generator's height itself
+        assert!((r.height / r.predicted_height - 1.0).abs() < 1e-6, "{c:?}: height {} predicted {}", r.height, r.predicted_height);
         count += 1;
     }
     eprintln!("{count} curves in {:?}", t0.elapsed());
@@ -138,6 +142,57 @@ fn congruent_number_157() {
         "n = 157: generator {} (D = {}, h = {}, {} bits, {} terms, index {:?}, height {}) in {:?}\ntriangle a = {a}\nb = {b}\nc = {c}",
         r.generator, r.discriminant, r.class_number, r.precision, r.terms, r.index, r.height, t.elapsed()
     );
+}
+
+/// Whether the rational `q` is the square of a rational.
+fn is_rational_square(q: &Rational) -> bool {
+    use malachite::base::num::arithmetic::traits::CheckedSqrt;
+    *q >= 0u32 && q.numerator_ref().clone().checked_sqrt().is_some() && q.denominator_ref().clone().checked_sqrt().is_some()
+}
+
+/// n = 543 and n = 965 on y^2 = x^3 - n^2 x (Tunnell's A = 2B, root
+/// number -1; the last two n <= 1000 without a point before the eleventh
+/// session). The Heegner trace is `k Q + T` with `T` of order 2 here, so
+/// the route must divide `P + T`, not only `P`: before, n = 543 returned
+/// `2 Q + T` (height 185.6, four times the prediction) as the generator.
+/// Checks, each exact: the point is on the curve; the triangle it gives has
+/// area n and a^2 + b^2 = c^2 (Koblitz, Introduction to Elliptic Curves and
+/// Modular Forms, ch. I, Prop. 18); no `G + T` (T in E(Q)_tors) lies in
+/// 2E(Q): with all of E[2] rational, `P` is in 2E(Q) iff `x - e_i` is a
+/// square for each root `e_i` (Silverman, The Arithmetic of Elliptic
+/// Curves, Prop. X.1.4 and its proof; Knapp, Elliptic Curves, Thm. 4.2), so
+/// the generator is 2-saturated. And numerically the generator's height is
+/// the height the Birch and Swinnerton-Dyer formula predicts for Sha = 1
+/// (ratio 1; `#Sha = predicted / height` must be a square: Gross and
+/// Zagier 1986, Cremona 1997 §3.5 for the formula's factors).
+#[test]
+fn congruent_numbers_543_and_965() {
+    for n in [543i64, 965] {
+        let e = Curve::from_coefficients([0, 0, 0, -n * n, 0]).unwrap();
+        let (m, cond, w) = crate::rootno::minimal_conductor_sign(&e).unwrap();
+        assert_eq!((w, &m), (-1, &e));
+        let t = Instant::now();
+        let r = point_of_rank_one(&e, &cond, &HeegnerOptions::default()).unwrap().expect("a point");
+        let g = r.generator.clone();
+        assert!(e.contains(&g) && e.torsion_order_of(&g).is_none());
+        let Point::Affine(x, y) = g.clone() else { panic!("affine") };
+        let nq = Rational::from(n);
+        let abs = |q: Rational| if q < 0u32 { -q } else { q };
+        let (a, b, c) = (abs((&x * &x - &nq * &nq) / &y), abs(Rational::from(2) * &nq * &x / &y), abs((&x * &x + &nq * &nq) / &y));
+        assert_eq!(&a * &b / Rational::from(2), nq);
+        assert_eq!(&a * &a + &b * &b, &c * &c);
+        let roots = [Rational::from(0), nq.clone(), -nq.clone()];
+        let primes: Vec<Natural> = crate::arith::factor_u64(u64::try_from(&cond).unwrap()).unwrap().into_iter().map(|(p, _)| Natural::from(p)).collect();
+        let torsion = TorsionGroup::compute(&e, &primes);
+        assert_eq!(torsion.order(), 4);
+        for tp in torsion.points() {
+            let Point::Affine(xs, _) = e.add(&g, tp) else { panic!("G + T is not O") };
+            assert!(!roots.iter().all(|r| is_rational_square(&(&xs - r))), "n = {n}: G + T in 2E(Q)");
+        }
+        assert_eq!(r.index, Some(1), "the recognised point is the generator");
+        assert!((r.height / r.predicted_height - 1.0).abs() < 1e-6, "n = {n}: {} vs {}", r.height, r.predicted_height);
+        eprintln!("n = {n}: {} bits, D = {}, k = {}, height {:.6}, predicted {:.6}, {:?}", r.precision, r.discriminant, r.divisor, r.height, r.predicted_height, t.elapsed());
+    }
 }
 
 /// The direct series and the twist route give the same generator (up to
