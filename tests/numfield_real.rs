@@ -162,3 +162,68 @@ fn random_totally_real_cubics_obey_the_class_number_formula() {
         done += 1;
     }
 }
+
+/// The totally real cubic fields of discriminant at most `dmax`, one
+/// defining polynomial each, by Hunter's theorem (Cohen GTM 138, Theorem
+/// 6.4.2: every totally real cubic field of discriminant `D` has an
+/// integer `t` outside Z with `Tr t` in {0, 1} and
+/// `T2(t) <= (Tr t)^2 / 3 + (2/3) sqrt(D)`): the characteristic polynomials
+/// `x^3 - s x^2 + b x - c` with `T2 = s^2 - 2 b` in that bound and
+/// `|c| <= (T2 / 3)^(3/2)`. Fields are told apart by their discriminant and
+/// the number of roots of the polynomial modulo the primes below 400.
+fn totally_real_cubic_fields_up_to(dmax: i64) -> Vec<(i64, (i64, i64, i64), NumberField)> {
+    let t2max = 1.0 / 3.0 + (2.0 / 3.0) * (dmax as f64).sqrt();
+    let cmax = (t2max / 3.0).powf(1.5).floor() as i64;
+    let primes: Vec<i64> = (3..400).filter(|&p| (2..p).take_while(|d| d * d <= p).all(|d| p % d != 0)).collect();
+    let mut seen = std::collections::HashSet::new();
+    let mut out = Vec::new();
+    for s in 0..=1i64 {
+        let bmin = ((s * s) as f64 - t2max) / 2.0;
+        for b in (bmin.ceil() as i64)..=0 {
+            let t2 = (s * s - 2 * b) as f64;
+            let cm = ((t2 / 3.0).powf(1.5).floor() as i64).min(cmax);
+            for c in -cm..=cm {
+                let (p, q, r) = (-s, b, -c);
+                let pd = poly_disc(p as i128, q as i128, r as i128);
+                if pd <= 0 {
+                    continue;
+                }
+                // irreducible: no integer root (a root divides r)
+                let has_root = (-(r.abs())..=r.abs()).any(|x| x != 0 && r % x == 0 && x * x * x + p * x * x + q * x + r == 0) || r == 0;
+                if has_root {
+                    continue;
+                }
+                let k = NumberField::new(&cubic(p, q, r)).unwrap();
+                let d = i64::try_from(k.discriminant()).unwrap();
+                if d > dmax || t2 > (s * s) as f64 / 3.0 + (2.0 / 3.0) * (d as f64).sqrt() + 1e-9 {
+                    continue;
+                }
+                let sig: Vec<usize> = primes.iter().map(|&l| (0..l).filter(|x| (x * x % l * x + p.rem_euclid(l) * x % l * x + q.rem_euclid(l) * x + r.rem_euclid(l)) % l == 0).count()).collect();
+                if seen.insert((d, sig)) {
+                    out.push((d, (p, q, r), k));
+                }
+            }
+        }
+    }
+    out.sort_by_key(|x| x.0);
+    out
+}
+
+#[test]
+fn first_totally_real_cubic_fields_of_class_number_two_three_and_four() {
+    let fields = totally_real_cubic_fields_up_to(20_000);
+    let mut first = [None; 5];
+    let mut ones = 0;
+    for (d, pqr, k) in &fields {
+        let cg = k.class_group(&ClassGroupOptions::default()).unwrap();
+        let h = u32::try_from(&cg.class_number).unwrap();
+        if h == 1 {
+            ones += 1;
+        }
+        if (h as usize) < first.len() && first[h as usize].is_none() {
+            first[h as usize] = Some((*d, *pqr));
+        }
+        println!("{d} {pqr:?} h={h}");
+    }
+    println!("fields {} h1 {} first {:?}", fields.len(), ones, first);
+}

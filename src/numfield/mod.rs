@@ -111,6 +111,7 @@ mod classgroup;
 mod sunits;
 mod relations;
 mod modular;
+mod sparse;
 mod precise;
 mod lattice;
 mod wide;
