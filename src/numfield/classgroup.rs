@@ -1042,7 +1042,12 @@ impl NumberField {
                     push(f, &mut all, &mut hits);
                 }
             }
+            let t0 = Instant::now();
             let core = sparse::eliminate(&all, kfb, &stop);
+            let debug = std::env::var_os("TWOFOLD_KDEBUG").is_some();
+            if debug {
+                eprintln!("rels {} kfb {} core {}x{} units {} elim {:?}", all.len(), kfb, core.rows.len(), core.cols.len(), core.units.len(), t0.elapsed());
+            }
             if stop() {
                 return Err(budget());
             }
@@ -1054,33 +1059,77 @@ impl NumberField {
                 continue;
             };
             let h: f64 = sol.hermite.iter().enumerate().map(|(i, row)| f64::rounding_from(&row[i], RoundingMode::Nearest).0).product();
-            let mut units = UnitLattice { r, basis: Vec::new(), torsion: Vec::new() };
-            {
-                let mut src = LogSource { k: self, table: &rels.table, elems: &rels.elems, precise: &mut precise };
-                let offer = |exps: Vec<(usize, Integer)>, units: &mut UnitLattice, src: &mut LogSource| {
-                    let row = Row { v: Vec::new(), logs: vec![0.0; m], exps, err: f64::INFINITY };
-                    units.add(row, src);
-                };
-                for u in &core.units {
-                    offer(wide(u), &mut units, &mut src);
-                }
-                for kv in &sol.kernel {
+            // kernels of B and a growing number of the other rows, until h R matches
+            let mut count = KERNEL_EXCESS.min(sol.others.len());
+            let mut accepted = None;
+            loop {
+                let Some(kernel) = sol.kernel(&core, count, &stop) else {
                     if stop() {
                         return Err(budget());
                     }
+                    break;
+                };
+                let mut src = LogSource { k: self, table: &rels.table, elems: &rels.elems, precise: &mut precise };
+                let mut cands: Vec<Row> = Vec::new();
+                for exps in core.units.iter().map(|u| wide(u)).chain(kernel.iter().map(|kv| {
                     let mut exps: Vec<(usize, Integer)> = Vec::new();
                     for (ci, x) in kv {
                         exps = combine(&exps, &Integer::ONE, &wide(&core.exps[*ci]), x);
                     }
-                    offer(exps, &mut units, &mut src);
+                    exps
+                })) {
+                    let mut row = Row { v: Vec::new(), logs: vec![0.0; m], exps, err: f64::INFINITY };
+                    if refresh(&mut row, &mut src) {
+                        cands.push(row);
+                    }
                 }
+                if stop() {
+                    return Err(budget());
+                }
+                // smallest logs first, so the later ones are near multiples
+                // of the basis; the refused ones are offered again
+                let norm = |u: &Row| u.logs.iter().take(r).map(|x| x * x).sum::<f64>();
+                cands.sort_by(|a, b| norm(a).total_cmp(&norm(b)));
+                if debug {
+                    let ns: Vec<String> = cands.iter().rev().take(4).map(|u| format!("{:.3e}/{:.1e}/{}b", norm(u).sqrt(), u.err, exp_bits(&u.exps))).collect();
+                    eprintln!("largest candidates {ns:?}");
+                    for u in cands.iter().take(3) {
+                        let es: Vec<String> = u.exps.iter().map(|(i, e)| format!("{:?}^{}", rels.elems[*i].coords(), e)).collect();
+                        eprintln!("  torsion? {}", es.join(" * "));
+                    }
+                }
+                let mut units = UnitLattice { r, basis: Vec::new(), torsion: Vec::new() };
+                for _pass in 0..3 {
+                    let mut refused = Vec::new();
+                    for u in cands.drain(..) {
+                        let keep = Row { v: Vec::new(), logs: u.logs.clone(), exps: u.exps.clone(), err: u.err };
+                        if !units.add(u, &mut src) {
+                            refused.push(keep);
+                        }
+                    }
+                    if refused.is_empty() {
+                        break;
+                    }
+                    cands = refused;
+                }
+                if debug {
+                    eprintln!("count {count} of {} kernel {} basis {} refused {}", sol.others.len(), kernel.len(), units.basis.len(), cands.len());
+                }
+                if units.basis.len() == r {
+                    let reg = if r == 0 { 1.0 } else { units.det() };
+                    let ratio = h * reg / target;
+                    if ratio < 1.5 {
+                        accepted = Some((units, ratio));
+                        break;
+                    }
+                }
+                if count >= sol.others.len() {
+                    break;
+                }
+                count = (2 * count).min(sol.others.len());
             }
-            if units.basis.len() == r {
-                let reg = if r == 0 { 1.0 } else { units.det() };
-                let ratio = h * reg / target;
-                if ratio < 1.5 {
-                    break (sol, units, ratio);
-                }
+            if let Some((units, ratio)) = accepted {
+                break (sol, units, ratio);
             }
             want = all.len() + 8 + kfb / 8;
         };

@@ -598,6 +598,11 @@ impl<'a> RelationSearch<'a> {
                 Some(&x) if x > 0 => {}
                 _ => continue,
             }
+            // primitive vectors only: g (c / g) is the relation of c / g
+            // times the rational g, nothing new
+            if c.iter().fold(0u64, |g, &x| crate::arith::gcd_u64(g, x.unsigned_abs())) != 1 {
+                continue;
+            }
             let val = form.eval(&c).unsigned_abs();
             if val == 0 || val % norm_i != 0 {
                 continue;
@@ -715,7 +720,9 @@ impl<'a> RelationSearch<'a> {
     #[allow(clippy::too_many_arguments)]
     fn take(&mut self, a: Element, val: u128, v: u128, cof: u128, ideal_primes: &[u64], goal: &Goal, out: &mut Vec<Found>) -> Result<bool, Error> {
         let k = self.k;
-        if !self.seen.insert(a.clone()) {
+        // a and -a are one relation (their quotient is a root of unity)
+        let neg = k.mul(&k.rational(&Rational::from(-1)), &a);
+        if self.seen.contains(&neg) || !self.seen.insert(a.clone()) {
             return Ok(false);
         }
         let mut hit: Vec<u64> = self.small.iter().copied().filter(|&p| v % p as u128 == 0).collect();

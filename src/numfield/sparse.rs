@@ -182,29 +182,34 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
     Core { cols, rows: dense, exps, units, empty_columns }
 }
 
-/// The class group data and the kernel of a core of full rank.
+/// The class group data of a core of full rank, set up for kernels.
 pub(crate) struct CoreSolution {
     /// The Hermite form of the row lattice (over the core columns).
     pub(crate) hermite: Vec<Vec<Integer>>,
-    /// A basis of the integral left kernel: per vector, (core row, coefficient).
-    pub(crate) kernel: Vec<Vec<(usize, Integer)>>,
+    /// `n` independent rows `B` (indices into the core).
+    sel: Vec<usize>,
+    /// The other rows, sparsest first.
+    pub(crate) others: Vec<usize>,
+    solver: Option<ExactSolver>,
+    /// `|det B|`.
+    d: Integer,
 }
 
 /// A word prime for the rank test.
 const RANK_PRIME: u64 = (1 << 61) - 1;
 
-/// Rows of `m` independent modulo [`RANK_PRIME`], greedily in order (at
-/// most `n` of them).
-fn independent_rows(m: &[Vec<i64>], n: usize) -> Vec<usize> {
+/// Rows of `m` independent modulo [`RANK_PRIME`], greedily in the order
+/// of `order` (at most `n` of them).
+fn independent_rows(m: &[Vec<i64>], order: &[usize], n: usize) -> Vec<usize> {
     let p = RANK_PRIME;
     debug_assert!(is_prime_u64(p));
     let mut basis: Vec<(usize, Vec<u64>)> = Vec::new(); // (pivot column, normalised row)
     let mut chosen = Vec::new();
-    for (i, row) in m.iter().enumerate() {
+    for &i in order {
         if chosen.len() == n {
             break;
         }
-        let mut v: Vec<u64> = row.iter().map(|&x| x.rem_euclid(p as i64) as u64).collect();
+        let mut v: Vec<u64> = m[i].iter().map(|&x| x.rem_euclid(p as i64) as u64).collect();
         for (pc, b) in &basis {
             let f = v[*pc];
             if f != 0 {
@@ -227,24 +232,26 @@ fn independent_rows(m: &[Vec<i64>], n: usize) -> Vec<usize> {
     chosen
 }
 
-/// The Hermite form and the integral kernel of the core; `None` when the
-/// rows do not have full rank (more relations needed) or `stop` says so.
+/// The Hermite form of the core and the set-up of its kernel; `None` when
+/// the rows do not have full rank (more relations needed) or `stop` says so.
 pub(crate) fn solve_core(core: &Core, stop: &dyn Fn() -> bool) -> Option<CoreSolution> {
     let n = core.cols.len();
     let m = core.rows.len();
     if core.empty_columns > 0 || m < n {
         return None;
     }
+    // sparsest rows first: short rows make a well-conditioned B and short kernel vectors
+    let mut order: Vec<usize> = (0..m).collect();
+    order.sort_by(|&a, &b| log2_row_length(&core.rows[a]).total_cmp(&log2_row_length(&core.rows[b])));
     if n == 0 {
         // every column eliminated: trivial class group, every row is a kernel vector
-        let kernel = (0..m).map(|i| vec![(i, Integer::ONE)]).collect();
-        return Some(CoreSolution { hermite: Vec::new(), kernel });
+        return Some(CoreSolution { hermite: Vec::new(), sel: Vec::new(), others: order, solver: None, d: Integer::ONE });
     }
-    let sel = independent_rows(&core.rows, n);
+    let sel = independent_rows(&core.rows, &order, n);
     if sel.len() < n || stop() {
         return None;
     }
-    let others: Vec<usize> = (0..m).filter(|i| !sel.contains(i)).collect();
+    let others: Vec<usize> = order.into_iter().filter(|i| !sel.contains(i)).collect();
     let extra = others.iter().map(|&i| log2_row_length(&core.rows[i])).fold(0.0, f64::max);
     let solver = ExactSolver::new(sel.iter().map(|&i| core.rows[i].clone()).collect(), extra)?;
     let d = solver.det.clone().abs();
@@ -253,34 +260,48 @@ pub(crate) fn solve_core(core: &Core, stop: &dyn Fn() -> bool) -> Option<CoreSol
     }
     let gens: Vec<Vec<Integer>> = core.rows.iter().map(|r| r.iter().map(|&x| Integer::from(x)).collect()).collect();
     let hermite = hnf(&gens, n, Some(&d)).ok()?;
-    if stop() {
-        return None;
-    }
-    // y_j B = det(B) v_j for the other rows
-    let mut ys: Vec<Vec<Integer>> = Vec::with_capacity(others.len());
-    for &i in &others {
-        ys.push(solver.solve(&core.rows[i], log2_row_length(&core.rows[i]))?);
-    }
-    let e = others.len();
-    let mut kernel = Vec::new();
-    if e > 0 {
+    Some(CoreSolution { hermite, sel, others, solver: Some(solver), d })
+}
+
+impl CoreSolution {
+    /// A basis of the integral left kernel of the rows `B` and the first
+    /// `count` other rows: per vector, (core row, coefficient), checked
+    /// exactly. `None` when `stop` says so (or on an internal failure).
+    pub(crate) fn kernel(&self, core: &Core, count: usize, stop: &dyn Fn() -> bool) -> Option<Vec<Vec<(usize, Integer)>>> {
+        let n = core.cols.len();
+        let others = &self.others[..count.min(self.others.len())];
+        let e = others.len();
+        let Some(solver) = &self.solver else {
+            return Some(others.iter().map(|&i| vec![(i, Integer::ONE)]).collect());
+        };
+        let sel = &self.sel;
+        let d = &self.d;
+        // y_j B = det(B) v_j for the other rows
+        let mut ys: Vec<Vec<Integer>> = Vec::with_capacity(e);
+        for &i in others {
+            ys.push(solver.solve(&core.rows[i], log2_row_length(&core.rows[i]))?);
+        }
+        let mut kernel = Vec::new();
+        if e == 0 {
+            return Some(kernel);
+        }
         // T = {t in Z^e : sum t_j y_j = 0 mod D}: rows [e_j | y_j] in e + n columns, modulo D
         let gens: Vec<Vec<Integer>> = ys.iter().enumerate().map(|(j, y)| {
             let mut g = vec![Integer::ZERO; e + n];
             g[j] = Integer::ONE;
             for (c, x) in y.iter().enumerate() {
-                g[e + c] = x.mod_op(&d);
+                g[e + c] = x.mod_op(d);
             }
             g
         }).collect();
-        let h = hnf(&gens, e + n, Some(&d)).ok()?;
+        let h = hnf(&gens, e + n, Some(d)).ok()?;
         let det_signed = &solver.det;
         for t in h.iter().take(e) {
             if stop() {
                 return None;
             }
             let mut vecx: Vec<(usize, Integer)> = Vec::new();
-            // x on the selected rows: (sum t_j y_j) / det (the solver's signed determinant)
+            // x on B: (sum t_j y_j) / det (the solver's signed determinant); -t on the others
             let mut s = vec![Integer::ZERO; n];
             for (tj, y) in t[..e].iter().zip(&ys) {
                 if *tj != 0u32 {
@@ -298,7 +319,7 @@ pub(crate) fn solve_core(core: &Core, stop: &dyn Fn() -> bool) -> Option<CoreSol
                     vecx.push((*idx, q));
                 }
             }
-            for (tj, &i) in t[..e].iter().zip(&others) {
+            for (tj, &i) in t[..e].iter().zip(others) {
                 if *tj != 0u32 {
                     vecx.push((i, -tj));
                 }
@@ -319,8 +340,8 @@ pub(crate) fn solve_core(core: &Core, stop: &dyn Fn() -> bool) -> Option<CoreSol
             }
             kernel.push(vecx);
         }
+        Some(kernel)
     }
-    Some(CoreSolution { hermite, kernel })
 }
 
 #[cfg(test)]
@@ -376,13 +397,15 @@ mod tests {
             let h_full = full.iter().enumerate().fold(Integer::ONE, |a, (i, r)| a * &r[i]);
             let core = eliminate(&rels, ncols, &|| false);
             assert!(core.cols.len() <= ncols);
-            let Some(sol) = solve_core(&core, &|| false) else { panic!("trial {trial}: full rank but no solution") };
+            let Some(prep) = solve_core(&core, &|| false) else { panic!("trial {trial}: full rank but no solution") };
+            let sol_kernel = prep.kernel(&core, usize::MAX, &|| false).unwrap();
+            let sol = &prep;
             let h_core = sol.hermite.iter().enumerate().fold(Integer::ONE, |a, (i, r)| a * &r[i]);
             assert_eq!(h_core, h_full, "trial {trial}");
             // kernel rank: nrows - ncols in all
-            assert_eq!(sol.kernel.len() + core.units.len(), nrows - ncols, "trial {trial}");
+            assert_eq!(sol_kernel.len() + core.units.len(), nrows - ncols, "trial {trial}");
             let mut vectors: Vec<Vec<(usize, Integer)>> = core.units.iter().map(|u| u.iter().map(|&(i, x)| (i, Integer::from(x))).collect()).collect();
-            for kv in &sol.kernel {
+            for kv in &sol_kernel {
                 let mut acc: Vec<Integer> = vec![Integer::ZERO; nrows];
                 for (ci, x) in kv {
                     for &(i, e) in &core.exps[*ci] {
