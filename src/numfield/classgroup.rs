@@ -381,6 +381,52 @@ impl UnitLattice {
         d.abs()
     }
 
+    /// Adds a unit `u` dependent on a full basis whose index in the
+    /// lattice with `u` is large or not readable in f64: LLL of the `r + 1`
+    /// log vectors (f64) with the transformation applied to the exponents
+    /// and the logs recomputed exactly from them, repeated until the
+    /// shortest vector is a root of unity (a Euclid algorithm in `R^r`, each
+    /// step gaining what f64 can see). The lattice spanned never changes
+    /// (unimodular steps); false, with the old basis kept, when precision
+    /// or the step limit stops it.
+    fn merge(&mut self, u: Row, src: &mut LogSource) -> bool {
+        let r = self.r;
+        let norm = |x: &Row| x.logs[..r].iter().map(|y| y * y).sum::<f64>().sqrt();
+        let copy = |x: &Row| Row { v: x.v.clone(), logs: x.logs.clone(), exps: x.exps.clone(), err: x.err };
+        let mut rows: Vec<Row> = self.basis.iter().map(copy).collect();
+        rows.push(u);
+        for _ in 0..200 {
+            let vecs: Vec<Vec<f64>> = rows.iter().map(|x| x.logs[..r].to_vec()).collect();
+            let t = lll_f64(&vecs);
+            let mut next: Vec<Row> = Vec::with_capacity(rows.len());
+            for trow in &t {
+                let mut acc = Row { v: Vec::new(), logs: vec![0.0; rows[0].logs.len()], exps: Vec::new(), err: 0.0 };
+                for (c, row) in trow.iter().zip(&rows) {
+                    if *c != 0 {
+                        acc.exps = combine(&acc.exps, &Integer::ONE, &row.exps, &Integer::from(*c));
+                    }
+                }
+                if !refresh(&mut acc, src) {
+                    return false;
+                }
+                next.push(acc);
+            }
+            next.sort_by(|a, b| norm(a).total_cmp(&norm(b)));
+            if norm(&next[0]) < (1e3 * next[0].err).max(1e-9) {
+                next.remove(0);
+                self.basis = next;
+                return true;
+            }
+            let before: f64 = rows.iter().map(norm).product();
+            let after: f64 = next.iter().map(norm).product();
+            rows = next;
+            if !(after < before) && t.iter().enumerate().all(|(i, row)| row.iter().enumerate().all(|(j, c)| *c == i64::from(i == j))) {
+                return false;
+            }
+        }
+        false
+    }
+
     /// Adds a unit; returns false if precision did not allow it.
     fn add(&mut self, mut u: Row, src: &mut LogSource) -> bool {
         if !refresh(&mut u, src) {
@@ -448,12 +494,12 @@ impl UnitLattice {
         let berr = self.basis.iter().map(|b| b.err).fold(0.0, f64::max);
         let tol = (1e3 * (u.err + berr) / bmin).max(1e-12);
         if tol > 1e-4 {
-            return false;
+            return self.merge(u, src);
         }
         let mut fr = Vec::with_capacity(self.r);
         let mut den = 1i64;
         for &xi in &x {
-            let Some((p, q)) = rational_approx(xi, 1000, tol) else { return false };
+            let Some((p, q)) = rational_approx(xi, 1000, tol) else { return self.merge(u, src) };
             fr.push((p, q));
             den = num_integer_lcm(den, q);
         }
@@ -1042,12 +1088,7 @@ impl NumberField {
                     push(f, &mut all, &mut hits);
                 }
             }
-            let t0 = Instant::now();
             let core = sparse::eliminate(&all, kfb, &stop);
-            let debug = std::env::var_os("TWOFOLD_KDEBUG").is_some();
-            if debug {
-                eprintln!("rels {} kfb {} core {}x{} units {} elim {:?}", all.len(), kfb, core.rows.len(), core.cols.len(), core.units.len(), t0.elapsed());
-            }
             if stop() {
                 return Err(budget());
             }
@@ -1062,6 +1103,7 @@ impl NumberField {
             // kernels of B and a growing number of the other rows, until h R matches
             let mut count = KERNEL_EXCESS.min(sol.others.len());
             let mut accepted = None;
+            let mut last_reg: Option<f64> = None;
             loop {
                 let Some(kernel) = sol.kernel(&core, count, &stop) else {
                     if stop() {
@@ -1090,14 +1132,6 @@ impl NumberField {
                 // of the basis; the refused ones are offered again
                 let norm = |u: &Row| u.logs.iter().take(r).map(|x| x * x).sum::<f64>();
                 cands.sort_by(|a, b| norm(a).total_cmp(&norm(b)));
-                if debug {
-                    let ns: Vec<String> = cands.iter().rev().take(4).map(|u| format!("{:.3e}/{:.1e}/{}b", norm(u).sqrt(), u.err, exp_bits(&u.exps))).collect();
-                    eprintln!("largest candidates {ns:?}");
-                    for u in cands.iter().take(3) {
-                        let es: Vec<String> = u.exps.iter().map(|(i, e)| format!("{:?}^{}", rels.elems[*i].coords(), e)).collect();
-                        eprintln!("  torsion? {}", es.join(" * "));
-                    }
-                }
                 let mut units = UnitLattice { r, basis: Vec::new(), torsion: Vec::new() };
                 for _pass in 0..3 {
                     let mut refused = Vec::new();
@@ -1112,9 +1146,6 @@ impl NumberField {
                     }
                     cands = refused;
                 }
-                if debug {
-                    eprintln!("count {count} of {} kernel {} basis {} refused {}", sol.others.len(), kernel.len(), units.basis.len(), cands.len());
-                }
                 if units.basis.len() == r {
                     let reg = if r == 0 { 1.0 } else { units.det() };
                     let ratio = h * reg / target;
@@ -1125,6 +1156,15 @@ impl NumberField {
                 }
                 if count >= sol.others.len() {
                     break;
+                }
+                // a full unit lattice that more kernel vectors did not
+                // change: h* is what is too large, more relations are needed
+                if units.basis.len() == r && r > 0 {
+                    let reg = units.det();
+                    if last_reg.is_some_and(|x| (x - reg).abs() < 1e-9 * reg) {
+                        break;
+                    }
+                    last_reg = Some(reg);
                 }
                 count = (2 * count).min(sol.others.len());
             }
