@@ -106,7 +106,11 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
                 continue;
             }
             // drop stale entries (rows gone, or no longer touching c)
-            col_rows[c].retain(|&i| rows[i].as_ref().is_some_and(|r| r.v.binary_search_by_key(&c, |x| x.0).is_ok()));
+            col_rows[c].retain(|&i| {
+                rows[i]
+                    .as_ref()
+                    .is_some_and(|r| r.v.binary_search_by_key(&c, |x| x.0).is_ok())
+            });
             col_rows[c].sort_unstable();
             col_rows[c].dedup();
             let w = col_rows[c].len();
@@ -115,7 +119,9 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
             }
             for &i in &col_rows[c] {
                 let Some(r) = rows[i].as_ref() else { continue };
-                let Ok(pos) = r.v.binary_search_by_key(&c, |x| x.0) else { continue };
+                let Ok(pos) = r.v.binary_search_by_key(&c, |x| x.0) else {
+                    continue;
+                };
                 if r.v[pos].1.abs() != 1 {
                     continue;
                 }
@@ -144,7 +150,10 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
             let a = row.v[pos].1;
             // row - a sgn prow has zero at c (sgn^2 = 1)
             let f = -a * sgn;
-            let (Some(v), Some(exps)) = (axpy(&row.v, f, &prow.v), axpy(&row.exps, f, &prow.exps)) else { continue };
+            let (Some(v), Some(exps)) = (axpy(&row.v, f, &prow.v), axpy(&row.exps, f, &prow.exps))
+            else {
+                continue;
+            };
             if v.is_empty() {
                 if !exps.is_empty() {
                     units.push(exps);
@@ -179,7 +188,13 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
         exps.push(r.exps);
     }
     let empty_columns = hit.iter().filter(|h| !**h).count();
-    Core { cols, rows: dense, exps, units, empty_columns }
+    Core {
+        cols,
+        rows: dense,
+        exps,
+        units,
+        empty_columns,
+    }
 }
 
 /// The class group data of a core of full rank, set up for kernels.
@@ -209,7 +224,10 @@ fn independent_rows(m: &[Vec<i64>], order: &[usize], n: usize) -> Vec<usize> {
         if chosen.len() == n {
             break;
         }
-        let mut v: Vec<u64> = m[i].iter().map(|&x| x.rem_euclid(p as i64) as u64).collect();
+        let mut v: Vec<u64> = m[i]
+            .iter()
+            .map(|&x| x.rem_euclid(p as i64) as u64)
+            .collect();
         for (pc, b) in &basis {
             let f = v[*pc];
             if f != 0 {
@@ -242,32 +260,58 @@ pub(crate) fn solve_core(core: &Core, stop: &dyn Fn() -> bool) -> Option<CoreSol
     }
     // sparsest rows first: short rows make a well-conditioned B and short kernel vectors
     let mut order: Vec<usize> = (0..m).collect();
-    order.sort_by(|&a, &b| log2_row_length(&core.rows[a]).total_cmp(&log2_row_length(&core.rows[b])));
+    order.sort_by(|&a, &b| {
+        log2_row_length(&core.rows[a]).total_cmp(&log2_row_length(&core.rows[b]))
+    });
     if n == 0 {
         // every column eliminated: trivial class group, every row is a kernel vector
-        return Some(CoreSolution { hermite: Vec::new(), sel: Vec::new(), others: order, solver: None, d: Integer::ONE });
+        return Some(CoreSolution {
+            hermite: Vec::new(),
+            sel: Vec::new(),
+            others: order,
+            solver: None,
+            d: Integer::ONE,
+        });
     }
     let sel = independent_rows(&core.rows, &order, n);
     if sel.len() < n || stop() {
         return None;
     }
     let others: Vec<usize> = order.into_iter().filter(|i| !sel.contains(i)).collect();
-    let extra = others.iter().map(|&i| log2_row_length(&core.rows[i])).fold(0.0, f64::max);
+    let extra = others
+        .iter()
+        .map(|&i| log2_row_length(&core.rows[i]))
+        .fold(0.0, f64::max);
     let solver = ExactSolver::new(sel.iter().map(|&i| core.rows[i].clone()).collect(), extra)?;
     let d = solver.det.clone().abs();
     if d == 0u32 || stop() {
         return None;
     }
-    let gens: Vec<Vec<Integer>> = core.rows.iter().map(|r| r.iter().map(|&x| Integer::from(x)).collect()).collect();
+    let gens: Vec<Vec<Integer>> = core
+        .rows
+        .iter()
+        .map(|r| r.iter().map(|&x| Integer::from(x)).collect())
+        .collect();
     let hermite = hnf(&gens, n, Some(&d)).ok()?;
-    Some(CoreSolution { hermite, sel, others, solver: Some(solver), d })
+    Some(CoreSolution {
+        hermite,
+        sel,
+        others,
+        solver: Some(solver),
+        d,
+    })
 }
 
 impl CoreSolution {
     /// A basis of the integral left kernel of the rows `B` and the first
     /// `count` other rows: per vector, (core row, coefficient), checked
     /// exactly. `None` when `stop` says so (or on an internal failure).
-    pub(crate) fn kernel(&self, core: &Core, count: usize, stop: &dyn Fn() -> bool) -> Option<Vec<Vec<(usize, Integer)>>> {
+    pub(crate) fn kernel(
+        &self,
+        core: &Core,
+        count: usize,
+        stop: &dyn Fn() -> bool,
+    ) -> Option<Vec<Vec<(usize, Integer)>>> {
         let n = core.cols.len();
         let others = &self.others[..count.min(self.others.len())];
         let e = others.len();
@@ -286,14 +330,18 @@ impl CoreSolution {
             return Some(kernel);
         }
         // T = {t in Z^e : sum t_j y_j = 0 mod D}: rows [e_j | y_j] in e + n columns, modulo D
-        let gens: Vec<Vec<Integer>> = ys.iter().enumerate().map(|(j, y)| {
-            let mut g = vec![Integer::ZERO; e + n];
-            g[j] = Integer::ONE;
-            for (c, x) in y.iter().enumerate() {
-                g[e + c] = x.mod_op(d);
-            }
-            g
-        }).collect();
+        let gens: Vec<Vec<Integer>> = ys
+            .iter()
+            .enumerate()
+            .map(|(j, y)| {
+                let mut g = vec![Integer::ZERO; e + n];
+                g[j] = Integer::ONE;
+                for (c, x) in y.iter().enumerate() {
+                    g[e + c] = x.mod_op(d);
+                }
+                g
+            })
+            .collect();
         let h = hnf(&gens, e + n, Some(d)).ok()?;
         let det_signed = &solver.det;
         for t in h.iter().take(e) {
@@ -384,27 +432,52 @@ mod tests {
                         v.sort_by_key(|x| x.0);
                     }
                 }
-                rels.push(SparseRelation { v, exps: vec![(i, 1)] });
+                rels.push(SparseRelation {
+                    v,
+                    exps: vec![(i, 1)],
+                });
             }
-            let dense: Vec<Vec<Integer>> = rels.iter().map(|r| {
-                let mut d = vec![Integer::ZERO; ncols];
-                for &(c, x) in &r.v {
-                    d[c] = Integer::from(x);
-                }
-                d
-            }).collect();
-            let Ok(full) = hnf(&dense, ncols, None) else { continue };
-            let h_full = full.iter().enumerate().fold(Integer::ONE, |a, (i, r)| a * &r[i]);
+            let dense: Vec<Vec<Integer>> = rels
+                .iter()
+                .map(|r| {
+                    let mut d = vec![Integer::ZERO; ncols];
+                    for &(c, x) in &r.v {
+                        d[c] = Integer::from(x);
+                    }
+                    d
+                })
+                .collect();
+            let Ok(full) = hnf(&dense, ncols, None) else {
+                continue;
+            };
+            let h_full = full
+                .iter()
+                .enumerate()
+                .fold(Integer::ONE, |a, (i, r)| a * &r[i]);
             let core = eliminate(&rels, ncols, &|| false);
             assert!(core.cols.len() <= ncols);
-            let Some(prep) = solve_core(&core, &|| false) else { panic!("trial {trial}: full rank but no solution") };
+            let Some(prep) = solve_core(&core, &|| false) else {
+                panic!("trial {trial}: full rank but no solution")
+            };
             let sol_kernel = prep.kernel(&core, usize::MAX, &|| false).unwrap();
             let sol = &prep;
-            let h_core = sol.hermite.iter().enumerate().fold(Integer::ONE, |a, (i, r)| a * &r[i]);
+            let h_core = sol
+                .hermite
+                .iter()
+                .enumerate()
+                .fold(Integer::ONE, |a, (i, r)| a * &r[i]);
             assert_eq!(h_core, h_full, "trial {trial}");
             // kernel rank: nrows - ncols in all
-            assert_eq!(sol_kernel.len() + core.units.len(), nrows - ncols, "trial {trial}");
-            let mut vectors: Vec<Vec<(usize, Integer)>> = core.units.iter().map(|u| u.iter().map(|&(i, x)| (i, Integer::from(x))).collect()).collect();
+            assert_eq!(
+                sol_kernel.len() + core.units.len(),
+                nrows - ncols,
+                "trial {trial}"
+            );
+            let mut vectors: Vec<Vec<(usize, Integer)>> = core
+                .units
+                .iter()
+                .map(|u| u.iter().map(|&(i, x)| (i, Integer::from(x))).collect())
+                .collect();
             for kv in &sol_kernel {
                 let mut acc: Vec<Integer> = vec![Integer::ZERO; nrows];
                 for (ci, x) in kv {
@@ -412,7 +485,12 @@ mod tests {
                         acc[i] += x * Integer::from(e);
                     }
                 }
-                vectors.push(acc.into_iter().enumerate().filter(|(_, x)| *x != 0u32).collect());
+                vectors.push(
+                    acc.into_iter()
+                        .enumerate()
+                        .filter(|(_, x)| *x != 0u32)
+                        .collect(),
+                );
             }
             for vec in vectors {
                 assert!(!vec.is_empty());
