@@ -81,7 +81,7 @@ pub(crate) struct Core {
 
 /// Largest fill-in (Markowitz cost `(rows of the column - 1) (entries of
 /// the pivot row - 1)`) accepted for a pivot.
-const MAX_COST: usize = 400;
+const MAX_COST: usize = 4000;
 
 /// Structured elimination of `rels` over `ncols` columns (see the module
 /// text). `stop` is polled once per pivot.
