@@ -1034,6 +1034,7 @@ impl NumberField {
         let gen_bound = bound.floor() as u64;
         let b0 = base_bound(self).min(gen_bound).max(MIN_FACTOR_BASE_BOUND);
         let mut rels = RelationSearch::new(self, b0, gen_bound, extra_primes, &stop)?;
+        rels.primitive_only = true;
         let kfb = rels.fb.len();
         let r = self.r1 + self.r2 - 1;
         let m = self.r1 + self.r2;
