@@ -420,7 +420,7 @@ impl UnitLattice {
             let before: f64 = rows.iter().map(norm).product();
             let after: f64 = next.iter().map(norm).product();
             rows = next;
-            if !(after < before) && t.iter().enumerate().all(|(i, row)| row.iter().enumerate().all(|(j, c)| *c == i64::from(i == j))) {
+            if after.partial_cmp(&before) != Some(std::cmp::Ordering::Less) && t.iter().enumerate().all(|(i, row)| row.iter().enumerate().all(|(j, c)| *c == i64::from(i == j))) {
                 return false;
             }
         }
@@ -1069,7 +1069,7 @@ impl NumberField {
         let (solution, units, ratio) = loop {
             while all.len() < want || hits.contains(&0) {
                 round += 1;
-                let aim = if round > kfb + 1 && round % 2 == 0 {
+                let aim = if round > kfb + 1 && round.is_multiple_of(2) {
                     (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| hits[j] == 0 && attempts[j] < 12)
                 } else {
                     None
