@@ -18,15 +18,16 @@ fn bench(c: &mut Criterion) {
     let mut g = c.benchmark_group("numfield_class_group");
     g.sample_size(10);
     // (a, b) -> field discriminant: (1, -1) -> -31, (10, 13) -> -8563,
-    // (31, -57) -> -206887, (1234, 56789) -> -94591067683 (about 10^11)
-    for (a, b) in [("1", "-1"), ("10", "13"), ("31", "-57"), ("1234", "56789")] {
+    // (31, -57) -> -206887, (1234, 56789) -> -94591067683 (about 10^11),
+    // (123457, 9876541) -> about -1.0e16, (2345678, 1234567891) -> about -9.3e19
+    for (a, b) in [("1", "-1"), ("10", "13"), ("31", "-57"), ("1234", "56789"), ("123457", "9876541"), ("2345678", "1234567891")] {
         let k = field(a, b);
         let name = format!("disc {}", k.discriminant());
         g.bench_function(&name, |bch| bch.iter(|| k.class_group(&ClassGroupOptions::default()).unwrap()));
     }
     if std::env::var_os("NUMFIELD_BENCH_LARGE").is_some() {
-        // about 10^12, 10^16, 10^20
-        for (a, b) in [("6007", "203017"), ("123457", "9876541"), ("2345678", "1234567891")] {
+        // about -4.5e25 (h = 36), then 10^30 and 10^40 (see README for what completes)
+        for (a, b) in [("98765431", "1234567890123"), ("7654321987", "987654321012345"), ("1234567890121", "87654321098765432101")] {
             let k = field(a, b);
             let name = format!("disc {}", k.discriminant());
             g.bench_function(&name, |bch| bch.iter(|| k.class_group(&ClassGroupOptions::default()).unwrap()));
@@ -46,6 +47,19 @@ fn bench(c: &mut Criterion) {
         g.bench_function(&name, |bch| bch.iter(|| k.square_classes(&[2], &ClassGroupOptions::default()).unwrap()));
     }
     g.finish();
+    if std::env::var_os("NUMFIELD_BENCH_LARGE").is_some() {
+        // K(S,2) with the whole S of a descent: the field X^3 + 16 a X + 64 b of
+        // y^2 = x^3 + a x + b, a = 1234567890121, b = 8765432109876543211 (invented,
+        // field discriminant about -2.1e39), S = 2, 3 and the primes of
+        // 4 a^3 + 27 b^2 = 17 47 47599 96589 3288319 9384591833 18366300437
+        let mut g = c.benchmark_group("numfield_square_classes_descent");
+        g.sample_size(10);
+        let f = vec![Integer::from(560_987_655_032_098_765_504i128), Integer::from(19_753_086_241_936i64), Integer::from(0), Integer::from(1)];
+        let k = NumberField::new(&f).unwrap();
+        let s = [2u64, 3, 17, 47, 47599, 96589, 3288319, 9384591833, 18366300437];
+        g.bench_function("40-digit field, full S", |bch| bch.iter(|| k.square_classes(&s, &ClassGroupOptions::default()).unwrap()));
+        g.finish();
+    }
 }
 
 criterion_group!(benches, bench);

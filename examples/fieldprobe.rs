@@ -1,6 +1,6 @@
 //! Probe: time the class group (mode `cg`) or K(S,2) for S = primes dividing
 //! 2 disc (mode `ks`) of cubic fields x^3 + a x + b given on the command line:
-//! `fieldprobe MODE a b [a b ...]`.
+//! `fieldprobe MODE a b [a b ...]` (deadline: `FIELDPROBE_SECONDS`, default 60).
 use malachite::Integer;
 use std::time::Instant;
 use twofold::numfield::{ClassGroupOptions, NumberField};
@@ -15,7 +15,9 @@ fn main() {
         let t = Instant::now();
         let k = match NumberField::new(&f) { Ok(k) => k, Err(e) => { println!("{:?} {}", pair, e); continue; } };
         let t1 = t.elapsed();
-        let opts = ClassGroupOptions::default().with_deadline(Instant::now() + std::time::Duration::from_secs(60));
+        // wall-clock deadline, 60 s unless FIELDPROBE_SECONDS says otherwise (a loaded machine needs more)
+        let secs: u64 = std::env::var("FIELDPROBE_SECONDS").ok().and_then(|s| s.parse().ok()).unwrap_or(60);
+        let opts = ClassGroupOptions::default().with_deadline(Instant::now() + std::time::Duration::from_secs(secs));
         if mode == "ks" {
             let s: Vec<u64> = vec![2];
             let r = k.square_classes(&s, &opts);

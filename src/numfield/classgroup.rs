@@ -26,6 +26,7 @@ use super::linalg::{mod_word, smith_invariants};
 use super::precise::{PreciseLogs, MAX_LOG_BITS};
 use super::wide::WideProduct;
 use super::relations::{base_bound, Found, RelationSearch};
+use super::sparse;
 use crate::arith::{mul_mod, primes_up_to};
 use crate::{Error, ErrorKind};
 use malachite::base::num::arithmetic::traits::DivRound;
@@ -71,7 +72,28 @@ pub struct ClassGroupOptions {
     pub deadline: Option<Instant>,
     /// Stop with [`ErrorKind::Budget`] once set.
     pub cancel: Option<Arc<AtomicBool>>,
+    /// Which linear algebra the class group uses (tests compare both).
+    pub(crate) route: Route,
 }
+
+/// The linear algebra of [`NumberField::class_group`].
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+#[cfg_attr(not(test), allow(dead_code))]
+pub(crate) enum Route {
+    /// By the size of the discriminant: [`Route::Kernel`] from
+    /// [`KERNEL_ROUTE_DIGITS`] digits on.
+    #[default]
+    Auto,
+    /// The incremental exact echelon (small fields).
+    Echelon,
+    /// Sparse elimination, Hermite form modulo a determinant and the
+    /// integral kernel (`sparse.rs`).
+    Kernel,
+}
+
+/// From this many decimal digits of `|d_K|` on, [`Route::Auto`] takes the
+/// kernel route.
+pub(crate) const KERNEL_ROUTE_DIGITS: f64 = 12.0;
 
 impl ClassGroupOptions {
     /// Uses (or not) the Minkowski bound even when it is large.
@@ -359,6 +381,52 @@ impl UnitLattice {
         d.abs()
     }
 
+    /// Adds a unit `u` dependent on a full basis whose index in the
+    /// lattice with `u` is large or not readable in f64: LLL of the `r + 1`
+    /// log vectors (f64) with the transformation applied to the exponents
+    /// and the logs recomputed exactly from them, repeated until the
+    /// shortest vector is a root of unity (a Euclid algorithm in `R^r`, each
+    /// step gaining what f64 can see). The lattice spanned never changes
+    /// (unimodular steps); false, with the old basis kept, when precision
+    /// or the step limit stops it.
+    fn merge(&mut self, u: Row, src: &mut LogSource) -> bool {
+        let r = self.r;
+        let norm = |x: &Row| x.logs[..r].iter().map(|y| y * y).sum::<f64>().sqrt();
+        let copy = |x: &Row| Row { v: x.v.clone(), logs: x.logs.clone(), exps: x.exps.clone(), err: x.err };
+        let mut rows: Vec<Row> = self.basis.iter().map(copy).collect();
+        rows.push(u);
+        for _ in 0..200 {
+            let vecs: Vec<Vec<f64>> = rows.iter().map(|x| x.logs[..r].to_vec()).collect();
+            let t = lll_f64(&vecs);
+            let mut next: Vec<Row> = Vec::with_capacity(rows.len());
+            for trow in &t {
+                let mut acc = Row { v: Vec::new(), logs: vec![0.0; rows[0].logs.len()], exps: Vec::new(), err: 0.0 };
+                for (c, row) in trow.iter().zip(&rows) {
+                    if *c != 0 {
+                        acc.exps = combine(&acc.exps, &Integer::ONE, &row.exps, &Integer::from(*c));
+                    }
+                }
+                if !refresh(&mut acc, src) {
+                    return false;
+                }
+                next.push(acc);
+            }
+            next.sort_by(|a, b| norm(a).total_cmp(&norm(b)));
+            if norm(&next[0]) < (1e3 * next[0].err).max(1e-9) {
+                next.remove(0);
+                self.basis = next;
+                return true;
+            }
+            let before: f64 = rows.iter().map(norm).product();
+            let after: f64 = next.iter().map(norm).product();
+            rows = next;
+            if after.partial_cmp(&before) != Some(std::cmp::Ordering::Less) && t.iter().enumerate().all(|(i, row)| row.iter().enumerate().all(|(j, c)| *c == i64::from(i == j))) {
+                return false;
+            }
+        }
+        false
+    }
+
     /// Adds a unit; returns false if precision did not allow it.
     fn add(&mut self, mut u: Row, src: &mut LogSource) -> bool {
         if !refresh(&mut u, src) {
@@ -426,12 +494,12 @@ impl UnitLattice {
         let berr = self.basis.iter().map(|b| b.err).fold(0.0, f64::max);
         let tol = (1e3 * (u.err + berr) / bmin).max(1e-12);
         if tol > 1e-4 {
-            return false;
+            return self.merge(u, src);
         }
         let mut fr = Vec::with_capacity(self.r);
         let mut den = 1i64;
         for &xi in &x {
-            let Some((p, q)) = rational_approx(xi, 1000, tol) else { return false };
+            let Some((p, q)) = rational_approx(xi, 1000, tol) else { return self.merge(u, src) };
             fr.push((p, q));
             den = num_integer_lcm(den, q);
         }
@@ -766,6 +834,20 @@ impl NumberField {
     /// As [`NumberField::class_group`], with the prime ideals above the given
     /// rational primes added to the factor base (for S-units).
     pub fn class_group_with(&self, opts: &ClassGroupOptions, extra_primes: &[u64]) -> Result<ClassGroup, Error> {
+        let digits = super::relations::ln_abs(&self.disc) / std::f64::consts::LN_10;
+        let kernel = match opts.route {
+            Route::Kernel => true,
+            Route::Echelon => false,
+            Route::Auto => digits >= KERNEL_ROUTE_DIGITS,
+        };
+        if kernel {
+            self.class_group_by_kernel(opts, extra_primes)
+        } else {
+            self.class_group_by_echelon(opts, extra_primes)
+        }
+    }
+
+    fn class_group_by_echelon(&self, opts: &ClassGroupOptions, extra_primes: &[u64]) -> Result<ClassGroup, Error> {
         let stop = || opts.cancel.as_ref().is_some_and(|c| c.load(Ordering::Relaxed)) || opts.deadline.is_some_and(|d| Instant::now() >= d);
         let budget = || Error::new(ErrorKind::Budget, "class group: budget exhausted");
         let mink = self.minkowski_bound();
@@ -925,3 +1007,232 @@ fn reduce_row(pivots: &[Option<Row>], row: &mut Row, from: usize) {
 }
 
 
+
+/// Relations beyond the number of columns before the kernel route first
+/// solves (more are added when the rank or `h R` says so).
+const KERNEL_EXCESS: usize = 24;
+
+impl NumberField {
+    /// The class group route for large fields (`sparse.rs`): relations
+    /// collected in bulk, structured elimination with unit pivots, the
+    /// class group by the Hermite form modulo a determinant, the units
+    /// from a basis of the integral kernel of the core. Accepted, as the
+    /// echelon route, when `h* R*` agrees with the Euler product.
+    fn class_group_by_kernel(&self, opts: &ClassGroupOptions, extra_primes: &[u64]) -> Result<ClassGroup, Error> {
+        let stop = || opts.cancel.as_ref().is_some_and(|c| c.load(Ordering::Relaxed)) || opts.deadline.is_some_and(|d| Instant::now() >= d);
+        let budget = || Error::new(ErrorKind::Budget, "class group: budget exhausted");
+        let mink = self.minkowski_bound();
+        let bach = self.bach_bound();
+        let (bound, kind) = if opts.unconditional || mink <= bach {
+            (mink, FactorBaseBound::Minkowski)
+        } else {
+            (bach, FactorBaseBound::BachGrh)
+        };
+        if bound > 1e8 {
+            return Err(Error::new(ErrorKind::TooLarge, format!("factor base bound {bound:.3e} too large")));
+        }
+        let gen_bound = bound.floor() as u64;
+        let b0 = base_bound(self).min(gen_bound).max(MIN_FACTOR_BASE_BOUND);
+        let mut rels = RelationSearch::new(self, b0, gen_bound, extra_primes, &stop)?;
+        rels.primitive_only = true;
+        let kfb = rels.fb.len();
+        let r = self.r1 + self.r2 - 1;
+        let m = self.r1 + self.r2;
+        let (w, zeta) = self.roots_of_unity();
+        let target = self.analytic_class_number_formula(EULER_PRODUCT_LIMIT)?;
+        if stop() {
+            return Err(budget());
+        }
+        let mut all: Vec<sparse::SparseRelation> = Vec::new();
+        let mut hits = vec![0usize; kfb];
+        let push = |f: Found, all: &mut Vec<sparse::SparseRelation>, hits: &mut Vec<usize>| {
+            let v: Vec<(usize, i64)> = f.v.iter().enumerate().filter(|(_, x)| **x != 0).map(|(i, x)| (i, *x)).collect();
+            for &(c, _) in &v {
+                hits[c] += 1;
+            }
+            let mut exps = f.exps;
+            exps.sort_by_key(|x| x.0);
+            all.push(sparse::SparseRelation { v, exps });
+        };
+        for p in rels.column_primes() {
+            if let Some(f) = rels.free_relation(p)? {
+                push(f, &mut all, &mut hits);
+            }
+        }
+        let max_rounds = MAX_ROUNDS + 40 * kfb;
+        let mut round = 0usize;
+        let mut found: Vec<Found> = Vec::new();
+        let mut attempts = vec![0usize; kfb];
+        let mut cursor = 0usize;
+        let mut want = kfb + KERNEL_EXCESS;
+        let mut precise = PreciseLogs::new();
+        let (solution, units, ratio) = loop {
+            while all.len() < want || hits.contains(&0) {
+                round += 1;
+                let aim = if round > kfb + 1 && round.is_multiple_of(2) {
+                    (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| hits[j] == 0 && attempts[j] < 12)
+                } else {
+                    None
+                };
+                match aim {
+                    Some(j) => {
+                        attempts[j] += 1;
+                        cursor = j + 1;
+                        if round > max_rounds {
+                            return Err(Error::new(ErrorKind::Budget, "class group: too many rounds of relation search"));
+                        }
+                        rels.targeted_round(j, attempts[j], &stop, "class group", &mut found)?;
+                    }
+                    None => rels.round(round, max_rounds, &stop, "class group", &mut found)?,
+                }
+                for f in found.drain(..) {
+                    push(f, &mut all, &mut hits);
+                }
+            }
+            let core = sparse::eliminate(&all, kfb, &stop);
+            if stop() {
+                return Err(budget());
+            }
+            let Some(sol) = sparse::solve_core(&core, &stop) else {
+                if stop() {
+                    return Err(budget());
+                }
+                want = all.len() + 8 + kfb / 16;
+                continue;
+            };
+            let h: f64 = sol.hermite.iter().enumerate().map(|(i, row)| f64::rounding_from(&row[i], RoundingMode::Nearest).0).product();
+            // kernels of B and a growing number of the other rows, until h R matches
+            let mut count = KERNEL_EXCESS.min(sol.others.len());
+            let mut accepted = None;
+            let mut last_reg: Option<f64> = None;
+            loop {
+                let Some(kernel) = sol.kernel(&core, count, &stop) else {
+                    if stop() {
+                        return Err(budget());
+                    }
+                    break;
+                };
+                let mut src = LogSource { k: self, table: &rels.table, elems: &rels.elems, precise: &mut precise };
+                let mut cands: Vec<Row> = Vec::new();
+                for exps in core.units.iter().map(|u| wide(u)).chain(kernel.iter().map(|kv| {
+                    let mut exps: Vec<(usize, Integer)> = Vec::new();
+                    for (ci, x) in kv {
+                        exps = combine(&exps, &Integer::ONE, &wide(&core.exps[*ci]), x);
+                    }
+                    exps
+                })) {
+                    let mut row = Row { v: Vec::new(), logs: vec![0.0; m], exps, err: f64::INFINITY };
+                    if refresh(&mut row, &mut src) {
+                        cands.push(row);
+                    }
+                }
+                if stop() {
+                    return Err(budget());
+                }
+                // smallest logs first, so the later ones are near multiples
+                // of the basis; the refused ones are offered again
+                let norm = |u: &Row| u.logs.iter().take(r).map(|x| x * x).sum::<f64>();
+                cands.sort_by(|a, b| norm(a).total_cmp(&norm(b)));
+                let mut units = UnitLattice { r, basis: Vec::new(), torsion: Vec::new() };
+                for _pass in 0..3 {
+                    let mut refused = Vec::new();
+                    for u in cands.drain(..) {
+                        let keep = Row { v: Vec::new(), logs: u.logs.clone(), exps: u.exps.clone(), err: u.err };
+                        if !units.add(u, &mut src) {
+                            refused.push(keep);
+                        }
+                    }
+                    if refused.is_empty() {
+                        break;
+                    }
+                    cands = refused;
+                }
+                if units.basis.len() == r {
+                    let reg = if r == 0 { 1.0 } else { units.det() };
+                    let ratio = h * reg / target;
+                    if ratio < 1.5 {
+                        accepted = Some((units, ratio));
+                        break;
+                    }
+                }
+                if count >= sol.others.len() {
+                    break;
+                }
+                // a full unit lattice that more kernel vectors did not
+                // change: h* is what is too large, more relations are needed
+                if units.basis.len() == r && r > 0 {
+                    let reg = units.det();
+                    if last_reg.is_some_and(|x| (x - reg).abs() < 1e-9 * reg) {
+                        break;
+                    }
+                    last_reg = Some(reg);
+                }
+                count = (2 * count).min(sol.others.len());
+            }
+            if let Some((units, ratio)) = accepted {
+                break (sol, units, ratio);
+            }
+            want = all.len() + 8 + kfb / 8;
+        };
+        if ratio < 0.6 {
+            return Err(Error::new(ErrorKind::InvalidValue, format!("h R below the analytic estimate (ratio {ratio}): inconsistent data")));
+        }
+        rels.verify_all(&stop)?;
+        let structure = smith_invariants(&solution.hermite);
+        let class_number = structure.iter().fold(Integer::ONE, |a, d| a * d);
+        let mut units = units;
+        {
+            let mut src = LogSource { k: self, table: &rels.table, elems: &rels.elems, precise: &mut precise };
+            units.shorten(&mut src, &stop);
+        }
+        let rel_elems = &rels.elems;
+        let unit_products: Vec<WideProduct> = units.basis.iter().map(|u| WideProduct::new(u.exps.iter().map(|(i, e)| (rel_elems[*i].clone(), e.clone())).collect())).collect();
+        let unit_list: Vec<CompactProduct> = unit_products.iter().map(WideProduct::to_compact).collect::<Option<Vec<_>>>().unwrap_or_default();
+        let regulator = if r == 0 { 1.0 } else { units.det() };
+        Ok(ClassGroup {
+            structure,
+            class_number,
+            regulator,
+            units: unit_list,
+            unit_products,
+            roots_of_unity: w,
+            torsion_generator: zeta,
+            factor_base: rels.fb,
+            bound: b0,
+            generation_bound: gen_bound,
+            bound_kind: kind,
+            analytic_ratio: ratio,
+            echelon: solution.hermite,
+        })
+    }
+}
+
+#[cfg(test)]
+mod route_tests {
+    use super::*;
+
+    fn field(a: i64, b: i64) -> NumberField {
+        NumberField::new(&[Integer::from(b), Integer::from(a), Integer::ZERO, Integer::ONE]).unwrap()
+    }
+
+    #[test]
+    fn both_routes_agree() {
+        // two ways: the echelon route and the kernel route (sparse
+        // elimination, Hermite form modulo the determinant, integral
+        // kernel) give the same class group and regulator
+        for (a, b) in [(1, -1), (10, 13), (31, -57), (-103, 7), (1234, 56789), (-3001, 5077), (6007, 203017)] {
+            let k = field(a, b);
+            let mut o1 = ClassGroupOptions::default();
+            o1.route = Route::Echelon;
+            let mut o2 = ClassGroupOptions::default();
+            o2.route = Route::Kernel;
+            let c1 = k.class_group(&o1).unwrap();
+            let c2 = k.class_group(&o2).unwrap();
+            assert_eq!(c1.structure, c2.structure, "x^3 + {a} x + {b}");
+            assert!((c1.regulator - c2.regulator).abs() < 1e-6 * c1.regulator, "x^3 + {a} x + {b}: R {} against {}", c1.regulator, c2.regulator);
+            for u in &c2.unit_products {
+                assert!(u.is_unit(&k));
+            }
+        }
+    }
+}

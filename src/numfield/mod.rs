@@ -79,22 +79,24 @@
 //! 10^11, 0.2 s at 10^16, 0.45 s at 10^20, 1 s at 10^24, 1.6 s at 10^25,
 //! 2.8 s at 10^29 (see README for the criterion figures).
 //!
-//! [`NumberField::class_group`] (class number, regulator, units): the
-//! relation echelon keeps exact integer valuations and exponents (nothing
-//! is dropped for size), and the log embedding of a unit is recomputed
+//! [`NumberField::class_group`] (class number, regulator, units): below 12
+//! digits of `|d|` the relation echelon keeps exact integer valuations and
+//! exponents; from 12 digits on the relations go through structured sparse
+//! elimination with pivots `+-1`, the class group comes from the Hermite
+//! form of the small dense core modulo a determinant, and the units from
+//! the integral kernel of the core (`sparse.rs`), so their exponents stay
+//! near the size the unit needs. The log embedding of a unit is recomputed
 //! from its net exponents in f64 while the error bound allows, else at the
-//! precision those exponents need (`precise.rs`). Single runs of
-//! `examples/fieldprobe.rs` (release, shared machine): `x^3 + 1234 x +
-//! 56789` (-9.5e10, h = 2, R = 34204) in 0.5 s, -5.9e11 (h = 2) in 0.3 s,
-//! `x^3 + 45013 x + 3000017` (-6.1e14, h = 4, R = 508064) in 1.1 s,
-//! `x^3 + 123457 x + 9876541` (-1.0e16, h = 16, R = 498329) in 4.2 s, all
-//! with Bach's bound (GRH). Units whose exponents pass 64 bits (751 bits
-//! at 1e16) are handed out as [`WideProduct`]s only
-//! ([`ClassGroup::unit_products`]; [`ClassGroup::units`] is then empty).
-//! At about 10^20 the exponents of the echelon rows reach some 1900 bits
-//! and the unit search does not finish in 60 s: the answer is an
-//! [`ErrorKind::Budget`](crate::ErrorKind::Budget) error, never a wrong
-//! one.
+//! precision those exponents need (`precise.rs`). User CPU time of single
+//! runs of `examples/fieldprobe.rs` (release, machine loaded by other
+//! jobs): `x^3 + 123457 x + 9876541` (-1.0e16, h = 16, R = 498329) in
+//! about 0.2 s, `x^3 + 2345678 x + 1234567891` (-9.3e19, h = 4,
+//! R = 6.16e8) in 0.15 s, `x^3 + 98765431 x + 1234567890123` (-4.5e25,
+//! h = 36, R = 1.68e10) in 3.4 s, all with Bach's bound (GRH). Units whose
+//! exponents pass 64 bits (141 bits at 4.5e25) are handed out as
+//! [`WideProduct`]s only ([`ClassGroup::unit_products`];
+//! [`ClassGroup::units`] is then empty). Around 10^28 the relation search
+//! and the kernels take minutes: a budget error, never a wrong answer.
 //! Primes above 2^63 in Round 2 or decompositions give
 //! [`ErrorKind::TooLarge`](crate::ErrorKind::TooLarge).
 
@@ -111,6 +113,7 @@ mod classgroup;
 mod sunits;
 mod relations;
 mod modular;
+mod sparse;
 mod precise;
 mod lattice;
 mod wide;

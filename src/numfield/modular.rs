@@ -11,9 +11,9 @@
 //! their product exceeds twice Hadamard's bound on the result, and the
 //! caller checks `y B = D v` exactly all the same.
 //!
-//! Groundwork for the class group at large discriminants (not yet wired
-//! in: kernel vectors of small relations turned out to give only roots of
-//! unity, so the units still come from the incremental echelon).
+//! Used by the kernel route of the class group (`sparse.rs`): the
+//! determinant of `n` independent core rows and the Cramer solutions for
+//! the other rows, from which the integral kernel is read modulo `det B`.
 #![cfg_attr(not(test), allow(dead_code))]
 
 use crate::arith::{inv_mod, is_prime_u64, mul_mod};

@@ -379,6 +379,10 @@ pub(crate) struct RelationSearch<'a> {
     line_roots: HashMap<Key, Option<u64>>,
     /// Per prime ideal: where its line search goes on (`b`, index of `a`).
     line_pos: HashMap<Key, (i64, i64)>,
+    /// Skip coefficient vectors with a common factor and `-a` of a known
+    /// `a` (the kernel route: such relations only add roots of unity to
+    /// its kernel; the echelon route finds units among them).
+    pub(crate) primitive_only: bool,
 }
 
 enum Goal {
@@ -412,6 +416,7 @@ impl<'a> RelationSearch<'a> {
             state: 0x2545f4914f6cdd1d,
             line_roots: HashMap::new(),
             line_pos: HashMap::new(),
+            primitive_only: false,
         };
         let mut base: Vec<(u128, Key)> = Vec::new();
         for p in s.small.clone() {
@@ -598,6 +603,11 @@ impl<'a> RelationSearch<'a> {
                 Some(&x) if x > 0 => {}
                 _ => continue,
             }
+            // primitive vectors only (kernel route): g (c / g) is the
+            // relation of c / g times the rational g, nothing new
+            if self.primitive_only && c.iter().fold(0u64, |g, &x| crate::arith::gcd_u64(g, x.unsigned_abs())) != 1 {
+                continue;
+            }
             let val = form.eval(&c).unsigned_abs();
             if val == 0 || val % norm_i != 0 {
                 continue;
@@ -715,6 +725,11 @@ impl<'a> RelationSearch<'a> {
     #[allow(clippy::too_many_arguments)]
     fn take(&mut self, a: Element, val: u128, v: u128, cof: u128, ideal_primes: &[u64], goal: &Goal, out: &mut Vec<Found>) -> Result<bool, Error> {
         let k = self.k;
+        // a and -a are one relation (their quotient is a root of unity;
+        // kernel route only, the others keep their old behaviour)
+        if self.primitive_only && self.seen.contains(&k.mul(&k.rational(&Rational::from(-1)), &a)) {
+            return Ok(false);
+        }
         if !self.seen.insert(a.clone()) {
             return Ok(false);
         }
