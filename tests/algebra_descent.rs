@@ -671,3 +671,57 @@ fn sel2_of_every_wider_row() {
     }
     assert_eq!(over5, 0, "rows over 5 s");
 }
+
+/// The two routes to `Sel^2(E)` on the rows of a published table
+/// (tests/data/README.md): on every row where the quartic enumeration
+/// (`full_descent`, given half a second) finishes, its dim Sel^2 equals the
+/// algebra route's, whatever the shape of the algebra. Returns (rows
+/// compared, rows where the enumeration did not finish).
+fn sel2_routes_agree(rows: &[common::Row]) -> (usize, usize) {
+    let work = Work::unlimited();
+    let opts = RankOptions::default().with_evidence(false).with_time_limit(std::time::Duration::from_millis(500));
+    let (mut compared, mut unfinished) = (0, 0);
+    for r in rows {
+        let e = Curve::from_coefficients(r.coefficients).unwrap();
+        let data = CurveData::new(&e, &work).unwrap();
+        let m = data.minimal().clone();
+        let t = TorsionGroup::compute(&m, data.bad_primes());
+        let d = two_selmer_over_algebra(&m, &t, data.bad_primes(), &work).unwrap_or_else(|err| panic!("{:?}: {err}", r.coefficients)).expect("every shape is handled");
+        match twofold::descent::full::full_descent(&m, &opts) {
+            Ok(f) => match f.selmer_dim {
+                Some(q) => {
+                    assert_eq!(q, d.selmer_dim, "{:?}: Sel^2 by the quartic enumeration and by the algebra", r.coefficients);
+                    compared += 1;
+                }
+                None => unfinished += 1,
+            },
+            Err(err) if *err.kind() == twofold::ErrorKind::Budget => unfinished += 1,
+            Err(err) => panic!("{:?}: the quartic enumeration failed: {err}", r.coefficients),
+        }
+    }
+    (compared, unfinished)
+}
+
+/// Both routes to Sel^2 on every curve of both tables (Cremona 1997, Table 1,
+/// and the list of curves with non-trivial Sha), all three shapes.
+#[test]
+fn sel2_routes_agree_on_the_tables() {
+    let mut rows = common::read_table("curves-small-conductor.tsv");
+    rows.extend(common::read_table("curves-with-sha.tsv"));
+    let (compared, unfinished) = sel2_routes_agree(&rows);
+    eprintln!("{} rows: {compared} compared, {unfinished} unfinished", rows.len());
+    // 582 of 595 compared at load 4 (eleventh session); the cap is wall time, so load lowers it
+    assert!(compared >= 500, "only {compared} of {} rows compared", rows.len());
+}
+
+/// Both routes on curves-wider.tsv (published table). Five minutes at load
+/// 4 (eleventh session: 1,236 of 2,154 rows compared, all equal; the
+/// enumeration did not finish in 0.5 s on the other 918): `--ignored`.
+#[test]
+#[ignore]
+fn sel2_routes_agree_on_wider_rows() {
+    let rows = common::read_table("curves-wider.tsv");
+    let (compared, unfinished) = sel2_routes_agree(&rows);
+    println!("{} rows: {compared} compared with the quartic enumeration, {unfinished} where it did not finish in 0.5 s", rows.len());
+    assert!(compared > 0);
+}
