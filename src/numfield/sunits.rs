@@ -342,6 +342,9 @@ impl NumberField {
         let gen_bound = bound.floor() as u64;
         let b0 = (base_bound(self) / 2).min(gen_bound).max(MIN_FACTOR_BASE_BOUND);
         let mut rels = RelationSearch::new(self, b0, gen_bound, &s_primes, &stop)?;
+        // `-a` and `g a` (g an integer) are never independent of `a` modulo
+        // squares, the root of unity and the free relations: skip them
+        rels.primitive_only = true;
         let kfb = rels.fb.len();
         let target = kfb + self.r1 + self.r2;
         let fb_words = kfb.div_ceil(64);
