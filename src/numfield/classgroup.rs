@@ -847,20 +847,24 @@ impl NumberField {
         }
     }
 
-    fn class_group_by_echelon(&self, opts: &ClassGroupOptions, extra_primes: &[u64]) -> Result<ClassGroup, Error> {
-        let stop = || opts.cancel.as_ref().is_some_and(|c| c.load(Ordering::Relaxed)) || opts.deadline.is_some_and(|d| Instant::now() >= d);
-        let budget = || Error::new(ErrorKind::Budget, "class group: budget exhausted");
+    /// The bound up to which the prime ideals must be shown to lie in the
+    /// group the factor base generates: Minkowski's (unconditional) when the
+    /// caller asks for it or when it is the smaller, else Bach's (GRH);
+    /// [`ErrorKind::TooLarge`] above 1e8.
+    pub(crate) fn generation_bound(&self, opts: &ClassGroupOptions) -> Result<(u64, FactorBaseBound), Error> {
         let mink = self.minkowski_bound();
         let bach = self.bach_bound();
-        let (bound, kind) = if opts.unconditional || mink <= bach {
-            (mink, FactorBaseBound::Minkowski)
-        } else {
-            (bach, FactorBaseBound::BachGrh)
-        };
+        let (bound, kind) = if opts.unconditional || mink <= bach { (mink, FactorBaseBound::Minkowski) } else { (bach, FactorBaseBound::BachGrh) };
         if bound > 1e8 {
             return Err(Error::new(ErrorKind::TooLarge, format!("factor base bound {bound:.3e} too large")));
         }
-        let gen_bound = bound.floor() as u64;
+        Ok((bound.floor() as u64, kind))
+    }
+
+    fn class_group_by_echelon(&self, opts: &ClassGroupOptions, extra_primes: &[u64]) -> Result<ClassGroup, Error> {
+        let stop = || opts.cancel.as_ref().is_some_and(|c| c.load(Ordering::Relaxed)) || opts.deadline.is_some_and(|d| Instant::now() >= d);
+        let budget = || Error::new(ErrorKind::Budget, "class group: budget exhausted");
+        let (gen_bound, kind) = self.generation_bound(opts)?;
         let b0 = base_bound(self).min(gen_bound).max(MIN_FACTOR_BASE_BOUND);
         let mut rels = RelationSearch::new(self, b0, gen_bound, extra_primes, &stop)?;
         let kfb = rels.fb.len();
@@ -1021,17 +1025,7 @@ impl NumberField {
     fn class_group_by_kernel(&self, opts: &ClassGroupOptions, extra_primes: &[u64]) -> Result<ClassGroup, Error> {
         let stop = || opts.cancel.as_ref().is_some_and(|c| c.load(Ordering::Relaxed)) || opts.deadline.is_some_and(|d| Instant::now() >= d);
         let budget = || Error::new(ErrorKind::Budget, "class group: budget exhausted");
-        let mink = self.minkowski_bound();
-        let bach = self.bach_bound();
-        let (bound, kind) = if opts.unconditional || mink <= bach {
-            (mink, FactorBaseBound::Minkowski)
-        } else {
-            (bach, FactorBaseBound::BachGrh)
-        };
-        if bound > 1e8 {
-            return Err(Error::new(ErrorKind::TooLarge, format!("factor base bound {bound:.3e} too large")));
-        }
-        let gen_bound = bound.floor() as u64;
+        let (gen_bound, kind) = self.generation_bound(opts)?;
         let b0 = base_bound(self).min(gen_bound).max(MIN_FACTOR_BASE_BOUND);
         let mut rels = RelationSearch::new(self, b0, gen_bound, extra_primes, &stop)?;
         rels.primitive_only = true;

@@ -333,13 +333,7 @@ impl NumberField {
                 return Err(Error::new(ErrorKind::InvalidValue, format!("{p} is not a prime")));
             }
         }
-        let mink = self.minkowski_bound();
-        let bach = self.bach_bound();
-        let (bound, kind) = if opts.unconditional || mink <= bach { (mink, FactorBaseBound::Minkowski) } else { (bach, FactorBaseBound::BachGrh) };
-        if bound > 1e8 {
-            return Err(Error::new(ErrorKind::TooLarge, format!("generation bound {bound:.3e} too large")));
-        }
-        let gen_bound = bound.floor() as u64;
+        let (gen_bound, kind) = self.generation_bound(opts)?;
         let b0 = (base_bound(self) / 2).min(gen_bound).max(MIN_FACTOR_BASE_BOUND);
         let mut rels = RelationSearch::new(self, b0, gen_bound, &s_primes, &stop)?;
         // `-a` and `g a` (g an integer) are never independent of `a` modulo
