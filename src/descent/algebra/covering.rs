@@ -654,3 +654,54 @@ fn reduced_covering(curve: &Curve, ctx: &CoveringContext, mask: u64, limits: &Fa
     })?;
     Ok(reduce(&m.quartic).0)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The square test of `Q(sqrt D)` against squares built by hand:
+    /// `(x + y sqrt D)^2` is a square, and `c (x + y sqrt D)^2` is not for
+    /// `c` a non-square of `Q(sqrt D)` (a prime that does not divide `D`,
+    /// and `-1` in a real field).
+    #[test]
+    fn squares_of_quadratic_fields() {
+        for d in [-7i64, -1, 2, 5, 6, -15] {
+            let dr = Rational::from(d);
+            for (x, y) in [(1i64, 1i64), (3, -2), (0, 5), (7, 0), (-4, 9), (11, 13)] {
+                let (x, y) = (Rational::from(x), Rational::from(y));
+                let alpha = &x * &x + &dr * &y * &y;
+                let beta = Rational::from(2) * &x * &y;
+                assert!(is_square_quadratic(&alpha, &beta, &dr), "{d} {x} {y}");
+                for c in [Rational::from(11), Rational::from(-1)] {
+                    if c < 0u32 && d < 0 {
+                        continue; // -1 is a norm from Q(sqrt D), maybe a square (D = -1)
+                    }
+                    assert!(!is_square_quadratic(&(&alpha * &c), &(&beta * &c), &dr), "{c} times a square, D = {d}");
+                }
+            }
+        }
+    }
+
+    /// `small_representative` keeps the class: on the even-torsion shapes,
+    /// the product of an element with its small representative is a square
+    /// in `A` (`Q x K`: y^2 = x^3 + x^2 - 188x + 924 (X = 4x), one rational point of
+    /// order 2; `Q^3`: y^2 = x^3 - 36x).
+    #[test]
+    fn small_representatives_keep_the_class() {
+        use crate::torsion::TorsionGroup;
+        use crate::{Curve, CurveData, Work};
+        for c in [[0i64, 1, 0, -188, 924], [0, 0, 0, -36, 0], [0, -1, 0, -5232, -99828]] {
+            let e = Curve::from_coefficients(c).unwrap();
+            let work = Work::unlimited();
+            let data = CurveData::new(&e, &work).unwrap();
+            let t = TorsionGroup::compute(&e, data.bad_primes());
+            let (_, ctx) = super::super::two_selmer_with_context(&e, &t, data.bad_primes(), &work).unwrap().unwrap();
+            for mask in 1u64..(1u64 << ctx.selmer.len()) {
+                let one: AlgElem = [Rational::ONE, Rational::ZERO, Rational::ZERO];
+                let raw = ctx.selmer.iter().enumerate().filter(|(j, _)| mask >> j & 1 == 1).fold(one, |acc, (_, d)| alg_mul(&ctx.cubic, &acc, d));
+                let small = element_of_mask(&ctx, mask);
+                assert!(is_square_in_algebra(&ctx, &alg_mul(&ctx.cubic, &raw, &small)).unwrap(), "{c:?} mask {mask}");
+            }
+        }
+    }
+}
