@@ -740,16 +740,14 @@ fn quartic_invariants(g: &[malachite::Integer; 5]) -> (malachite::Integer, malac
 /// Whether `r` is the `k`-th power of a rational.
 fn is_rational_power(r: &malachite::Rational, k: u64) -> bool {
     use malachite::base::num::arithmetic::traits::CheckedRoot;
-    use malachite::Integer;
     if *r == 0u32 {
         return false;
     }
     let (n, d) = r.to_numerator_and_denominator();
     let neg = *r < 0u32;
-    if neg && k % 2 == 0 {
+    if neg && k.is_multiple_of(2) {
         return false;
     }
-    let _ = Integer::from(0);
     n.checked_root(k).is_some() && d.checked_root(k).is_some()
 }
 
