@@ -15,7 +15,7 @@ mod evidence;
 
 use crate::budget::{RankOptions, Stage, Work};
 use crate::curve::{Curve, Point};
-use crate::descent::algebra::{class_mask, search_coverings, two_selmer_with_context, AlgebraDescent, CubicContext};
+use crate::descent::algebra::{class_mask, search_coverings, torsion_masks, two_selmer_with_context, AlgebraDescent, CoveringContext};
 use crate::descent::full::{full_two_descent, FullDescent};
 use crate::descent::isogeny::{covering_quartic, descend_via_isogeny, IsogenyDescent};
 use crate::error::Error;
@@ -234,7 +234,7 @@ fn descents(
         combine_algebra(report, &runs, full.as_ref(), a)?;
     }
     if let (Some(a), Some(ctx)) = (&algebra, &context) {
-        covering_points(report, data, full.as_ref(), a, ctx, enough, work, unfinished)?;
+        covering_points(report, data, &runs, full.as_ref(), a, ctx, enough, work, unfinished)?;
     }
     report.isogeny_runs = runs;
     report.full_descent = full;
@@ -563,7 +563,7 @@ fn plan_enumeration(options: &RankOptions, enough: Option<usize>, algebra: Optio
 
 /// A finished algebra route, kept so that a second run of the descents
 /// (the Heegner-first plan) does not repeat it.
-type AlgebraOnce = Option<(AlgebraDescent, Option<CubicContext>)>;
+type AlgebraOnce = Option<(AlgebraDescent, CoveringContext)>;
 
 /// The descent over the algebra `Q[X]/(f)` (see [`crate::descent::algebra`]),
 /// or the one kept in `once` from an earlier run; a failure is settled by
@@ -577,15 +577,15 @@ fn algebra_route(
     report: &mut RankReport,
     unfinished: &mut Vec<Statement>,
     once: &mut AlgebraOnce,
-) -> Result<(Option<AlgebraDescent>, Option<CubicContext>), Error> {
+) -> Result<(Option<AlgebraDescent>, Option<CoveringContext>), Error> {
     if let Some((a, c)) = once {
-        return Ok((Some(a.clone()), c.clone()));
+        return Ok((Some(a.clone()), Some(c.clone())));
     }
     work.report(Stage::Solubility, "Sel^2(E) over the algebra Q[X]/(f)");
     match two_selmer_with_context(minimal, torsion, primes, work) {
         Ok(Some((a, c))) => {
             *once = Some((a.clone(), c.clone()));
-            Ok((Some(a), c))
+            Ok((Some(a), Some(c)))
         }
         Ok(None) => Ok((None, None)),
         Err(e) => {
@@ -595,23 +595,27 @@ fn algebra_route(
     }
 }
 
-/// The heights the 2-coverings of the cubic route are searched to, in turn.
+/// The heights the 2-coverings of the algebra route are searched to, in turn.
 const COVERING_HEIGHTS: [u64; 3] = [128, 1024, 8192];
 
-/// Points from the 2-coverings of the cubic route's Selmer elements (see
-/// `descent::algebra::covering`), when the lower bound is below the
-/// route's bound (or the proven analytic rank, if smaller): the classes of
-/// the points already found are taken out, the other elements' coverings
-/// are searched within half of the time left, and every point found is
-/// checked on the curve and in its class. Without rational 2-torsion,
-/// points of independent classes are independent in `E(Q)/2E(Q)`.
+/// Points from the 2-coverings of the algebra route's Selmer elements (see
+/// `descent::algebra::covering`; every shape of the algebra), when the
+/// lower bound is below the route's bound (or the proven analytic rank, if
+/// smaller): the classes of the torsion points and of the points already
+/// found (the isogeny descents' and the quartic route's) are taken out,
+/// the other elements' coverings are searched within half of the time
+/// left, and every point found is checked on the curve and in its class.
+/// `E(Q)/2E(Q)` injects into `Sel^2(E)` and the torsion points' classes
+/// span `dim E(Q)[2]` dimensions, so points whose classes are independent
+/// modulo those of the torsion are independent modulo torsion.
 #[allow(clippy::too_many_arguments)]
 fn covering_points(
     report: &mut RankReport,
     data: &CurveData,
+    runs: &[IsogenyDescent],
     full: Option<&FullDescent>,
     a: &AlgebraDescent,
-    ctx: &CubicContext,
+    ctx: &CoveringContext,
     enough: Option<usize>,
     work: &Work,
     unfinished: &mut Vec<Statement>,
@@ -623,8 +627,13 @@ fn covering_points(
     }
     work.report(Stage::Solubility, "points on the 2-coverings of Sel^2(E)");
     let mut span = crate::descent::f2::F2Span::new();
+    for m in torsion_masks(ctx)? {
+        span.insert(m);
+    }
+    let torsion_dim = span.dim();
     let mut chosen: Vec<Point> = Vec::new();
-    for p in full.map(|f| f.points.as_slice()).unwrap_or(&[]) {
+    let known = runs.iter().flat_map(|r| r.points.iter()).chain(full.map(|f| f.points.as_slice()).unwrap_or(&[]));
+    for p in known {
         let Point::Affine(x, _) = p else { continue };
         match class_mask(ctx, x)? {
             Some(m) => {
@@ -636,26 +645,26 @@ fn covering_points(
         }
     }
     let share = work.share(0.5);
-    let runs = match search_coverings(data.minimal(), ctx, span.basis(), goal, &COVERING_HEIGHTS, &share) {
+    let known: Vec<u64> = span.basis().to_vec();
+    let found = match search_coverings(data.minimal(), ctx, &known, goal, &COVERING_HEIGHTS, &share) {
         Ok(r) => r,
         Err(e) => {
             stage_failure("the 2-covering search", e, report, unfinished)?;
             return Ok(());
         }
     };
-    for r in runs {
+    for r in found {
         if let Some(p) = r.point {
             if span.insert(r.mask) {
                 chosen.push(p);
             }
         }
     }
+    debug_assert_eq!(chosen.len(), span.dim() - torsion_dim);
     if chosen.len() > lower {
         report.rank_lower = Some(chosen.len());
         report.points = chosen.iter().map(|p| data.to_input(p)).collect();
-        report.independence =
-            "their images in Sel^2(E), in (Q[X]/f(X))*/squares, are independent and E(Q)[2] is trivial (points found on the 2-coverings of the Selmer elements)"
-                .to_string();
+        report.independence = "their images in Sel^2(E), in (Q[X]/f(X))*/squares, are independent modulo the images of the torsion points (points found on the 2-coverings of the Selmer elements)".to_string();
     }
     Ok(())
 }

@@ -52,7 +52,8 @@ mod selmer;
 
 pub use selmer::image_pair;
 pub use covering::CoveringRun;
-pub(crate) use covering::{class_mask, search_coverings, CubicContext};
+pub(crate) use covering::{class_mask, search_coverings, torsion_masks, CoveringContext};
+use covering::{alg_mul, AlgElem, Factors};
 
 use crate::budget::Work;
 use crate::curve::{Curve, Point};
@@ -201,14 +202,14 @@ pub fn two_selmer_over_algebra(
     Ok(two_selmer_with_context(curve, torsion, primes, work)?.map(|(d, _)| d))
 }
 
-/// As [`two_selmer_over_algebra`], with the cubic field and the explicit
-/// Selmer basis when `A = K` is a cubic field (for the 2-coverings).
+/// As [`two_selmer_over_algebra`], with what the 2-coverings of the
+/// Selmer elements need (the algebra, an explicit basis, the torsion).
 pub(crate) fn two_selmer_with_context(
     curve: &Curve,
     torsion: &TorsionGroup,
     primes: &[Natural],
     work: &Work,
-) -> Result<Option<(AlgebraDescent, Option<CubicContext>)>, Error> {
+) -> Result<Option<(AlgebraDescent, CoveringContext)>, Error> {
     let cubic = monic_cubic(curve);
     let roots: Vec<Integer> = torsion
         .two_torsion()
@@ -228,29 +229,56 @@ pub(crate) fn two_selmer_with_context(
             return Err(Error::internal("the algebra descent", "a point of order 2 is not a root of the monic cubic"));
         }
     }
-    match roots.len() {
-        3 => {}
+    let torsion_points: Vec<Point> = torsion.points().iter().filter(|p| matches!(p, Point::Affine(..))).cloned().collect();
+    let s = s_primes(&cubic, &roots, primes)?;
+    let rational_roots: Vec<Rational> = roots.iter().cloned().map(Rational::from).collect();
+    let (d, factors, explicit) = match roots.len() {
+        3 => {
+            let d = selmer::three_rational(cubic.clone(), [roots[0].clone(), roots[1].clone(), roots[2].clone()], s, work)?;
+            (d, Factors::Split { roots: rational_roots, quadratic: None }, None)
+        }
         1 => {
-            let s = s_primes(&cubic, &roots, primes)?;
-            return quadratic::rational_times_quadratic(cubic, roots[0].clone(), s, work).map(|d| Some((d, None)));
+            let d = quadratic::rational_times_quadratic(cubic.clone(), roots[0].clone(), s, work)?;
+            // f = (X - e)(X^2 + u X + w)
+            let e = &rational_roots[0];
+            let u = Rational::from(cubic[2].clone()) + e;
+            let w = Rational::from(cubic[1].clone()) + e * &u;
+            (d, Factors::Split { roots: rational_roots, quadratic: Some((u, w)) }, None)
         }
         0 => {
-            let s = s_primes(&cubic, &roots, primes)?;
-            return cubic::cubic_field(cubic, s, work).map(|(d, c)| Some((d, Some(c))));
+            let (d, c) = cubic::cubic_field(cubic.clone(), s, work)?;
+            let basis: Vec<AlgElem> = c
+                .selmer
+                .iter()
+                .map(|el| {
+                    let v = c.k.to_power_basis(el);
+                    std::array::from_fn(|i| v.get(i).cloned().unwrap_or(Rational::ZERO))
+                })
+                .collect();
+            (d, Factors::Field(c.k), Some(basis))
         }
         _ => return Err(Error::internal("the algebra descent", "two points of order 2 without the third")),
-    }
-    let s = s_primes(&cubic, &roots, primes)?;
-    selmer::three_rational(cubic, [roots[0].clone(), roots[1].clone(), roots[2].clone()], s, work).map(|d| Some((d, None)))
+    };
+    // the Selmer basis as explicit elements: products of the candidates
+    let selmer = explicit.unwrap_or_else(|| {
+        let one: AlgElem = [Rational::ONE, Rational::ZERO, Rational::ZERO];
+        d.selmer_masks
+            .iter()
+            .map(|&m| d.candidates.iter().enumerate().filter(|(j, _)| m >> j & 1 == 1).fold(one.clone(), |acc, (_, c)| alg_mul(&cubic, &acc, c)))
+            .collect()
+    });
+    let ctx = CoveringContext { cubic, factors, selmer, torsion: torsion_points, primes: d.primes.clone() };
+    Ok(Some((d, ctx)))
 }
 
-/// For a curve without rational 2-torsion: `Sel^2(E)` over the cubic field
-/// and a search for points on the 2-coverings of its elements (each
-/// element's conic, quartic, minimisation and reduction: see
-/// `covering.rs`), at the heights `heights` in turn, until the classes
-/// found span `Sel^2(E)` or `work` runs out. `Ok(None)` for a curve with
-/// rational 2-torsion. Every point returned is on `curve` and of the class
-/// of its element (an internal error otherwise).
+/// `Sel^2(E)` over the algebra and a search for points on the 2-coverings
+/// of its elements (each element's conic, quartic, minimisation and
+/// reduction: see `covering.rs`), at the heights `heights` in turn, until
+/// the classes found, with those of the torsion points, span `Sel^2(E)` or
+/// `work` runs out. Every shape of the algebra (`K` cubic, `Q x K`,
+/// `Q x Q x Q`). Every point returned is on `curve` and of the class of
+/// its element (an internal error otherwise); the elements whose classes
+/// the torsion points explain are not searched.
 ///
 /// ```
 /// use twofold::descent::algebra::points_on_coverings;
@@ -272,8 +300,8 @@ pub fn points_on_coverings(
     heights: &[u64],
     work: &Work,
 ) -> Result<Option<(AlgebraDescent, Vec<CoveringRun>)>, Error> {
-    let Some((d, Some(ctx))) = two_selmer_with_context(curve, torsion, primes, work)? else { return Ok(None) };
-    let runs = search_coverings(curve, &ctx, &[], d.selmer_dim, heights, work)?;
+    let Some((d, ctx)) = two_selmer_with_context(curve, torsion, primes, work)? else { return Ok(None) };
+    let runs = search_coverings(curve, &ctx, &[], d.upper, heights, work)?;
     Ok(Some((d, runs)))
 }
 
