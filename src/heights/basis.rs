@@ -517,6 +517,9 @@ fn divide(
     let g = combination(curve, vecs, &coeffs);
     let hg = to_f64(&height_unchecked(curve, local, &g, 64)?);
     let target = hg / (p * p) as f64;
+    if let Some(q) = divide_by_logarithm(curve, &g, p, target + bdiff.max(0.0) + 1.0, torsion, options)? {
+        return Ok(Some((j, q)));
+    }
     let l = target + bdiff + 1e-6;
     if l > (options.max_search_height as f64).ln() {
         return Ok(None);
@@ -534,6 +537,34 @@ fn divide(
         }
     }
     Ok(None)
+}
+
+/// The p-th part of `g` through the elliptic logarithm: a point `Q` with
+/// `p Q - g` torsion whose x-coordinate has naive height at most `height`
+/// (nats), found among the real points `(log g + log T + λ) / p`, `λ` in
+/// the period lattice (J. E. Cremona, Algorithms for Modular Elliptic
+/// Curves, 2nd ed., 1997, §3.5-3.6 for the elliptic logarithm and the
+/// division of points; the group law as in Silverman and Tate, Rational
+/// Points on Elliptic Curves, 1992). The precision, `3 height / log 2 + 64`
+/// bits, is enough for continued fractions to find `x(Q) = m / d^2`; every
+/// candidate is checked exactly. `None` when no such point was found
+/// (which proves nothing), also when `height` asks for more than 40,000
+/// bits or the budget runs out.
+fn divide_by_logarithm(curve: &Curve, g: &Point, p: u64, height: f64, torsion: &TorsionGroup, options: &SaturationOptions) -> Result<Option<Point>, Error> {
+    use super::elliptic::{torsion_shifts, Uniformisation};
+    let bits = (3.0 * height / std::f64::consts::LN_2) as u64 + 64;
+    if !height.is_finite() || bits > 40_000 || options.out_of_time() {
+        return Ok(None);
+    }
+    let u = Uniformisation::new(curve, bits)?;
+    let tors: Vec<Point> = torsion.points().to_vec();
+    let logs = if (tors.len() as u64).is_multiple_of(p) {
+        let b2 = malachite::Rational::from(curve.b_invariants()[0].clone());
+        torsion_shifts(curve, &tors, u.lattice(), &b2, u.precision())
+    } else {
+        vec![]
+    };
+    Ok(u.divide(curve, g, p, &tors, &logs, height, &|| options.out_of_time()))
 }
 
 /// Siksek's p-saturation test on its own: `Ok(true)` when the span of
