@@ -686,3 +686,25 @@ fn siksek_primes_one_mod_p() {
     assert!(e.contains(&p));
     assert!(is_p_saturated(&e, &local, &[p], 3, 20_000).unwrap());
 }
+
+/// The index bound when the difference bound (here 12.3 and 13.9) lies
+/// above the log of the largest search height (log 200,000 = 12.2): the
+/// height lower bound comes from the points on the identity components
+/// (archimedean part only), divided by the square of the lcm of the
+/// Tamagawa numbers. Rows of curves-wider.tsv, published rank 1 (conductors
+/// 7176 and 130050); the points are the library's own, checked on the curve.
+#[test]
+fn index_bound_through_the_identity_components() {
+    for (a, primes, x, y) in [
+        ([0, -1, 0, -694824, -1554128676], vec![2, 3, 13, 23], "144709/9", "54962180/27"),
+        ([1, -1, 1, 37648120, 248679105747], vec![2, 3, 5, 17], "218879", "102333285"),
+    ] {
+        let (e, local) = curve(a, &primes);
+        let p = Point::Affine(x.parse().unwrap(), y.parse().unwrap());
+        assert!(e.contains(&p));
+        assert!(local_height_bound(&e, &local) > (200_000f64).ln());
+        let b = mordell_weil_basis(&e, &[p], &local, 96, &SaturationOptions::default()).unwrap();
+        assert!(b.saturation.is_saturated(), "{a:?}: {}", b.saturation);
+        assert!(b.saturation.note.contains("identity components"), "{}", b.saturation.note);
+    }
+}
