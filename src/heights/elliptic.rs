@@ -56,7 +56,6 @@ pub(crate) fn log2_abs(x: &Float) -> i64 {
     }
 }
 
-
 /// The period lattice as two complex periods with the real-locus data.
 pub(crate) struct Lattice {
     w1: Cx,
@@ -67,12 +66,7 @@ pub(crate) struct Lattice {
 
 impl Lattice {
     pub(crate) fn new(l: &PeriodLattice, prec: u64) -> Lattice {
-        Lattice {
-            w1: Cx::real(l.omega1.clone()),
-            w2: Cx::new(l.omega2_re.clone(), l.omega2_im.clone()),
-            positive: l.real_components == 2,
-            prec,
-        }
+        Lattice { w1: Cx::real(l.omega1.clone()), w2: Cx::new(l.omega2_re.clone(), l.omega2_im.clone()), positive: l.real_components == 2, prec }
     }
 
     /// The working precision in bits.

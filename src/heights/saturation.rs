@@ -285,6 +285,10 @@ fn noncyclic_functionals(mc: &ModCurve, n: u64, p: u64, red: &[ModPt]) -> Option
         return None;
     }
     let pa = p.checked_pow(a)?;
+    if pa > 1 << 16 {
+        // (the table of <g1> would be large; such q are skipped)
+        return None;
+    }
     let mut cyc = std::collections::HashSet::with_capacity(pa as usize);
     let mut acc: ModPt = None;
     for _ in 0..pa {
