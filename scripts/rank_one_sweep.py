@@ -10,7 +10,8 @@ Usage: rank_one_sweep.py RANK_CMD TABLE LO-HI [LO-HI ...]
 The table's published ranks (J. E. Cremona's open tables extending
 Algorithms for Modular Elliptic Curves, 1997; see ../shared/data/README.md)
 are the reference: a row counts as a hit when the number of independent
-points reported equals the published rank.
+points reported equals the published rank; each row also says whether the
+report carries a saturated basis (`saturated_basis`).
 """
 import json, shlex, subprocess, sys, threading, time
 
@@ -30,7 +31,7 @@ def main():
     feeder = threading.Thread(target=lambda: (proc.stdin.write("".join(f"[{','.join(map(str, c))}]\n" for _, c in rows)), proc.stdin.close()))
     feeder.start()
     start = time.time()
-    hits, misses = 0, []
+    hits, misses, unsat = 0, [], 0
     for (n, c) in rows:
         line = proc.stdout.readline()
         if not line:
@@ -41,9 +42,11 @@ def main():
         hits += ok
         if not ok:
             misses.append((n, c))
-        print(f"{n}\t{c}\t{'hit' if ok else 'MISS'}\t{r.get('elapsed_ms')} ms\tcut_short={r.get('budget_exhausted')}", flush=True)
+        sat = "saturated" if r.get("saturated_basis") else "unsaturated"
+        unsat += ok and not r.get("saturated_basis")
+        print(f"{n}\t{c}\t{'hit' if ok else 'MISS'}\t{sat}\t{r.get('elapsed_ms')} ms\tcut_short={r.get('budget_exhausted')}", flush=True)
     feeder.join()
     proc.wait()
-    print(f"# {hits}/{len(rows)} rank-one rows got a point; {len(misses)} misses; {time.time() - start:.0f} s wall")
+    print(f"# {hits}/{len(rows)} rank-one rows got a point; {len(misses)} misses; {unsat} with a point but no saturated basis; {time.time() - start:.0f} s wall")
 
 main()

@@ -71,7 +71,7 @@ use crate::heights::real::{fi, to_f64, Cx};
 use crate::heights::{canonical_height_of, height_difference_bound, mordell_weil_basis_of, PeriodLattice, Saturation, SaturationOptions};
 use crate::local::{CurveData, LocalData};
 use crate::torsion::TorsionGroup;
-use analytic::Lattice;
+use crate::heights::elliptic::{recognise, torsion_shifts, Lattice};
 use spend::{Halt, Spend};
 use malachite::base::num::arithmetic::traits::Abs;
 use malachite::{Float, Natural, Rational};
@@ -659,60 +659,6 @@ fn divisors_to_try(max: u64) -> impl Iterator<Item = u64> {
     (1..=max).chain(extra)
 }
 
-/// The elliptic logarithms of the rational torsion points `tors` on the
-/// real locus, `0` (the origin) first, then one logarithm of each other
-/// point (both `±T` are in `tors`, so matching `x` alone finds the set):
-/// a torsion point of order `m` has logarithm `(a w1 + b w2) / m`, and the
-/// one whose `℘(z) - b2/12` is `x(T)` to within `2^-(bits/4)` relative is
-/// kept. Needed to divide `P + T` rather than `P` (on `y^2 = x^3 - n^2 x`
-/// the trace is often `2 Q + T` with `T` of order 2).
-fn torsion_shifts(curve: &Curve, tors: &[Point], lat: &Lattice, b2: &Rational, bits: u64) -> Vec<Cx> {
-    let wp = lat.precision();
-    let mut out = vec![Cx::real(fi(0, wp))];
-    let b2_12 = Float::from_rational_prec_ref(b2, wp).0 / fi(12, wp);
-    let tol = 2f64.powi(-((bits / 4).clamp(8, 1000) as i32));
-    for t in tors {
-        let Point::Affine(xt, _) = t else { continue };
-        let Some(m) = curve.torsion_order_of(t) else { continue };
-        let m = i64::from(m);
-        let xf = to_f64(&Float::from_rational_prec_ref(xt, wp).0);
-        let xw = Float::from_rational_prec_ref(xt, wp).0;
-        let mut best: Option<(f64, Cx)> = None;
-        for (a, b) in (0..m).flat_map(|a| (0..m).map(move |b| (a, b))) {
-            if a == 0 && b == 0 {
-                continue;
-            }
-            let Some(z) = lat.on_real_locus(&lat.fraction(a, b, m), bits / 3) else { continue };
-            let x = &lat.weierstrass_p(&z).re - &b2_12;
-            let d = to_f64(&(&x - &xw)).abs() / (1.0 + xf.abs());
-            if d < tol && best.as_ref().is_none_or(|(e, _)| d < *e) {
-                best = Some((d, z));
-            }
-        }
-        if let Some((_, z)) = best {
-            out.push(z);
-        }
-    }
-    out
-}
-
-/// The point of infinite order with x-coordinate near `x` (a convergent
-/// of its continued fraction with a square denominator, within about
-/// `2^-(bits/2)` relative), verified exactly on the curve.
-fn recognise(curve: &Curve, x: &Float, bits: u64) -> Option<Point> {
-    let mag = analytic::log2_abs(x).max(0);
-    let tol_exp = (bits as i64 / 2 - mag).max(8);
-    let tol = Rational::from_signeds(1i64, 1i64) / Rational::from(malachite::Integer::from(2).pow_u(tol_exp as u64));
-    for c in analytic::square_denominator_convergents(x, &tol, 4 * bits as usize) {
-        if let Some(pt) = analytic::point_with_x(curve, &c) {
-            if curve.torsion_order_of(&pt).is_none() {
-                return Some(pt);
-            }
-        }
-    }
-    None
-}
-
 /// Divides the verified point `pt` (with real elliptic logarithm `z`) by
 /// small primes `l` as often as possible: the candidates for `Q` with
 /// `l Q = ± pt + T` have logarithms `(z + i w1 + j w2) / l`; those on the
@@ -764,17 +710,6 @@ fn divide_out(curve: &Curve, tors: &[Point], tors_shifts: &[Cx], lat: &Lattice, 
         }
     }
     (cur, k)
-}
-
-trait PowU {
-    fn pow_u(self, e: u64) -> Self;
-}
-
-impl PowU for malachite::Integer {
-    fn pow_u(self, e: u64) -> Self {
-        use malachite::base::num::arithmetic::traits::Pow;
-        self.pow(e)
-    }
 }
 
 #[allow(clippy::too_many_arguments)]

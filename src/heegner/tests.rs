@@ -234,7 +234,7 @@ fn involution_images_give_the_same_value() {
         let primes: Vec<Natural> = crate::arith::factor_u64(n).unwrap().into_iter().map(|(p, _)| Natural::from(p)).collect();
         let bad: Vec<(u64, i64)> = crate::local::CurveData::new(&e, &work).unwrap().bad_prime_traces().unwrap();
         assert_eq!(primes.len(), bad.len());
-        let lat = analytic::Lattice::new(&PeriodLattice::compute(&e, 120).unwrap(), 120);
+        let lat = crate::heights::elliptic::Lattice::new(&PeriodLattice::compute(&e, 120).unwrap(), 120);
         let mut pairs = Vec::new();
         for h in heegner_discriminants(n, 4).unwrap() {
             let moved = nearer_to_infinity(&h.forms, n);

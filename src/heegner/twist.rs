@@ -382,7 +382,7 @@ mod identity {
         let delta = moved.sub(&unmoved);
         let delta = Cx::new(&delta.re * &g, &delta.im * &g);
         let pl = PeriodLattice::compute(&t.base, wp).unwrap();
-        let lat = crate::heegner::analytic::Lattice::new(&pl, wp);
+        let lat = crate::heights::elliptic::Lattice::new(&pl, wp);
         let (x, y) = lat.coordinates(&delta);
         let (x, y) = (to_f64(&x), to_f64(&y));
         assert!([x, y].iter().all(|v| ((4.0 * v) - (4.0 * v).round()).abs() < 1e-20), "{x} {y}");

@@ -243,6 +243,18 @@ pub fn height_difference_bound(curve: &Curve) -> f64 {
 /// least `log G`. The infimum is taken on a dense grid in f64 and divided
 /// by 2 for safety (numerical with a margin, not a proof).
 pub fn local_height_bound(curve: &Curve, local: &[LocalData]) -> f64 {
+    finite_height_bound(local) + archimedean_height_bound(curve)
+}
+
+/// The archimedean part of [`local_height_bound`]: the whole bound for
+/// points that meet the identity component of the Néron model at every
+/// bad prime (their finite local corrections are 0).
+fn archimedean_height_bound(curve: &Curve) -> f64 {
+    2f64.ln() - archimedean_log_inf(curve) / 3.0
+}
+
+/// The finite part of [`local_height_bound`] (exact).
+fn finite_height_bound(local: &[LocalData]) -> f64 {
     use crate::local::{Kodaira, Reduction};
     let mut b = 0f64;
     for d in local {
@@ -268,7 +280,7 @@ pub fn local_height_bound(curve: &Curve, local: &[LocalData]) -> f64 {
         };
         b += alpha * to_f64(&ln(&fz(&malachite::Integer::from(d.prime.clone()), 64), 64));
     }
-    b + 2f64.ln() - archimedean_log_inf(curve) / 3.0
+    b
 }
 
 fn archimedean_log_inf(curve: &Curve) -> f64 {
@@ -298,6 +310,15 @@ fn archimedean_log_inf(curve: &Curve) -> f64 {
         }
     }
     inf - 2f64.ln()
+}
+
+/// The least common multiple of the Tamagawa numbers (saturating).
+fn tamagawa_lcm(local: &[LocalData]) -> u64 {
+    local.iter().fold(1u64, |acc, d| {
+        let c = u64::from(d.tamagawa.max(1));
+        let g = crate::arith::gcd_u64(acc, c);
+        acc.saturating_mul(c / g)
+    })
 }
 
 /// `gamma_r^r`, the r-th power of Hermite's constant, exactly for r <= 8
@@ -411,9 +432,21 @@ pub fn mordell_weil_basis_of(data: &CurveData, points: &[Point], precision: u64,
         if l - bdiff <= 0.0 {
             l = max_l;
         }
-        let t = l - bdiff;
-        if t <= 0.0 {
-            let sat = Saturation::unbounded(divisions, format!("search height too small for a height lower bound (difference bound {bdiff:.3})"));
+        // When the search cannot pass the difference bound, the points
+        // that meet the identity component at every bad prime (E^gr) need
+        // only the archimedean part `binf`; `c P` lies there for every P,
+        // `c` the lcm of the Tamagawa numbers (each kills its component
+        // group), so `hhat(P) >= lambda_gr / c^2` (the reduction to E^gr
+        // as in J. E. Cremona and S. Siksek, Computing a lower bound for
+        // the canonical height on elliptic curves over Q, ANTS VII, 2006).
+        let via_gr = l - bdiff <= 0.0 && bloc.is_finite();
+        let (binf, c) = (archimedean_height_bound(curve), tamagawa_lcm(local));
+        if via_gr {
+            l = (binf + (c * c) as f64 * hmin).min(max_l);
+        }
+        let t = if via_gr { l - binf } else { l - bdiff };
+        if t <= 0.0 || c > 1_000 {
+            let sat = Saturation::unbounded(divisions, format!("search height too small for a height lower bound (difference bound {bdiff:.3}, archimedean part {binf:.3})"));
             return Ok(finish(sat, gens));
         }
         let hsearch = l.exp().floor() as u64;
@@ -428,6 +461,10 @@ pub fn mordell_weil_basis_of(data: &CurveData, points: &[Point], precision: u64,
                 let h = to_f64(&height_unchecked(curve, local, q, 64)?);
                 lambda = lambda.min(h);
             }
+        }
+        if via_gr {
+            lambda /= (c * c) as f64;
+            note.push_str(&format!("lambda from the points on the identity components (archimedean bound {binf:.3}, Tamagawa lcm {c}); "));
         }
         let lambda = lambda * (1.0 - 1e-6);
         let reg = to_f64(&regulator) * (1.0 + 1e-6);
@@ -517,6 +554,9 @@ fn divide(
     let g = combination(curve, vecs, &coeffs);
     let hg = to_f64(&height_unchecked(curve, local, &g, 64)?);
     let target = hg / (p * p) as f64;
+    if let Some(q) = divide_by_logarithm(curve, &g, p, target + bdiff.max(0.0) + 1.0, torsion, options)? {
+        return Ok(Some((j, q)));
+    }
     let l = target + bdiff + 1e-6;
     if l > (options.max_search_height as f64).ln() {
         return Ok(None);
@@ -534,6 +574,34 @@ fn divide(
         }
     }
     Ok(None)
+}
+
+/// The p-th part of `g` through the elliptic logarithm: a point `Q` with
+/// `p Q - g` torsion whose x-coordinate has naive height at most `height`
+/// (nats), found among the real points `(log g + log T + λ) / p`, `λ` in
+/// the period lattice (J. E. Cremona, Algorithms for Modular Elliptic
+/// Curves, 2nd ed., 1997, §3.5-3.6 for the elliptic logarithm and the
+/// division of points; the group law as in Silverman and Tate, Rational
+/// Points on Elliptic Curves, 1992). The precision, `3 height / log 2 + 64`
+/// bits, is enough for continued fractions to find `x(Q) = m / d^2`; every
+/// candidate is checked exactly. `None` when no such point was found
+/// (which proves nothing), also when `height` asks for more than 40,000
+/// bits or the budget runs out.
+fn divide_by_logarithm(curve: &Curve, g: &Point, p: u64, height: f64, torsion: &TorsionGroup, options: &SaturationOptions) -> Result<Option<Point>, Error> {
+    use super::elliptic::{torsion_shifts, Uniformisation};
+    let bits = (3.0 * height / std::f64::consts::LN_2) as u64 + 64;
+    if !height.is_finite() || bits > 40_000 || options.out_of_time() {
+        return Ok(None);
+    }
+    let u = Uniformisation::new(curve, bits)?;
+    let tors: Vec<Point> = torsion.points().to_vec();
+    let logs = if (tors.len() as u64).is_multiple_of(p) {
+        let b2 = malachite::Rational::from(curve.b_invariants()[0].clone());
+        torsion_shifts(curve, &tors, u.lattice(), &b2, u.precision())
+    } else {
+        vec![]
+    };
+    Ok(u.divide(curve, g, p, &tors, &logs, height, &|| options.out_of_time()))
 }
 
 /// Siksek's p-saturation test on its own: `Ok(true)` when the span of

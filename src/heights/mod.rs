@@ -51,6 +51,7 @@
 mod basis;
 mod canonical;
 mod lattice;
+pub(crate) mod elliptic;
 pub(crate) mod real;
 mod saturation;
 

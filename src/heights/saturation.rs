@@ -217,13 +217,23 @@ fn functionals(curve: &Curve, q: u64, p: u64, pts: &[Point]) -> Option<Vec<Vec<u
         // Sylow p-subgroup is cyclic when q != 1 mod p.
         cyclic = q % p != 1;
     }
-    if !cyclic {
+    let m = n / p;
+    let g = if cyclic {
+        mc.points_from(0).map(|pt| mc.mul(Some(pt), m)).find(|r| r.is_some())?
+    } else if p == 2 {
         return None;
-    }
+    } else {
+        // q = 1 mod p: the Sylow p-subgroup S may still be cyclic. If it is
+        // not (S = Z/p^a x Z/p^b, b >= 1), then n/p = m' p^(a+b-1) with
+        // a + b - 1 >= a kills E(F_q); so one point with (n/p) P != O
+        // proves S cyclic, and the functional below applies.
+        match mc.points_from(0).take(24).map(|pt| mc.mul(Some(pt), m)).find(|r| r.is_some()) {
+            Some(g) => g,
+            None => return noncyclic_functionals(&mc, n, p, &red),
+        }
+    };
     // Cyclic Sylow p-subgroup S: P -> (n/p) P has kernel pE(F_q) and lands in
     // S[p] = <g>; the functional is the discrete logarithm to base g.
-    let m = n / p;
-    let g = mc.points_from(0).map(|pt| mc.mul(Some(pt), m)).find(|r| r.is_some())?;
     let mut row = Vec::with_capacity(red.len());
     for r in &red {
         let t = mc.mul(*r, m);
@@ -239,6 +249,93 @@ fn functionals(curve: &Curve, q: u64, p: u64, pts: &[Point]) -> Option<Vec<Vec<u
         row.push(found?);
     }
     Some(vec![row])
+}
+
+/// Functionals `E(F_q) -> F_p` vanishing on `pE(F_q)` when the Sylow
+/// p-subgroup `S` is not cyclic (`S = Z/p^a x Z/p^b`, `a >= b >= 1`, so
+/// `p | q - 1`), for odd `p <= 50`. With `n = p^k m`, `p ∤ m`: the
+/// p-parts `m R` of up to 24 points give `g1` of the largest order `p^a`
+/// and `g2` of the largest order modulo `<g1>`, `p^j`; when `a + j = k`
+/// the two generate `S` (exactly: `|<g1, g2>| = p^(a+j) = |S|`), so `S`
+/// has exponent `p^a`, and `psi(P) = p^(a-1) m P` is a homomorphism to
+/// `<psi(g1), psi(g2)>`, of order `p` or `p^2`, that kills `pE(F_q)`. The
+/// functionals are the coordinates of `psi(P)` in that basis (a table of
+/// its `p^2` elements). `None` when the samples do not generate `S` (the
+/// prime q is then skipped: nothing is claimed from it).
+fn noncyclic_functionals(mc: &ModCurve, n: u64, p: u64, red: &[ModPt]) -> Option<Vec<Vec<u64>>> {
+    if p > 50 {
+        return None;
+    }
+    let (mut k, mut m) = (0u32, n);
+    while m % p == 0 {
+        m /= p;
+        k += 1;
+    }
+    let order_exp = |r: ModPt| -> u32 {
+        let (mut e, mut t) = (0u32, r);
+        while t.is_some() && e <= k {
+            t = mc.mul(t, p);
+            e += 1;
+        }
+        e
+    };
+    let samples: Vec<ModPt> = mc.points_from(0).take(24).map(|pt| mc.mul(Some(pt), m)).collect();
+    let (g1, a) = samples.iter().map(|&r| (r, order_exp(r))).max_by_key(|s| s.1)?;
+    if a == 0 || a > k {
+        return None;
+    }
+    let pa = p.checked_pow(a)?;
+    if pa > 1 << 16 {
+        // (the table of <g1> would be large; such q are skipped)
+        return None;
+    }
+    let mut cyc = std::collections::HashSet::with_capacity(pa as usize);
+    let mut acc: ModPt = None;
+    for _ in 0..pa {
+        cyc.insert(acc);
+        acc = mc.add(acc, g1);
+    }
+    let order_mod = |r: ModPt| -> u32 {
+        let (mut j, mut t) = (0u32, r);
+        while !cyc.contains(&t) && j <= k {
+            t = mc.mul(t, p);
+            j += 1;
+        }
+        j
+    };
+    let (g2, j) = samples.iter().map(|&r| (r, order_mod(r))).max_by_key(|s| s.1)?;
+    if a + j != k {
+        return None;
+    }
+    let lift = m.checked_mul(p.checked_pow(a - 1)?)?;
+    let h1 = mc.mul(g1, p.pow(a - 1));
+    let h2 = mc.mul(g2, p.pow(a - 1));
+    let mut line = std::collections::HashMap::new();
+    let mut acc: ModPt = None;
+    for u in 0..p {
+        line.insert(acc, u);
+        acc = mc.add(acc, h1);
+    }
+    let one_dim = line.contains_key(&h2);
+    let mut table = std::collections::HashMap::new();
+    let mut row_start: ModPt = None;
+    for v in 0..(if one_dim { 1 } else { p }) {
+        let mut acc = row_start;
+        for u in 0..p {
+            table.insert(acc, (u, v));
+            acc = mc.add(acc, h1);
+        }
+        row_start = mc.add(row_start, h2);
+    }
+    let mut rows = vec![Vec::with_capacity(red.len()); if one_dim { 1 } else { 2 }];
+    for r in red {
+        let (u, v) = *table.get(&mc.mul(*r, lift))?;
+        rows[0].push(u);
+        if !one_dim {
+            rows[1].push(v);
+        }
+    }
+    Some(rows)
 }
 
 /// Echelon form over F_p, for incremental rank computation.
@@ -346,5 +443,44 @@ pub(crate) fn siksek_test(curve: &Curve, pts: &[Point], p: u64, max_q: u64, out_
     match ech.kernel_vector(s) {
         Some(v) => Ok(SiksekOutcome::Kernel(v)),
         None => Err(Error::new(ErrorKind::InvalidValue, "Siksek test: inconsistent echelon form")),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The non-cyclic functionals on y^2 + y = x^3 - x (conductor 37,
+    /// rank 1, generator (0,0); Cremona 1997, Table 1): at the primes
+    /// q = 1 mod 3 where E(F_q) has full 3-torsion they are found, they
+    /// vanish on 3 (0,0) (a homomorphism that kills 3E(F_q)), and together
+    /// they do not all vanish on (0,0).
+    #[test]
+    fn noncyclic_functionals_kill_multiples() {
+        let e = Curve::from_coefficients([0, 0, 1, -1, 0]).unwrap();
+        let g = Point::from_ints(0, 0);
+        let pts = [g.clone(), e.multiple(&g, 3), e.multiple(&g, 7)];
+        let (mut used, mut seen_nonzero) = (0, false);
+        for q in (5..20_000u64).filter(|&q| q != 37 && q % 3 == 1 && is_prime_u64(q)) {
+            let mc = ModCurve::new(&e, q);
+            let n = e.count_points_mod(q);
+            if n % 9 != 0 {
+                continue;
+            }
+            // only where the Sylow 3-subgroup is not cyclic
+            if mc.points_from(0).take(24).any(|pt| mc.mul(Some(pt), n / 3).is_some()) {
+                continue;
+            }
+            let red: Vec<ModPt> = pts.iter().map(|p| mc.reduce(p)).collect();
+            let Some(rows) = noncyclic_functionals(&mc, n, 3, &red) else { continue };
+            used += 1;
+            for r in &rows {
+                assert_eq!(r[1], 0, "q = {q}");
+                assert_eq!(r[2], (7 * r[0]) % 3, "q = {q}");
+                seen_nonzero |= r[0] != 0;
+            }
+        }
+        assert!(used >= 3, "{used}");
+        assert!(seen_nonzero);
     }
 }

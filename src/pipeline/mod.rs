@@ -999,8 +999,11 @@ fn heegner_search(report: &mut RankReport, data: &CurveData, options: &RankOptio
         Err(e) if *e.kind() == crate::error::ErrorKind::Internal => Err(e),
         // a route stopped by its share of the budget leaves the report
         // marked as cut short, so that a rerun may differ only there
+        // (a refusal such as a conductor above the route's range is no
+        // budget matter: a rerun gives the same answer)
         other => {
-            if other.is_err() || work.exhausted() {
+            let stopped = matches!(&other, Err(e) if matches!(e.kind(), crate::error::ErrorKind::Budget | crate::error::ErrorKind::FactorBudget));
+            if stopped || work.exhausted() {
                 report.budget_exhausted = true;
             }
             Ok(None)
