@@ -27,10 +27,10 @@
 //! handed to the unit lattice (their exponents have about the size of `D`,
 //! not the thousands of bits an echelon with Euclid steps builds up).
 
-use super::linalg::hnf;
-use super::modular::{log2_row_length, ExactSolver};
+use super::linalg::{hnf, hnf_mod_word};
+use super::modular::{determinant, log2_row_length, ExactSolver};
 use crate::arith::{inv_mod, is_prime_u64, mul_mod};
-use malachite::base::num::arithmetic::traits::{Abs, DivisibleBy, Mod};
+use malachite::base::num::arithmetic::traits::{Abs, DivisibleBy, Gcd, Mod, UnsignedAbs};
 use malachite::base::num::basic::traits::{One, Zero};
 use malachite::Integer;
 
@@ -287,12 +287,7 @@ pub(crate) fn solve_core(core: &Core, stop: &dyn Fn() -> bool) -> Option<CoreSol
     if d == 0u32 || stop() {
         return None;
     }
-    let gens: Vec<Vec<Integer>> = core
-        .rows
-        .iter()
-        .map(|r| r.iter().map(|&x| Integer::from(x)).collect())
-        .collect();
-    let hermite = hnf(&gens, n, Some(&d)).ok()?;
+    let hermite = core_hermite(core, &sel, &d, stop)?;
     Some(CoreSolution {
         hermite,
         sel,
@@ -300,6 +295,69 @@ pub(crate) fn solve_core(core: &Core, stop: &dyn Fn() -> bool) -> Option<CoreSol
         solver: Some(solver),
         d,
     })
+}
+
+/// Further choices of `n` independent rows for [`lattice_multiple`].
+const EXTRA_DETERMINANTS: usize = 3;
+
+/// A multiple of the lattice's index `det L` smaller than `d = det B`:
+/// the gcd of `d` and the determinants of other independent row choices
+/// (each is `det L` times its own index in `L`, and those indices rarely
+/// share a factor; the gcd is an integral combination of the
+/// determinants, so it times `Z^n` lies in `L` too). Stops once the gcd
+/// fits in a word.
+fn lattice_multiple(core: &Core, sel: &[usize], d: &Integer, stop: &dyn Fn() -> bool) -> Integer {
+    let n = core.cols.len();
+    let m = core.rows.len();
+    let mut g = d.clone();
+    let mut state = 0x9e37_79b9_7f4a_7c15u64 ^ m as u64;
+    for _ in 0..EXTRA_DETERMINANTS {
+        if g < (1u64 << 31) || stop() {
+            break;
+        }
+        // a random order, the rows of B last
+        let mut order: Vec<usize> = (0..m).filter(|i| !sel.contains(i)).collect();
+        for i in (1..order.len()).rev() {
+            state ^= state << 13;
+            state ^= state >> 7;
+            state ^= state << 17;
+            order.swap(i, (state % (i as u64 + 1)) as usize);
+        }
+        order.extend_from_slice(sel);
+        let other = independent_rows(&core.rows, &order, n);
+        if other.len() < n {
+            break;
+        }
+        let rows: Vec<Vec<i64>> = other.iter().map(|&i| core.rows[i].clone()).collect();
+        let d2 = determinant(&rows).abs();
+        if d2 != 0u32 {
+            g = Integer::from(g.unsigned_abs().gcd(d2.unsigned_abs()));
+        }
+    }
+    g
+}
+
+/// The Hermite form of all core rows: modulo a small multiple of the
+/// index ([`lattice_multiple`]), in words where it fits (`linalg.rs`
+/// `hnf_mod_word`), else with multiprecision entries.
+fn core_hermite(core: &Core, sel: &[usize], d: &Integer, stop: &dyn Fn() -> bool) -> Option<Vec<Vec<Integer>>> {
+    let n = core.cols.len();
+    let g = lattice_multiple(core, sel, d, stop);
+    if stop() {
+        return None;
+    }
+    if let Ok(w) = u64::try_from(&g) {
+        if w < (1 << 62) {
+            let h = hnf_mod_word(&core.rows, n, w);
+            return Some(h.into_iter().map(|r| r.into_iter().map(Integer::from).collect()).collect());
+        }
+    }
+    let gens: Vec<Vec<Integer>> = core
+        .rows
+        .iter()
+        .map(|r| r.iter().map(|&x| Integer::from(x)).collect())
+        .collect();
+    hnf(&gens, n, Some(&g)).ok()
 }
 
 impl CoreSolution {
