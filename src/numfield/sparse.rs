@@ -95,16 +95,20 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
     }
     let mut alive = vec![true; ncols];
     let mut units = Vec::new();
+    // per column the cheapest pivot (cost, row), recomputed only for the
+    // columns whose rows changed since (dirty)
+    let mut col_best: Vec<Option<(usize, usize)>> = vec![None; ncols];
+    let mut dirty = vec![true; ncols];
     loop {
         if stop() {
             break;
         }
         // the pivot of least cost: a column, a row with +-1 there
-        let mut best: Option<(usize, usize, usize)> = None; // (cost, col, row)
         for c in 0..ncols {
-            if !alive[c] {
+            if !alive[c] || !dirty[c] {
                 continue;
             }
+            dirty[c] = false;
             // drop stale entries (rows gone, or no longer touching c)
             col_rows[c].retain(|&i| {
                 rows[i]
@@ -114,9 +118,7 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
             col_rows[c].sort_unstable();
             col_rows[c].dedup();
             let w = col_rows[c].len();
-            if w == 0 {
-                continue;
-            }
+            let mut best: Option<(usize, usize)> = None;
             for &i in &col_rows[c] {
                 let Some(r) = rows[i].as_ref() else { continue };
                 let Ok(pos) = r.v.binary_search_by_key(&c, |x| x.0) else {
@@ -127,11 +129,17 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
                 }
                 let cost = (w - 1) * (r.v.len() - 1);
                 if best.is_none_or(|b| cost < b.0) {
-                    best = Some((cost, c, i));
+                    best = Some((cost, i));
                 }
             }
-            if best.is_some_and(|b| b.0 == 0) {
-                break;
+            col_best[c] = best;
+        }
+        let mut best: Option<(usize, usize, usize)> = None; // (cost, col, row)
+        for c in 0..ncols {
+            if let (true, Some((cost, i))) = (alive[c], col_best[c]) {
+                if best.is_none_or(|b| cost < b.0) {
+                    best = Some((cost, c, i));
+                }
             }
         }
         let Some((cost, c, piv)) = best else { break };
@@ -139,6 +147,9 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
             break;
         }
         let Some(prow) = rows[piv].take() else { break };
+        for &(cc, _) in &prow.v {
+            dirty[cc] = true;
+        }
         let sgn = prow.v[prow.v.binary_search_by_key(&c, |x| x.0).unwrap_or(0)].1;
         let others: Vec<usize> = col_rows[c].iter().copied().filter(|&i| i != piv).collect();
         for s in others {
@@ -147,6 +158,9 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
                 rows[s] = Some(row);
                 continue;
             };
+            for &(cc, _) in &row.v {
+                dirty[cc] = true;
+            }
             let a = row.v[pos].1;
             // row - a sgn prow has zero at c (sgn^2 = 1)
             let f = -a * sgn;
