@@ -75,8 +75,9 @@ pub(crate) struct Core {
     pub(crate) exps: Vec<Vec<(usize, i64)>>,
     /// Rows that became zero: units (and roots of unity).
     pub(crate) units: Vec<Vec<(usize, i64)>>,
-    /// Columns left without any row: the relations do not have full rank.
-    pub(crate) empty_columns: usize,
+    /// Columns left without any row (original indices): the relations do
+    /// not have full rank, and more relations through these are wanted.
+    pub(crate) empty_columns: Vec<usize>,
 }
 
 /// Largest fill-in (Markowitz cost `(rows of the column - 1) (entries of
@@ -201,7 +202,7 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
         dense.push(d);
         exps.push(r.exps);
     }
-    let empty_columns = hit.iter().filter(|h| !**h).count();
+    let empty_columns: Vec<usize> = (0..cols.len()).filter(|&j| !hit[j]).map(|j| cols[j]).collect();
     Core {
         cols,
         rows: dense,
@@ -269,7 +270,7 @@ fn independent_rows(m: &[Vec<i64>], order: &[usize], n: usize) -> Vec<usize> {
 pub(crate) fn solve_core(core: &Core, stop: &dyn Fn() -> bool) -> Option<CoreSolution> {
     let n = core.cols.len();
     let m = core.rows.len();
-    if core.empty_columns > 0 || m < n {
+    if !core.empty_columns.is_empty() || m < n {
         return None;
     }
     // sparsest rows first: short rows make a well-conditioned B and short kernel vectors
