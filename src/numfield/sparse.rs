@@ -116,8 +116,6 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
                     .as_ref()
                     .is_some_and(|r| r.v.binary_search_by_key(&c, |x| x.0).is_ok())
             });
-            col_rows[c].sort_unstable();
-            col_rows[c].dedup();
             let w = col_rows[c].len();
             let mut best: Option<(usize, usize)> = None;
             for &i in &col_rows[c] {
@@ -129,7 +127,8 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
                     continue;
                 }
                 let cost = (w - 1) * (r.v.len() - 1);
-                if best.is_none_or(|b| cost < b.0) {
+                // ties to the lowest row number (the lists are not sorted)
+                if best.is_none_or(|b| cost < b.0 || (cost == b.0 && i < b.1)) {
                     best = Some((cost, i));
                 }
             }
@@ -175,8 +174,11 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
                 }
                 continue;
             }
+            // the row is listed already under the columns it had
             for &(cc, _) in &v {
-                col_rows[cc].push(s);
+                if row.v.binary_search_by_key(&cc, |x| x.0).is_err() {
+                    col_rows[cc].push(s);
+                }
             }
             rows[s] = Some(SparseRelation { v, exps });
         }
