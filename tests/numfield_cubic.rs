@@ -285,7 +285,7 @@ fn first_complex_cubic_fields_with_class_number_two_three_and_four() {
     for (h, d, _) in expected {
         let first = fields
             .iter()
-            .find(|(_, _, k)| k.class_group(&opts).unwrap().class_number == Integer::from(h as u32))
+            .find(|(_, _, k)| k.class_group(&opts).unwrap().class_number == h as u32)
             .map(|f| f.0);
         assert_eq!(first, Some(d), "h = {h}");
     }
@@ -307,7 +307,8 @@ fn first_complex_cubic_fields_with_class_number_two_three_and_four() {
 fn first_complex_cubic_fields_by_class_number_probe() {
     let dmax: i64 = std::env::var("CUBIC_PROBE_DMAX").ok().and_then(|s| s.parse().ok()).unwrap_or(20_000);
     let fields = complex_cubic_fields_up_to(dmax);
-    let mut first: Vec<Option<(i64, (i64, i64, i64), i128)>> = vec![None; 8];
+    type First = Option<(i64, (i64, i64, i64), i128)>;
+    let mut first: Vec<First> = vec![None; 8];
     for (d, pqr, k) in &fields {
         let cg = k.class_group(&ClassGroupOptions::default()).unwrap();
         let h = u32::try_from(&cg.class_number).unwrap() as usize;

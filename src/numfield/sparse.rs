@@ -204,7 +204,10 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
         dense.push(d);
         exps.push(r.exps);
     }
-    let empty_columns: Vec<usize> = (0..cols.len()).filter(|&j| !hit[j]).map(|j| cols[j]).collect();
+    let empty_columns: Vec<usize> = (0..cols.len())
+        .filter(|&j| !hit[j])
+        .map(|j| cols[j])
+        .collect();
     Core {
         cols,
         rows: dense,
@@ -357,7 +360,12 @@ fn lattice_multiple(core: &Core, sel: &[usize], d: &Integer, stop: &dyn Fn() -> 
 /// The Hermite form of all core rows: modulo a small multiple of the
 /// index ([`lattice_multiple`]), in words where it fits (`linalg.rs`
 /// `hnf_mod_word`), else with multiprecision entries.
-fn core_hermite(core: &Core, sel: &[usize], d: &Integer, stop: &dyn Fn() -> bool) -> Option<Vec<Vec<Integer>>> {
+fn core_hermite(
+    core: &Core,
+    sel: &[usize],
+    d: &Integer,
+    stop: &dyn Fn() -> bool,
+) -> Option<Vec<Vec<Integer>>> {
     let n = core.cols.len();
     let g = lattice_multiple(core, sel, d, stop);
     if stop() {
@@ -366,7 +374,11 @@ fn core_hermite(core: &Core, sel: &[usize], d: &Integer, stop: &dyn Fn() -> bool
     if let Ok(w) = u64::try_from(&g) {
         if w < (1 << 62) {
             let h = hnf_mod_word(&core.rows, n, w);
-            return Some(h.into_iter().map(|r| r.into_iter().map(Integer::from).collect()).collect());
+            return Some(
+                h.into_iter()
+                    .map(|r| r.into_iter().map(Integer::from).collect())
+                    .collect(),
+            );
         }
     }
     let gens: Vec<Vec<Integer>> = core
