@@ -178,7 +178,7 @@ fn totally_real_cubic_fields_up_to(dmax: i64) -> Vec<(i64, (i64, i64, i64), Numb
     let t2max = 1.0 / 3.0 + (2.0 / 3.0) * (dmax as f64).sqrt();
     let cmax = (t2max / 3.0).powf(1.5).floor() as i64;
     let primes: Vec<i64> = (3..400).filter(|&p| (2..p).take_while(|d| d * d <= p).all(|d| p % d != 0)).collect();
-    let mut seen = std::collections::HashSet::new();
+    let mut seen: std::collections::HashMap<i64, Vec<Vec<Option<usize>>>> = std::collections::HashMap::new();
     let mut out = Vec::new();
     for s in 0..=1i64 {
         let bmin = ((s * s) as f64 - t2max) / 2.0;
@@ -201,8 +201,18 @@ fn totally_real_cubic_fields_up_to(dmax: i64) -> Vec<(i64, (i64, i64, i64), Numb
                 if d > dmax || t2 > (s * s) as f64 / 3.0 + (2.0 / 3.0) * (d as f64).sqrt() + 1e-9 {
                     continue;
                 }
-                let sig: Vec<usize> = primes.iter().map(|&l| (0..l).filter(|x| (x * x % l * x + p.rem_euclid(l) * x % l * x + q.rem_euclid(l) * x + r.rem_euclid(l)) % l == 0).count()).collect();
-                if seen.insert((d, sig)) {
+                // root counts at the primes not dividing the polynomial
+                // discriminant (the number of degree-one primes above them,
+                // a field invariant): a polynomial of a field met before
+                // agrees with it at every prime good for both
+                let sig: Vec<Option<usize>> = primes
+                    .iter()
+                    .map(|&l| (pd % l as i128 != 0).then(|| (0..l).filter(|x| (x * x % l * x + p.rem_euclid(l) * x % l * x + q.rem_euclid(l) * x + r.rem_euclid(l)) % l == 0).count()))
+                    .collect();
+                let same = |other: &Vec<Option<usize>>| sig.iter().zip(other).all(|(a, b)| a.is_none() || b.is_none() || a == b);
+                let known: &mut Vec<Vec<Option<usize>>> = seen.entry(d).or_default();
+                if !known.iter().any(same) {
+                    known.push(sig);
                     out.push((d, (p, q, r), k));
                 }
             }

@@ -1016,6 +1016,14 @@ fn reduce_row(pivots: &[Option<Row>], row: &mut Row, from: usize) {
 /// solves (more are added when the rank or `h R` says so).
 const KERNEL_EXCESS: usize = 24;
 
+/// Targeted attempts per column without a relation (or left without a
+/// row by the elimination) before the search gives up aiming at it.
+const TARGETED_ATTEMPTS: usize = 12;
+
+/// Attempts at a column emptied by the elimination: the count is set back
+/// to at most this, so each emptying buys a few more aimed rounds.
+const TARGETED_RETRIES: usize = 8;
+
 impl NumberField {
     /// The class group route for large fields (`sparse.rs`): relations
     /// collected in bulk, structured elimination with unit pivots, the
@@ -1064,7 +1072,7 @@ impl NumberField {
             while all.len() < want || hits.contains(&0) {
                 round += 1;
                 let aim = if round > kfb + 1 && round.is_multiple_of(2) {
-                    (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| hits[j] == 0 && attempts[j] < 12)
+                    (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| hits[j] == 0 && attempts[j] < TARGETED_ATTEMPTS)
                 } else {
                     None
                 };
@@ -1090,6 +1098,12 @@ impl NumberField {
             let Some(sol) = sparse::solve_core(&core, &stop) else {
                 if stop() {
                     return Err(budget());
+                }
+                // a column whose rows all went with eliminated pivots: aim
+                // the search at it (a relation through it is what is missing)
+                for &c in &core.empty_columns {
+                    hits[c] = 0;
+                    attempts[c] = attempts[c].min(TARGETED_RETRIES);
                 }
                 want = all.len() + 8 + kfb / 16;
                 continue;

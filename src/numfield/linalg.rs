@@ -113,6 +113,121 @@ pub(crate) fn hnf(gens: &[Vec<Integer>], n: usize, modulus: Option<&Integer>) ->
 }
 
 
+/// Extended gcd of words: `(g, u, v)` with `u a + v b = g = gcd(a, b)`
+/// (`|u| <= b / g`, `|v| <= a / g`, so both fit in `i64` for `a, b < 2^63`).
+fn xgcd_word(a: u64, b: u64) -> (u64, i64, i64) {
+    let (mut r0, mut r1) = (a as i128, b as i128);
+    let (mut s0, mut s1) = (1i128, 0i128);
+    let (mut t0, mut t1) = (0i128, 1i128);
+    while r1 != 0 {
+        let q = r0 / r1;
+        (r0, r1) = (r1, r0 - q * r1);
+        (s0, s1) = (s1, s0 - q * s1);
+        (t0, t1) = (t1, t0 - q * t1);
+    }
+    (r0 as u64, s0 as i64, t0 as i64)
+}
+
+/// `(u x + v y) mod r` in `0..r` for `x, y < r < 2^62`, `|u|, |v| < 2^63`:
+/// in `i64` when everything is below `2^31`, else in `i128`.
+#[inline]
+fn lin_mod(u: i64, x: u64, v: i64, y: u64, r: u64) -> u64 {
+    if r < (1 << 31) && u.unsigned_abs() < (1 << 31) && v.unsigned_abs() < (1 << 31) {
+        (u * x as i64 + v * y as i64).rem_euclid(r as i64) as u64
+    } else {
+        (u as i128 * x as i128 + v as i128 * y as i128).rem_euclid(r as i128) as u64
+    }
+}
+
+/// The Hermite normal form (the convention of [`hnf`]: row `i` has its
+/// pivot at `i`, entries left of it reduced into `0..h[i][i]`) of the
+/// lattice spanned by the integer rows `gens` (length `n`), which must
+/// contain `d Z^n`, `0 < d < 2^62`: H. Cohen, GTM 138, Algorithm 2.4.8
+/// (the Hermite form modulo `D`, the modulus divided by each pivot found),
+/// in machine words. The class group's relation cores, whose lattice
+/// index is small beside their determinants.
+pub(crate) fn hnf_mod_word(gens: &[Vec<i64>], n: usize, d: u64) -> Vec<Vec<u64>> {
+    debug_assert!(d > 0 && d < (1 << 62));
+    let mut r = d;
+    let mut work: Vec<Vec<u64>> = gens
+        .iter()
+        .map(|g| g.iter().map(|&x| x.rem_euclid(d as i64) as u64).collect::<Vec<u64>>())
+        .filter(|g| g.iter().any(|&x| x != 0))
+        .collect();
+    let mut h: Vec<Vec<u64>> = vec![Vec::new(); n];
+    for col in (0..n).rev() {
+        // Euclid on column `col` between a pivot row and each other row
+        let mut piv: Option<usize> = None;
+        for i in 0..work.len() {
+            if work[i][col] == 0 {
+                continue;
+            }
+            let Some(pi) = piv else {
+                piv = Some(i);
+                continue;
+            };
+            let (a, b) = (work[pi][col], work[i][col]);
+            let (lo, hi) = if pi < i { (pi, i) } else { (i, pi) };
+            let (first, second) = work.split_at_mut(hi);
+            let (p, w) = if pi < i { (&mut first[lo], &mut second[0]) } else { (&mut second[0], &mut first[lo]) };
+            if b % a == 0 {
+                // w -= (b / a) p
+                let q = ((b / a) % r) as i64;
+                for j in 0..=col {
+                    if p[j] != 0 {
+                        w[j] = lin_mod(1, w[j], -q, p[j], r);
+                    }
+                }
+            } else {
+                let (g, u, v) = xgcd_word(a, b);
+                let (a1, b1) = ((a / g) as i64, (b / g) as i64);
+                for j in 0..=col {
+                    let (x, y) = (p[j], w[j]);
+                    if x == 0 && y == 0 {
+                        continue;
+                    }
+                    p[j] = lin_mod(u, x, v, y, r);
+                    w[j] = lin_mod(a1, y, -b1, x, r);
+                }
+            }
+        }
+        // the pivot: gcd with r (r e_col lies in the lattice)
+        let x = piv.map_or(0, |pi| work[pi][col]);
+        let (g, u, _) = xgcd_word(x, r);
+        let mut row = vec![0u64; n];
+        if let Some(pi) = piv {
+            let u = u.rem_euclid(r as i64);
+            for j in 0..col {
+                row[j] = lin_mod(u, work[pi][j], 0, 0, r);
+            }
+            work.swap_remove(pi);
+        }
+        row[col] = g;
+        h[col] = row;
+        r /= g;
+        for w in work.iter_mut() {
+            for x in w[..col].iter_mut() {
+                *x %= r;
+            }
+        }
+        work.retain(|w| w[..col].iter().any(|&x| x != 0));
+    }
+    // size reduction below the diagonal, modulo d (d e_k lies in the lattice)
+    for i in 0..n {
+        for j in (0..i).rev() {
+            let q = h[i][j] / h[j][j];
+            if q != 0 {
+                let q = (q % d) as i64;
+                for k in 0..=j {
+                    let y = h[j][k];
+                    h[i][k] = lin_mod(1, h[i][k], -q, y, d);
+                }
+            }
+        }
+    }
+    h
+}
+
 /// Product of the diagonal of a triangular matrix.
 #[cfg(test)]
 pub(crate) fn diag_product(h: &[Vec<Integer>]) -> Integer {
@@ -323,6 +438,40 @@ mod tests {
 
     fn z(v: &[i64]) -> Vec<Integer> {
         v.iter().map(|&x| Integer::from(x)).collect()
+    }
+
+    #[test]
+    fn word_hermite_form_agrees_with_the_multiprecision_one() {
+        // two ways: Cohen 2.4.8 in words against the Euclidean Hermite form
+        // over Z (modulus None), on random integer matrices of full rank,
+        // with the modulus a multiple of the determinant (small and large)
+        let mut s = 12345u64;
+        let mut rnd = move || {
+            s ^= s << 13;
+            s ^= s >> 7;
+            s ^= s << 17;
+            s
+        };
+        let mut tried = 0;
+        for trial in 0..200 {
+            let n = 1 + trial % 9;
+            let m = n + (trial % 4);
+            let rows: Vec<Vec<i64>> = (0..m)
+                .map(|_| (0..n).map(|_| if rnd() % 3 == 0 { 0 } else { (rnd() % 13) as i64 - 6 }).collect())
+                .collect();
+            let gens: Vec<Vec<Integer>> = rows.iter().map(|r| r.iter().map(|&x| Integer::from(x)).collect()).collect();
+            let Ok(full) = hnf(&gens, n, None) else { continue };
+            let h: Integer = diag_product(&full);
+            let Ok(hw) = u64::try_from(&h) else { continue };
+            for mult in [1u64, 7, 1 << 20, 1_000_003 * 999_983] {
+                let Some(d) = hw.checked_mul(mult).filter(|&d| d < (1 << 62)) else { continue };
+                let word = hnf_mod_word(&rows, n, d);
+                let as_int: Vec<Vec<Integer>> = word.iter().map(|r| r.iter().map(|&x| Integer::from(x)).collect()).collect();
+                assert_eq!(as_int, full, "trial {trial}, d = {d}");
+                tried += 1;
+            }
+        }
+        assert!(tried > 300, "{tried}");
     }
 
     #[test]

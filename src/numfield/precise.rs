@@ -29,12 +29,15 @@ pub(crate) const MAX_LOG_BITS: u64 = 1 << 14;
 pub(crate) struct PreciseLogs {
     prec: u64,
     roots: Vec<Cx>,
+    /// `log 2` at the precision of the last call of [`ln_cached`] (malachite's
+    /// logarithm recomputes it on every call: most of the time spent here).
+    ln2: Option<(u64, Float)>,
     cache: Vec<Option<(u64, Vec<Float>)>>,
 }
 
 impl PreciseLogs {
     pub(crate) fn new() -> PreciseLogs {
-        PreciseLogs { prec: 0, roots: Vec::new(), cache: Vec::new() }
+        PreciseLogs { prec: 0, roots: Vec::new(), ln2: None, cache: Vec::new() }
     }
 
     fn ensure_roots(&mut self, k: &NumberField, prec: u64) {
@@ -77,7 +80,7 @@ impl PreciseLogs {
                 s = s.mul(z).add(&Cx::real(cj.clone()));
             }
             // log |s|^2: halved at real places, as is at complex ones (e_i = 2)
-            let l2 = ln(&s.norm2(), work);
+            let l2 = ln_cached(&s.norm2(), work, &mut self.ln2);
             if i < k.r1 { l2 / fi(2, work) } else { l2 }
         }).collect();
         if self.cache.len() <= idx {
@@ -103,6 +106,49 @@ impl PreciseLogs {
         }
         acc.iter().map(to_f64).collect()
     }
+}
+
+/// Square roots taken in [`ln_cached`] before the series.
+const LN_HALVINGS: u32 = 8;
+
+/// `log x` for a positive `x` with about `prec` correct bits (relative to
+/// `max(1, |log x|)`): `x = m 2^e`, `m` in `[1/2, 1)`, `m` brought near 1 by
+/// [`LN_HALVINGS`] square roots, then `log m = 2^(k+1) atanh(z)`,
+/// `z = (y - 1) / (y + 1)`, by its series (`|z| < 2^-9`: about 18 bits a
+/// term), plus `e log 2` with `log 2` computed once per precision.
+pub(crate) fn ln_cached(x: &Float, prec: u64, ln2: &mut Option<(u64, Float)>) -> Float {
+    let w = prec + 64;
+    let Some(e) = x.get_exponent() else { return ln(x, prec) };
+    if *x <= 0u32 {
+        return ln(x, prec);
+    }
+    if ln2.as_ref().is_none_or(|(p, _)| *p < w) {
+        *ln2 = Some((w, Float::ln_2_prec(w).0));
+    }
+    let l2 = &ln2.as_ref().map(|(_, f)| f.clone()).unwrap_or_default();
+    let mut y = Float::from_float_prec_ref(x, w).0 >> e;
+    for _ in 0..LN_HALVINGS {
+        y = y.sqrt_prec_ref(w).0;
+    }
+    let one = fi(1, w);
+    let z = (&y - &one).div_prec_ref_ref(&(&y + &one), w).0;
+    let z2 = &z * &z;
+    let mut t = z.clone();
+    let mut sum = z;
+    let mut n = 1i64;
+    loop {
+        t *= &z2;
+        n += 2;
+        let term = t.div_prec_ref_ref(&fi(n, w), w).0;
+        let small = term == 0u32 || term.get_exponent().is_none_or(|te| i64::from(te) < -(w as i64));
+        sum += term;
+        if small {
+            break;
+        }
+    }
+    let lm = sum << (LN_HALVINGS + 1);
+    let out = lm + Float::from_float_prec_ref(l2, w).0 * fi(i64::from(e), w);
+    Float::from_float_prec(out, prec).0
 }
 
 /// The roots of the field's polynomial (in the order of
@@ -131,6 +177,24 @@ fn refined_roots(k: &NumberField, prec: u64) -> Vec<Cx> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn cached_logarithm_agrees_with_the_library_one() {
+        // two ways: the halving-and-series logarithm against malachite's
+        let mut ln2 = None;
+        for prec in [64u64, 200, 700, 3000] {
+            for (num, sh) in [(3i64, 0i64), (1, 0), (123456789, -40), (987654321, 300), (5, -2000), (999_999_937, 1)] {
+                let x = fi(num, prec + 64) << sh;
+                let a = ln_cached(&x, prec, &mut ln2);
+                let b = ln(&x, prec + 64);
+                let diff = &a - &b;
+                let scale = to_f64(&b).abs().max(1.0).log2().ceil() as i64;
+                // |a - b| <= 2^(scale - prec + 4), read off the exponent (no f64 underflow)
+                let ok = diff == 0u32 || diff.get_exponent().is_some_and(|e| i64::from(e) <= scale - prec as i64 + 4);
+                assert!(ok, "{num} << {sh} at {prec}: {:?}", diff.get_exponent());
+            }
+        }
+    }
     use malachite::base::num::arithmetic::traits::Abs;
 
     #[test]

@@ -27,10 +27,10 @@
 //! handed to the unit lattice (their exponents have about the size of `D`,
 //! not the thousands of bits an echelon with Euclid steps builds up).
 
-use super::linalg::hnf;
-use super::modular::{log2_row_length, ExactSolver};
+use super::linalg::{hnf, hnf_mod_word};
+use super::modular::{determinant, log2_row_length, ExactSolver};
 use crate::arith::{inv_mod, is_prime_u64, mul_mod};
-use malachite::base::num::arithmetic::traits::{Abs, DivisibleBy, Mod};
+use malachite::base::num::arithmetic::traits::{Abs, DivisibleBy, Gcd, Mod, UnsignedAbs};
 use malachite::base::num::basic::traits::{One, Zero};
 use malachite::Integer;
 
@@ -75,8 +75,9 @@ pub(crate) struct Core {
     pub(crate) exps: Vec<Vec<(usize, i64)>>,
     /// Rows that became zero: units (and roots of unity).
     pub(crate) units: Vec<Vec<(usize, i64)>>,
-    /// Columns left without any row: the relations do not have full rank.
-    pub(crate) empty_columns: usize,
+    /// Columns left without any row (original indices): the relations do
+    /// not have full rank, and more relations through these are wanted.
+    pub(crate) empty_columns: Vec<usize>,
 }
 
 /// Largest fill-in (Markowitz cost `(rows of the column - 1) (entries of
@@ -95,28 +96,28 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
     }
     let mut alive = vec![true; ncols];
     let mut units = Vec::new();
+    // per column the cheapest pivot (cost, row), recomputed only for the
+    // columns whose rows changed since (dirty)
+    let mut col_best: Vec<Option<(usize, usize)>> = vec![None; ncols];
+    let mut dirty = vec![true; ncols];
     loop {
         if stop() {
             break;
         }
         // the pivot of least cost: a column, a row with +-1 there
-        let mut best: Option<(usize, usize, usize)> = None; // (cost, col, row)
         for c in 0..ncols {
-            if !alive[c] {
+            if !alive[c] || !dirty[c] {
                 continue;
             }
+            dirty[c] = false;
             // drop stale entries (rows gone, or no longer touching c)
             col_rows[c].retain(|&i| {
                 rows[i]
                     .as_ref()
                     .is_some_and(|r| r.v.binary_search_by_key(&c, |x| x.0).is_ok())
             });
-            col_rows[c].sort_unstable();
-            col_rows[c].dedup();
             let w = col_rows[c].len();
-            if w == 0 {
-                continue;
-            }
+            let mut best: Option<(usize, usize)> = None;
             for &i in &col_rows[c] {
                 let Some(r) = rows[i].as_ref() else { continue };
                 let Ok(pos) = r.v.binary_search_by_key(&c, |x| x.0) else {
@@ -126,12 +127,19 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
                     continue;
                 }
                 let cost = (w - 1) * (r.v.len() - 1);
+                // ties to the lowest row number (the lists are not sorted)
+                if best.is_none_or(|b| cost < b.0 || (cost == b.0 && i < b.1)) {
+                    best = Some((cost, i));
+                }
+            }
+            col_best[c] = best;
+        }
+        let mut best: Option<(usize, usize, usize)> = None; // (cost, col, row)
+        for c in 0..ncols {
+            if let (true, Some((cost, i))) = (alive[c], col_best[c]) {
                 if best.is_none_or(|b| cost < b.0) {
                     best = Some((cost, c, i));
                 }
-            }
-            if best.is_some_and(|b| b.0 == 0) {
-                break;
             }
         }
         let Some((cost, c, piv)) = best else { break };
@@ -139,6 +147,9 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
             break;
         }
         let Some(prow) = rows[piv].take() else { break };
+        for &(cc, _) in &prow.v {
+            dirty[cc] = true;
+        }
         let sgn = prow.v[prow.v.binary_search_by_key(&c, |x| x.0).unwrap_or(0)].1;
         let others: Vec<usize> = col_rows[c].iter().copied().filter(|&i| i != piv).collect();
         for s in others {
@@ -147,6 +158,9 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
                 rows[s] = Some(row);
                 continue;
             };
+            for &(cc, _) in &row.v {
+                dirty[cc] = true;
+            }
             let a = row.v[pos].1;
             // row - a sgn prow has zero at c (sgn^2 = 1)
             let f = -a * sgn;
@@ -160,8 +174,11 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
                 }
                 continue;
             }
+            // the row is listed already under the columns it had
             for &(cc, _) in &v {
-                col_rows[cc].push(s);
+                if row.v.binary_search_by_key(&cc, |x| x.0).is_err() {
+                    col_rows[cc].push(s);
+                }
             }
             rows[s] = Some(SparseRelation { v, exps });
         }
@@ -187,7 +204,10 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
         dense.push(d);
         exps.push(r.exps);
     }
-    let empty_columns = hit.iter().filter(|h| !**h).count();
+    let empty_columns: Vec<usize> = (0..cols.len())
+        .filter(|&j| !hit[j])
+        .map(|j| cols[j])
+        .collect();
     Core {
         cols,
         rows: dense,
@@ -255,7 +275,7 @@ fn independent_rows(m: &[Vec<i64>], order: &[usize], n: usize) -> Vec<usize> {
 pub(crate) fn solve_core(core: &Core, stop: &dyn Fn() -> bool) -> Option<CoreSolution> {
     let n = core.cols.len();
     let m = core.rows.len();
-    if core.empty_columns > 0 || m < n {
+    if !core.empty_columns.is_empty() || m < n {
         return None;
     }
     // sparsest rows first: short rows make a well-conditioned B and short kernel vectors
@@ -287,12 +307,7 @@ pub(crate) fn solve_core(core: &Core, stop: &dyn Fn() -> bool) -> Option<CoreSol
     if d == 0u32 || stop() {
         return None;
     }
-    let gens: Vec<Vec<Integer>> = core
-        .rows
-        .iter()
-        .map(|r| r.iter().map(|&x| Integer::from(x)).collect())
-        .collect();
-    let hermite = hnf(&gens, n, Some(&d)).ok()?;
+    let hermite = core_hermite(core, &sel, &d, stop)?;
     Some(CoreSolution {
         hermite,
         sel,
@@ -300,6 +315,78 @@ pub(crate) fn solve_core(core: &Core, stop: &dyn Fn() -> bool) -> Option<CoreSol
         solver: Some(solver),
         d,
     })
+}
+
+/// Further choices of `n` independent rows for [`lattice_multiple`].
+const EXTRA_DETERMINANTS: usize = 3;
+
+/// A multiple of the lattice's index `det L` smaller than `d = det B`:
+/// the gcd of `d` and the determinants of other independent row choices
+/// (each is `det L` times its own index in `L`, and those indices rarely
+/// share a factor; the gcd is an integral combination of the
+/// determinants, so it times `Z^n` lies in `L` too). Stops once the gcd
+/// fits in a word.
+fn lattice_multiple(core: &Core, sel: &[usize], d: &Integer, stop: &dyn Fn() -> bool) -> Integer {
+    let n = core.cols.len();
+    let m = core.rows.len();
+    let mut g = d.clone();
+    let mut state = 0x9e37_79b9_7f4a_7c15u64 ^ m as u64;
+    for _ in 0..EXTRA_DETERMINANTS {
+        if g < (1u64 << 31) || stop() {
+            break;
+        }
+        // a random order, the rows of B last
+        let mut order: Vec<usize> = (0..m).filter(|i| !sel.contains(i)).collect();
+        for i in (1..order.len()).rev() {
+            state ^= state << 13;
+            state ^= state >> 7;
+            state ^= state << 17;
+            order.swap(i, (state % (i as u64 + 1)) as usize);
+        }
+        order.extend_from_slice(sel);
+        let other = independent_rows(&core.rows, &order, n);
+        if other.len() < n {
+            break;
+        }
+        let rows: Vec<Vec<i64>> = other.iter().map(|&i| core.rows[i].clone()).collect();
+        let d2 = determinant(&rows).abs();
+        if d2 != 0u32 {
+            g = Integer::from(g.unsigned_abs().gcd(d2.unsigned_abs()));
+        }
+    }
+    g
+}
+
+/// The Hermite form of all core rows: modulo a small multiple of the
+/// index ([`lattice_multiple`]), in words where it fits (`linalg.rs`
+/// `hnf_mod_word`), else with multiprecision entries.
+fn core_hermite(
+    core: &Core,
+    sel: &[usize],
+    d: &Integer,
+    stop: &dyn Fn() -> bool,
+) -> Option<Vec<Vec<Integer>>> {
+    let n = core.cols.len();
+    let g = lattice_multiple(core, sel, d, stop);
+    if stop() {
+        return None;
+    }
+    if let Ok(w) = u64::try_from(&g) {
+        if w < (1 << 62) {
+            let h = hnf_mod_word(&core.rows, n, w);
+            return Some(
+                h.into_iter()
+                    .map(|r| r.into_iter().map(Integer::from).collect())
+                    .collect(),
+            );
+        }
+    }
+    let gens: Vec<Vec<Integer>> = core
+        .rows
+        .iter()
+        .map(|r| r.iter().map(|&x| Integer::from(x)).collect())
+        .collect();
+    hnf(&gens, n, Some(&g)).ok()
 }
 
 impl CoreSolution {
