@@ -3,6 +3,9 @@
 //! brute-force search for units in `Z[t]`, and the analytic class number
 //! formula), and the laws on random cubics beyond discriminant 10^11.
 
+mod hunter;
+
+use hunter::{has_integer_root, poly_disc, FieldSieve};
 use malachite::Integer;
 use twofold::numfield::{ClassGroup, ClassGroupOptions, FactorBaseBound, NumberField};
 
@@ -160,10 +163,6 @@ fn cubic(p: i64, q: i64, r: i64) -> Vec<Integer> {
     z(&[r, q, p, 1])
 }
 
-fn poly_disc(p: i128, q: i128, r: i128) -> i128 {
-    p * p * q * q - 4 * q.pow(3) - 4 * p.pow(3) * r - 27 * r * r + 18 * p * q * r
-}
-
 /// The complex cubic fields of discriminant `-dmax <= d < 0`, one defining
 /// polynomial each, by Hunter's theorem (Cohen GTM 138, Theorem 6.4.2:
 /// an integer `t` outside Z with `Tr t` in {0, 1} and
@@ -177,8 +176,7 @@ fn poly_disc(p: i128, q: i128, r: i128) -> i128 {
 fn complex_cubic_fields_up_to(dmax: i64) -> Vec<(i64, (i64, i64, i64), NumberField)> {
     let t2max = 1.0 / 3.0 + (2.0 / 3.0) * (dmax as f64).sqrt();
     let cmax = (t2max / 3.0).powf(1.5).floor() as i64;
-    let primes: Vec<i64> = (3..400).filter(|&p| (2..p).take_while(|d| d * d <= p).all(|d| p % d != 0)).collect();
-    let mut seen: std::collections::HashMap<i64, Vec<Vec<Option<usize>>>> = std::collections::HashMap::new();
+    let mut fields = FieldSieve::new();
     let mut out = Vec::new();
     for s in 0..=1i64 {
         let blo = (((s * s) as f64 - t2max) / 2.0).ceil() as i64;
@@ -191,8 +189,7 @@ fn complex_cubic_fields_up_to(dmax: i64) -> Vec<(i64, (i64, i64, i64), NumberFie
                     continue;
                 }
                 // irreducible: no integer root (a root divides r)
-                let has_root = r == 0 || (1..=r.abs()).any(|x| r % x == 0 && [x, -x].iter().any(|&x| x * x * x + p * x * x + q * x + r == 0));
-                if has_root {
+                if has_integer_root(p, q, r) {
                     continue;
                 }
                 let k = NumberField::new(&cubic(p, q, r)).unwrap();
@@ -200,17 +197,7 @@ fn complex_cubic_fields_up_to(dmax: i64) -> Vec<(i64, (i64, i64, i64), NumberFie
                 if d < -dmax {
                     continue;
                 }
-                // root counts at the primes not dividing the polynomial
-                // discriminant: the number of degree-one primes above them,
-                // an invariant of the field
-                let sig: Vec<Option<usize>> = primes
-                    .iter()
-                    .map(|&l| (pd % l as i128 != 0).then(|| (0..l).filter(|x| (x * x % l * x + p.rem_euclid(l) * x % l * x + q.rem_euclid(l) * x + r.rem_euclid(l)) % l == 0).count()))
-                    .collect();
-                let same = |other: &Vec<Option<usize>>| sig.iter().zip(other).all(|(a, b)| a.is_none() || b.is_none() || a == b);
-                let known: &mut Vec<Vec<Option<usize>>> = seen.entry(d).or_default();
-                if !known.iter().any(same) {
-                    known.push(sig);
+                if fields.is_new(d, (p, q, r), pd) {
                     out.push((d, (p, q, r), k));
                 }
             }

@@ -7,16 +7,15 @@
 //! `Z[t]`), and the analytic class number formula on random totally real
 //! cubics.
 
+mod hunter;
+
+use hunter::{has_integer_root, poly_disc, FieldSieve};
 use malachite::Integer;
 use twofold::numfield::{ClassGroupOptions, NumberField};
 
 /// `t^3 + p t^2 + q t + r`, constant term first.
 fn cubic(p: i64, q: i64, r: i64) -> Vec<Integer> {
     [r, q, p, 1].iter().map(|&c| Integer::from(c)).collect()
-}
-
-fn poly_disc(p: i128, q: i128, r: i128) -> i128 {
-    p * p * q * q - 4 * q.pow(3) - 4 * p.pow(3) * r - 27 * r * r + 18 * p * q * r
 }
 
 /// The three real roots of `t^3 + p t^2 + q t + r` (positive discriminant),
@@ -177,8 +176,7 @@ fn random_totally_real_cubics_obey_the_class_number_formula() {
 fn totally_real_cubic_fields_up_to(dmax: i64) -> Vec<(i64, (i64, i64, i64), NumberField)> {
     let t2max = 1.0 / 3.0 + (2.0 / 3.0) * (dmax as f64).sqrt();
     let cmax = (t2max / 3.0).powf(1.5).floor() as i64;
-    let primes: Vec<i64> = (3..400).filter(|&p| (2..p).take_while(|d| d * d <= p).all(|d| p % d != 0)).collect();
-    let mut seen: std::collections::HashMap<i64, Vec<Vec<Option<usize>>>> = std::collections::HashMap::new();
+    let mut fields = FieldSieve::new();
     let mut out = Vec::new();
     for s in 0..=1i64 {
         let bmin = ((s * s) as f64 - t2max) / 2.0;
@@ -192,8 +190,7 @@ fn totally_real_cubic_fields_up_to(dmax: i64) -> Vec<(i64, (i64, i64, i64), Numb
                     continue;
                 }
                 // irreducible: no integer root (a root divides r)
-                let has_root = (-(r.abs())..=r.abs()).any(|x| x != 0 && r % x == 0 && x * x * x + p * x * x + q * x + r == 0) || r == 0;
-                if has_root {
+                if has_integer_root(p, q, r) {
                     continue;
                 }
                 let k = NumberField::new(&cubic(p, q, r)).unwrap();
@@ -201,18 +198,7 @@ fn totally_real_cubic_fields_up_to(dmax: i64) -> Vec<(i64, (i64, i64, i64), Numb
                 if d > dmax || t2 > (s * s) as f64 / 3.0 + (2.0 / 3.0) * (d as f64).sqrt() + 1e-9 {
                     continue;
                 }
-                // root counts at the primes not dividing the polynomial
-                // discriminant (the number of degree-one primes above them,
-                // a field invariant): a polynomial of a field met before
-                // agrees with it at every prime good for both
-                let sig: Vec<Option<usize>> = primes
-                    .iter()
-                    .map(|&l| (pd % l as i128 != 0).then(|| (0..l).filter(|x| (x * x % l * x + p.rem_euclid(l) * x % l * x + q.rem_euclid(l) * x + r.rem_euclid(l)) % l == 0).count()))
-                    .collect();
-                let same = |other: &Vec<Option<usize>>| sig.iter().zip(other).all(|(a, b)| a.is_none() || b.is_none() || a == b);
-                let known: &mut Vec<Vec<Option<usize>>> = seen.entry(d).or_default();
-                if !known.iter().any(same) {
-                    known.push(sig);
+                if fields.is_new(d, (p, q, r), pd) {
                     out.push((d, (p, q, r), k));
                 }
             }
