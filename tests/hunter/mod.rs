@@ -23,18 +23,27 @@ pub fn has_integer_root(p: i64, q: i64, r: i64) -> bool {
 /// both.
 pub struct FieldSieve {
     primes: Vec<i64>,
-    seen: HashMap<i64, Vec<Vec<Option<usize>>>>,
+    seen: HashMap<i64, Vec<(Vec<Option<usize>>, usize)>>,
+    count: usize,
 }
 
 impl FieldSieve {
     pub fn new() -> Self {
         let primes = (3..400).filter(|&p| (2..p).take_while(|d| d * d <= p).all(|d| p % d != 0)).collect();
-        FieldSieve { primes, seen: HashMap::new() }
+        FieldSieve { primes, seen: HashMap::new(), count: 0 }
     }
 
     /// Whether the field of `t^3 + p t^2 + q t + r` (polynomial discriminant
     /// `pd`, field discriminant `d`) is new; it is recorded if so.
-    pub fn is_new(&mut self, d: i64, (p, q, r): (i64, i64, i64), pd: i128) -> bool {
+    #[allow(dead_code)]
+    pub fn is_new(&mut self, d: i64, pqr: (i64, i64, i64), pd: i128) -> bool {
+        self.field_of(d, pqr, pd).1
+    }
+
+    /// The field of `t^3 + p t^2 + q t + r` as a number (0, 1, 2, ... in
+    /// the order first met) and whether it is new; recorded if so.
+    #[allow(dead_code)]
+    pub fn field_of(&mut self, d: i64, (p, q, r): (i64, i64, i64), pd: i128) -> (usize, bool) {
         let sig: Vec<Option<usize>> = self
             .primes
             .iter()
@@ -42,10 +51,12 @@ impl FieldSieve {
             .collect();
         let same = |other: &Vec<Option<usize>>| sig.iter().zip(other).all(|(a, b)| a.is_none() || b.is_none() || a == b);
         let known = self.seen.entry(d).or_default();
-        if known.iter().any(same) {
-            return false;
+        if let Some((_, id)) = known.iter().find(|(s, _)| same(s)) {
+            return (*id, false);
         }
-        known.push(sig);
-        true
+        let id = self.count;
+        self.count += 1;
+        known.push((sig, id));
+        (id, true)
     }
 }
