@@ -174,7 +174,8 @@ fn cubic(p: i64, q: i64, r: i64) -> Vec<Integer> {
 /// apart by their discriminant and the number of roots of the polynomial
 /// modulo the primes below 400.
 fn complex_cubic_fields_up_to(dmax: i64) -> Vec<(i64, (i64, i64, i64), NumberField)> {
-    let t2max = 1.0 / 3.0 + (2.0 / 3.0) * (dmax as f64).sqrt();
+    // + 1e-9: the bound can be met with equality, and f64 rounding must not cut it
+    let t2max = 1.0 / 3.0 + (2.0 / 3.0) * (dmax as f64).sqrt() + 1e-9;
     let cmax = (t2max / 3.0).powf(1.5).floor() as i64;
     let mut fields = FieldSieve::new();
     let mut out = Vec::new();
