@@ -1,10 +1,18 @@
 //! Machine-word kernels: modular multiplication, powers, primality and a
 //! bit sieve of Eratosthenes.
 
-/// `a * b mod m` for `m > 0`, through a 128-bit product.
+/// `a * b mod m` for `m > 0`, through a 128-bit product; a product that
+/// fits in a word is reduced by a word division (the 128-bit remainder is
+/// a library call, several times slower: 23% of the class groups of small
+/// cubic fields, whose Euler products work modulo primes below 1e5).
 #[inline]
 pub fn mul_mod(a: u64, b: u64, m: u64) -> u64 {
-    ((a as u128 * b as u128) % m as u128) as u64
+    let x = a as u128 * b as u128;
+    if x >> 64 == 0 {
+        (x as u64) % m
+    } else {
+        (x % m as u128) as u64
+    }
 }
 
 /// `b^e mod m` for `m > 0` by square and multiply.
@@ -302,6 +310,11 @@ mod tests {
 
     #[test]
     fn word_kernels_small_cases() {
+        // both sides of the word-product branch: 2^32 (2^32 - 1) fits in a
+        // word, 2^32 2^32 does not; 2^64 = 1 mod 2^64 - 1 (hand-checked)
+        assert_eq!(mul_mod(1 << 32, (1 << 32) - 1, 1_000_003), ((1u128 << 32) * ((1u128 << 32) - 1) % 1_000_003) as u64);
+        assert_eq!(mul_mod(1 << 32, 1 << 32, u64::MAX), 1);
+        assert_eq!(mul_mod(99_991, 99_989, 99_991), 0);
         // the crate-private kernels' former doc examples (hand-checked)
         assert_eq!(mul_mod(u64::MAX - 1, u64::MAX - 1, u64::MAX), 1); // (-1)^2
         assert_eq!(pow_mod(3, 4, 7), 81 % 7);
