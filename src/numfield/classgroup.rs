@@ -560,6 +560,9 @@ pub(crate) fn cubic_root_count(f: &[u64], disc: u64, p: u64) -> usize {
         return 1;
     }
     // x^p mod (f, p), polynomials of degree < 3 as [c0, c1, c2]
+    if p < 1 << 32 && f.iter().all(|&c| c < p) {
+        return if super::fp::pow_linear_mod_cubic(0, p, [f[0], f[1], f[2]], p) == [0, 1, 0] { 3 } else { 0 };
+    }
     let mulm = |a: [u64; 3], b: [u64; 3]| -> [u64; 3] {
         let mut c = [0u64; 5];
         for i in 0..3 {
