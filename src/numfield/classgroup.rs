@@ -1064,9 +1064,16 @@ impl NumberField {
                 push(f, &mut all, &mut hits);
             }
         }
+        let mut found: Vec<Found> = Vec::new();
+        // relations from a log sieve over a + b theta first (cubic fields)
+        rels.sieve_collect(kfb + KERNEL_EXCESS, &stop, &mut found)?;
+        // many relations from the sieve: the rounds aim at the columns it missed from the start
+        let sieved = found.len() >= kfb / 2;
+        for f in found.drain(..) {
+            push(f, &mut all, &mut hits);
+        }
         let max_rounds = MAX_ROUNDS + 40 * kfb;
         let mut round = 0usize;
-        let mut found: Vec<Found> = Vec::new();
         let mut attempts = vec![0usize; kfb];
         let mut cursor = 0usize;
         let mut want = kfb + KERNEL_EXCESS;
@@ -1074,7 +1081,7 @@ impl NumberField {
         let (solution, units, ratio) = loop {
             while all.len() < want || hits.contains(&0) {
                 round += 1;
-                let aim = if round > kfb + 1 && round.is_multiple_of(2) {
+                let aim = if (sieved || round > kfb + 1) && round.is_multiple_of(2) {
                     (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| hits[j] == 0 && attempts[j] < TARGETED_ATTEMPTS)
                 } else {
                     None

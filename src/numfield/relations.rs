@@ -1487,6 +1487,83 @@ impl RelationSearch<'_> {
         (sp, keys)
     }
 
+    /// Relations from the line sieve (cubic fields): smooth `a + b theta`
+    /// over the columns, or with one prime ideal up to the generation bound
+    /// outside them (paired as in [`RelationSearch::round`]), line after
+    /// line until `want` relations are in `out` or the lines run out.
+    pub(crate) fn sieve_collect(
+        &mut self,
+        want: usize,
+        stop: &dyn Fn() -> bool,
+        out: &mut Vec<Found>,
+    ) -> Result<(), Error> {
+        let k = self.k;
+        if k.n != 3 {
+            return Ok(());
+        }
+        let Ok(coeffs) = k
+            .poly
+            .iter()
+            .map(i128::try_from)
+            .collect::<Result<Vec<i128>, _>>()
+        else {
+            return Ok(());
+        };
+        let Some(table) = self.line_table(self.gen_bound)? else {
+            return Ok(());
+        };
+        let (sp, keys) = self.sieve_primes(&table);
+        let mut ls = LineSieve::new(sp, coeffs.clone(), self.b0);
+        let theta = k.generator();
+        let minus_one = k.rational(&Rational::from(-1));
+        let mut smooth: Vec<Smooth> = Vec::with_capacity(1024);
+        let skip = |hits: &[u32]| hits.len() > 1;
+        for b in 1..=COLLECT_LINES {
+            if out.len() >= want {
+                break;
+            }
+            if stop() {
+                return Err(Error::new(
+                    ErrorKind::Budget,
+                    "class group: budget exhausted",
+                ));
+            }
+            ls.line(b, &self.divisors, &skip, &mut smooth);
+            for c in smooth.drain(..) {
+                let large: Vec<u64> = c.hits[..c.count as usize]
+                    .iter()
+                    .map(|&idx| keys[idx as usize].0)
+                    .collect();
+                let Some(norm) = line_norm(&coeffs, c.a as i128, b as i128) else {
+                    continue;
+                };
+                let val = norm.unsigned_abs();
+                let elem = k.add(
+                    &k.rational(&Rational::from(c.a)),
+                    &k.mul(&k.rational(&Rational::from(b)), &theta),
+                );
+                if self.primitive_only && self.seen.contains(&k.mul(&minus_one, &elem)) {
+                    continue;
+                }
+                if !self.seen.insert(elem.clone()) {
+                    continue;
+                }
+                let vals = match self.line_valuations(c.a, b, val, &large, &table) {
+                    Some(v) => v,
+                    None => match self.valuations_of(&elem, val, val, 1, &large)? {
+                        Some(v) => v,
+                        None => continue,
+                    },
+                };
+                self.accept(elem, vals, &Goal::Collect, out);
+                if out.len() >= want {
+                    break;
+                }
+            }
+        }
+        Ok(())
+    }
+
     /// The check of [`RelationSearch::verify_all`] for many prime ideals at
     /// once: a log sieve over the lines `a + b theta`, `|a| <= A`, `b = 1,
     /// 2, ...` with every degree-one prime ideal up to the generation bound
@@ -1651,6 +1728,8 @@ const SIEVE_AREA: f64 = 16.0;
 const SIEVE_LINES_FACTOR: f64 = 400.0;
 /// Bits of the norm the sieve may miss (primes 2 and 3, prime powers, rounding).
 const SIEVE_SLACK: i32 = 8;
+/// Lines sieved at most for relations ([`RelationSearch::sieve_collect`]).
+const COLLECT_LINES: i64 = 64;
 /// Elements kept per prime ideal.
 const SIEVE_KEEP: usize = 3;
 
