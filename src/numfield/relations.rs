@@ -1276,7 +1276,7 @@ impl LineSieve {
         let bf = b as f64;
         let mut e = [0f64; 4];
         for i in 0..=n {
-            let sign = if (n + i) % 2 == 0 { 1.0 } else { -1.0 };
+            let sign = if (n + i).is_multiple_of(2) { 1.0 } else { -1.0 };
             e[i] = sign * self.fcoef[i] * bf.powi((n - i) as i32);
         }
         self.cands.clear();
@@ -1424,13 +1424,13 @@ impl RelationSearch<'_> {
             let bm = b.rem_euclid(p as i64) as u64;
             let &(i, _) = list
                 .iter()
-                .find(|&&(_, r)| (am + mul_mod(bm, r as u64, p)) % p == 0)?;
+                .find(|&&(_, r)| (am + mul_mod(bm, r as u64, p)).is_multiple_of(p))?;
             out.push(((p, i), e));
             Some(())
         };
         for &p in large {
             let mut e = 0;
-            while rest % p as u128 == 0 {
+            while rest.is_multiple_of(p as u128) {
                 rest /= p as u128;
                 e += 1;
             }
@@ -1449,7 +1449,7 @@ impl RelationSearch<'_> {
                 break;
             }
             let mut e = 0;
-            while rest % p as u128 == 0 {
+            while rest.is_multiple_of(p as u128) {
                 rest /= p as u128;
                 e += 1;
             }
@@ -1698,7 +1698,7 @@ impl RelationSearch<'_> {
                                 .unwrap_or_default(),
                         );
                     }
-                    let vals = rec.vals.as_ref().map(Vec::as_slice).unwrap_or(&[]);
+                    let vals = rec.vals.as_deref().unwrap_or(&[]);
                     let ok = vals.iter().any(|(q, _)| *q == key)
                         && vals.iter().all(|(q, ex)| {
                             if *q == key {
