@@ -560,6 +560,9 @@ pub(crate) fn cubic_root_count(f: &[u64], disc: u64, p: u64) -> usize {
         return 1;
     }
     // x^p mod (f, p), polynomials of degree < 3 as [c0, c1, c2]
+    if p < 1 << 32 && f.iter().all(|&c| c < p) {
+        return if super::fp::pow_linear_mod_cubic(0, p, [f[0], f[1], f[2]], p) == [0, 1, 0] { 3 } else { 0 };
+    }
     let mulm = |a: [u64; 3], b: [u64; 3]| -> [u64; 3] {
         let mut c = [0u64; 5];
         for i in 0..3 {
@@ -1061,9 +1064,16 @@ impl NumberField {
                 push(f, &mut all, &mut hits);
             }
         }
+        let mut found: Vec<Found> = Vec::new();
+        // relations from a log sieve over a + b theta first (cubic fields)
+        rels.sieve_collect(kfb + KERNEL_EXCESS, &stop, &mut found)?;
+        // many relations from the sieve: the rounds aim at the columns it missed from the start
+        let sieved = found.len() >= kfb / 2;
+        for f in found.drain(..) {
+            push(f, &mut all, &mut hits);
+        }
         let max_rounds = MAX_ROUNDS + 40 * kfb;
         let mut round = 0usize;
-        let mut found: Vec<Found> = Vec::new();
         let mut attempts = vec![0usize; kfb];
         let mut cursor = 0usize;
         let mut want = kfb + KERNEL_EXCESS;
@@ -1071,7 +1081,7 @@ impl NumberField {
         let (solution, units, ratio) = loop {
             while all.len() < want || hits.contains(&0) {
                 round += 1;
-                let aim = if round > kfb + 1 && round.is_multiple_of(2) {
+                let aim = if (sieved || round > kfb + 1) && round.is_multiple_of(2) {
                     (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| hits[j] == 0 && attempts[j] < TARGETED_ATTEMPTS)
                 } else {
                     None

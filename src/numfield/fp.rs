@@ -109,8 +109,70 @@ pub(crate) fn make_monic(f: &mut [u64], p: u64) {
     }
 }
 
+/// `(x + a)^e` modulo the monic cubic `x^3 + m[2] x^2 + m[1] x + m[0]`
+/// for `p < 2^32` (coefficients below `p`): left-to-right binary powering
+/// on fixed arrays, products summed in `u128` and reduced once per
+/// coefficient, the multiplication by `x + a` a shift.
+pub(crate) fn pow_linear_mod_cubic(a: u64, e: u64, m: [u64; 3], p: u64) -> [u64; 3] {
+    let pp = p as u128;
+    // x^3 = -(m0 + m1 x + m2 x^2), x^4 = x * x^3
+    let n0 = (p - m[0]) % p;
+    let n1 = (p - m[1]) % p;
+    let n2 = (p - m[2]) % p;
+    // x^3 = n0 + n1 x + n2 x^2; x^4 = n2 n0 + (n0 + n2 n1) x + (n1 + n2 n2) x^2
+    let q0 = (n2 as u128 * n0 as u128 % pp) as u64;
+    let q1 = ((n0 as u128 + n2 as u128 * n1 as u128) % pp) as u64;
+    let q2 = ((n1 as u128 + n2 as u128 * n2 as u128) % pp) as u64;
+    let mut r = [1u64, 0, 0];
+    if e == 0 {
+        return r;
+    }
+    for bit in (0..(64 - e.leading_zeros())).rev() {
+        // square: degree 4, then fold x^3 and x^4
+        let (r0, r1, r2) = (r[0] as u128, r[1] as u128, r[2] as u128);
+        let c0 = r0 * r0 % pp;
+        let c1 = 2 * r0 * r1 % pp;
+        let c2 = (2 * r0 * r2 + r1 * r1) % pp;
+        let c3 = 2 * r1 * r2 % pp;
+        let c4 = r2 * r2 % pp;
+        r = [
+            ((c0 + c3 * n0 as u128 + c4 * q0 as u128) % pp) as u64,
+            ((c1 + c3 * n1 as u128 + c4 * q1 as u128) % pp) as u64,
+            ((c2 + c3 * n2 as u128 + c4 * q2 as u128) % pp) as u64,
+        ];
+        if (e >> bit) & 1 == 1 {
+            // times x + a: x r + a r, x r = r2 x^3 + r1 x^2 + r0 x
+            let (r0, r1, r2) = (r[0] as u128, r[1] as u128, r[2] as u128);
+            let aa = a as u128;
+            r = [
+                ((aa * r0 + r2 * n0 as u128) % pp) as u64,
+                ((r0 + aa * r1 + r2 * n1 as u128) % pp) as u64,
+                ((r1 + aa * r2 + r2 * n2 as u128) % pp) as u64,
+            ];
+        }
+    }
+    r
+}
+
 /// `base^e mod m` (m of degree at least 1).
-pub(crate) fn pow_mod_poly(base: &[u64], mut e: u64, m: &[u64], p: u64) -> Vec<u64> {
+pub(crate) fn pow_mod_poly(base: &[u64], e: u64, m: &[u64], p: u64) -> Vec<u64> {
+    if m.len() == 4
+        && m[3] == 1
+        && p < 1 << 32
+        && base.len() == 2
+        && base[1] == 1
+        && m.iter().chain(base).all(|&c| c < p)
+    {
+        let r = pow_linear_mod_cubic(base[0], e, [m[0], m[1], m[2]], p);
+        let mut v = r.to_vec();
+        trim(&mut v);
+        return v;
+    }
+    pow_mod_poly_plain(base, e, m, p)
+}
+
+/// `base^e mod m` by the general routines.
+fn pow_mod_poly_plain(base: &[u64], mut e: u64, m: &[u64], p: u64) -> Vec<u64> {
     let mut result = vec![1u64];
     let mut b = rem(base, m, p);
     while e > 0 {
@@ -245,10 +307,38 @@ pub(crate) fn factor_small(f: &[u64], p: u64) -> Option<Vec<(Vec<u64>, u32)>> {
     Some(out)
 }
 
-
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn cubic_powering_agrees_with_the_general_routine() {
+        // two ways: the fixed-array powering modulo a monic cubic against
+        // products and remainders of general polynomials
+        let mut s = 7u64;
+        let mut rnd = || {
+            s ^= s << 13;
+            s ^= s >> 7;
+            s ^= s << 17;
+            s
+        };
+        for p in [5u64, 7, 101, 65537, 1_000_003, 4_294_967_291] {
+            for _ in 0..40 {
+                let m = [rnd() % p, rnd() % p, rnd() % p, 1];
+                let a = rnd() % p;
+                let e = match rnd() % 3 {
+                    0 => rnd() % 20,
+                    1 => p,
+                    _ => rnd(),
+                };
+                assert_eq!(
+                    pow_mod_poly(&[a, 1], e, &m, p),
+                    pow_mod_poly_plain(&[a, 1], e, &m, p),
+                    "{m:?} {a} {e} mod {p}"
+                );
+            }
+        }
+    }
 
     fn brute_roots(f: &[u64], p: u64) -> Vec<u64> {
         (0..p).filter(|&x| eval(f, x, p) == 0).collect()
@@ -259,7 +349,12 @@ mod tests {
         // independent check: evaluation at every residue
         for &p in &[67u64, 101, 257, 1009, 7919] {
             for seed in 0..200u64 {
-                let f = vec![(seed * 7919 + 3) % p, (seed * 31 + 1) % p, (seed * seed + 5) % p, 1];
+                let f = vec![
+                    (seed * 7919 + 3) % p,
+                    (seed * 31 + 1) % p,
+                    (seed * seed + 5) % p,
+                    1,
+                ];
                 assert_eq!(roots(&f, p), brute_roots(&f, p), "p={p} f={f:?}");
             }
         }

@@ -110,29 +110,25 @@ pub(crate) fn eliminate(rels: &[SparseRelation], ncols: usize, stop: &dyn Fn() -
                 continue;
             }
             dirty[c] = false;
-            // drop stale entries (rows gone, or no longer touching c)
+            // drop stale entries (rows gone, or no longer touching c) and,
+            // in the same pass, find the shortest row with +-1 at c: the
+            // cost (w - 1) (length - 1) grows with the length for a fixed
+            // column, ties to the lowest row number (the lists are not sorted)
+            let mut shortest: Option<(usize, usize)> = None; // (length, row)
             col_rows[c].retain(|&i| {
-                rows[i]
-                    .as_ref()
-                    .is_some_and(|r| r.v.binary_search_by_key(&c, |x| x.0).is_ok())
+                let Some(r) = rows[i].as_ref() else {
+                    return false;
+                };
+                let Ok(pos) = r.v.binary_search_by_key(&c, |x| x.0) else {
+                    return false;
+                };
+                if r.v[pos].1.abs() == 1 && shortest.is_none_or(|b| (r.v.len(), i) < b) {
+                    shortest = Some((r.v.len(), i));
+                }
+                true
             });
             let w = col_rows[c].len();
-            let mut best: Option<(usize, usize)> = None;
-            for &i in &col_rows[c] {
-                let Some(r) = rows[i].as_ref() else { continue };
-                let Ok(pos) = r.v.binary_search_by_key(&c, |x| x.0) else {
-                    continue;
-                };
-                if r.v[pos].1.abs() != 1 {
-                    continue;
-                }
-                let cost = (w - 1) * (r.v.len() - 1);
-                // ties to the lowest row number (the lists are not sorted)
-                if best.is_none_or(|b| cost < b.0 || (cost == b.0 && i < b.1)) {
-                    best = Some((cost, i));
-                }
-            }
-            col_best[c] = best;
+            col_best[c] = shortest.map(|(len, i)| ((w - 1) * (len - 1), i));
         }
         let mut best: Option<(usize, usize, usize)> = None; // (cost, col, row)
         for c in 0..ncols {
