@@ -390,6 +390,75 @@ impl UnitLattice {
     /// (unimodular steps); false, with the old basis kept, when precision
     /// or the step limit stops it.
     fn merge(&mut self, u: Row, src: &mut LogSource) -> bool {
+        let full = self.basis.len() == self.r;
+        let old_det = if full { self.det() } else { 0.0 };
+        let copy = |x: &Row| Row { v: x.v.clone(), logs: x.logs.clone(), exps: x.exps.clone(), err: x.err };
+        let old: Vec<Row> = self.basis.iter().map(copy).collect();
+        if !self.merge_steps(u, src) {
+            self.basis = old;
+            return false;
+        }
+        // the lattice only grows: the new covolume divides the old one by a
+        // positive integer, read with the logs' accuracy; anything else (an
+        // f64 LLL step misled by rounding noise, a vector of huge logs
+        // taken for a root of unity) leaves the old basis in place
+        let (new_det, q) = if full && self.basis.len() == self.r {
+            let d = self.det();
+            (d, old_det / d)
+        } else {
+            (1.0, 1.0)
+        };
+        let accurate = self.basis.iter().all(|b| b.err.is_finite() && b.logs[..self.r].iter().all(|x| x.is_finite()) && b.err < 1e-6 * b.logs[..self.r].iter().map(|x| x * x).sum::<f64>().sqrt().max(1.0));
+        if !(accurate && new_det > 0.0 && q >= 1.0 - 1e-6 && (q - q.round()).abs() < 1e-4 * q) {
+            self.basis = old;
+            return false;
+        }
+        self.reduce_basis(src);
+        true
+    }
+
+    /// LLL-reduces a full basis (f64 LLL of its independent log vectors,
+    /// the transformation applied to the exponents, the logs recomputed
+    /// from them), so that the coordinates of the next unit on it are well
+    /// conditioned: on a skew basis (vectors of length 1e3 spanning a
+    /// covolume of 383) the normal equations lost eight digits and the
+    /// exact rational coordinates were not recognised. The step is
+    /// unimodular: a recomputed covolume that differs keeps the old basis.
+    fn reduce_basis(&mut self, src: &mut LogSource) {
+        let r = self.r;
+        if r < 2 || self.basis.len() != r {
+            return;
+        }
+        let vecs: Vec<Vec<f64>> = self.basis.iter().map(|x| x.logs[..r].to_vec()).collect();
+        let t = lll_f64(&vecs);
+        if t.iter().enumerate().all(|(i, row)| row.iter().enumerate().all(|(j, c)| *c == i64::from(i == j))) {
+            return;
+        }
+        let before = self.det();
+        let mut next: Vec<Row> = Vec::with_capacity(r);
+        for trow in &t {
+            let mut acc = Row { v: Vec::new(), logs: vec![0.0; self.basis[0].logs.len()], exps: Vec::new(), err: 0.0 };
+            for (c, row) in trow.iter().zip(&self.basis) {
+                if *c != 0 {
+                    acc.exps = combine(&acc.exps, &Integer::ONE, &row.exps, &Integer::from(*c));
+                }
+            }
+            if !refresh(&mut acc, src) {
+                return;
+            }
+            next.push(acc);
+        }
+        let old = std::mem::replace(&mut self.basis, next);
+        let after = self.det();
+        if !(after.is_finite() && (after - before).abs() <= 1e-6 * before) {
+            self.basis = old;
+        }
+    }
+
+    /// The steps of [`UnitLattice::merge`]; false when precision or the
+    /// step limit stops them (the basis may then be left half-done: the
+    /// caller restores it).
+    fn merge_steps(&mut self, u: Row, src: &mut LogSource) -> bool {
         let r = self.r;
         let norm = |x: &Row| x.logs[..r].iter().map(|y| y * y).sum::<f64>().sqrt();
         let copy = |x: &Row| Row { v: x.v.clone(), logs: x.logs.clone(), exps: x.exps.clone(), err: x.err };
@@ -486,6 +555,7 @@ impl UnitLattice {
         if dot(&res, &res).sqrt() > 1e-6 * norm {
             if self.basis.len() < self.r {
                 self.basis.push(u);
+                self.reduce_basis(src);
                 return true;
             }
             return false;
@@ -544,6 +614,7 @@ impl UnitLattice {
             }
         }
         self.basis = out;
+        self.reduce_basis(src);
         true
     }
 }
