@@ -15,7 +15,7 @@
 
 use super::f2::{kernel, F2Span, SquareClasses};
 use crate::arith::{jacobi, valuation};
-use crate::budget::{RankOptions, Stage, Work};
+use crate::budget::{Ladder, RankOptions, Stage, Work, QUARTIC_GROWTH};
 use crate::curve::{Curve, Point};
 use crate::error::Error;
 use crate::search::{search_curve, search_quartic, SearchLimits};
@@ -694,10 +694,13 @@ fn add_side_curve_points(models: &[Curve; 2], options: &RankOptions, work: &Work
 }
 
 /// Search on the coverings of Selmer classes not yet explained, at heights
-/// doubled from `search_height` up to `search_height_ceiling` while the
-/// bounds do not meet and the work has time; a rank proven by another route
-/// (`enough`) also ends the ladder. Returns the height reached and whether
-/// every search ran to its bound.
+/// doubled from `search_height` towards `search_height_ceiling`, each rung
+/// only when its cost predicted from the last one fits the ladder's share
+/// of the budget ([`Ladder`], growth [`QUARTIC_GROWTH`]), while the bounds
+/// do not meet; a rank proven by another route (`enough`) also ends the
+/// ladder. Returns the height every unexplained covering was searched to
+/// and whether every search ran to its bound (a rung stopped by the
+/// ladder's own share is not a search cut short).
 fn lift_side_coverings(
     models: &[Curve; 2],
     selmer_bound: Option<usize>,
@@ -711,17 +714,26 @@ fn lift_side_coverings(
         (u, e) => u.or(e),
     };
     let mut search_complete = true;
-    let mut height = options.search_height;
+    let mut ladder = Ladder::new(options.search_height, options.search_height_ceiling, QUARTIC_GROWTH, work, options.search_time_limit);
+    let mut reached = 0u64;
     loop {
+        let height = ladder.height();
+        let rung = ladder.rung_work(work);
+        ladder.start_rung();
+        let mut rung_done = true;
         for (k, side) in sides.iter_mut().enumerate() {
-            search_complete &= lift_one_side(&models[k], side, work, height)?;
+            rung_done &= lift_one_side(&models[k], side, &rung, height)?;
+        }
+        ladder.end_rung();
+        search_complete &= rung_done || !work.exhausted();
+        if rung_done {
+            reached = height;
         }
         let lower_now: usize = sides.iter().map(|w| w.found.dim() - w.torsion.dim()).sum();
         let met = upper_now.is_some_and(|u| lower_now >= u);
-        if met || upper_now.is_none() || work.exhausted() || height >= options.search_height_ceiling {
-            return Ok((height, search_complete));
+        if met || upper_now.is_none() || work.exhausted() || !rung_done || !ladder.climb() {
+            return Ok((reached.max(if met { height } else { 0 }), search_complete));
         }
-        height = height.saturating_mul(2).min(options.search_height_ceiling);
     }
 }
 
@@ -747,7 +759,8 @@ fn lift_one_side(side_model: &Curve, side: &mut SideWork, work: &Work, height: u
         let g = covering_quartic(&d, &side.a, &side.b);
         let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, height) };
         let out = search_quartic(&g, &limits);
-        search_complete &= out.complete;
+        // a search stopped by its first point did its job
+        search_complete &= out.complete || !out.points.is_empty();
         for qp in out.points {
             if qp.z == 0 {
                 continue;

@@ -234,7 +234,7 @@ fn descents(
         combine_algebra(report, &runs, full.as_ref(), a)?;
     }
     if let (Some(a), Some(ctx)) = (&algebra, &context) {
-        covering_points(report, data, &runs, full.as_ref(), a, ctx, enough, work, unfinished)?;
+        covering_points(report, data, &runs, full.as_ref(), a, ctx, enough, options, work, unfinished)?;
     }
     report.isogeny_runs = runs;
     report.full_descent = full;
@@ -595,8 +595,10 @@ fn algebra_route(
     }
 }
 
-/// The heights the 2-coverings of the algebra route are searched to, in turn.
-const COVERING_HEIGHTS: [u64; 3] = [128, 1024, 8192];
+/// The first height the 2-coverings of the algebra route are searched to;
+/// the ladder then doubles it towards `search_height_ceiling` within the
+/// budget (see [`crate::budget::Ladder`]).
+const COVERING_FLOOR: u64 = 128;
 
 /// Points from the 2-coverings of the algebra route's Selmer elements (see
 /// `descent::algebra::covering`; every shape of the algebra), when the
@@ -604,7 +606,8 @@ const COVERING_HEIGHTS: [u64; 3] = [128, 1024, 8192];
 /// smaller): the classes of the torsion points and of the points already
 /// found (the isogeny descents' and the quartic route's) are taken out,
 /// the other elements' coverings are searched within half of the time
-/// left, and every point found is checked on the curve and in its class.
+/// left, at heights doubled from [`COVERING_FLOOR`] while the ladder's
+/// prediction of the next rung fits, and every point found is checked on the curve and in its class.
 /// `E(Q)/2E(Q)` injects into `Sel^2(E)` and the torsion points' classes
 /// span `dim E(Q)[2]` dimensions, so points whose classes are independent
 /// modulo those of the torsion are independent modulo torsion.
@@ -617,6 +620,7 @@ fn covering_points(
     a: &AlgebraDescent,
     ctx: &CoveringContext,
     enough: Option<usize>,
+    options: &RankOptions,
     work: &Work,
     unfinished: &mut Vec<Statement>,
 ) -> Result<(), Error> {
@@ -646,7 +650,9 @@ fn covering_points(
     }
     let share = work.share(0.5);
     let known: Vec<u64> = span.basis().to_vec();
-    let found = match search_coverings(data.minimal(), ctx, &known, goal, &COVERING_HEIGHTS, &share) {
+    let ceiling = options.search_height_ceiling.max(COVERING_FLOOR);
+    let ladder = crate::budget::Ladder::new(COVERING_FLOOR, ceiling, crate::budget::QUARTIC_GROWTH, work, options.search_time_limit);
+    let found = match search_coverings(data.minimal(), ctx, &known, goal, crate::budget::Rungs::Ladder(ladder), &share) {
         Ok(r) => r,
         Err(e) => {
             stage_failure("the 2-covering search", e, report, unfinished)?;
