@@ -59,7 +59,10 @@ pub struct RankOptions {
     /// The most CPU time (of the thread running it) one ladder of raised
     /// searches may take, so that without a wall-clock limit the ladder
     /// still ends and with one the machine's load does not decide how high
-    /// it goes; the floor rung always runs. Default 8 s.
+    /// it goes; the floor rung always runs. Default 15 s (half of the
+    /// `rank` example's default budget, so that on a quiet machine the
+    /// ladder's wall-clock share and this cap end it at about the same
+    /// rung).
     pub search_time_limit: Duration,
     /// Height bound for the direct search on the curve (numerators up to
     /// this, denominators up to its square root).
@@ -138,7 +141,7 @@ impl Default for RankOptions {
         RankOptions {
             search_height: 300,
             search_height_ceiling: 1 << 20,
-            search_time_limit: Duration::from_secs(8),
+            search_time_limit: Duration::from_secs(15),
             curve_search_height: 1000,
             time_limit: None,
             cancel: None,

@@ -75,11 +75,13 @@ pub struct FullDescent {
     pub points: Vec<Point>,
     /// Quartics spanning the Selmer classes not explained by points: where Sha could hide.
     pub unexplained: Vec<Quartic>,
-    /// Whether the searches ran to their height bounds.
+    /// Whether the searches ran to their height bounds (a ladder that
+    /// stopped below its ceiling because the next rung would not fit in its
+    /// share of the budget is not a search cut short).
     pub search_complete: bool,
-    /// The height reached by the search on the coverings left unexplained
+    /// The height up to which every covering left unexplained was searched
     /// (raised step by step from `RankOptions::search_height` while the
-    /// bounds did not meet).
+    /// bounds did not meet and the budget allowed).
     pub searched_height: u64,
 }
 

@@ -125,9 +125,10 @@ pub struct IsogenyDescent {
     pub points: Vec<Point>,
     /// Whether the search was cut short by the budget.
     pub search_complete: bool,
-    /// The height reached by the search on the coverings of Selmer classes
-    /// left unexplained (raised step by step from
-    /// `RankOptions::search_height` while the bounds did not meet).
+    /// The height up to which every covering of a Selmer class left
+    /// unexplained was searched (raised step by step from
+    /// `RankOptions::search_height` while the bounds did not meet and the
+    /// budget allowed).
     pub searched_height: u64,
     /// The Tamagawa ratio as an exponent of 2: `e` with
     /// `∏_v #coker(φ_v) / #ker(φ_v) = 2^e`, `φ_v: E(Q_v) → E'(Q_v)`, found
