@@ -95,9 +95,10 @@ pub struct RankOptions {
     /// When the rank is proven to be 1 analytically and the descent's search
     /// found no point, compute one by the Heegner point method (see
     /// [`crate::heegner`]), within half of the time left. With analytic
-    /// rank 1 proven, the descents then search at `search_height` only and
-    /// raise the height towards `search_height_ceiling` only if the Heegner
-    /// route finds nothing. Default `true`.
+    /// rank 1 proven, the descents first raise the search height within an
+    /// eighth of `search_time_limit` only, and climb further towards
+    /// `search_height_ceiling` only if the Heegner route finds nothing.
+    /// Default `true`.
     pub heegner_route: bool,
     /// The most CPU time (of the thread running it) the Heegner route may
     /// take on one curve, so that the load of the machine does not decide
@@ -464,6 +465,15 @@ impl Ladder {
             stop: LadderStop::Open,
         }
     }
+    /// The same ladder with `fraction` of its wall-clock share and of its
+    /// CPU cap (for a search that a better one follows).
+    pub(crate) fn scaled(mut self, fraction: f64) -> Ladder {
+        let f = fraction.clamp(0.0, 1.0);
+        let now = Instant::now();
+        self.wall_end = self.wall_end.map(|e| now.checked_add(e.saturating_duration_since(now).mul_f64(f)).unwrap_or(now));
+        self.cpu_cap = self.cpu_cap.mul_f64(f);
+        self
+    }
     /// The height of the current rung.
     pub(crate) fn height(&self) -> u64 {
         self.height
@@ -564,10 +574,12 @@ impl Rungs<'_> {
 mod ladder_tests {
     use super::*;
 
+    /// Computes for `d` of this thread's CPU time (more wall time on a
+    /// loaded machine).
     fn spin(d: Duration) {
-        let t = Instant::now();
+        let t = CpuClock::now();
         let mut x = 1u64;
-        while t.elapsed() < d {
+        while t.spent() < d {
             for i in 0..1000u64 {
                 x = x.wrapping_mul(6364136223846793005).wrapping_add(i);
             }

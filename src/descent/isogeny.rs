@@ -694,10 +694,15 @@ fn add_side_curve_points(models: &[Curve; 2], options: &RankOptions, work: &Work
     search_complete
 }
 
+/// The part of a ladder's budget (wall-clock share and CPU cap) that the
+/// isogeny coverings climb within (see [`lift_side_coverings`]).
+const ISOGENY_LADDER_FRACTION: f64 = 0.125;
+
 /// Search on the coverings of Selmer classes not yet explained, at heights
 /// doubled from `search_height` towards `search_height_ceiling`, each rung
-/// only when its cost predicted from the last one fits the ladder's share
-/// of the budget ([`Ladder`], growth [`QUARTIC_GROWTH`]), while the bounds
+/// only when its cost predicted from the last one fits an eighth of a
+/// ladder's share of the budget ([`Ladder`], growth [`QUARTIC_GROWTH`],
+/// [`ISOGENY_LADDER_FRACTION`]), while the bounds
 /// do not meet; a rank proven by another route (`enough`) also ends the
 /// ladder. Returns the height every unexplained covering was searched to
 /// and whether every search ran to its bound (a rung stopped by the
@@ -715,7 +720,12 @@ fn lift_side_coverings(
         (u, e) => u.or(e),
     };
     let mut search_complete = true;
-    let mut ladder = Ladder::new(options.search_height, options.search_height_ceiling, QUARTIC_GROWTH, work, options.search_time_limit);
+    // an eighth of a ladder's budget: when these bounds do not meet, the
+    // full 2-descent runs next, and its coverings (of degree 4 over E, not
+    // 2) reach a point of a given height at about the square root of the
+    // height needed here; a gap left by Sha(E')[phi'] closes there at once
+    let mut ladder = Ladder::new(options.search_height, options.search_height_ceiling, QUARTIC_GROWTH, work, options.search_time_limit)
+        .scaled(ISOGENY_LADDER_FRACTION);
     let mut reached = 0u64;
     loop {
         let height = ladder.height();

@@ -87,24 +87,29 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     let (analytic, analytic_unfinished) = analytic_route(data, options, work)?;
     let enough: Option<usize> = analytic.as_ref().and_then(|a| a.rank);
     report.analytic = analytic;
-    // analytic rank 1 proven: the descents search their coverings at the
-    // floor height only, then the Heegner route computes a generator if
-    // none was found, and only if that fails do the descents run again with
-    // the search ladder up to its ceiling (generators too large for any
-    // plain search, like the congruent-number curve for n = 157, would
-    // otherwise spend the budget on the ladder first)
+    // analytic rank 1 proven: the descents search their coverings within
+    // a small part of the ladders' budget, then the Heegner route computes
+    // a generator if none was found, and only if that fails do the descents
+    // run again with the whole ladder (generators too large for any plain
+    // search, like the congruent-number curve for n = 157, would otherwise
+    // spend the budget on the ladder first)
     // the algebra route's result, kept for a second run of the descents
     let mut algebra_once: AlgebraOnce = None;
     let heegner_first = options.heegner_route && enough == Some(1) && options.search_height_ceiling > options.search_height;
     if heegner_first {
         let before = report.clone();
-        let floor_only = RankOptions { search_height_ceiling: options.search_height, ..options.clone() };
+        // before the Heegner step the ladders climb within an eighth of
+        // their CPU cap: generators of moderate height (a covering point
+        // below about 10^5) come cheaper from the search than from the
+        // Heegner series, while those far beyond any search (n = 157 on the
+        // congruent-number curve) lose little time to it
+        let small_ladder = RankOptions { search_time_limit: options.search_time_limit.mul_f64(PRE_HEEGNER_LADDER), ..options.clone() };
         // where the quartic enumeration is expected to be slow, the Heegner
         // step runs before the descents (it would otherwise find the budget
         // spent), and its point is adopted after them
         let early = quartic_enumeration_is_costly(data);
         let found = if early { heegner_search(&mut report, data, options, work)? } else { None };
-        descents(&mut report, data, &torsion, &floor_only, work, enough, &mut unfinished, &mut algebra_once)?;
+        descents(&mut report, data, &torsion, &small_ladder, work, enough, &mut unfinished, &mut algebra_once)?;
         match &found {
             Some(f) => adopt_heegner_point(&mut report, data, f)?,
             None if !early => heegner_point(&mut report, data, options, work)?,
@@ -179,6 +184,11 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     report.elapsed = work.elapsed();
     Ok(report)
 }
+
+/// The part of the ladders' CPU cap (`RankOptions::search_time_limit`)
+/// that the searches may spend before the Heegner step, when the analytic
+/// rank is proven 1.
+const PRE_HEEGNER_LADDER: f64 = 0.125;
 
 /// The descents (2-isogeny, full 2-descent, descent over the algebra), their
 /// combination and the rank decision, written into `report`.
