@@ -398,11 +398,13 @@ fn lift_coverings(
         let height = ladder.height();
         let rung = ladder.rung_work(work);
         let mut rung_reached = height;
+        let mut open = false;
         ladder.start_rung();
         for (c, sq) in distinct.iter_mut() {
             if span.contains(c) {
                 continue;
             }
+            open = true;
             if rung.exhausted() {
                 out.search_complete &= !work.exhausted();
                 rung_reached = reached;
@@ -422,7 +424,8 @@ fn lift_coverings(
             (u, e) => u.or(e),
         };
         let met = target.is_some_and(|u| span.dim() - two_torsion_dim >= u);
-        if met || target.is_none() || work.exhausted() || rung_reached < height || !ladder.climb() {
+        // no covering left to search (or none listed): nothing to raise
+        if met || !open || target.is_none() || work.exhausted() || rung_reached < height || !ladder.climb() {
             return Ok(());
         }
     }
