@@ -51,9 +51,19 @@ pub struct RankOptions {
     pub search_height: u64,
     /// The highest height the covering searches are raised to, step by step
     /// (doubling from `search_height`), while the lower and upper bounds do
-    /// not meet and the work has time; set it to `search_height` for one
-    /// fixed height.
+    /// not meet. The ladder stops below it when the next rung, predicted
+    /// from the cost of the last one, would not fit in the ladder's share
+    /// of the time left (half of it) or in `search_time_limit`. Set it to
+    /// `search_height` for one fixed height. Default `2^20`.
     pub search_height_ceiling: u64,
+    /// The most CPU time (of the thread running it) one ladder of raised
+    /// searches may take, so that without a wall-clock limit the ladder
+    /// still ends and with one the machine's load does not decide how high
+    /// it goes; the floor rung always runs. Default 15 s (half of the
+    /// `rank` example's default budget, so that on a quiet machine the
+    /// ladder's wall-clock share and this cap end it at about the same
+    /// rung).
+    pub search_time_limit: Duration,
     /// Height bound for the direct search on the curve (numerators up to
     /// this, denominators up to its square root).
     pub curve_search_height: u64,
@@ -85,9 +95,10 @@ pub struct RankOptions {
     /// When the rank is proven to be 1 analytically and the descent's search
     /// found no point, compute one by the Heegner point method (see
     /// [`crate::heegner`]), within half of the time left. With analytic
-    /// rank 1 proven, the descents then search at `search_height` only and
-    /// raise the height towards `search_height_ceiling` only if the Heegner
-    /// route finds nothing. Default `true`.
+    /// rank 1 proven, the descents first raise the search height within an
+    /// eighth of `search_time_limit` only, and climb further towards
+    /// `search_height_ceiling` only if the Heegner route finds nothing.
+    /// Default `true`.
     pub heegner_route: bool,
     /// The most CPU time (of the thread running it) the Heegner route may
     /// take on one curve, so that the load of the machine does not decide
@@ -130,7 +141,8 @@ impl Default for RankOptions {
     fn default() -> Self {
         RankOptions {
             search_height: 300,
-            search_height_ceiling: 4800,
+            search_height_ceiling: 1 << 20,
+            search_time_limit: Duration::from_secs(15),
             curve_search_height: 1000,
             time_limit: None,
             cancel: None,
@@ -152,6 +164,8 @@ impl std::fmt::Debug for RankOptions {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         f.debug_struct("RankOptions")
             .field("search_height", &self.search_height)
+            .field("search_height_ceiling", &self.search_height_ceiling)
+            .field("search_time_limit", &self.search_time_limit)
             .field("curve_search_height", &self.curve_search_height)
             .field("time_limit", &self.time_limit)
             .field("cancel", &self.cancel.is_some())
@@ -172,6 +186,12 @@ impl RankOptions {
     /// [`RankOptions::search_height_ceiling`]).
     pub fn with_search_height_ceiling(mut self, h: u64) -> Self {
         self.search_height_ceiling = h;
+        self
+    }
+    /// Sets the most CPU time one ladder of raised searches may take (see
+    /// [`RankOptions::search_time_limit`]).
+    pub fn with_search_time_limit(mut self, d: Duration) -> Self {
+        self.search_time_limit = d;
         self
     }
     /// Sets the wall-clock limit.
@@ -330,6 +350,15 @@ impl Work {
             f(stage, message)
         }
     }
+    /// The same work ending at `end` if that comes before its own deadline.
+    pub(crate) fn until_at_most(&self, end: Option<Instant>) -> Work {
+        let mut w = self.clone();
+        w.deadline = match (self.deadline, end) {
+            (Some(d), Some(e)) => Some(d.min(e)),
+            (d, e) => d.or(e),
+        };
+        w
+    }
     /// The same work with its deadline moved earlier to `at most` the given
     /// share of the remaining time (for a stage that must leave time for
     /// the ones after it).
@@ -340,5 +369,257 @@ impl Work {
             w.deadline = Instant::now().checked_add(part).or(self.deadline);
         }
         w
+    }
+}
+
+/// A reading of the CPU time of the running thread, or of the wall clock
+/// where the thread clock cannot be read (through the `cpu-time` crate, a
+/// safe wrapper of `clock_gettime(CLOCK_THREAD_CPUTIME_ID)`).
+pub(crate) enum CpuClock {
+    /// CPU time of the thread that took the reading.
+    Thread(cpu_time::ThreadTime),
+    /// Wall time, where the thread clock could not be read.
+    Wall(Instant),
+}
+
+impl CpuClock {
+    /// A reading taken now.
+    pub(crate) fn now() -> CpuClock {
+        match cpu_time::ThreadTime::try_now() {
+            Ok(t) => CpuClock::Thread(t),
+            Err(_) => CpuClock::Wall(Instant::now()),
+        }
+    }
+    /// Time spent since the reading (a clock that fails after a first good
+    /// reading counts as spent).
+    pub(crate) fn spent(&self) -> Duration {
+        match self {
+            CpuClock::Thread(t) => t.try_elapsed().unwrap_or(Duration::MAX),
+            CpuClock::Wall(t) => t.elapsed(),
+        }
+    }
+}
+
+/// The share of the time left when a ladder starts that its raised rungs
+/// may take; the rest is for the stages after it (the other descents, the
+/// Heegner step, heights and saturation).
+pub(crate) const LADDER_SHARE: f64 = 0.5;
+
+/// Growth of the cost of the quartic search per doubling of its height:
+/// it covers the pairs `(x, z)` with `max(|x|, z) <= H`, about `H^2` of
+/// them, each costing a few word operations in the sieve (measured on the
+/// covering of y^2 = x^3 - 3901, see DEVELOPERS.md, "Issue 16 evidence").
+pub(crate) const QUARTIC_GROWTH: f64 = 4.0;
+
+/// Growth of the cost of the search on a Weierstrass curve per doubling of
+/// its height: numerators up to `H`, denominators up to `sqrt H`, about
+/// `H^{3/2}` pairs.
+pub(crate) const CURVE_GROWTH: f64 = 2.83;
+
+/// Why a ladder stopped climbing.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub(crate) enum LadderStop {
+    /// Still climbing (or never asked).
+    Open,
+    /// The ceiling was reached.
+    Ceiling,
+    /// The next rung was predicted not to fit in the wall-clock share or
+    /// the CPU cap.
+    Budget,
+}
+
+/// The rungs of a point search raised by doubling its height: from a floor
+/// (always searched) towards a ceiling, each next rung only when its cost,
+/// predicted from the measured cost of the last rung times the growth of
+/// the search per doubling, fits both in the ladder's share of the time
+/// left ([`LADDER_SHARE`] of the work's remaining wall time when the ladder
+/// starts) and in its CPU cap.
+pub(crate) struct Ladder {
+    height: u64,
+    ceiling: u64,
+    growth: f64,
+    wall_end: Option<Instant>,
+    cpu: CpuClock,
+    cpu_cap: Duration,
+    rung_start: Option<(Instant, Duration)>,
+    last_cost: Option<(Duration, Duration)>,
+    stop: LadderStop,
+}
+
+impl Ladder {
+    /// A ladder from `floor` to `ceiling` (at least `floor`) whose search
+    /// costs `growth` times more per doubling of the height, within `work`
+    /// and a CPU cap of `cpu_cap` from now.
+    pub(crate) fn new(floor: u64, ceiling: u64, growth: f64, work: &Work, cpu_cap: Duration) -> Ladder {
+        let now = Instant::now();
+        let wall_end = work.remaining().map(|left| now.checked_add(left.mul_f64(LADDER_SHARE)).unwrap_or(now));
+        Ladder {
+            height: floor,
+            ceiling: ceiling.max(floor),
+            growth,
+            wall_end,
+            cpu: CpuClock::now(),
+            cpu_cap,
+            rung_start: None,
+            last_cost: None,
+            stop: LadderStop::Open,
+        }
+    }
+    /// The same ladder with `fraction` of its wall-clock share and of its
+    /// CPU cap (for a search that a better one follows).
+    pub(crate) fn scaled(mut self, fraction: f64) -> Ladder {
+        let f = fraction.clamp(0.0, 1.0);
+        let now = Instant::now();
+        self.wall_end = self.wall_end.map(|e| now.checked_add(e.saturating_duration_since(now).mul_f64(f)).unwrap_or(now));
+        self.cpu_cap = self.cpu_cap.mul_f64(f);
+        self
+    }
+    /// The height of the current rung.
+    pub(crate) fn height(&self) -> u64 {
+        self.height
+    }
+    /// Why the ladder stopped.
+    #[cfg(test)]
+    pub(crate) fn stop(&self) -> LadderStop {
+        self.stop
+    }
+    /// The work for the current rung: `work` itself for the floor, else
+    /// `work` ending no later than the ladder's share (a rung the prediction
+    /// let through but that runs long is stopped there).
+    pub(crate) fn rung_work(&self, work: &Work) -> Work {
+        if self.last_cost.is_none() {
+            work.clone()
+        } else {
+            work.until_at_most(self.wall_end)
+        }
+    }
+    /// Marks the start of the current rung's searches.
+    pub(crate) fn start_rung(&mut self) {
+        self.rung_start = Some((Instant::now(), self.cpu.spent()));
+    }
+    /// Marks the end of the current rung's searches (its cost is measured).
+    pub(crate) fn end_rung(&mut self) {
+        if let Some((wall, cpu)) = self.rung_start.take() {
+            self.last_cost = Some((wall.elapsed(), self.cpu.spent().saturating_sub(cpu)));
+        }
+    }
+    /// Moves to the next rung (twice the height, at most the ceiling) if its
+    /// predicted cost fits; returns whether it did.
+    pub(crate) fn climb(&mut self) -> bool {
+        if self.height >= self.ceiling {
+            self.stop = LadderStop::Ceiling;
+            return false;
+        }
+        let next = self.height.saturating_mul(2).min(self.ceiling);
+        let (wall, cpu) = self.last_cost.unwrap_or_default();
+        // the cost of a rung from `h` to `next`: `growth` per doubling
+        let factor = self.growth.powf((next as f64 / self.height.max(1) as f64).log2());
+        let fits_wall = self.wall_end.is_none_or(|e| Instant::now().checked_add(wall.mul_f64(factor)).is_some_and(|t| t <= e));
+        let fits_cpu = self.cpu.spent().saturating_add(cpu.mul_f64(factor)) <= self.cpu_cap;
+        if !(fits_wall && fits_cpu) {
+            self.stop = LadderStop::Budget;
+            return false;
+        }
+        self.height = next;
+        true
+    }
+}
+
+/// The heights a search is run to, in turn: a fixed list, or a [`Ladder`].
+pub(crate) enum Rungs<'a> {
+    /// These heights, each in full (within the work).
+    Fixed(&'a [u64]),
+    /// The rungs of a ladder.
+    Ladder(Ladder),
+}
+
+impl Rungs<'_> {
+    /// The height of the current rung (`None`: no rung left).
+    pub(crate) fn height(&self) -> Option<u64> {
+        match self {
+            Rungs::Fixed(hs) => hs.first().copied(),
+            Rungs::Ladder(l) => Some(l.height()),
+        }
+    }
+    /// The work for the current rung (see [`Ladder::rung_work`]).
+    pub(crate) fn rung_work(&self, work: &Work) -> Work {
+        match self {
+            Rungs::Fixed(_) => work.clone(),
+            Rungs::Ladder(l) => l.rung_work(work),
+        }
+    }
+    /// Marks the start of the current rung.
+    pub(crate) fn start_rung(&mut self) {
+        if let Rungs::Ladder(l) = self {
+            l.start_rung()
+        }
+    }
+    /// Ends the current rung and moves to the next; returns whether there
+    /// is one.
+    pub(crate) fn advance(&mut self) -> bool {
+        match self {
+            Rungs::Fixed(hs) => {
+                *hs = hs.get(1..).unwrap_or(&[]);
+                !hs.is_empty()
+            }
+            Rungs::Ladder(l) => {
+                l.end_rung();
+                l.climb()
+            }
+        }
+    }
+}
+
+#[cfg(test)]
+mod ladder_tests {
+    use super::*;
+
+    /// Computes for `d` of this thread's CPU time (more wall time on a
+    /// loaded machine).
+    fn spin(d: Duration) {
+        let t = CpuClock::now();
+        let mut x = 1u64;
+        while t.spent() < d {
+            for i in 0..1000u64 {
+                x = x.wrapping_mul(6364136223846793005).wrapping_add(i);
+            }
+        }
+        assert!(x != 0 || x == 0);
+    }
+
+    #[test]
+    fn the_ceiling_ends_a_cheap_ladder() {
+        let mut l = Ladder::new(300, 4800, QUARTIC_GROWTH, &Work::unlimited(), Duration::from_secs(10));
+        let mut heights = vec![l.height()];
+        loop {
+            l.start_rung();
+            l.end_rung();
+            if !l.climb() {
+                break;
+            }
+            heights.push(l.height());
+        }
+        assert_eq!(heights, [300, 600, 1200, 2400, 4800]);
+        assert_eq!(l.stop(), LadderStop::Ceiling);
+    }
+
+    #[test]
+    fn the_predicted_cost_ends_a_dear_ladder() {
+        // rungs of 20 ms and growth 4: the next would be 80 ms, more than
+        // the CPU cap of 50 ms allows
+        let mut l = Ladder::new(300, 1 << 20, QUARTIC_GROWTH, &Work::unlimited(), Duration::from_millis(50));
+        l.start_rung();
+        spin(Duration::from_millis(20));
+        l.end_rung();
+        assert!(!l.climb());
+        assert_eq!((l.height(), l.stop()), (300, LadderStop::Budget));
+        // and a wall-clock share of 0.5 s left by a 1 s work
+        let work = Work::until(Instant::now().checked_add(Duration::from_secs(1)), None);
+        let mut l = Ladder::new(300, 1 << 20, QUARTIC_GROWTH, &work, Duration::from_secs(100));
+        l.start_rung();
+        spin(Duration::from_millis(150));
+        l.end_rung();
+        assert!(!l.climb(), "a rung of 600 ms does not fit in the 350 ms left of the share");
+        assert!(l.rung_work(&work).deadline() < work.deadline());
     }
 }

@@ -226,3 +226,24 @@ fn a_cancel_flag_raised_in_the_evidence_step_is_honoured() {
     let ev = rep.evidence.expect("the evidence says what it did not compute");
     assert!(ev.statements.iter().any(|s| s.standing == twofold::report::Standing::Unfinished));
 }
+
+/// Curves whose generator no plain search reaches in seconds and where the
+/// search ladder, driven by the budget, is the stage left to spend it:
+/// y^2 = x^3 - 4557 (conductor about 1.8e8..8.9e8: the Heegner series gives
+/// up, DEVELOPERS "Issue 16 evidence") and y^2 = x^3 - 157^2 x with the
+/// Heegner route off (its generator has height about 54.9: Zagier's
+/// triangle, via Koblitz; from memory). Under a 2 s budget each returns
+/// within 1.5 x budget + 50 ms.
+#[test]
+fn the_search_ladder_holds_a_two_second_budget() {
+    let budget = Duration::from_secs(2);
+    let allowed = budget.mul_f64(1.5) + Duration::from_millis(50);
+    for (coeffs, heegner) in [([0, 0, 0, 0, -4557], true), ([0, 0, 0, -24649, 0], false)] {
+        let e = Curve::from_coefficients(coeffs).unwrap();
+        let t = Instant::now();
+        let rep = analyse(&e, &RankOptions::default().with_time_limit(budget).with_heegner_route(heegner)).unwrap();
+        let took = t.elapsed();
+        assert!(took < allowed, "{coeffs:?} took {took:?} with a 2 s budget");
+        assert!(rep.rank_lower.unwrap_or(0) <= rep.rank_upper.unwrap_or(usize::MAX));
+    }
+}

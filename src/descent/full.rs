@@ -19,7 +19,7 @@
 //! found, together with the torsion, span a subspace of dimension
 //! `k <= dim Sel^2`, and `k - dim E(Q)[2] <= rank <= dim Sel^2 - dim E(Q)[2]`.
 
-use crate::budget::{RankOptions, Stage, Work};
+use crate::budget::{Ladder, RankOptions, Stage, Work, CURVE_GROWTH, QUARTIC_GROWTH};
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
 use crate::quartic::{covering_class, quartics_with_invariants, reduce, CoveringClass, Quartic, SearchOptions};
@@ -75,11 +75,13 @@ pub struct FullDescent {
     pub points: Vec<Point>,
     /// Quartics spanning the Selmer classes not explained by points: where Sha could hide.
     pub unexplained: Vec<Quartic>,
-    /// Whether the searches ran to their height bounds.
+    /// Whether the searches ran to their height bounds (a ladder that
+    /// stopped below its ceiling because the next rung would not fit in its
+    /// share of the budget is not a search cut short).
     pub search_complete: bool,
-    /// The height reached by the search on the coverings left unexplained
+    /// The height up to which every covering left unexplained was searched
     /// (raised step by step from `RankOptions::search_height` while the
-    /// bounds did not meet).
+    /// bounds did not meet and the budget allowed).
     pub searched_height: u64,
 }
 
@@ -150,7 +152,7 @@ pub(crate) fn full_two_descent(
         points: vec![],
         unexplained: vec![],
         search_complete: true,
-        searched_height: options.search_height,
+        searched_height: 0,
     };
     let primes = descent_places(bad_primes);
     let enumeration = enumerate_coverings(&i, &j, options, work);
@@ -332,34 +334,53 @@ fn curve_search_ceiling(options: &RankOptions) -> u64 {
 }
 
 /// The direct search on the curve, raised step by step (doubling from
-/// `curve_search_height` up to [`curve_search_ceiling`]) while the span of
-/// the points found stays below `goal` (the rank proven by another route,
-/// or the least rank the root number allows by parity) and the work has
-/// time. Run when the enumeration gave no complete list of coverings, so
-/// that the covering ladder had nothing to raise: without it a curve whose
-/// generator lies just above `curve_search_height` kept the lower bound 0.
+/// `curve_search_height` towards [`curve_search_ceiling`], each rung only
+/// when its cost predicted from the last one fits the ladder's share of the
+/// budget: [`Ladder`], growth [`CURVE_GROWTH`]) while the span of the
+/// points found stays below `goal` (the rank proven by another route, or
+/// the least rank the root number allows by parity). Run when the
+/// enumeration gave no complete list of coverings, so that the covering
+/// ladder had nothing to raise: without it a curve whose generator lies
+/// just above `curve_search_height` kept the lower bound 0. The first rung
+/// here is the search of [`add_curve_points`] at `curve_search_height`,
+/// whose cost is not known: the ladder starts with a measured search at
+/// twice that height.
 fn raise_curve_search(curve: &Curve, options: &RankOptions, work: &Work, goal: Option<usize>, span: &mut ClassSpan, out: &mut FullDescent) -> Result<(), Error> {
     let Some(goal) = goal else { return Ok(()) };
     let ceiling = curve_search_ceiling(options);
-    let mut height = options.curve_search_height;
-    while span.dim() - out.two_torsion_dim < goal && height < ceiling && !work.exhausted() {
-        height = height.saturating_mul(2).min(ceiling);
-        let found = search_curve(curve, &SearchLimits::within(work, height));
-        out.search_complete &= found.complete;
+    if options.curve_search_height >= ceiling {
+        return Ok(());
+    }
+    let first = options.curve_search_height.saturating_mul(2).min(ceiling);
+    let mut ladder = Ladder::new(first, ceiling, CURVE_GROWTH, work, options.search_time_limit);
+    while span.dim() - out.two_torsion_dim < goal && !work.exhausted() {
+        let rung = ladder.rung_work(work);
+        ladder.start_rung();
+        let found = search_curve(curve, &SearchLimits::within(&rung, ladder.height()));
+        ladder.end_rung();
+        // a rung stopped by the ladder's own share (not by the budget of
+        // the whole analysis) is the ladder's choice, like its ceiling
+        out.search_complete &= found.complete || !work.exhausted();
         for (x, y) in found.points {
             if span.dim() - out.two_torsion_dim >= goal {
                 break;
             }
             add_point(curve, Point::Affine(x, y), span, out)?;
         }
+        if !found.complete || !ladder.climb() {
+            break;
+        }
     }
     Ok(())
 }
 
 /// Points on the coverings not yet explained, at heights raised step by
-/// step (doubling from `search_height` up to `search_height_ceiling`) while
-/// the bounds do not meet and the work has time; a rank proven by another
-/// route (`enough`) also ends the ladder.
+/// step: doubling from `search_height` towards `search_height_ceiling`,
+/// each rung only when its cost, predicted from the last rung's (growth
+/// [`QUARTIC_GROWTH`] per doubling), fits the ladder's share of the budget
+/// ([`Ladder`]), while the bounds do not meet; a rank proven by another
+/// route (`enough`) also ends the ladder. `out.searched_height` is the
+/// height up to which every covering left unexplained was searched.
 fn lift_coverings(
     curve: &Curve,
     distinct: &mut [(CoveringClass, SelmerQuartic)],
@@ -370,39 +391,55 @@ fn lift_coverings(
     out: &mut FullDescent,
 ) -> Result<(), Error> {
     let two_torsion_dim = out.two_torsion_dim;
-    let mut height = options.search_height;
+    let mut ladder = Ladder::new(options.search_height, options.search_height_ceiling, QUARTIC_GROWTH, work, options.search_time_limit);
+    // the height every unexplained covering was searched to so far
+    let mut reached = 0u64;
     loop {
+        let height = ladder.height();
+        let rung = ladder.rung_work(work);
+        let mut rung_reached = height;
+        let mut open = false;
+        ladder.start_rung();
         for (c, sq) in distinct.iter_mut() {
             if span.contains(c) {
                 continue;
             }
-            if work.exhausted() {
-                out.search_complete = false;
+            open = true;
+            if rung.exhausted() {
+                out.search_complete &= !work.exhausted();
+                rung_reached = reached;
                 break;
             }
-            lift_one_covering(curve, sq, work, height, span, out)?;
+            let (got, h) = lift_one_covering(curve, sq, &rung, height, span, out)?;
+            out.search_complete &= got || h >= height || !work.exhausted();
+            if !got {
+                rung_reached = rung_reached.min(h.max(reached));
+            }
         }
-        out.searched_height = height;
+        ladder.end_rung();
+        reached = reached.max(rung_reached);
+        out.searched_height = reached;
         let target = match (out.upper, enough) {
             (Some(u), Some(e)) => Some(u.min(e)),
             (u, e) => u.or(e),
         };
         let met = target.is_some_and(|u| span.dim() - two_torsion_dim >= u);
-        if met || target.is_none() || work.exhausted() || height >= options.search_height_ceiling {
+        // no covering left to search (or none listed): nothing to raise
+        if met || !open || target.is_none() || work.exhausted() || rung_reached < height || !ladder.climb() {
             return Ok(());
         }
-        height = height.saturating_mul(2).min(options.search_height_ceiling);
     }
 }
 
 /// Searches the reduced form of one class's quartic up to `height`; the
 /// first point found is mapped to the curve and recorded with the class
 /// (both on the curve and on the class's own quartic, checked exactly).
-fn lift_one_covering(curve: &Curve, sq: &mut SelmerQuartic, work: &Work, height: u64, span: &mut ClassSpan, out: &mut FullDescent) -> Result<(), Error> {
+/// Returns whether a point was found and the height the search reached.
+fn lift_one_covering(curve: &Curve, sq: &mut SelmerQuartic, work: &Work, height: u64, span: &mut ClassSpan, out: &mut FullDescent) -> Result<(bool, u64), Error> {
     let (red, [[al, be], [ga, de]]) = reduce(&sq.quartic);
     let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, height) };
     let res = search_quartic(&red.coeffs(), &limits);
-    out.search_complete &= res.complete || !res.points.is_empty();
+    let reached = if res.complete { height } else { res.height_reached };
     for qp in res.points {
         let (x, z, y) = (Rational::from(qp.x.clone()), Rational::from(qp.z.clone()), Rational::from(qp.y.clone()));
         if let Some((px, py)) = red.image_on_curve(curve, &x, &z, &y)? {
@@ -416,10 +453,10 @@ fn lift_one_covering(curve: &Curve, sq: &mut SelmerQuartic, work: &Work, height:
             sq.covering_point = Some([gx, gz, qp.y]);
             sq.point = Some(pt.clone());
             add_point(curve, pt, span, out)?;
-            break;
+            return Ok((true, reached));
         }
     }
-    Ok(())
+    Ok((false, reached))
 }
 
 /// The bounds from the span reached, and (with a Selmer bound) a basis of

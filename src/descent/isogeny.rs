@@ -15,7 +15,7 @@
 
 use super::f2::{kernel, F2Span, SquareClasses};
 use crate::arith::{jacobi, valuation};
-use crate::budget::{RankOptions, Stage, Work};
+use crate::budget::{Ladder, RankOptions, Stage, Work, QUARTIC_GROWTH};
 use crate::curve::{Curve, Point};
 use crate::error::Error;
 use crate::search::{search_curve, search_quartic, SearchLimits};
@@ -125,9 +125,10 @@ pub struct IsogenyDescent {
     pub points: Vec<Point>,
     /// Whether the search was cut short by the budget.
     pub search_complete: bool,
-    /// The height reached by the search on the coverings of Selmer classes
-    /// left unexplained (raised step by step from
-    /// `RankOptions::search_height` while the bounds did not meet).
+    /// The height up to which every covering of a Selmer class left
+    /// unexplained was searched (raised step by step from
+    /// `RankOptions::search_height` while the bounds did not meet and the
+    /// budget allowed).
     pub searched_height: u64,
     /// The Tamagawa ratio as an exponent of 2: `e` with
     /// `∏_v #coker(φ_v) / #ker(φ_v) = 2^e`, `φ_v: E(Q_v) → E'(Q_v)`, found
@@ -693,11 +694,19 @@ fn add_side_curve_points(models: &[Curve; 2], options: &RankOptions, work: &Work
     search_complete
 }
 
+/// The part of a ladder's budget (wall-clock share and CPU cap) that the
+/// isogeny coverings climb within (see [`lift_side_coverings`]).
+const ISOGENY_LADDER_FRACTION: f64 = 0.125;
+
 /// Search on the coverings of Selmer classes not yet explained, at heights
-/// doubled from `search_height` up to `search_height_ceiling` while the
-/// bounds do not meet and the work has time; a rank proven by another route
-/// (`enough`) also ends the ladder. Returns the height reached and whether
-/// every search ran to its bound.
+/// doubled from `search_height` towards `search_height_ceiling`, each rung
+/// only when its cost predicted from the last one fits an eighth of a
+/// ladder's share of the budget ([`Ladder`], growth [`QUARTIC_GROWTH`],
+/// [`ISOGENY_LADDER_FRACTION`]), while the bounds
+/// do not meet; a rank proven by another route (`enough`) also ends the
+/// ladder. Returns the height every unexplained covering was searched to
+/// and whether every search ran to its bound (a rung stopped by the
+/// ladder's own share is not a search cut short).
 fn lift_side_coverings(
     models: &[Curve; 2],
     selmer_bound: Option<usize>,
@@ -711,17 +720,31 @@ fn lift_side_coverings(
         (u, e) => u.or(e),
     };
     let mut search_complete = true;
-    let mut height = options.search_height;
+    // an eighth of a ladder's budget: when these bounds do not meet, the
+    // full 2-descent runs next, and its coverings (of degree 4 over E, not
+    // 2) reach a point of a given height at about the square root of the
+    // height needed here; a gap left by Sha(E')[phi'] closes there at once
+    let mut ladder = Ladder::new(options.search_height, options.search_height_ceiling, QUARTIC_GROWTH, work, options.search_time_limit)
+        .scaled(ISOGENY_LADDER_FRACTION);
+    let mut reached = 0u64;
     loop {
+        let height = ladder.height();
+        let rung = ladder.rung_work(work);
+        ladder.start_rung();
+        let mut rung_done = true;
         for (k, side) in sides.iter_mut().enumerate() {
-            search_complete &= lift_one_side(&models[k], side, work, height)?;
+            rung_done &= lift_one_side(&models[k], side, &rung, height)?;
+        }
+        ladder.end_rung();
+        search_complete &= rung_done || !work.exhausted();
+        if rung_done {
+            reached = height;
         }
         let lower_now: usize = sides.iter().map(|w| w.found.dim() - w.torsion.dim()).sum();
         let met = upper_now.is_some_and(|u| lower_now >= u);
-        if met || upper_now.is_none() || work.exhausted() || height >= options.search_height_ceiling {
-            return Ok((height, search_complete));
+        if met || upper_now.is_none() || work.exhausted() || !rung_done || !ladder.climb() {
+            return Ok((reached.max(if met { height } else { 0 }), search_complete));
         }
-        height = height.saturating_mul(2).min(options.search_height_ceiling);
     }
 }
 
@@ -747,7 +770,8 @@ fn lift_one_side(side_model: &Curve, side: &mut SideWork, work: &Work, height: u
         let g = covering_quartic(&d, &side.a, &side.b);
         let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, height) };
         let out = search_quartic(&g, &limits);
-        search_complete &= out.complete;
+        // a search stopped by its first point did its job
+        search_complete &= out.complete || !out.points.is_empty();
         for qp in out.points {
             if qp.z == 0 {
                 continue;

@@ -15,8 +15,8 @@
 //! twofold keeps no `unsafe` code. Where that clock cannot be read the cap
 //! falls back to wall time from the start of the step.
 
-use crate::budget::Work;
-use std::time::{Duration, Instant};
+use crate::budget::{CpuClock, Work};
+use std::time::Duration;
 
 /// What the long loops of the Heegner step ask before each block of work.
 pub(crate) trait Halt {
@@ -30,44 +30,19 @@ impl Halt for Work {
     }
 }
 
-/// The clock the CPU cap is measured on.
-enum CapClock {
-    /// CPU time of the thread that created the budget.
-    Thread(cpu_time::ThreadTime),
-    /// Wall time, where the thread clock could not be read.
-    Wall(Instant),
-}
-
-impl CapClock {
-    fn now() -> CapClock {
-        match cpu_time::ThreadTime::try_now() {
-            Ok(t) => CapClock::Thread(t),
-            Err(_) => CapClock::Wall(Instant::now()),
-        }
-    }
-
-    fn spent(&self) -> Duration {
-        match self {
-            // a clock that fails after a first good reading counts as spent
-            CapClock::Thread(t) => t.try_elapsed().unwrap_or(Duration::MAX),
-            CapClock::Wall(t) => t.elapsed(),
-        }
-    }
-}
-
 /// The wall-clock [`Work`] of the caller and the CPU-time cap of the step.
 ///
 /// Not `Send`: the CPU clock belongs to the thread that made the budget,
 /// and the Heegner step runs on that thread only.
 pub(crate) struct Spend {
     work: Work,
-    cap: Option<(CapClock, Duration)>,
+    cap: Option<(CpuClock, Duration)>,
 }
 
 impl Spend {
     /// `work` with a cap of `cpu_limit` on the CPU time of this thread from now.
     pub(crate) fn new(work: Work, cpu_limit: Option<Duration>) -> Spend {
-        Spend { work, cap: cpu_limit.map(|l| (CapClock::now(), l)) }
+        Spend { work, cap: cpu_limit.map(|l| (CpuClock::now(), l)) }
     }
 
     /// The caller's work (for the stages outside this module, which honour
@@ -91,6 +66,7 @@ impl Halt for Spend {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use std::time::Instant;
 
     #[test]
     fn sleeping_spends_no_cpu_time() {

@@ -87,24 +87,29 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     let (analytic, analytic_unfinished) = analytic_route(data, options, work)?;
     let enough: Option<usize> = analytic.as_ref().and_then(|a| a.rank);
     report.analytic = analytic;
-    // analytic rank 1 proven: the descents search their coverings at the
-    // floor height only, then the Heegner route computes a generator if
-    // none was found, and only if that fails do the descents run again with
-    // the search ladder up to its ceiling (generators too large for any
-    // plain search, like the congruent-number curve for n = 157, would
-    // otherwise spend the budget on the ladder first)
+    // analytic rank 1 proven: the descents search their coverings within
+    // a small part of the ladders' budget, then the Heegner route computes
+    // a generator if none was found, and only if that fails do the descents
+    // run again with the whole ladder (generators too large for any plain
+    // search, like the congruent-number curve for n = 157, would otherwise
+    // spend the budget on the ladder first)
     // the algebra route's result, kept for a second run of the descents
     let mut algebra_once: AlgebraOnce = None;
     let heegner_first = options.heegner_route && enough == Some(1) && options.search_height_ceiling > options.search_height;
     if heegner_first {
         let before = report.clone();
-        let floor_only = RankOptions { search_height_ceiling: options.search_height, ..options.clone() };
+        // before the Heegner step the ladders climb within an eighth of
+        // their CPU cap: generators of moderate height (a covering point
+        // below about 10^5) come cheaper from the search than from the
+        // Heegner series, while those far beyond any search (n = 157 on the
+        // congruent-number curve) lose little time to it
+        let small_ladder = RankOptions { search_time_limit: options.search_time_limit.mul_f64(PRE_HEEGNER_LADDER), ..options.clone() };
         // where the quartic enumeration is expected to be slow, the Heegner
         // step runs before the descents (it would otherwise find the budget
         // spent), and its point is adopted after them
         let early = quartic_enumeration_is_costly(data);
         let found = if early { heegner_search(&mut report, data, options, work)? } else { None };
-        descents(&mut report, data, &torsion, &floor_only, work, enough, &mut unfinished, &mut algebra_once)?;
+        descents(&mut report, data, &torsion, &small_ladder, work, enough, &mut unfinished, &mut algebra_once)?;
         match &found {
             Some(f) => adopt_heegner_point(&mut report, data, f)?,
             None if !early => heegner_point(&mut report, data, options, work)?,
@@ -180,6 +185,11 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     Ok(report)
 }
 
+/// The part of the ladders' CPU cap (`RankOptions::search_time_limit`)
+/// that the searches may spend before the Heegner step, when the analytic
+/// rank is proven 1.
+const PRE_HEEGNER_LADDER: f64 = 0.125;
+
 /// The descents (2-isogeny, full 2-descent, descent over the algebra), their
 /// combination and the rank decision, written into `report`.
 #[allow(clippy::too_many_arguments)]
@@ -234,7 +244,7 @@ fn descents(
         combine_algebra(report, &runs, full.as_ref(), a)?;
     }
     if let (Some(a), Some(ctx)) = (&algebra, &context) {
-        covering_points(report, data, &runs, full.as_ref(), a, ctx, enough, work, unfinished)?;
+        covering_points(report, data, &runs, full.as_ref(), a, ctx, enough, options, work, unfinished)?;
     }
     report.isogeny_runs = runs;
     report.full_descent = full;
@@ -595,8 +605,10 @@ fn algebra_route(
     }
 }
 
-/// The heights the 2-coverings of the algebra route are searched to, in turn.
-const COVERING_HEIGHTS: [u64; 3] = [128, 1024, 8192];
+/// The first height the 2-coverings of the algebra route are searched to;
+/// the ladder then doubles it towards `search_height_ceiling` within the
+/// budget (see [`crate::budget::Ladder`]).
+const COVERING_FLOOR: u64 = 128;
 
 /// Points from the 2-coverings of the algebra route's Selmer elements (see
 /// `descent::algebra::covering`; every shape of the algebra), when the
@@ -604,7 +616,8 @@ const COVERING_HEIGHTS: [u64; 3] = [128, 1024, 8192];
 /// smaller): the classes of the torsion points and of the points already
 /// found (the isogeny descents' and the quartic route's) are taken out,
 /// the other elements' coverings are searched within half of the time
-/// left, and every point found is checked on the curve and in its class.
+/// left, at heights doubled from [`COVERING_FLOOR`] while the ladder's
+/// prediction of the next rung fits, and every point found is checked on the curve and in its class.
 /// `E(Q)/2E(Q)` injects into `Sel^2(E)` and the torsion points' classes
 /// span `dim E(Q)[2]` dimensions, so points whose classes are independent
 /// modulo those of the torsion are independent modulo torsion.
@@ -617,6 +630,7 @@ fn covering_points(
     a: &AlgebraDescent,
     ctx: &CoveringContext,
     enough: Option<usize>,
+    options: &RankOptions,
     work: &Work,
     unfinished: &mut Vec<Statement>,
 ) -> Result<(), Error> {
@@ -646,7 +660,9 @@ fn covering_points(
     }
     let share = work.share(0.5);
     let known: Vec<u64> = span.basis().to_vec();
-    let found = match search_coverings(data.minimal(), ctx, &known, goal, &COVERING_HEIGHTS, &share) {
+    let ceiling = options.search_height_ceiling.max(COVERING_FLOOR);
+    let ladder = crate::budget::Ladder::new(COVERING_FLOOR, ceiling, crate::budget::QUARTIC_GROWTH, work, options.search_time_limit);
+    let found = match search_coverings(data.minimal(), ctx, &known, goal, crate::budget::Rungs::Ladder(ladder), &share) {
         Ok(r) => r,
         Err(e) => {
             stage_failure("the 2-covering search", e, report, unfinished)?;

@@ -36,7 +36,7 @@
 use super::conic::{bilinear, conic_point, Sym3, Vec3};
 use super::interpolate;
 use crate::arith::FactorLimits;
-use crate::budget::Work;
+use crate::budget::{Rungs, Work};
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
 use crate::numfield::{poly, Element, NumberField};
@@ -540,7 +540,8 @@ pub struct CoveringRun {
 
 /// Searches the 2-coverings of the elements of `Sel^2(E)` not spanned by
 /// the classes of the torsion points and `known` (masks of classes already
-/// explained) for points on `curve`, raising the height over `heights`,
+/// explained) for points on `curve`, raising the height over `rungs` (a
+/// fixed list or a ladder driven by the budget, see [`Ladder`](crate::budget::Ladder)),
 /// until the classes found span `goal` dimensions beyond the torsion
 /// classes or `work` runs out. Returns one run per element tried; every
 /// point returned is on `curve` and of the class of its element (an
@@ -550,7 +551,7 @@ pub(crate) fn search_coverings(
     ctx: &CoveringContext,
     known: &[u64],
     goal: usize,
-    heights: &[u64],
+    mut rungs: Rungs<'_>,
     work: &Work,
 ) -> Result<Vec<CoveringRun>, Error> {
     let n = ctx.selmer.len().min(16);
@@ -565,9 +566,15 @@ pub(crate) fn search_coverings(
     }
     let mut runs: Vec<CoveringRun> = Vec::new();
     let mut quartics: Vec<(u64, Result<Quartic, Error>)> = Vec::new();
-    for &h in heights {
+    while let Some(h) = rungs.height() {
+        let rung = rungs.rung_work(work);
+        rungs.start_rung();
         for mask in 1u64..(1u64 << n) {
             if span.dim() >= goal || work.exhausted() {
+                return Ok(runs);
+            }
+            if rung.exhausted() {
+                // the ladder's own share is spent: no further rung
                 return Ok(runs);
             }
             if span.contains(mask) {
@@ -595,7 +602,7 @@ pub(crate) fn search_coverings(
                 }
             };
             let Ok(g) = built else { continue };
-            let out = search_quartic(&g.coeffs(), &SearchLimits::within(work, h).with_first_only(true));
+            let out = search_quartic(&g.coeffs(), &SearchLimits::within(&rung, h).with_first_only(true));
             runs[idx].height = runs[idx].height.max(out.height_reached);
             for p in &out.points {
                 let (xs, zs, ys) = (Rational::from(p.x.clone()), Rational::from(p.z.clone()), Rational::from(p.y.clone()));
@@ -609,6 +616,9 @@ pub(crate) fn search_coverings(
                 runs[idx].point = Some(point);
                 break;
             }
+        }
+        if !rungs.advance() {
+            break;
         }
     }
     Ok(runs)

@@ -301,7 +301,7 @@ pub fn points_on_coverings(
     work: &Work,
 ) -> Result<Option<(AlgebraDescent, Vec<CoveringRun>)>, Error> {
     let Some((d, ctx)) = two_selmer_with_context(curve, torsion, primes, work)? else { return Ok(None) };
-    let runs = search_coverings(curve, &ctx, &[], d.upper, heights, work)?;
+    let runs = search_coverings(curve, &ctx, &[], d.upper, crate::budget::Rungs::Fixed(heights), work)?;
     Ok(Some((d, runs)))
 }
 
