@@ -1487,6 +1487,35 @@ impl RelationSearch<'_> {
         (sp, keys)
     }
 
+    /// What both line sieves start from (cubic fields whose polynomial
+    /// fits in `i128` and whose prime ideals up to the generation bound
+    /// have a line table): the coefficients, the table, the sieve primes
+    /// and their prime ideals; `None` where the sieve does not apply.
+    fn line_setup(&mut self) -> Result<Option<LineSetup>, Error> {
+        if self.k.n != 3 {
+            return Ok(None);
+        }
+        let Ok(coeffs) = self
+            .k
+            .poly
+            .iter()
+            .map(i128::try_from)
+            .collect::<Result<Vec<i128>, _>>()
+        else {
+            return Ok(None);
+        };
+        let Some(table) = self.line_table(self.gen_bound)? else {
+            return Ok(None);
+        };
+        let (primes, keys) = self.sieve_primes(&table);
+        Ok(Some(LineSetup {
+            coeffs,
+            table,
+            primes,
+            keys,
+        }))
+    }
+
     /// Relations from the line sieve (cubic fields): smooth `a + b theta`
     /// over the columns, or with one prime ideal up to the generation bound
     /// outside them (paired as in [`RelationSearch::round`]), line after
@@ -1498,21 +1527,15 @@ impl RelationSearch<'_> {
         out: &mut Vec<Found>,
     ) -> Result<(), Error> {
         let k = self.k;
-        if k.n != 3 {
-            return Ok(());
-        }
-        let Ok(coeffs) = k
-            .poly
-            .iter()
-            .map(i128::try_from)
-            .collect::<Result<Vec<i128>, _>>()
+        let Some(LineSetup {
+            coeffs,
+            table,
+            primes: sp,
+            keys,
+        }) = self.line_setup()?
         else {
             return Ok(());
         };
-        let Some(table) = self.line_table(self.gen_bound)? else {
-            return Ok(());
-        };
-        let (sp, keys) = self.sieve_primes(&table);
         let mut ls = LineSieve::new(sp, coeffs.clone(), self.b0);
         let theta = k.generator();
         let minus_one = k.rational(&Rational::from(-1));
@@ -1579,21 +1602,18 @@ impl RelationSearch<'_> {
     /// ideal; what is proven is the same.
     fn sieve_verify(&mut self, todo: &[(u128, Key)], stop: &dyn Fn() -> bool) -> Result<(), Error> {
         let k = self.k;
-        if todo.len() < 16 || k.n != 3 {
+        if todo.len() < 16 {
             return Ok(());
         }
-        let Ok(coeffs) = k
-            .poly
-            .iter()
-            .map(i128::try_from)
-            .collect::<Result<Vec<i128>, _>>()
+        let Some(LineSetup {
+            coeffs,
+            table,
+            primes: sp,
+            keys,
+        }) = self.line_setup()?
         else {
             return Ok(());
         };
-        let Some(table) = self.line_table(self.gen_bound)? else {
-            return Ok(());
-        };
-        let (sp, keys) = self.sieve_primes(&table);
         let key_pos: HashMap<Key, u32> = keys
             .iter()
             .enumerate()
@@ -1732,6 +1752,14 @@ const SIEVE_SLACK: i32 = 8;
 const COLLECT_LINES: i64 = 64;
 /// Elements kept per prime ideal.
 const SIEVE_KEEP: usize = 3;
+
+/// The common start of the line sieves ([`RelationSearch::line_setup`]).
+struct LineSetup {
+    coeffs: Vec<i128>,
+    table: LineTable,
+    primes: Vec<SievePrime>,
+    keys: Vec<Key>,
+}
 
 /// `N(a + b theta)` for `theta` a root of the monic `f` (coefficients
 /// constant first): `(-b)^n f(-a/b) = (-1)^n sum c_i (-a)^i b^(n-i)`;
