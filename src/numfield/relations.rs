@@ -1099,13 +1099,7 @@ impl<'a> RelationSearch<'a> {
             if self.verified.contains(&key) {
                 continue;
             }
-            // (p) = prod P^e: the last unverified prime above p with e = 1 is
-            // implied by the others when the list above p is complete
-            let (p, i) = key;
-            if !self.incomplete.contains(&p)
-                && self.above[&p][i].e == 1
-                && (0..self.above[&p].len()).all(|j| j == i || self.verified.contains(&(p, j)))
-            {
+            if self.implied_by_the_others(key) {
                 self.verified.insert(key);
                 continue;
             }
@@ -1487,6 +1481,15 @@ impl RelationSearch<'_> {
         (sp, keys)
     }
 
+    /// (p) = prod P^e: the last unverified prime ideal above p with e = 1
+    /// is implied by the others when the list above p is complete.
+    fn implied_by_the_others(&self, key: Key) -> bool {
+        let (p, i) = key;
+        !self.incomplete.contains(&p)
+            && self.above[&p][i].e == 1
+            && (0..self.above[&p].len()).all(|j| j == i || self.verified.contains(&(p, j)))
+    }
+
     /// What both line sieves start from (cubic fields whose polynomial
     /// fits in `i128` and whose prime ideals up to the generation bound
     /// have a line table): the coefficients, the table, the sieve primes
@@ -1675,11 +1678,7 @@ impl RelationSearch<'_> {
                 if self.verified.contains(&key) {
                     continue;
                 }
-                let (p, i) = key;
-                if !self.incomplete.contains(&p)
-                    && self.above[&p][i].e == 1
-                    && (0..self.above[&p].len()).all(|j| j == i || self.verified.contains(&(p, j)))
-                {
+                if self.implied_by_the_others(key) {
                     self.verified.insert(key);
                     if key_pos.contains_key(&key) {
                         left -= 1;
