@@ -7,7 +7,8 @@
 //! [`DEFAULT_BUDGET_SECS`], 30 s; `none` for no limit, at most
 //! [`MAX_BUDGET_SECS`]): a curve that needs more gets a report with what was
 //! proven in time and `budget_exhausted` set, so one slow curve cannot stall
-//! a sweep.
+//! a sweep. The search ladders may take half of it in CPU time
+//! (`RankOptions::search_time_limit`).
 //!
 //! Curves come from the arguments, from a file (`--file`, one per line), or
 //! from standard input one per line, in any form `twofold::Curve::parse`
@@ -318,6 +319,11 @@ fn main() {
     let mut cli = parse_args(std::env::args_os().skip(1).collect());
     let mut options = RankOptions::default();
     options.time_limit = cli.budget;
+    // the search ladders' CPU cap follows the budget: half of it (the
+    // library's default of 15 s is half of the default budget)
+    if let Some(b) = cli.budget {
+        options.search_time_limit = b / 2;
+    }
     if let Some(h) = cli.height {
         options.search_height = h;
     }

@@ -335,7 +335,7 @@ fn quartic_route(
     // conjecture (only a reason to keep searching, never a claim)
     let floor = report.analytic.as_ref().and_then(|a| a.root_number).filter(|w| *w == -1).map(|_| 1);
     if minimal.c4().unsigned_abs() < ISOGENY_SHORTCUT_C4 {
-        return full_two_descent(minimal, torsion, primes, options, work, enough, floor);
+        return own_then_class(minimal, torsion, primes, options, work, enough, floor, report);
     }
     work.report(Stage::IsogenyClass, "odd-degree isogeny class");
     let class = match crate::isogeny::odd_isogeny_class_within(minimal, primes, work) {
@@ -364,6 +364,136 @@ fn quartic_route(
     f.points = mapped;
     report.descent_curve = Some((other.clone(), degree));
     Ok(f)
+}
+
+/// The share of the ladders' CPU cap (`RankOptions::search_time_limit`)
+/// that the coverings of the curve itself get before those of its
+/// odd-degree isogenous curves are searched (see [`own_then_class`]).
+const OWN_COVERINGS_FIRST: f64 = 0.25;
+
+/// Whether a descent's points reach the rank it must reach: the least of
+/// its Selmer bound and `enough` (a rank proven by another route), or
+/// without either the parity floor; `None` when nothing asks for more.
+fn descent_short_of_goal(f: &FullDescent, enough: Option<usize>, floor: Option<usize>) -> bool {
+    let goal = match (f.upper, enough) {
+        (Some(u), Some(e)) => Some(u.min(e)),
+        (u, e) => u.or(e).or(floor),
+    };
+    goal.is_some_and(|g| f.lower < g)
+}
+
+/// The weight `Omega * prod c_p / #E(Q)_tors^2` of a minimal model: by the
+/// Birch and Swinnerton-Dyer formula, `L'(E,1) = weight * Sha * R`, and
+/// `L'` is the same for isogenous curves, so within a rank-one isogeny
+/// class the member of the largest weight is expected to have the
+/// generator of the smallest height (if their Sha have the same order).
+/// Only an order for the searches, never a claim; `None` if a quantity
+/// could not be computed.
+fn bsd_weight(curve: &Curve, primes: &[Natural]) -> Option<f64> {
+    let omega = crate::heights::real::PeriodLattice::compute(curve, 64).ok()?.real_period_f64();
+    let c = crate::local::tamagawa_product(curve, primes).ok()?;
+    let t = TorsionGroup::compute(curve, primes).order() as f64;
+    let w = omega * f64::try_from(&c).ok()? / (t * t);
+    (w.is_finite() && w > 0.0).then_some(w)
+}
+
+/// The full 2-descent for a curve of small `|c4|`: first on the curve
+/// itself with [`OWN_COVERINGS_FIRST`] of the ladders' CPU cap. While its
+/// points stay short of the goal ([`descent_short_of_goal`]), the members
+/// of its odd-degree isogeny class in the order of their expected
+/// generator heights ([`bsd_weight`]): the first gets the whole cap (the
+/// curve itself searched again, or another member), each later one
+/// [`OWN_COVERINGS_FIRST`] of it; points found on another member are
+/// carried back along the isogenies.
+///
+/// Why: an isogeny `φ: E → E'` of odd prime degree `l` gives
+/// `ĥ(φ(P)) = l ĥ(P)` (the canonical height under isogenies; Silverman,
+/// *The Arithmetic of Elliptic Curves*, chapter VIII, exercises; from
+/// memory). For generators `P` of `E` and `Q` of `E'` of rank one,
+/// `φ(P) = k Q` and `φ'(Q) = j P` with `jk = l` (as `φ'φ = [l]`), so one of
+/// the two generators has `l` times the height of the other, and a search
+/// reaches the smaller one with about the `l`-th root of the covering
+/// height the larger one needs. For y^2 = x^3 + k the 3-isogenous curve is
+/// y^2 = x^3 - 27k. `Sel^2` of the members are isomorphic (the isogeny is
+/// odd), so their Selmer bounds must agree: a disagreement is an internal
+/// error.
+#[allow(clippy::too_many_arguments)]
+fn own_then_class(
+    minimal: &Curve,
+    torsion: &TorsionGroup,
+    primes: &[Natural],
+    options: &RankOptions,
+    work: &Work,
+    enough: Option<usize>,
+    floor: Option<usize>,
+    report: &mut RankReport,
+) -> Result<FullDescent, Error> {
+    use malachite::base::num::arithmetic::traits::UnsignedAbs;
+    let with_share = |f: f64| RankOptions { search_time_limit: options.search_time_limit.mul_f64(f), ..options.clone() };
+    let own = full_two_descent(minimal, torsion, primes, &with_share(OWN_COVERINGS_FIRST), work, enough, floor)?;
+    // the ladder reached its ceiling: a larger share would search no higher
+    let ceiling_reached = own.searched_height >= options.search_height_ceiling;
+    if !descent_short_of_goal(&own, enough, floor) || work.exhausted() || own.selmer_dim.is_none() {
+        return Ok(own);
+    }
+    work.report(Stage::IsogenyClass, "odd-degree isogeny class");
+    let class = match crate::isogeny::odd_isogeny_class_within(minimal, primes, work) {
+        Ok(c) => c,
+        Err(e) if *e.kind() == crate::ErrorKind::Budget => return Ok(own),
+        Err(e) => return Err(e),
+    };
+    let weights: Vec<Option<f64>> = if class.curves.len() > 1 { class.curves.iter().map(|c| bsd_weight(c, primes)).collect() } else { vec![None] };
+    let mut order: Vec<usize> = (0..class.curves.len()).collect();
+    // the largest weight first; members without one last, by |c4|
+    order.sort_by(|&a, &b| match (weights[a], weights[b]) {
+        (Some(x), Some(y)) => y.partial_cmp(&x).unwrap_or(std::cmp::Ordering::Equal),
+        (Some(_), None) => std::cmp::Ordering::Less,
+        (None, Some(_)) => std::cmp::Ordering::Greater,
+        (None, None) => class.curves[a].c4().unsigned_abs().cmp(&class.curves[b].c4().unsigned_abs()),
+    });
+    let mut best = own;
+    for (turn, &m) in order.iter().enumerate() {
+        if work.exhausted() || !descent_short_of_goal(&best, enough, floor) {
+            break;
+        }
+        let share = if turn == 0 { 1.0 } else { OWN_COVERINGS_FIRST };
+        if m == 0 {
+            // the curve itself: searched again only with the whole cap
+            if turn == 0 && !ceiling_reached {
+                let f = full_two_descent(minimal, torsion, primes, options, work, enough, floor)?;
+                if f.lower > best.lower {
+                    best = f;
+                    report.descent_curve = None;
+                }
+            }
+            continue;
+        }
+        let other = &class.curves[m];
+        let other_torsion = TorsionGroup::compute(other, primes);
+        let mut f = full_two_descent(other, &other_torsion, primes, &with_share(share), work, enough, floor)?;
+        if let (Some(a), Some(b)) = (best.selmer_dim, f.selmer_dim) {
+            if a != b {
+                return Err(Error::internal(
+                    "the quartic descent",
+                    &format!("dim Sel^2 = {a} on the curve but {b} on the isogenous curve {other} (odd degree: they must agree)"),
+                ));
+            }
+        }
+        let mut mapped = Vec::new();
+        for p in &f.points {
+            match class.map_point(m, 0, p) {
+                Some(q) if minimal.contains(&q) && !q.is_infinity() => mapped.push(q),
+                _ => break,
+            }
+        }
+        f.lower = mapped.len();
+        f.points = mapped;
+        if f.lower > best.lower {
+            best = f;
+            report.descent_curve = Some((other.clone(), class.degree(0, m).unwrap_or(0)));
+        }
+    }
+    Ok(best)
 }
 
 /// Keeps the tightest bounds of the routes that ran, checks that they do not
