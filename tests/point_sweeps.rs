@@ -128,7 +128,9 @@ fn congruent_numbers_of_rank_one() {
 fn mordell_curves_of_analytic_rank_one() {
     let max = sweep_max(10_000) as i64;
     let min = std::env::var("SWEEP_MIN").ok().and_then(|s| s.parse().ok()).unwrap_or(1i64).max(1);
-    let opts = sweep_options();
+    // the search ladders may climb for a minute of CPU time (the library's
+    // default is 15 s): a few generators of height about 57 need that
+    let opts = sweep_options().with_search_time_limit(std::time::Duration::from_secs(60));
     let (mut total, mut heegner, mut missing) = (0, 0, Vec::new());
     let start = Instant::now();
     // by |k|, so that a run stopped early has covered a range
