@@ -1090,6 +1090,10 @@ fn reduce_row(pivots: &[Option<Row>], row: &mut Row, from: usize) {
 /// solves (more are added when the rank or `h R` says so).
 const KERNEL_EXCESS: usize = 24;
 
+/// Rows beside `B` in the first Hermite form of the core (`sparse.rs`
+/// `solve_core`): a sublattice, accepted only when `h* R` matches.
+const HERMITE_EXTRA_ROWS: usize = 256;
+
 /// Targeted attempts per column without a relation (or left without a
 /// row by the elimination) before the search gives up aiming at it.
 const TARGETED_ATTEMPTS: usize = 12;
@@ -1137,7 +1141,9 @@ impl NumberField {
         }
         let mut found: Vec<Found> = Vec::new();
         // relations from a log sieve over a + b theta first (cubic fields)
+        let t_s = Instant::now();
         rels.sieve_collect(kfb + KERNEL_EXCESS, &stop, &mut found)?;
+        if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE sieve_collect {} of {} in {:?}", found.len(), kfb + KERNEL_EXCESS, t_s.elapsed()); }
         // many relations from the sieve: the rounds aim at the columns it missed from the start
         let sieved = found.len() >= kfb / 2;
         for f in found.drain(..) {
@@ -1148,8 +1154,13 @@ impl NumberField {
         let mut attempts = vec![0usize; kfb];
         let mut cursor = 0usize;
         let mut want = kfb + KERNEL_EXCESS;
+        let mut elim = sparse::Elimination::new(kfb);
+        // the core's Hermite form from B and this many other rows at
+        // first, from all rows once that falls short
+        let mut hermite_rows = Some(HERMITE_EXTRA_ROWS);
         let mut precise = PreciseLogs::new();
         let (solution, units, ratio) = loop {
+            let t_r = Instant::now();
             while all.len() < want || hits.contains(&0) {
                 round += 1;
                 let aim = if (sieved || round > kfb + 1) && round.is_multiple_of(2) {
@@ -1172,11 +1183,17 @@ impl NumberField {
                     push(f, &mut all, &mut hits);
                 }
             }
-            let core = sparse::eliminate(&all, kfb, &stop);
+            if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE search to {} rels, round {} in {:?}", all.len(), round, t_r.elapsed()); }
+            let t_el = Instant::now();
+            elim.add(&all);
+            elim.run(&stop);
+            let core = elim.core();
+            if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE eliminate rows {} cols {} -> core {}x{} empty {} units {} in {:?}", all.len(), kfb, core.rows.len(), core.cols.len(), core.empty_columns.len(), core.units.len(), t_el.elapsed()); }
+            let t_el = Instant::now();
             if stop() {
                 return Err(budget());
             }
-            let Some(sol) = sparse::solve_core(&core, &stop) else {
+            let Some(sol) = sparse::solve_core(&core, hermite_rows, &stop) else {
                 if stop() {
                     return Err(budget());
                 }
@@ -1189,13 +1206,20 @@ impl NumberField {
                 want = all.len() + 8 + kfb / 16;
                 continue;
             };
+            if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE solve_core {:?}", t_el.elapsed()); }
             let h: f64 = sol.hermite.iter().enumerate().map(|(i, row)| f64::rounding_from(&row[i], RoundingMode::Nearest).0).product();
             // kernels of B and a growing number of the other rows, until h R matches
-            let mut count = KERNEL_EXCESS.min(sol.others.len());
+            // the units the elimination found (rows that became zero:
+            // short products) first, kernel vectors of the core only when
+            // those fall short
+            let mut count = 0;
             let mut accepted = None;
             let mut last_reg: Option<f64> = None;
             loop {
-                let Some(kernel) = sol.kernel(&core, count, &stop) else {
+                let t_k = Instant::now();
+                let kernel_opt = sol.kernel(&core, count, &stop);
+                if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE kernel count {} in {:?}", count, t_k.elapsed()); }
+                let Some(kernel) = kernel_opt else {
                     if stop() {
                         return Err(budget());
                     }
@@ -1215,6 +1239,7 @@ impl NumberField {
                         cands.push(row);
                     }
                 }
+                if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE refresh {} cands in {:?}, exps lens {:?}", cands.len(), t_k.elapsed(), cands.iter().map(|c| c.exps.len()).collect::<Vec<_>>()); }
                 if stop() {
                     return Err(budget());
                 }
@@ -1239,6 +1264,7 @@ impl NumberField {
                 if units.basis.len() == r {
                     let reg = if r == 0 { 1.0 } else { units.det() };
                     let ratio = h * reg / target;
+                    if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE h {h} ratio {ratio}"); }
                     if ratio < 1.5 {
                         accepted = Some((units, ratio));
                         break;
@@ -1256,24 +1282,32 @@ impl NumberField {
                     }
                     last_reg = Some(reg);
                 }
-                count = (2 * count).min(sol.others.len());
+                count = if count == 0 { KERNEL_EXCESS } else { 2 * count }.min(sol.others.len());
             }
             if let Some((units, ratio)) = accepted {
                 break (sol, units, ratio);
+            }
+            if sol.partial {
+                hermite_rows = None;
+                continue;
             }
             want = all.len() + 8 + kfb / 8;
         };
         if ratio < 0.6 {
             return Err(Error::new(ErrorKind::InvalidValue, format!("h R below the analytic estimate (ratio {ratio}): inconsistent data")));
         }
+        let t_v = Instant::now();
         rels.verify_all(&stop)?;
+        if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE verify_all {:?}", t_v.elapsed()); }
         let structure = smith_invariants(&solution.hermite);
         let class_number = structure.iter().fold(Integer::ONE, |a, d| a * d);
         let mut units = units;
+        let t_u = Instant::now();
         {
             let mut src = LogSource { k: self, table: &rels.table, elems: &rels.elems, precise: &mut precise };
             units.shorten(&mut src, &stop);
         }
+        if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE shorten {:?}", t_u.elapsed()); }
         let rel_elems = &rels.elems;
         let unit_products: Vec<WideProduct> = units.basis.iter().map(|u| WideProduct::new(u.exps.iter().map(|(i, e)| (rel_elems[*i].clone(), e.clone())).collect())).collect();
         let unit_list: Vec<CompactProduct> = unit_products.iter().map(WideProduct::to_compact).collect::<Option<Vec<_>>>().unwrap_or_default();
