@@ -1090,6 +1090,14 @@ fn reduce_row(pivots: &[Option<Row>], row: &mut Row, from: usize) {
 /// solves (more are added when the rank or `h R` says so).
 const KERNEL_EXCESS: usize = 24;
 
+/// Kernel vectors of the core tried first, plus two per unit rank
+/// (doubled while `h R` does not match).
+const KERNEL_FIRST: usize = 4;
+
+/// Relations through the aimed column after which a first targeted round
+/// of the kernel route stops its line scan (`RelationSearch::targeted_enough`).
+const TARGETED_ENOUGH: usize = 10;
+
 /// Rows beside `B` in the first Hermite form of the core (`sparse.rs`
 /// `solve_core`): a sublattice, accepted only when `h* R` matches.
 const HERMITE_EXTRA_ROWS: usize = 256;
@@ -1115,6 +1123,9 @@ impl NumberField {
         let b0 = base_bound(self).min(gen_bound).max(MIN_FACTOR_BASE_BOUND);
         let mut rels = RelationSearch::new(self, b0, gen_bound, extra_primes, &stop)?;
         rels.primitive_only = true;
+        // few relations per aimed column while columns are missing; all a
+        // line scan meets once h* R shows relations missing (`sparse.rs`)
+        rels.targeted_enough = TARGETED_ENOUGH;
         let kfb = rels.fb.len();
         let r = self.r1 + self.r2 - 1;
         let m = self.r1 + self.r2;
@@ -1141,9 +1152,7 @@ impl NumberField {
         }
         let mut found: Vec<Found> = Vec::new();
         // relations from a log sieve over a + b theta first (cubic fields)
-        let t_s = Instant::now();
         rels.sieve_collect(kfb + KERNEL_EXCESS, &stop, &mut found)?;
-        if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE sieve_collect {} of {} in {:?}", found.len(), kfb + KERNEL_EXCESS, t_s.elapsed()); }
         // many relations from the sieve: the rounds aim at the columns it missed from the start
         let sieved = found.len() >= kfb / 2;
         for f in found.drain(..) {
@@ -1159,12 +1168,16 @@ impl NumberField {
         // first, from all rows once that falls short
         let mut hermite_rows = Some(HERMITE_EXTRA_ROWS);
         let mut precise = PreciseLogs::new();
-        let (solution, units, ratio) = loop {
-            let t_r = Instant::now();
+        let (solution, units, ratio, core, count) = loop {
             while all.len() < want || hits.contains(&0) {
                 round += 1;
                 let aim = if (sieved || round > kfb + 1) && round.is_multiple_of(2) {
-                    (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| hits[j] == 0 && attempts[j] < TARGETED_ATTEMPTS)
+                    // a column without a relation, else (more relations
+                    // wanted: the generic rounds find few in large fields)
+                    // the next column in turn
+                    (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| hits[j] == 0 && attempts[j] < TARGETED_ATTEMPTS).or_else(|| {
+                        (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| sieved && attempts[j] < TARGETED_ATTEMPTS)
+                    })
                 } else {
                     None
                 };
@@ -1183,13 +1196,9 @@ impl NumberField {
                     push(f, &mut all, &mut hits);
                 }
             }
-            if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE search to {} rels, round {} in {:?}", all.len(), round, t_r.elapsed()); }
-            let t_el = Instant::now();
             elim.add(&all);
             elim.run(&stop);
             let core = elim.core();
-            if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE eliminate rows {} cols {} -> core {}x{} empty {} units {} in {:?}", all.len(), kfb, core.rows.len(), core.cols.len(), core.empty_columns.len(), core.units.len(), t_el.elapsed()); }
-            let t_el = Instant::now();
             if stop() {
                 return Err(budget());
             }
@@ -1206,7 +1215,6 @@ impl NumberField {
                 want = all.len() + 8 + kfb / 16;
                 continue;
             };
-            if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE solve_core {:?}", t_el.elapsed()); }
             let h: f64 = sol.hermite.iter().enumerate().map(|(i, row)| f64::rounding_from(&row[i], RoundingMode::Nearest).0).product();
             // kernels of B and a growing number of the other rows, until h R matches
             // the units the elimination found (rows that became zero:
@@ -1216,10 +1224,7 @@ impl NumberField {
             let mut accepted = None;
             let mut last_reg: Option<f64> = None;
             loop {
-                let t_k = Instant::now();
-                let kernel_opt = sol.kernel(&core, count, &stop);
-                if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE kernel count {} in {:?}", count, t_k.elapsed()); }
-                let Some(kernel) = kernel_opt else {
+                let Some(kernel) = sol.kernel(&core, count, &stop) else {
                     if stop() {
                         return Err(budget());
                     }
@@ -1239,7 +1244,6 @@ impl NumberField {
                         cands.push(row);
                     }
                 }
-                if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE refresh {} cands in {:?}, exps lens {:?}", cands.len(), t_k.elapsed(), cands.iter().map(|c| c.exps.len()).collect::<Vec<_>>()); }
                 if stop() {
                     return Err(budget());
                 }
@@ -1264,7 +1268,6 @@ impl NumberField {
                 if units.basis.len() == r {
                     let reg = if r == 0 { 1.0 } else { units.det() };
                     let ratio = h * reg / target;
-                    if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE h {h} ratio {ratio}"); }
                     if ratio < 1.5 {
                         accepted = Some((units, ratio));
                         break;
@@ -1282,32 +1285,47 @@ impl NumberField {
                     }
                     last_reg = Some(reg);
                 }
-                count = if count == 0 { KERNEL_EXCESS } else { 2 * count }.min(sol.others.len());
+                count = if count == 0 { KERNEL_FIRST + 2 * r } else { 2 * count }.min(sol.others.len());
             }
             if let Some((units, ratio)) = accepted {
-                break (sol, units, ratio);
+                break (sol, units, ratio, core, count);
             }
             if sol.partial {
                 hermite_rows = None;
                 continue;
             }
-            want = all.len() + 8 + kfb / 8;
+            rels.targeted_enough = usize::MAX;
+            want = all.len() + 8 + kfb / 2;
         };
         if ratio < 0.6 {
             return Err(Error::new(ErrorKind::InvalidValue, format!("h R below the analytic estimate (ratio {ratio}): inconsistent data")));
         }
-        let t_v = Instant::now();
         rels.verify_all(&stop)?;
-        if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE verify_all {:?}", t_v.elapsed()); }
         let structure = smith_invariants(&solution.hermite);
         let class_number = structure.iter().fold(Integer::ONE, |a, d| a * d);
         let mut units = units;
-        let t_u = Instant::now();
         {
             let mut src = LogSource { k: self, table: &rels.table, elems: &rels.elems, precise: &mut precise };
             units.shorten(&mut src, &stop);
+            // exponents past a word: more kernel vectors (roots of unity
+            // now, the lattice being full) to shorten them by
+            let long = |units: &UnitLattice| units.basis.iter().any(|u| u.exps.iter().any(|(_, x)| i64::try_from(x).is_err()));
+            let more = KERNEL_EXCESS.max(2 * count).min(solution.others.len());
+            if long(&units) && more > count {
+                let Some(kernel) = solution.kernel(&core, more, &stop) else {
+                    return Err(budget());
+                };
+                for kv in &kernel {
+                    let mut exps: Vec<(usize, Integer)> = Vec::new();
+                    for (ci, x) in kv {
+                        exps = combine(&exps, &Integer::ONE, &wide(&core.exps[*ci]), x);
+                    }
+                    let row = Row { v: Vec::new(), logs: vec![0.0; m], exps, err: f64::INFINITY };
+                    units.add(row, &mut src);
+                }
+                units.shorten(&mut src, &stop);
+            }
         }
-        if std::env::var_os("FIELDS_TRACE").is_some() { eprintln!("TRACE shorten {:?}", t_u.elapsed()); }
         let rel_elems = &rels.elems;
         let unit_products: Vec<WideProduct> = units.basis.iter().map(|u| WideProduct::new(u.exps.iter().map(|(i, e)| (rel_elems[*i].clone(), e.clone())).collect())).collect();
         let unit_list: Vec<CompactProduct> = unit_products.iter().map(WideProduct::to_compact).collect::<Option<Vec<_>>>().unwrap_or_default();

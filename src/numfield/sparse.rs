@@ -32,7 +32,6 @@ use super::modular::{determinant, log2_row_length, ExactSolver};
 use crate::arith::{inv_mod, is_prime_u64, mul_mod};
 use malachite::base::num::arithmetic::traits::{Abs, DivisibleBy, Gcd, Mod, UnsignedAbs};
 use malachite::base::num::basic::traits::{One, Zero};
-use malachite::base::num::logic::traits::SignificantBits;
 use malachite::Integer;
 
 /// A relation: sparse valuations (column, value) in increasing column
@@ -77,7 +76,9 @@ fn axpy_into(out: &mut Vec<(usize, i64)>, a: &[(usize, i64)], f: i64, b: &[(usiz
             out.push(a[i]);
             i += 1;
         } else if i >= a.len() || b[j].0 < a[i].0 {
-            let Some(x) = f.checked_mul(b[j].1) else { return false };
+            let Some(x) = f.checked_mul(b[j].1) else {
+                return false;
+            };
             out.push((b[j].0, x));
             j += 1;
         } else {
@@ -138,7 +139,9 @@ impl Elimination {
     fn reduce(&mut self, rel: &SparseRelation) -> Option<SparseRelation> {
         let mut row = rel.clone();
         for (c, prow) in &self.pivots {
-            let Ok(pos) = row.v.binary_search_by_key(c, |x| x.0) else { continue };
+            let Ok(pos) = row.v.binary_search_by_key(c, |x| x.0) else {
+                continue;
+            };
             let sgn = prow.v[prow.v.binary_search_by_key(c, |x| x.0).ok()?].1;
             let f = -row.v[pos].1 * sgn;
             if !(axpy_into(&mut self.scratch_v, &row.v, f, &prow.v)
@@ -158,7 +161,9 @@ impl Elimination {
     /// Adds the relations `rels[self.added..]` (reduced by the pivots so far).
     pub(crate) fn add(&mut self, rels: &[SparseRelation]) {
         for rel in &rels[self.added.min(rels.len())..] {
-            let Some(row) = self.reduce(rel) else { continue };
+            let Some(row) = self.reduce(rel) else {
+                continue;
+            };
             if row.v.is_empty() {
                 if !row.exps.is_empty() {
                     self.units.push(row.exps);
@@ -187,7 +192,18 @@ impl Elimination {
     /// least cost passes [`MAX_COST`]. `stop` is polled once per pivot.
     pub(crate) fn run(&mut self, stop: &dyn Fn() -> bool) {
         let ncols = self.ncols;
-        let Elimination { rows, w, heavy, col_rows, alive, units, pivots, scratch_v, scratch_e, .. } = self;
+        let Elimination {
+            rows,
+            w,
+            heavy,
+            col_rows,
+            alive,
+            units,
+            pivots,
+            scratch_v,
+            scratch_e,
+            ..
+        } = self;
         // per light column the cheapest pivot (cost, row), recomputed only
         // for the columns whose rows changed since (dirty)
         let mut col_best: Vec<Option<(usize, usize)>> = vec![None; ncols];
@@ -254,7 +270,9 @@ impl Elimination {
             list.clear();
             list.extend(col_rows[c].iter().copied().filter(|&i| i != piv));
             for &s in &list {
-                let Some(mut row) = rows[s].take() else { continue };
+                let Some(mut row) = rows[s].take() else {
+                    continue;
+                };
                 let Ok(pos) = row.v.binary_search_by_key(&c, |x| x.0) else {
                     rows[s] = Some(row);
                     continue;
@@ -262,7 +280,8 @@ impl Elimination {
                 let a = row.v[pos].1;
                 // row - a sgn prow has zero at c (sgn^2 = 1)
                 let f = -a * sgn;
-                let ok = axpy_into(scratch_v, &row.v, f, &prow.v) && axpy_into(scratch_e, &row.exps, f, &prow.exps);
+                let ok = axpy_into(scratch_v, &row.v, f, &prow.v)
+                    && axpy_into(scratch_e, &row.exps, f, &prow.exps);
                 // the weights, lists and dirty marks: columns of the old
                 // row that went, columns of the new row that came
                 let (old, new) = (&row.v, if ok { &scratch_v[..] } else { &[][..] });
@@ -418,7 +437,11 @@ fn independent_rows(m: &[Vec<i64>], order: &[usize], n: usize) -> Vec<usize> {
 
 /// The Hermite form of the core and the set-up of its kernel; `None` when
 /// the rows do not have full rank (more relations needed) or `stop` says so.
-pub(crate) fn solve_core(core: &Core, hermite_rows: Option<usize>, stop: &dyn Fn() -> bool) -> Option<CoreSolution> {
+pub(crate) fn solve_core(
+    core: &Core,
+    hermite_rows: Option<usize>,
+    stop: &dyn Fn() -> bool,
+) -> Option<CoreSolution> {
     let n = core.cols.len();
     let m = core.rows.len();
     if !core.empty_columns.is_empty() || m < n {
@@ -440,10 +463,7 @@ pub(crate) fn solve_core(core: &Core, hermite_rows: Option<usize>, stop: &dyn Fn
             partial: false,
         });
     }
-    let tr = std::env::var_os("FIELDS_TRACE").is_some();
-    let t0 = std::time::Instant::now();
     let sel = independent_rows(&core.rows, &order, n);
-    if tr { eprintln!("TRACE  independent_rows {:?}", t0.elapsed()); }
     if sel.len() < n || stop() {
         return None;
     }
@@ -454,7 +474,6 @@ pub(crate) fn solve_core(core: &Core, hermite_rows: Option<usize>, stop: &dyn Fn
         .fold(0.0, f64::max);
     let solver = ExactSolver::new(sel.iter().map(|&i| core.rows[i].clone()).collect(), extra)?;
     let d = solver.det.clone().abs();
-    if tr { eprintln!("TRACE  solver {:?} det bits {}", t0.elapsed(), d.significant_bits()); }
     if d == 0u32 || stop() {
         return None;
     }
@@ -466,14 +485,15 @@ pub(crate) fn solve_core(core: &Core, hermite_rows: Option<usize>, stop: &dyn Fn
         if g < (1u64 << 31) || stop() {
             break;
         }
-        let Some(y) = solver.solve(&core.rows[j], log2_row_length(&core.rows[j])) else { break };
+        let Some(y) = solver.solve(&core.rows[j], log2_row_length(&core.rows[j])) else {
+            break;
+        };
         for x in &y {
             if *x != 0u32 {
                 g = Integer::from(g.unsigned_abs().gcd(x.unsigned_abs()));
             }
         }
     }
-    if tr { eprintln!("TRACE  cramer multiple {:?} bits {}", t0.elapsed(), g.significant_bits()); }
     // the Hermite form of B and the sparsest other rows only, when asked:
     // a sublattice of L, of index h* / h; the caller's check of h* R
     // against the Euler product tells whether it is L
@@ -483,7 +503,6 @@ pub(crate) fn solve_core(core: &Core, hermite_rows: Option<usize>, stop: &dyn Fn
     };
     let partial = rows.len() < m;
     let hermite = core_hermite(core, &rows, &sel, &g, stop)?;
-    if tr { eprintln!("TRACE  hermite {:?}", t0.elapsed()); }
     Some(CoreSolution {
         hermite,
         sel,
@@ -549,7 +568,11 @@ fn core_hermite(
     stop: &dyn Fn() -> bool,
 ) -> Option<Vec<Vec<Integer>>> {
     let n = core.cols.len();
-    let g = if *d < (1u64 << 62) { d.clone() } else { lattice_multiple(core, sel, d, stop) };
+    let g = if *d < (1u64 << 62) {
+        d.clone()
+    } else {
+        lattice_multiple(core, sel, d, stop)
+    };
     if stop() {
         return None;
     }
