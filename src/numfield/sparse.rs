@@ -13,13 +13,25 @@
 //! and maps the integral left kernel bijectively (a combination of the new
 //! rows is one of the old rows), so neither the class group nor the units
 //! change. Rows that become zero are units at once. Pivots are taken by
-//! least fill-in (Markowitz cost), and the elimination stops when the cost
-//! passes a limit: what is left is a small dense core.
+//! least fill-in (Markowitz cost) from a heap, among the light columns
+//! only (a column with more than `HEAVY_WEIGHT` rows is heavy: never a
+//! pivot, its row list not kept, as in structured Gaussian elimination),
+//! with the column weights kept exactly as rows change and the costs
+//! recomputed only for columns whose rows changed; the elimination stops
+//! when the least cost passes a limit: what is left is a small dense core.
+//! The state is kept between solves (`Elimination`): relations found
+//! later are reduced by the pivots taken so far, in their order.
 //!
 //! The core `M` (`m` rows, `n` columns, rank `n` wanted): `n` rows `B`
 //! independent modulo a word prime, `D = det B` exactly (`modular.rs`),
 //! `D Z^n ⊂ L`, so the Hermite form of all rows modulo `D` is the Hermite
-//! form of `L` (Cohen GTM 138, Algorithm 2.4.8) and `h* = prod diag`. For
+//! form of `L` (Cohen GTM 138, Algorithm 2.4.8) and `h* = prod diag`. The
+//! modulus is made smaller for free: the Cramer solutions `y_j` of a few
+//! other rows hold the determinants of `B` with one row replaced, each a
+//! multiple of `det L`, and their gcd with `D` is one too. The caller may
+//! ask for the Hermite form of `B` and some other rows only (a sublattice,
+//! of index `h* / h`, which its check of `h* R` against the Euler product
+//! rejects unless it is `L`). For
 //! each other row `v_j` (`e` of them), `y_j B = D v_j` exactly; the integral
 //! left kernel of `M` is `{((sum t_j y_j) / D, -t) : t in Z^e, sum t_j y_j = 0
 //! mod D}`, and that condition is a kernel modulo `D`, read off a Hermite
