@@ -783,6 +783,24 @@ mod tests {
                     .enumerate()
                     .fold(Integer::ONE, |a, (i, r)| a * &r[i]);
                 assert_eq!(h_core, h_full, "trial {trial} split {split}");
+                // the Hermite form of B alone: a sublattice, its index a
+                // multiple of h
+                if let Some(part) = solve_core(&core, Some(0), &|| false) {
+                    let h_part = part
+                        .hermite
+                        .iter()
+                        .enumerate()
+                        .fold(Integer::ONE, |a, (i, r)| a * &r[i]);
+                    assert!(
+                        (&h_part).divisible_by(&h_full),
+                        "trial {trial} split {split}"
+                    );
+                    assert_eq!(
+                        part.partial,
+                        core.rows.len() > core.cols.len(),
+                        "trial {trial}"
+                    );
+                }
                 // kernel rank: nrows - ncols in all
                 assert_eq!(
                     sol_kernel.len() + core.units.len(),
