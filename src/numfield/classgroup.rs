@@ -1090,6 +1090,18 @@ fn reduce_row(pivots: &[Option<Row>], row: &mut Row, from: usize) {
 /// solves (more are added when the rank or `h R` says so).
 const KERNEL_EXCESS: usize = 24;
 
+/// Kernel vectors of the core tried first, plus two per unit rank
+/// (doubled while `h R` does not match).
+const KERNEL_FIRST: usize = 4;
+
+/// Relations through the aimed column after which a first targeted round
+/// of the kernel route stops its line scan (`RelationSearch::targeted_enough`).
+const TARGETED_ENOUGH: usize = 10;
+
+/// Rows beside `B` in the first Hermite form of the core (`sparse.rs`
+/// `solve_core`): a sublattice, accepted only when `h* R` matches.
+const HERMITE_EXTRA_ROWS: usize = 256;
+
 /// Targeted attempts per column without a relation (or left without a
 /// row by the elimination) before the search gives up aiming at it.
 const TARGETED_ATTEMPTS: usize = 12;
@@ -1111,6 +1123,9 @@ impl NumberField {
         let b0 = base_bound(self).min(gen_bound).max(MIN_FACTOR_BASE_BOUND);
         let mut rels = RelationSearch::new(self, b0, gen_bound, extra_primes, &stop)?;
         rels.primitive_only = true;
+        // few relations per aimed column while columns are missing; all a
+        // line scan meets once h* R shows relations missing (`sparse.rs`)
+        rels.targeted_enough = TARGETED_ENOUGH;
         let kfb = rels.fb.len();
         let r = self.r1 + self.r2 - 1;
         let m = self.r1 + self.r2;
@@ -1148,12 +1163,21 @@ impl NumberField {
         let mut attempts = vec![0usize; kfb];
         let mut cursor = 0usize;
         let mut want = kfb + KERNEL_EXCESS;
+        let mut elim = sparse::Elimination::new(kfb);
+        // the core's Hermite form from B and this many other rows at
+        // first, from all rows once that falls short
+        let mut hermite_rows = Some(HERMITE_EXTRA_ROWS);
         let mut precise = PreciseLogs::new();
-        let (solution, units, ratio) = loop {
+        let (solution, units, ratio, core, count) = loop {
             while all.len() < want || hits.contains(&0) {
                 round += 1;
                 let aim = if (sieved || round > kfb + 1) && round.is_multiple_of(2) {
-                    (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| hits[j] == 0 && attempts[j] < TARGETED_ATTEMPTS)
+                    // a column without a relation, else (more relations
+                    // wanted: the generic rounds find few in large fields)
+                    // the next column in turn
+                    (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| hits[j] == 0 && attempts[j] < TARGETED_ATTEMPTS).or_else(|| {
+                        (0..kfb).map(|i| (cursor + i) % kfb).find(|&j| sieved && attempts[j] < TARGETED_ATTEMPTS)
+                    })
                 } else {
                     None
                 };
@@ -1172,11 +1196,13 @@ impl NumberField {
                     push(f, &mut all, &mut hits);
                 }
             }
-            let core = sparse::eliminate(&all, kfb, &stop);
+            elim.add(&all);
+            elim.run(&stop);
+            let core = elim.core();
             if stop() {
                 return Err(budget());
             }
-            let Some(sol) = sparse::solve_core(&core, &stop) else {
+            let Some(sol) = sparse::solve_core(&core, hermite_rows, &stop) else {
                 if stop() {
                     return Err(budget());
                 }
@@ -1191,7 +1217,10 @@ impl NumberField {
             };
             let h: f64 = sol.hermite.iter().enumerate().map(|(i, row)| f64::rounding_from(&row[i], RoundingMode::Nearest).0).product();
             // kernels of B and a growing number of the other rows, until h R matches
-            let mut count = KERNEL_EXCESS.min(sol.others.len());
+            // the units the elimination found (rows that became zero:
+            // short products) first, kernel vectors of the core only when
+            // those fall short
+            let mut count = 0;
             let mut accepted = None;
             let mut last_reg: Option<f64> = None;
             loop {
@@ -1256,12 +1285,17 @@ impl NumberField {
                     }
                     last_reg = Some(reg);
                 }
-                count = (2 * count).min(sol.others.len());
+                count = if count == 0 { KERNEL_FIRST + 2 * r } else { 2 * count }.min(sol.others.len());
             }
             if let Some((units, ratio)) = accepted {
-                break (sol, units, ratio);
+                break (sol, units, ratio, core, count);
             }
-            want = all.len() + 8 + kfb / 8;
+            if sol.partial {
+                hermite_rows = None;
+                continue;
+            }
+            rels.targeted_enough = usize::MAX;
+            want = all.len() + 8 + kfb / 2;
         };
         if ratio < 0.6 {
             return Err(Error::new(ErrorKind::InvalidValue, format!("h R below the analytic estimate (ratio {ratio}): inconsistent data")));
@@ -1273,6 +1307,24 @@ impl NumberField {
         {
             let mut src = LogSource { k: self, table: &rels.table, elems: &rels.elems, precise: &mut precise };
             units.shorten(&mut src, &stop);
+            // exponents past a word: more kernel vectors (roots of unity
+            // now, the lattice being full) to shorten them by
+            let long = |units: &UnitLattice| units.basis.iter().any(|u| u.exps.iter().any(|(_, x)| i64::try_from(x).is_err()));
+            let more = KERNEL_EXCESS.max(2 * count).min(solution.others.len());
+            if long(&units) && more > count {
+                let Some(kernel) = solution.kernel(&core, more, &stop) else {
+                    return Err(budget());
+                };
+                for kv in &kernel {
+                    let mut exps: Vec<(usize, Integer)> = Vec::new();
+                    for (ci, x) in kv {
+                        exps = combine(&exps, &Integer::ONE, &wide(&core.exps[*ci]), x);
+                    }
+                    let row = Row { v: Vec::new(), logs: vec![0.0; m], exps, err: f64::INFINITY };
+                    units.add(row, &mut src);
+                }
+                units.shorten(&mut src, &stop);
+            }
         }
         let rel_elems = &rels.elems;
         let unit_products: Vec<WideProduct> = units.basis.iter().map(|u| WideProduct::new(u.exps.iter().map(|(i, e)| (rel_elems[*i].clone(), e.clone())).collect())).collect();

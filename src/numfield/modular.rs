@@ -215,14 +215,21 @@ fn crt(residues: &[u64], primes: &[u64], modulus: &Integer) -> Integer {
     symmetric(x, modulus)
 }
 
+/// Bits that bound `2 |y_j| + 1` for `y = v adj(B)` (see `ExactSolver::new`).
+fn solution_bits(log2_hadamard: f64, v_log2: f64, n: usize) -> f64 {
+    log2_hadamard + v_log2 + 0.5 * (n.max(1) as f64).log2() + 4.0
+}
+
 impl ExactSolver {
     /// Sets up `B`; `extra_log2` is a bound on `log2 |v|` for the right-hand
     /// sides to come. `None` if `B` is singular.
     pub(crate) fn new(rows: Vec<Vec<i64>>, extra_log2: f64) -> Option<ExactSolver> {
         let log2_hadamard: f64 = rows.iter().map(|r| log2_row_length(r)).sum();
-        // y_j = det(B with row j replaced by D v)... bounded by |D| |v| H,
-        // i.e. 2 H |v| + margin; the determinant by H
-        let bits = 2.0 * log2_hadamard + extra_log2 + 4.0;
+        // y = D v B^-1 = v adj(B): the cofactors are (n-1)-minors, at most
+        // H = prod |b_i| (Hadamard; rows of length >= 1), so |y_j| <=
+        // |v|_1 H <= sqrt(n) |v| H; the determinant is at most H. (The
+        // result is checked exactly in `solve` all the same.)
+        let bits = solution_bits(log2_hadamard, extra_log2, rows.len());
         let mut factored = Vec::new();
         let mut modulus = Integer::ONE;
         let mut tried = 0;
@@ -259,7 +266,7 @@ impl ExactSolver {
     /// `y` with `y B = det(B) v`, checked exactly; `None` when `v` is
     /// longer than promised.
     pub(crate) fn solve(&self, v: &[i64], v_log2: f64) -> Option<Vec<Integer>> {
-        if 2.0 * self.log2_hadamard + v_log2 + 4.0 > self.modulus.significant_bits() as f64 {
+        if solution_bits(self.log2_hadamard, v_log2, self.rows.len()) > self.modulus.significant_bits() as f64 {
             return None;
         }
         let n = self.rows.len();

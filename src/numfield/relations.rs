@@ -433,6 +433,10 @@ pub(crate) struct RelationSearch<'a> {
     /// `a` (the kernel route: such relations only add roots of unity to
     /// its kernel; the echelon route finds units among them).
     pub(crate) primitive_only: bool,
+    /// A first targeted round at a column stops its line scan after this
+    /// many relations (all it meets when `usize::MAX`, the default; later
+    /// attempts at the same column always collect all).
+    pub(crate) targeted_enough: usize,
     /// The elements `a + b theta` by which the sieve verified prime ideals.
     line_witnesses: HashMap<Key, (i64, i64)>,
 }
@@ -475,6 +479,7 @@ impl<'a> RelationSearch<'a> {
             line_roots: HashMap::new(),
             line_pos: HashMap::new(),
             primitive_only: false,
+            targeted_enough: usize::MAX,
             line_witnesses: HashMap::new(),
         };
         let mut base: Vec<(u128, Key)> = Vec::new();
@@ -656,7 +661,12 @@ impl<'a> RelationSearch<'a> {
         }
         found.clear();
         let key = self.keys[col];
-        self.line_scan(key, LINE_CAP, &Goal::Collect, found)?;
+        let enough = if attempt <= 1 {
+            self.targeted_enough
+        } else {
+            usize::MAX
+        };
+        self.line_scan(key, LINE_CAP, enough, &Goal::Collect, found)?;
         if !found.is_empty() {
             return Ok(());
         }
@@ -803,11 +813,13 @@ impl<'a> RelationSearch<'a> {
     /// most `cap` candidates. Where the reduced ideal bases are too skewed
     /// for [`RelationSearch::scan`] (a short `1` and long other vectors:
     /// fields with a root of `f` small beside `sqrt|d|`), these elements
-    /// still have norms about `s^n`. Whether the goal was met.
+    /// still have norms about `s^n`. Collecting, it stops once `out` holds
+    /// `enough` relations. Whether the goal was met.
     fn line_scan(
         &mut self,
         key: Key,
         cap: usize,
+        enough: usize,
         goal: &Goal,
         out: &mut Vec<Found>,
     ) -> Result<bool, Error> {
@@ -873,6 +885,11 @@ impl<'a> RelationSearch<'a> {
             if self.take(elem, val, v, cof, &[p], goal, out)? {
                 self.line_pos.insert(key, (b, j));
                 return Ok(true);
+            }
+            if matches!(goal, Goal::Collect) && out.len() >= enough {
+                // enough relations through this ideal for one round (the
+                // next round goes on from here)
+                break;
             }
         }
         self.line_pos.insert(key, (b, j));
@@ -1117,7 +1134,7 @@ impl<'a> RelationSearch<'a> {
                     factors.push(self.keys[j]);
                 }
                 if attempt % 8 == 4
-                    && self.line_scan(key, LINE_CAP, &Goal::Verify(key), &mut out)?
+                    && self.line_scan(key, LINE_CAP, usize::MAX, &Goal::Verify(key), &mut out)?
                 {
                     done = true;
                     break;
