@@ -8,6 +8,36 @@ use twofold::Curve;
 
 fn main() {
     let args: Vec<String> = std::env::args().collect();
+    if args.get(1).map(String::as_str) == Some("--saturate") {
+        // --saturate a1,a2,a3,a4,a6 x y [seconds]: the saturation of one
+        // point of the minimal model, with the note of each step
+        let c: Vec<i64> = args[2].split(',').map(|x| x.trim().parse().unwrap()).collect();
+        let e = Curve::from_coefficients([c[0], c[1], c[2], c[3], c[4]]).unwrap();
+        let w = twofold::Work::unlimited();
+        let d = twofold::CurveData::new(&e, &w).unwrap();
+        let q = |s: &str| -> malachite::Rational { s.parse().unwrap() };
+        let p = twofold::Point::Affine(q(&args[3]), q(&args[4]));
+        let secs: u64 = args.get(5).map_or(600, |s| s.parse().unwrap());
+        let o = twofold::heights::SaturationOptions::default()
+            .with_deadline(Instant::now() + std::time::Duration::from_secs(secs));
+        if let Some(list) = args.get(6) {
+            // a list of primes p to test alone, with aux bound args[7]
+            let maxq: u64 = args.get(7).map_or(20_000, |s| s.parse().unwrap());
+            let tors = twofold::TorsionGroup::compute(d.minimal(), d.bad_primes());
+            println!("torsion order {}", tors.order());
+            for pp in list.split(',').map(|x| x.parse::<u64>().unwrap()) {
+                let t = Instant::now();
+                let ok = twofold::heights::is_p_saturated(d.minimal(), d.local(), &[p.clone()], pp, maxq).unwrap();
+                println!("p = {pp}: {ok} ({:?})", t.elapsed());
+            }
+            return;
+        }
+        let t = Instant::now();
+        let b = twofold::heights::mordell_weil_basis_of(&d, &[p], 128, &o).unwrap();
+        println!("{:?}: {:?}\n{}", t.elapsed(), b.generators, b.saturation.note);
+        println!("bound {:?} proven {:?} unproven {:?} untested above {:?}", b.saturation.index_bound, b.saturation.proven.len(), b.saturation.unproven, b.saturation.untested_above);
+        return;
+    }
     if args.get(1).map(String::as_str) == Some("--class") {
         // --class a1,a2,a3,a4,a6: the odd-degree isogeny class (the public
         // one; the Heegner route also walks 2-isogenies) with each
