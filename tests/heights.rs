@@ -641,6 +641,40 @@ fn divisions_beyond_the_small_point_search() {
     }
 }
 
+/// [1,1,1,-103184897,5669933385215] (tests/data/curves-wider.tsv, conductor
+/// 220038, published rank 1, trivial torsion; one real component): the
+/// descent's point `P = (6543, -2300000)` is `-3 G` with
+/// `G = (100287, 31635328)` (asserted exactly). Before the fix of the
+/// elliptic logarithm near the real point of order 2 (the substitution
+/// `w = s + beta/s` turns at `s^2 = beta`), `P` could not be divided and
+/// saturation at 3 stayed unproven, as did p = 569 and 631 of the index
+/// bound 792 (Siksek's test, Rocky Mountain J. Math. 25 (1995), needs an
+/// auxiliary prime `q` with `p | #E(F_q)`: about one in p, so hardly any
+/// below the former fixed limit of 20,000). Now the basis is `± G`, proven
+/// saturated at every prime up to its index bound; Siksek's test at 569,
+/// 631 and 997 succeeds with primes up to about `50 p log p`, not with
+/// those up to 20,000 (569, 631).
+#[test]
+fn saturation_at_three_and_at_large_primes() {
+    let (e, local) = curve([1, 1, 1, -103184897, 5669933385215], &[2, 3, 7, 13, 31]);
+    let p = Point::from_ints(6543, -2300000);
+    let g = Point::from_ints(100287, 31635328);
+    assert!(e.contains(&p) && e.contains(&g));
+    assert_eq!(e.multiple(&g, -3), p);
+    let b = mordell_weil_basis(&e, std::slice::from_ref(&p), &local, 96, &SaturationOptions::default()).unwrap();
+    assert!(b.saturation.is_saturated(), "{}", b.saturation);
+    assert_eq!(b.saturation.divisions, 1);
+    assert!(b.generators[0] == g || b.generators[0] == e.negate(&g), "{:?}", b.generators);
+    assert!((9.0 * b.regulator_f64() - h(&e, &local, &p)).abs() < 1e-9 * h(&e, &local, &p));
+    for q in [569u64, 631] {
+        assert!(!is_p_saturated(&e, &local, std::slice::from_ref(&g), q, 20_000).unwrap(), "p = {q}");
+    }
+    for q in [569u64, 631, 997] {
+        let limit = (50.0 * q as f64 * (q as f64).ln()) as u64;
+        assert!(is_p_saturated(&e, &local, std::slice::from_ref(&g), q, limit).unwrap(), "p = {q}");
+    }
+}
+
 /// Soundness and reach of Siksek's test with the auxiliary primes
 /// `q = 1 mod p` (cyclic Sylow p-subgroups detected by a point with
 /// `(n/p) P != O`, non-cyclic ones by two generators): on the rank-one

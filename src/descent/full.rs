@@ -23,7 +23,7 @@ use crate::budget::{Ladder, RankOptions, Stage, Work, CURVE_GROWTH, QUARTIC_GROW
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
 use crate::quartic::{covering_class, quartics_with_invariants, reduce, CoveringClass, Quartic, SearchOptions};
-use crate::search::{search_curve, search_quartic, SearchLimits};
+use crate::search::{search_curve, search_quartic_above, SearchLimits};
 use crate::solubility::{everywhere_locally_soluble_with, LocalWitness, Place, SolubilityWorkspace};
 use crate::torsion::TorsionGroup;
 use malachite::{Integer, Natural, Rational};
@@ -394,13 +394,17 @@ fn lift_coverings(
     let mut ladder = Ladder::new(options.search_height, options.search_height_ceiling, QUARTIC_GROWTH, work, options.search_time_limit);
     // the height every unexplained covering was searched to so far
     let mut reached = 0u64;
+    // the height each covering's own search completed: a rung searches only
+    // the pairs above it (the reduced quartic of a class is the same every
+    // rung, and a covering with a point leaves the ladder)
+    let mut done = vec![0u64; distinct.len()];
     loop {
         let height = ladder.height();
         let rung = ladder.rung_work(work);
         let mut rung_reached = height;
         let mut open = false;
         ladder.start_rung();
-        for (c, sq) in distinct.iter_mut() {
+        for ((c, sq), from) in distinct.iter_mut().zip(done.iter_mut()) {
             if span.contains(c) {
                 continue;
             }
@@ -410,7 +414,10 @@ fn lift_coverings(
                 rung_reached = reached;
                 break;
             }
-            let (got, h) = lift_one_covering(curve, sq, &rung, height, span, out)?;
+            let (got, h) = lift_one_covering(curve, sq, &rung, *from, height, span, out)?;
+            if !got {
+                *from = (*from).max(h);
+            }
             out.search_complete &= got || h >= height || !work.exhausted();
             if !got {
                 rung_reached = rung_reached.min(h.max(reached));
@@ -431,14 +438,23 @@ fn lift_coverings(
     }
 }
 
-/// Searches the reduced form of one class's quartic up to `height`; the
+/// Searches the reduced form of one class's quartic up to `height`, above
+/// `from` (searched before without a point); the
 /// first point found is mapped to the curve and recorded with the class
 /// (both on the curve and on the class's own quartic, checked exactly).
 /// Returns whether a point was found and the height the search reached.
-fn lift_one_covering(curve: &Curve, sq: &mut SelmerQuartic, work: &Work, height: u64, span: &mut ClassSpan, out: &mut FullDescent) -> Result<(bool, u64), Error> {
+fn lift_one_covering(
+    curve: &Curve,
+    sq: &mut SelmerQuartic,
+    work: &Work,
+    from: u64,
+    height: u64,
+    span: &mut ClassSpan,
+    out: &mut FullDescent,
+) -> Result<(bool, u64), Error> {
     let (red, [[al, be], [ga, de]]) = reduce(&sq.quartic);
     let limits = SearchLimits { first_only: true, ..SearchLimits::within(work, height) };
-    let res = search_quartic(&red.coeffs(), &limits);
+    let res = search_quartic_above(&red.coeffs(), &limits, from);
     let reached = if res.complete { height } else { res.height_reached };
     for qp in res.points {
         let (x, z, y) = (Rational::from(qp.x.clone()), Rational::from(qp.z.clone()), Rational::from(qp.y.clone()));

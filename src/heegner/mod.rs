@@ -58,6 +58,7 @@
 //! ```
 
 mod analytic;
+mod class;
 pub mod forms;
 mod spend;
 mod traces;
@@ -123,6 +124,12 @@ pub struct HeegnerOptions {
     /// twist of a curve of smaller conductor (see the module
     /// documentation); the direct series is the fallback either way.
     pub use_twist: bool,
+    /// Whether to run the series on the member of the isogeny class (odd
+    /// degrees and 2-isogenies) whose generator the Birch and
+    /// Swinnerton-Dyer formula predicts to be smallest, and carry its point
+    /// back (`ĥ(φ P) = deg φ · ĥ(P)`): the series' length grows with the
+    /// height to be recognised.
+    pub use_isogeny_class: bool,
 }
 
 impl Default for HeegnerOptions {
@@ -137,6 +144,7 @@ impl Default for HeegnerOptions {
             max_multiplier: 4,
             max_divisor: 24,
             use_twist: true,
+            use_isogeny_class: true,
         }
     }
 }
@@ -216,6 +224,9 @@ pub struct HeegnerResult {
     pub derivative: f64,
     /// The saturation status of `generator` (see [`Saturation`]).
     pub saturation: Saturation,
+    /// The isogenous curve the series ran on and the degree of the isogeny
+    /// that carried its point here (`None` when it ran on this curve).
+    pub isogenous_curve: Option<(Curve, u64)>,
     /// Wall-clock time spent.
     pub elapsed: Duration,
 }
@@ -225,6 +236,7 @@ fn err(kind: ErrorKind, msg: impl Into<String>) -> Error {
 }
 
 /// The curve invariants the search needs, computed once.
+#[derive(Clone)]
 struct Setup {
     n: u64,
     local: Vec<LocalData>,
@@ -249,7 +261,6 @@ fn setup(curve: &Curve, data: &CurveData, work: &Work) -> Result<Option<Setup>, 
     if rn.global != -1 {
         return Ok(None);
     }
-    let primes: Vec<Natural> = data.bad_primes().to_vec();
     let local = data.local().to_vec();
     let bad_ap = data.bad_prime_traces()?;
     let v = crate::lseries::special_values_of(data, -1, 1, work)?;
@@ -258,13 +269,23 @@ fn setup(curve: &Curve, data: &CurveData, work: &Work) -> Result<Option<Setup>, 
         // analytic rank >= 3 (numerically): the Heegner points are torsion
         return Ok(None);
     }
+    let (torsion_order, scale) = bsd_scale(curve, &local)?;
+    let predicted = d1.value * scale;
+    let slack = height_difference_bound(curve).max(1.0);
+    Ok(Some(Setup { n, local, bad_ap, torsion_order, derivative: d1.value, predicted, slack }))
+}
+
+/// The torsion order `T` and `T^2 / (Ω ∏ c_p)` of the global minimal model
+/// `curve` with local data `local`: `L'(E, 1)` times this is the height of a
+/// generator that the Birch and Swinnerton-Dyer formula predicts for rank
+/// one and trivial Sha.
+fn bsd_scale(curve: &Curve, local: &[LocalData]) -> Result<(u64, f64), Error> {
+    let primes: Vec<Natural> = local.iter().map(|d| d.prime.clone()).collect();
     let torsion_order = TorsionGroup::compute(curve, &primes).order() as u64;
     let omega = PeriodLattice::compute(curve, 64)?.real_period_f64();
     let tam: u64 = local.iter().map(|d| u64::from(d.tamagawa)).product();
     let t = torsion_order as f64;
-    let predicted = d1.value * t * t / (omega * tam as f64);
-    let slack = height_difference_bound(curve).max(1.0);
-    Ok(Some(Setup { n, local, bad_ap, torsion_order, derivative: d1.value, predicted, slack }))
+    Ok((torsion_order, t * t / (omega * tam as f64)))
 }
 
 /// The candidate discriminants for level `n`, cheapest series first.
@@ -361,19 +382,32 @@ pub fn point_of_rank_one_of(data: &CurveData, opts: &HeegnerOptions) -> Result<O
     point_on_model(data, opts, start, &opts.spend(start))
 }
 
-/// The search on the global minimal model of the curve of `data`.
+/// The search on the global minimal model of the curve of `data`, or on an
+/// isogenous curve whose generator is predicted to be smaller (see
+/// [`class`]).
 fn point_on_model(data: &CurveData, opts: &HeegnerOptions, start: Instant, budget: &Spend) -> Result<Option<HeegnerResult>, Error> {
+    let Some(s) = setup(data.minimal(), data, budget.work())? else { return Ok(None) };
+    if opts.use_isogeny_class {
+        if let Some(r) = class::point_through_class(data, &s, opts, start, budget)? {
+            return Ok(Some(r));
+        }
+    }
+    point_with_setup(data, &s, opts, start, budget)
+}
+
+/// The twist route (where it applies), then the direct series, on the
+/// minimal model of `data` with its invariants `s`.
+fn point_with_setup(data: &CurveData, s: &Setup, opts: &HeegnerOptions, start: Instant, budget: &Spend) -> Result<Option<HeegnerResult>, Error> {
     let minimal = data.minimal();
-    let Some(s) = setup(minimal, data, budget.work())? else { return Ok(None) };
     if opts.use_twist {
         if let Some(t) = twist::smallest_twist(minimal, s.n)? {
-            check_twist(minimal, &s, &t)?;
-            if let Some(r) = search(data, &s, opts, budget, start, Some(&t))? {
+            check_twist(minimal, s, &t)?;
+            if let Some(r) = search(data, s, opts, budget, start, Some(&t))? {
                 return Ok(Some(r));
             }
         }
     }
-    search(data, &s, opts, budget, start, None)
+    search(data, s, opts, budget, start, None)
 }
 
 /// `a_p(E) = χ_d(p) a_p(E0)` for the primes below 300: the twist route
@@ -768,6 +802,7 @@ fn finish(
         predicted_height: s.predicted,
         derivative: s.derivative,
         saturation: basis.saturation,
+        isogenous_curve: None,
         elapsed: start.elapsed(),
     })
 }

@@ -217,6 +217,35 @@ fn twist_and_direct_routes_agree() {
     }
 }
 
+/// [1,0,1,-977837,-372256741], conductor 130017, published rank 1 with
+/// torsion of order 2 (tests/data/curves-wider.tsv, class 4 of 130017, the
+/// open tables extending Cremona 1997; the class's four curves are linked
+/// by 2-isogenies): the generator has height 226.6 (a 943-bit series on the
+/// curve itself), but the Birch and Swinnerton-Dyer formula predicts a
+/// quarter of that on the member [1,0,1,-1012137,-344748155] (torsion 4,
+/// Tamagawa product 16 against 1), so the series runs there and the point
+/// is carried back along the isogeny of degree 4: `ĥ(φ P) = 4 ĥ(P)`
+/// (Silverman, The Arithmetic of Elliptic Curves, exercise 8.8). The
+/// carried point is the generator (index 1) and its height the prediction
+/// (Sha trivial); 226.6058 is the height the series on the curve itself
+/// found (twelfth session, 943 bits; a regression value, not a reference).
+#[test]
+fn a_smaller_generator_on_an_isogenous_curve() {
+    let c = [1, 0, 1, -977837, -372256741];
+    let e = Curve::from_coefficients(c).unwrap();
+    let t = Instant::now();
+    let r = run(c, 130017);
+    let via = Instant::now() - t;
+    let (member, degree) = r.isogenous_curve.clone().expect("the series ran on an isogenous curve");
+    assert_eq!((member, degree), (Curve::from_coefficients([1, 0, 1, -1012137, -344748155]).unwrap(), 4));
+    assert!(e.torsion_order_of(&r.generator).is_none());
+    assert_eq!(r.index, Some(1));
+    assert!(r.saturation.is_saturated(), "{}", r.saturation);
+    assert!((r.height / r.predicted_height - 1.0).abs() < 1e-6, "height {} predicted {}", r.height, r.predicted_height);
+    assert!((r.height - 226.6058).abs() < 1e-3, "{}", r.height);
+    eprintln!("via the isogenous curve: {} bits, D = {}, k = {}, {via:?}", r.precision, r.discriminant, r.divisor);
+}
+
 /// `z(W_N τ) = z(τ)` for root number -1 (Atkin and Lehner 1970: the
 /// newform is a `W_N`-eigenform with eigenvalue `-w`; the constant vanishes
 /// at the fixed point `i / sqrt N`): on y^2 + y = x^3 - x (conductor 37,

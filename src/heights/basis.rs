@@ -3,7 +3,7 @@
 use super::canonical::{check_minimal, height_unchecked, naive_height};
 use super::lattice::{combination, determinant, lll_unchecked};
 use super::real::{fi, fz, ln, to_f64};
-use super::saturation::{siksek_test, SiksekOutcome};
+use super::saturation::{aux_limit, siksek_test, AuxPrimes, SiksekOutcome};
 use crate::arith::primes_up_to;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, ErrorKind};
@@ -20,7 +20,8 @@ use std::time::Instant;
 /// the largest naive height `max(|m|, k^2)` (for `x = m/k^2`) searched for
 /// points of small height (default 200,000; the lower bound for heights of
 /// non-torsion points, and the candidates for division by p), the largest
-/// auxiliary prime q of Siksek's test (default 20,000), the largest prime p
+/// auxiliary prime q of Siksek's test (default 20,000; raised to about
+/// `50 p log p` for the test at a large p, which needs `p | #E(F_q)`), the largest prime p
 /// for which p-saturation is attempted (default 1,000; primes between it
 /// and the index bound stay unproven), and a deadline and cancel flag
 /// ([`SaturationOptions::within`] takes them from a `Work`), past which the
@@ -42,7 +43,9 @@ pub struct SaturationOptions {
     /// for points of small height (the lower bound for heights of
     /// non-torsion points, and the candidates for division by p).
     pub(crate) max_search_height: u64,
-    /// The largest auxiliary prime q used in Siksek's test.
+    /// The largest auxiliary prime q used in Siksek's test (at a prime p
+    /// with `50 p log p` above it, that bound instead: see
+    /// `saturation::aux_limit`).
     pub(crate) max_aux_prime: u64,
     /// The largest prime p for which p-saturation is attempted; primes
     /// between this and the index bound stay unproven.
@@ -481,6 +484,7 @@ pub fn mordell_weil_basis_of(data: &CurveData, points: &[Point], precision: u64,
         let mut proven = Vec::new();
         let mut unproven = Vec::new();
         let mut replaced = false;
+        let mut aux = AuxPrimes::new(curve);
         for p in primes_up_to(bound.min(options.max_saturation_prime)) {
             let mut vecs = gens.clone();
             for (g, o) in &tors_gens {
@@ -488,7 +492,7 @@ pub fn mordell_weil_basis_of(data: &CurveData, points: &[Point], precision: u64,
                     vecs.push(g.clone());
                 }
             }
-            match siksek_test(curve, &vecs, p, options.max_aux_prime.min(1 << 31), &|| options.out_of_time())? {
+            match siksek_test(curve, &vecs, p, aux_limit(p, options.max_aux_prime), &mut aux, &|| options.out_of_time())? {
                 SiksekOutcome::Saturated { primes_used } => {
                     proven.push(p);
                     note.push_str(&format!("p = {p}: proven with {primes_used} auxiliary primes; "));
@@ -641,5 +645,6 @@ pub fn is_p_saturated(curve: &Curve, local: &[LocalData], points: &[Point], p: u
             vecs.push(g.clone());
         }
     }
-    Ok(matches!(siksek_test(curve, &vecs, p, max_aux_prime.min(1 << 31), &|| false)?, SiksekOutcome::Saturated { .. }))
+    let mut aux = AuxPrimes::new(curve);
+    Ok(matches!(siksek_test(curve, &vecs, p, max_aux_prime.min(1 << 31), &mut aux, &|| false)?, SiksekOutcome::Saturated { .. }))
 }

@@ -403,7 +403,8 @@ impl Uniformisation {
     /// `x <= e2` is first moved to the identity component by adding the
     /// point of order 2 at `e3`: `x' - e3 = (e1 - e3)(e2 - e3) / (x - e3)`,
     /// and its logarithm shifted by `w2/2`) or by `t = e1 + s^2`,
-    /// `w = s + beta/s` (one real root).
+    /// `w = s + beta/s` (one real root; `w` turns at `s^2 = beta`, so for
+    /// `x - e1 < beta` the logarithm is `w1/2 - L`).
     pub(crate) fn log(&self, pt: &Point) -> Option<Cx> {
         let Point::Affine(x, _) = pt else { return None };
         let wp = self.wp;
@@ -439,9 +440,22 @@ impl Uniformisation {
                 }
                 let a = (beta * fi(4, wp)).sqrt_prec(wp).0;
                 let b = ((alpha + beta) * fi(2, wp)).sqrt_prec(wp).0;
+                let turned = d < *beta;
                 let c = (&d + beta) / d.sqrt_prec(wp).0;
                 let c = if c < a { a.clone() } else { c };
-                Some(Cx::real(agm_integral(&a, &b, &c, wp)))
+                let l = agm_integral(&a, &b, &c, wp);
+                // `w = s + beta/s` is two-to-one: `s` from `sqrt(d)` to
+                // infinity passes the minimum `w = a` at `s = sqrt(beta)`
+                // when `d < beta`, so the integral is then the part from
+                // `a` to `c` and the whole from `a` to infinity; the two
+                // halves `0 < s < sqrt(beta)` and `s > sqrt(beta)` give
+                // `w1 / 4` each (x from e1 to infinity is half the real
+                // period), hence `w1 / 2 - L(a, b, c)`
+                if turned {
+                    Some(Cx::real(&self.lattice.fraction(1, 0, 2).re - l))
+                } else {
+                    Some(Cx::real(l))
+                }
             }
         }
     }
@@ -539,6 +553,37 @@ mod tests {
                 assert!(rel < 1e-70, "{e:?} {k}: {rel}");
             }
         }
+    }
+
+    /// A curve with one real component whose points near the 2-torsion
+    /// root need the turn of `w = s + beta/s`: [1,1,1,-103184897,
+    /// 5669933385215] (tests/data/curves-wider.tsv, conductor 220038,
+    /// published rank 1). `P = (6543, -2300000)` has `x - e1 < beta`; its
+    /// logarithm was `L` instead of `w1/2 - L`, so `℘(log P) != x(P)` and
+    /// the division of `P` by 3 failed, which left the saturation at 3
+    /// unproven (thirteenth session). `-P = 3 (100287, 31635328)` (checked
+    /// exactly below; that third is the generator the Heegner route finds,
+    /// height 0.108 = 0.9723 / 9).
+    #[test]
+    fn logarithm_near_the_real_two_torsion_point() {
+        let e = Curve::from_coefficients([1i64, 1, 1, -103184897, 5669933385215]).unwrap();
+        assert!(*e.discriminant() < 0u32);
+        let g = pt("6543", "-2300000");
+        let third = pt("100287", "31635328");
+        assert!(e.contains(&g) && e.contains(&third));
+        assert_eq!(e.multiple(&third, 3), e.negate(&g));
+        let u = Uniformisation::new(&e, 160).unwrap();
+        for k in 1..=6i64 {
+            for p in [e.multiple(&g, k), e.multiple(&third, k)] {
+                let Point::Affine(x, _) = &p else { panic!() };
+                let xz = u.x_of(&u.log(&p).unwrap());
+                let xe = Float::from_rational_prec_ref(x, u.precision()).0;
+                let rel = to_f64(&(&xz - &xe)).abs() / (1.0 + to_f64(&xe).abs());
+                assert!(rel < 1e-40, "{k}: {p}: {rel}");
+            }
+        }
+        let q = u.divide(&e, &g, 3, &[Point::Infinity], &[], 17.7, &|| false).expect("a third of P");
+        assert_eq!(e.multiple(&q, 3), g);
     }
 
     /// Division by p through the logarithm recovers `Q` from `p Q + T`.

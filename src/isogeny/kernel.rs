@@ -356,6 +356,24 @@ pub(crate) fn velu_model(curve: &Curve, k: &QPoly) -> [Rational; 5] {
     ]
 }
 
+/// Vélu's image model for the kernel `{O, Q}` with `Q` a rational point of
+/// order 2 with `x(Q) = x0`: there `v_Q = g^x_Q = (6 x0^2 + b2 x0 + b4) / 2`
+/// (half the odd case's `t_Q`, as `Q = -Q` is counted once) and `u_Q = 0`
+/// (`g^y_Q = 0`), so `t = v_Q`, `w = x0 t` (Vélu 1971).
+pub(crate) fn velu_model_two(curve: &Curve, x0: &Rational) -> [Rational; 5] {
+    let t = two_torsion_t(curve, x0);
+    let w = x0 * &t;
+    let [b2, _, _, _] = curve.b_invariants().clone().map(Rational::from);
+    let a = curve.coefficients().clone().map(Rational::from);
+    [a[0].clone(), a[1].clone(), a[2].clone(), &a[3] - Rational::from(5) * &t, &a[4] - &b2 * &t - Rational::from(7) * w]
+}
+
+/// `v_Q = (6 x0^2 + b2 x0 + b4) / 2` for the point of order 2 at `x0`.
+fn two_torsion_t(curve: &Curve, x0: &Rational) -> Rational {
+    let [b2, b4, _, _] = curve.b_invariants().clone().map(Rational::from);
+    (Rational::from(6) * x0 * x0 + b2 * x0 + b4) / Rational::from(2)
+}
+
 /// The rational functions `X = x + T/K - (U' K - U K')/K^2` of Vélu's map.
 pub(crate) struct VeluMap {
     k: QPoly,
@@ -375,6 +393,18 @@ impl VeluMap {
         let u = q_divrem(&q_mul(&uq, &dk), k).1;
         let du = q_derivative(&u);
         VeluMap { k: k.clone(), dk, t, u, du }
+    }
+
+    /// Vélu's map for the kernel `{O, Q}`, `x(Q) = x0`, `2 Q = O`:
+    /// `X = x + v_Q / (x - x0)` (see [`velu_model_two`]).
+    pub(crate) fn for_two_torsion(curve: &Curve, x0: &Rational) -> VeluMap {
+        VeluMap {
+            k: vec![-x0.clone(), Rational::ONE],
+            dk: vec![Rational::ONE],
+            t: vec![two_torsion_t(curve, x0)],
+            u: vec![Rational::ZERO],
+            du: vec![Rational::ZERO],
+        }
     }
 
     /// The image of `P` on Vélu's model `image` (given by its a-invariants),

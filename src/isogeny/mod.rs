@@ -141,8 +141,35 @@ pub fn odd_isogenies_within(curve: &Curve, bad: &[Natural], work: &crate::budget
     Ok(out)
 }
 
+/// The rational 2-isogenies from `curve`, one for each rational point of
+/// order 2 (Vélu's formulas; see [`kernel::velu_model_two`]). They are kept
+/// apart from the odd ones: a 2-isogeny does not carry `Sel^2` over, so the
+/// descent's class ([`odd_isogeny_class`]) never contains them; only the
+/// Heegner route, which needs just the heights (`ĥ(φ P) = deg φ · ĥ(P)`),
+/// walks them. `bad` as for [`odd_isogenies`].
+pub(crate) fn two_isogenies(curve: &Curve, bad: &[Natural]) -> Result<Vec<OddIsogeny>, Error> {
+    let mut out = Vec::new();
+    for t in crate::torsion::TorsionGroup::compute(curve, bad).points() {
+        let Point::Affine(x0, _) = t else { continue };
+        if curve.torsion_order_of(t) != Some(2) {
+            continue;
+        }
+        let velu = kernel::velu_model_two(curve, x0);
+        let map = std::sync::Arc::new(kernel::VeluMap::for_two_torsion(curve, x0));
+        out.push(finish_build(2, vec![-x0.clone(), Rational::from(1u32)], velu, map, bad)?);
+    }
+    Ok(out)
+}
+
 fn build(curve: &Curve, l: u64, k: Vec<Rational>, bad: &[Natural]) -> Result<OddIsogeny, Error> {
     let velu = kernel::velu_model(curve, &k);
+    let map = std::sync::Arc::new(kernel::VeluMap::new(curve, &k));
+    finish_build(l, k, velu, map, bad)
+}
+
+/// The isogeny with Vélu model `velu` and point map `map`, its image moved
+/// to the minimal model in reduced form.
+fn finish_build(l: u64, k: Vec<Rational>, velu: [Rational; 5], map: std::sync::Arc<kernel::VeluMap>, bad: &[Natural]) -> Result<OddIsogeny, Error> {
     let (integral, scale) = Curve::from_rational_coefficients(velu.clone())?;
     let mut primes: Vec<Natural> = bad.to_vec();
     for q in [2u64, 3, l] {
@@ -156,7 +183,6 @@ fn build(curve: &Curve, l: u64, k: Vec<Rational>, bad: &[Natural]) -> Result<Odd
     if reduced.discriminant() == &malachite::Integer::from(0) {
         return Err(Error::internal("the isogeny class", "an isogenous curve came out singular"));
     }
-    let map = std::sync::Arc::new(kernel::VeluMap::new(curve, &k));
     Ok(OddIsogeny { degree: l, kernel_polynomial: k, velu_model: velu, target: reduced, to_target, map })
 }
 
@@ -197,6 +223,23 @@ pub fn odd_isogeny_class(curve: &Curve, bad: &[Natural]) -> Result<OddIsogenyCla
 /// [`odd_isogeny_class`] within the deadline and cancel flag of `work` (an
 /// error of kind [`crate::ErrorKind::Budget`] when they end it).
 pub fn odd_isogeny_class_within(curve: &Curve, bad: &[Natural], work: &crate::budget::Work) -> Result<OddIsogenyClass, Error> {
+    class_by(curve, bad, &|c: &Curve| odd_isogenies_within(c, bad, work))
+}
+
+/// The isogeny class reached by the odd-degree isogenies and the rational
+/// 2-isogenies ([`two_isogenies`]) together, as an [`OddIsogenyClass`]
+/// whose links may have degree 2 (for heights only: `Sel^2` is not
+/// carried over a 2-isogeny).
+pub(crate) fn isogeny_class_with_two_within(curve: &Curve, bad: &[Natural], work: &crate::budget::Work) -> Result<OddIsogenyClass, Error> {
+    class_by(curve, bad, &|c: &Curve| {
+        let mut v = odd_isogenies_within(c, bad, work)?;
+        v.extend(two_isogenies(c, bad)?);
+        Ok(v)
+    })
+}
+
+/// The closure of the minimal reduced model of `curve` under `neighbours`.
+fn class_by(curve: &Curve, bad: &[Natural], neighbours: &dyn Fn(&Curve) -> Result<Vec<OddIsogeny>, Error>) -> Result<OddIsogenyClass, Error> {
     let (start, _) = curve.minimal_model(bad)?;
     let (start, _) = start.reduced_form();
     let mut curves = vec![start];
@@ -204,7 +247,7 @@ pub fn odd_isogeny_class_within(curve: &Curve, bad: &[Natural], work: &crate::bu
     let mut next = 0;
     while next < curves.len() {
         let here = curves[next].clone();
-        for phi in odd_isogenies_within(&here, bad, work)? {
+        for phi in neighbours(&here)? {
             let to = match curves.iter().position(|c| *c == phi.target) {
                 Some(i) => i,
                 None => {
@@ -271,5 +314,115 @@ impl OddIsogenyClass {
     /// The product of the degrees along [`Self::path`].
     pub fn degree(&self, from: usize, to: usize) -> Option<u64> {
         Some(self.path(from, to)?.iter().map(|p| p.degree).product())
+    }
+}
+
+#[cfg(test)]
+mod two_isogeny_tests {
+    use super::*;
+    use crate::budget::Work;
+    use crate::local::CurveData;
+    use std::collections::{HashMap, HashSet};
+
+    /// Vélu's 2-isogeny with kernel `(0, 0)` on `y^2 = x^3 - 36x` has image
+    /// `y^2 = x^3 + 144x` (Silverman, The Arithmetic of Elliptic Curves,
+    /// Example III.4.5: `y^2 = x^3 + a x^2 + b x` goes to
+    /// `y^2 = x^3 - 2a x^2 + (a^2 - 4b) x`), and the canonical height
+    /// doubles under it: `ĥ(φ P) = deg φ · ĥ(P)` (Silverman, ibid.,
+    /// exercise 8.8; Cassels, Lectures on Elliptic Curves, §17) for
+    /// `P = (-3, 9)` (from the triangle 3, 4, 5 of the congruent number 6).
+    #[test]
+    fn two_isogeny_of_the_congruent_curve_of_six() {
+        let e = Curve::from_coefficients([0, 0, 0, -36, 0]).unwrap();
+        let x0 = Rational::from(0u32);
+        let velu = kernel::velu_model_two(&e, &x0);
+        assert_eq!(velu, [0i64, 0, 0, 144, 0].map(Rational::from));
+        let work = Work::unlimited();
+        let d = CurveData::new(&e, &work).unwrap();
+        let phis = two_isogenies(d.minimal(), d.bad_primes()).unwrap();
+        assert_eq!(phis.len(), 3, "full 2-torsion: three 2-isogenies");
+        let p = Point::Affine(Rational::from(-3), Rational::from(9));
+        assert!(e.contains(&p));
+        let h = crate::heights::canonical_height_of(&d, &p, 128).unwrap();
+        for phi in &phis {
+            let q = phi.map_point_up_to_sign(&p).expect("the image is a point");
+            let dq = CurveData::new(&phi.target, &work).unwrap();
+            let hq = crate::heights::canonical_height_of(&dq, &q, 128).unwrap();
+            let ratio = crate::heights::real::to_f64(&(&hq / &h));
+            assert!((ratio - 2.0).abs() < 1e-20, "{} : ratio {ratio}", phi.target);
+        }
+    }
+
+    fn table(name: &str) -> Vec<(u64, u32, [i64; 5])> {
+        let path = format!("{}/tests/data/{name}", env!("CARGO_MANIFEST_DIR"));
+        let text = std::fs::read_to_string(&path).unwrap_or_else(|e| panic!("{path}: {e}"));
+        text.lines()
+            .filter(|l| !l.starts_with('#') && !l.trim().is_empty())
+            .map(|l| {
+                let f: Vec<&str> = l.split('\t').collect();
+                (f[0].parse().unwrap(), f[1].parse().unwrap(), [2, 3, 4, 5, 6].map(|i| f[i].parse::<i64>().unwrap()))
+            })
+            .collect()
+    }
+
+    fn class_of(c: [i64; 5]) -> (HashSet<[i64; 5]>, OddIsogenyClass) {
+        let e = Curve::from_coefficients(c).unwrap();
+        let work = Work::unlimited();
+        let d = CurveData::new(&e, &work).unwrap();
+        let class = isogeny_class_with_two_within(d.minimal(), d.bad_primes(), &work).unwrap();
+        let got = class.curves.iter().map(|c| c.coefficients().clone().map(|v| i64::try_from(&v).unwrap())).collect();
+        (got, class)
+    }
+
+    /// With the 2-isogenies the whole isogeny class is found from every
+    /// curve of J. E. Cremona, Algorithms for Modular Elliptic Curves, 2nd
+    /// ed. (1997), Table 1 (tests/data/curves-small-conductor.tsv, where
+    /// curves of the same conductor and class number are isogenous and every
+    /// class is complete), and every link carries the generators' points
+    /// onto its target.
+    #[test]
+    fn classes_with_two_isogenies_match_the_small_table() {
+        let rows = table("curves-small-conductor.tsv");
+        let mut classes: HashMap<(u64, u32), HashSet<[i64; 5]>> = HashMap::new();
+        for (n, k, c) in &rows {
+            classes.entry((*n, *k)).or_default().insert(*c);
+        }
+        let mut with_two = 0;
+        for (n, k, c) in &rows {
+            let (got, class) = class_of(*c);
+            assert_eq!(got, classes[&(*n, *k)], "{c:?} (conductor {n})");
+            for (a, b, phi) in &class.links {
+                with_two += usize::from(phi.degree == 2);
+                for p in [5u64, 7, 13, 17, 19, 23] {
+                    if n % p != 0 {
+                        assert_eq!(class.curves[*a].count_points_mod(p), class.curves[*b].count_points_mod(p), "{c:?} link of degree {}", phi.degree);
+                    }
+                }
+            }
+        }
+        assert!(with_two > 200, "{with_two} links of degree 2");
+    }
+
+    /// The classes of the curves-wider rows that the Heegner route reaches
+    /// through an isogenous curve (tests/data/curves-wider.tsv, from the
+    /// open tables extending Cremona 1997; these classes are listed whole):
+    /// conductor 130017 class 4 and 131736 class 3 (four curves linked by
+    /// 2-isogenies), 130050 class 47 (eight curves), 220010 class 21 (four
+    /// curves, degrees 2, 3 and 6).
+    #[test]
+    fn classes_with_two_isogenies_match_wider_rows() {
+        let rows = table("curves-wider.tsv");
+        let starts = [
+            [1, 0, 1, -977837, -372256741],
+            [0, -1, 0, -85013632, -301675595540],
+            [1, -1, 1, 425912395, 15999991513647],
+            [1, 1, 1, -4527841326, 117266427651449],
+        ];
+        for start in starts {
+            let &(n, k, _) = rows.iter().find(|r| r.2 == start).expect("row in the table");
+            let listed: HashSet<[i64; 5]> = rows.iter().filter(|r| r.0 == n && r.1 == k).map(|r| r.2).collect();
+            let (got, _) = class_of(start);
+            assert_eq!(got, listed, "{start:?} (conductor {n}, class {k})");
+        }
     }
 }

@@ -1176,9 +1176,13 @@ fn adopt_heegner_point(report: &mut RankReport, data: &CurveData, found: &crate:
         return Err(Error::internal("the Heegner route", "the generator is a torsion point"));
     }
     report.points = vec![on_input];
+    let on = match &found.isogenous_curve {
+        Some((c, d)) => format!(" on the {d}-isogenous curve {c}, carried back along the isogeny,"),
+        None => String::new(),
+    };
     report.independence = format!(
         "a point of infinite order (not in the torsion subgroup), found by the Heegner point method \
-         (discriminant {}, {} bits) and verified exactly",
+         (discriminant {}, {} bits){on} and verified exactly",
         found.discriminant, found.precision
     );
     let (lo, up) = report.descent_bounds;

@@ -94,7 +94,7 @@ pub fn search_curve(curve: &Curve, limits: &SearchLimits) -> SearchOutcome<(Rati
     let sieve = Sieve::new(form, 2, height);
     let mut clock = Clock::new(limits);
     let mut points = Vec::new();
-    let report = sieve.run(height, &mut clock, &mut |m, k, r| {
+    let report = sieve.run(0, height, &mut clock, &mut |m, k, r| {
         let before = points.len();
         points_at(curve, m, k, &(&scale * Integer::from(r)), &mut points);
         limits.first_only && points.len() > before

@@ -25,6 +25,7 @@ mod tests;
 
 pub use curve::{search_curve, search_curve_naive};
 pub use quartic::{search_quartic, search_quartic_naive};
+pub(crate) use quartic::search_quartic_above;
 
 use malachite::Integer;
 use std::sync::atomic::AtomicBool;

@@ -61,10 +61,18 @@ fn sort_points(points: &mut [QuarticPoint]) {
 /// assert_eq!(xs, ["-1", "0", "1"]);
 /// ```
 pub fn search_quartic(g: &[Integer; 5], limits: &SearchLimits) -> SearchOutcome<QuarticPoint> {
+    search_quartic_above(g, limits, 0)
+}
+
+/// [`search_quartic`] over the pairs of height above `from` only (a search
+/// up to `from` was made before and is not repeated; the pair `(1, 0)` of
+/// height 1 is looked at only when `from` is 0). `height_reached` counts
+/// the pairs up to `from` as searched.
+pub(crate) fn search_quartic_above(g: &[Integer; 5], limits: &SearchLimits, from: u64) -> SearchOutcome<QuarticPoint> {
     let (height, clamped) = clamp_height(limits.height);
     let mut points = Vec::new();
     let mut candidates = 0u64;
-    if height >= 1 {
+    if height >= 1 && from == 0 {
         candidates = 1;
         if g[0] >= Integer::ZERO {
             if let Some(r) = g[0].unsigned_abs_ref().checked_sqrt() {
@@ -78,7 +86,7 @@ pub fn search_quartic(g: &[Integer; 5], limits: &SearchLimits) -> SearchOutcome<
     let form = Form::new((0..5).map(|k| (g[k].clone(), 4 - k as u32, k as u32)).collect());
     let sieve = Sieve::new(form, 1, height);
     let mut clock = Clock::new(limits);
-    let report = sieve.run(height, &mut clock, &mut |x, z, r| {
+    let report = sieve.run(from, height, &mut clock, &mut |x, z, r| {
         if let Some(p) = checked_point(g, x, z, Integer::from(r)) {
             points.push(p);
             limits.first_only

@@ -455,24 +455,27 @@ impl Sieve {
     }
 
     /// Run the search up to `limits.height` (already clamped to
-    /// [`MAX_HEIGHT`] by the caller as `height`). `on_point(x, z, root)` is
+    /// [`MAX_HEIGHT`] by the caller as `height`), over the pairs of height
+    /// above `from` only (those up to `from` were searched before: the
+    /// shells then double from `from`). `on_point(x, z, root)` is
     /// called for every coprime pair whose value is a square, and returns true
     /// to stop the search.
     pub(crate) fn run<P: FnMut(i64, u64, Natural) -> bool>(
         &self,
+        from: u64,
         height: u64,
         clock: &mut Clock<'_>,
         on_point: &mut P,
     ) -> RunReport {
-        let mut report = RunReport { complete: false, height_reached: 0, candidates: 0 };
-        if height == 0 {
+        let mut report = RunReport { complete: false, height_reached: from.min(height), candidates: 0 };
+        if height == 0 || from >= height {
             report.complete = true;
             return report;
         }
         let fast = FastForm::new(&self.form, height, self.max_row(height));
         let k = self.moduli.len();
-        let mut h0 = 0u64;
-        let mut h = height.min(FIRST_SHELL);
+        let mut h0 = from;
+        let mut h = if from == 0 { height.min(FIRST_SHELL) } else { height.min(2 * from) };
         loop {
             let lo_start = self.offsets(-(h as i64));
             let hi_start = self.offsets(h0 as i64 + 1);

@@ -161,6 +161,34 @@ fn lind_reichardt_quartic_has_no_points() {
     assert_eq!(search_quartic(&g, &small), search_quartic_naive(&g, &small));
 }
 
+/// A search above a height already searched covers exactly the pairs left:
+/// on the Lind-Reichardt quartic (no points, see above) the pairs with
+/// `z >= 1` and `300 < max(|x|, z) <= 3000` are `3000 * 6001 - 300 * 601`
+/// (a quarter of a rung's pairs when the height doubles); on quartics with
+/// points the points below and above together are those of the whole search.
+#[test]
+fn a_search_above_covers_the_rest() {
+    let g = quartic([-34, 0, 0, 0, 2]);
+    let out = search_quartic_above(&g, &SearchLimits::new(3000), 300);
+    assert!(out.complete && out.points.is_empty());
+    assert_eq!(out.candidates_tested, 3000 * 6001 - 300 * 601);
+    for c in [[1, 0, -3, 0, 1], [1, 2, -5, 7, 4], [-3, 1, 9, -2, 1]] {
+        let g = quartic(c);
+        for (lo, hi) in [(0u64, 200u64), (16, 200), (50, 200), (100, 200), (17, 500)] {
+            let whole = search_quartic(&g, &SearchLimits::new(hi));
+            let below = search_quartic(&g, &SearchLimits::new(lo));
+            let above = search_quartic_above(&g, &SearchLimits::new(hi), lo);
+            assert!(above.complete && above.height_reached == hi);
+            let mut both: Vec<_> = below.points.iter().chain(&above.points).cloned().collect();
+            both.sort_by_key(|p| (p.x.clone(), p.z.clone()));
+            let mut all = whole.points.clone();
+            all.sort_by_key(|p| (p.x.clone(), p.z.clone()));
+            assert_eq!(both, all, "{c:?} {lo} {hi}");
+            assert_eq!(below.candidates_tested + above.candidates_tested, whole.candidates_tested, "{c:?} {lo} {hi}");
+        }
+    }
+}
+
 #[test]
 fn fermat_quartics() {
     // Fermat: x^4 + y^4 = z^2 and x^4 - y^4 = z^2 have only trivial
