@@ -87,16 +87,19 @@
 //! the integral kernel of the core (`sparse.rs`), so their exponents stay
 //! near the size the unit needs. The log embedding of a unit is recomputed
 //! from its net exponents in f64 while the error bound allows, else at the
-//! precision those exponents need (`precise.rs`). User CPU time of single
-//! runs of `examples/fieldprobe.rs` (release, machine loaded by other
-//! jobs): `x^3 + 123457 x + 9876541` (-1.0e16, h = 16, R = 498329) in
-//! about 0.2 s, `x^3 + 2345678 x + 1234567891` (-9.3e19, h = 4,
-//! R = 6.16e8) in 0.15 s, `x^3 + 98765431 x + 1234567890123` (-4.5e25,
-//! h = 36, R = 1.68e10) in 3.4 s, all with Bach's bound (GRH). Units whose
-//! exponents pass 64 bits (141 bits at 4.5e25) are handed out as
+//! precision those exponents need (`precise.rs`). The elimination keeps
+//! heavy columns out of its pivot search and its state between solves.
+//! User CPU time of single runs of `examples/fieldprobe.rs` (release,
+//! fourteenth session, machine loaded by other jobs):
+//! `x^3 + 2345678 x + 1234567891` (-9.3e19, h = 4, R = 6.16e8) in
+//! 0.03-0.04 s, `x^3 + 7654321987 x + 987654321012345` (-1.0e28, h = 2)
+//! in 0.26 s, `x^3 + 6300000001 x + 123456789012347` (-1.4e30, h = 2) in
+//! 0.3 s, `x^3 + 1234567890121 x + 87654321098765432101` (-2.1e41, h = 2,
+//! R = 2.20e19) in 7.5 s, all with Bach's bound (GRH); see README for the
+//! criterion figures. Units whose exponents pass 64 bits are handed out as
 //! [`WideProduct`]s only ([`ClassGroup::unit_products`];
-//! [`ClassGroup::units`] is then empty). Around 10^28 the relation search
-//! and the kernels take minutes: a budget error, never a wrong answer.
+//! [`ClassGroup::units`] is then empty). A field beyond the budget gives a
+//! budget error, never a wrong answer.
 //! Primes above 2^63 in Round 2 or decompositions give
 //! [`ErrorKind::TooLarge`](crate::ErrorKind::TooLarge).
 
