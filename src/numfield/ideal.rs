@@ -158,6 +158,18 @@ impl NumberField {
 
     /// The product `IJ`, from the `n^2` products of basis elements, in HNF
     /// modulo `N(I) N(J)` (Cohen GTM 138, §4.7.1).
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap(); // Q(sqrt -5), O = Z[sqrt -5]
+    /// // 2 ramifies: (2) = P^2 with P = (2, 1 + sqrt -5) not principal
+    /// // (the classic example of unique factorisation of ideals, not of elements)
+    /// let p = k.primes_above(2).unwrap();
+    /// assert_eq!((p.len(), p[0].e, p[0].f), (1, 2, 1));
+    /// let two = k.principal_ideal(&k.rational(&Rational::from(2))).unwrap();
+    /// assert_eq!(k.ideal_product(&p[0].ideal, &p[0].ideal).unwrap(), two);
+    /// ```
     pub fn ideal_product(&self, a: &Ideal, b: &Ideal) -> Result<Ideal, Error> {
         let n = self.n;
         let mut gens = Vec::with_capacity(n * n);
@@ -188,6 +200,16 @@ impl NumberField {
     }
 
     /// The sum `I + J`.
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap(); // Q(sqrt -5), O = Z[sqrt -5]
+    /// // (2) + (3) = O: coprime ideals
+    /// let two = k.principal_ideal(&k.rational(&Rational::from(2))).unwrap();
+    /// let three = k.principal_ideal(&k.rational(&Rational::from(3))).unwrap();
+    /// assert_eq!(k.ideal_sum(&two, &three).unwrap(), k.unit_ideal());
+    /// ```
     pub fn ideal_sum(&self, a: &Ideal, b: &Ideal) -> Result<Ideal, Error> {
         let l = lcm_den(&a.den, &b.den);
         let sa = &l / &a.den;
@@ -202,6 +224,16 @@ impl NumberField {
 
     /// The inverse `I^{-1} = {x in K : x I ⊂ O}`, as the dual of the lattice
     /// spanned by the columns of the multiplication matrices of a basis of `I`.
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap(); // Q(sqrt -5), O = Z[sqrt -5]
+    /// let p = &k.primes_above(2).unwrap()[0].ideal; // P = (2, 1 + sqrt -5), N(P) = 2
+    /// let inv = k.ideal_inverse(p).unwrap();
+    /// assert_eq!(inv.norm(), Rational::from_signeds(1, 2));
+    /// assert_eq!(k.ideal_product(p, &inv).unwrap(), k.unit_ideal());
+    /// ```
     pub fn ideal_inverse(&self, a: &Ideal) -> Result<Ideal, Error> {
         let n = self.n;
         // columns of [M_1 | ... | M_n] as rows
@@ -251,6 +283,18 @@ impl NumberField {
 
     /// The intersection `I ∩ J = (I^{-1} + J^{-1})^{-1}` (all ideals of the
     /// maximal order are invertible).
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap(); // Q(sqrt -5), O = Z[sqrt -5]
+    /// // 3 splits: (3) = Q Q' with Q = (3, 1 + sqrt -5), Q' = (3, 1 - sqrt -5)
+    /// let q = k.primes_above(3).unwrap();
+    /// assert_eq!(q.len(), 2);
+    /// let meet = k.ideal_intersection(&q[0].ideal, &q[1].ideal).unwrap();
+    /// let three = k.principal_ideal(&k.rational(&Rational::from(3))).unwrap();
+    /// assert_eq!(meet, three);
+    /// ```
     pub fn ideal_intersection(&self, a: &Ideal, b: &Ideal) -> Result<Ideal, Error> {
         let s = self.ideal_sum(&self.ideal_inverse(a)?, &self.ideal_inverse(b)?)?;
         self.ideal_inverse(&s)
@@ -288,6 +332,18 @@ impl NumberField {
     /// `I = aO + alpha O`, `a` the minimum of `I`. Searches small
     /// combinations of the HNF basis and checks each candidate exactly
     /// (Cohen GTM 138, Algorithm 4.7.10 in spirit).
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap(); // Q(sqrt -5)
+    /// let p = &k.primes_above(3).unwrap()[0].ideal;
+    /// let (a, alpha) = k.two_elements(p).unwrap();
+    /// assert_eq!(a, 3);
+    /// let again = k.ideal_from_generators(&[k.rational(&Rational::from(a)), alpha]).unwrap();
+    /// assert_eq!(&again, p);
+    /// ```
     pub fn two_elements(&self, i: &Ideal) -> Result<(Integer, Element), Error> {
         if !i.is_integral() {
             return Err(Error::new(ErrorKind::InvalidValue, "two-element form of a non-integral ideal"));
