@@ -411,3 +411,31 @@ fn square_classes_of_large_cubic_fields_laws() {
         assert_eq!(c, (0..m).map(|j| u8::from(j == 0) ^ u8::from(j == m - 1)).collect::<Vec<_>>());
     }
 }
+
+/// The discriminant's factorisation may come from the caller (the descent
+/// knows the curve's): the field is the same as with its own factoring, and
+/// a factorisation of another number is refused with a typed error. With no
+/// time to factor a discriminant of 180 digits the field is refused with
+/// `ErrorKind::FactorBudget`, never built on a partial factorisation.
+/// (t^3 - t - 1 has discriminant -23: the smallest cubic field, Cohen GTM
+/// 138, appendix B.)
+#[test]
+fn discriminants_factored_by_the_caller_or_not_in_time() {
+    use twofold::arith::{factor, FactorLimits};
+    use twofold::ErrorKind;
+    let f = vec![Integer::from(-1), Integer::from(-1), Integer::from(0), Integer::from(1)];
+    let fac = factor(&Integer::from(-23), &FactorLimits::default()).unwrap();
+    let k = NumberField::with_factored_discriminant(&f, &fac).unwrap();
+    assert_eq!(*k.discriminant(), -23);
+    assert_eq!(k.discriminant(), NumberField::new(&f).unwrap().discriminant());
+    let wrong = factor(&Integer::from(-24), &FactorLimits::default()).unwrap();
+    let e = NumberField::with_factored_discriminant(&f, &wrong).unwrap_err();
+    assert_eq!(*e.kind(), ErrorKind::InvalidValue);
+    // t^3 + a t + b with 60-digit a and b: a discriminant of about 180 digits
+    let a: Integer = "314159265358979323846264338327950288419716939937510582097494".parse().unwrap();
+    let b: Integer = "271828182845904523536028747135266249775724709369995957496696".parse().unwrap();
+    let big = vec![b, a, Integer::from(0), Integer::from(1)];
+    let spent = FactorLimits::default().with_deadline(std::time::Instant::now());
+    let e = NumberField::with_limits(&big, &spent).unwrap_err();
+    assert_eq!(*e.kind(), ErrorKind::FactorBudget, "{e}");
+}
