@@ -6,7 +6,7 @@
 mod hunter;
 
 use hunter::{has_integer_root, poly_disc, FieldSieve};
-use malachite::Integer;
+use malachite::{Integer, Rational};
 use twofold::numfield::{ClassGroup, ClassGroupOptions, FactorBaseBound, NumberField};
 
 fn z(v: &[i64]) -> Vec<Integer> {
@@ -332,4 +332,49 @@ fn the_unconditional_bound_on_request() {
     assert_eq!(plain.class_number, grh.class_number);
     assert!((plain.regulator / grh.regulator - 1.0).abs() < 1e-6, "{} against {}", plain.regulator, grh.regulator);
     assert!((plain.analytic_ratio - 1.0).abs() < 0.2, "{}", plain.analytic_ratio);
+}
+
+/// `reduced_basis` (an LLL reduction of an ideal's Z-basis for the form
+/// T2, Cohen GTM 138 §2.6 and §6.5 for the reduction of ideals): every
+/// vector lies in the ideal, the vectors span it (the determinant of their
+/// coordinates is the ideal's index `N(I)`, so the change of basis is
+/// unimodular), and the first is short: `T2(b_1) <= 2^(n-1) T2(v)` for every
+/// vector `v` of the Hermite basis (LLL's bound with `delta = 3/4`, Lenstra,
+/// Lenstra and Lovasz 1982, Prop. 1.11).
+#[test]
+fn reduced_ideal_bases_span_the_ideal_and_are_short() {
+    let t2 = |k: &NumberField, a: &twofold::numfield::Element| -> f64 {
+        let (r1, _) = k.signature();
+        k.embeddings(a).iter().enumerate().map(|(i, (re, im))| (re * re + im * im) * if i < r1 { 1.0 } else { 2.0 }).sum()
+    };
+    let det3 = |m: &[Vec<Integer>]| -> Integer {
+        &m[0][0] * (&m[1][1] * &m[2][2] - &m[1][2] * &m[2][1]) - &m[0][1] * (&m[1][0] * &m[2][2] - &m[1][2] * &m[2][0])
+            + &m[0][2] * (&m[1][0] * &m[2][1] - &m[1][1] * &m[2][0])
+    };
+    // a complex cubic, a totally real one, and Dedekind's field (2 divides the index of every order's element)
+    for f in [z(&[-5003, 301, 0, 1]), z(&[-16, -17, -1, 1]), z(&[-8, -2, -1, 1])] {
+        let k = NumberField::new(&f).unwrap();
+        for p in [2u64, 3, 5, 7, 101] {
+            let ps = k.primes_above(p).unwrap();
+            // each prime ideal, and the product of the first with the square of the last
+            let mut ideals: Vec<_> = ps.iter().map(|q| q.ideal.clone()).collect();
+            let sq = k.ideal_product(&ps[ps.len() - 1].ideal, &ps[ps.len() - 1].ideal).unwrap();
+            ideals.push(k.ideal_product(&ps[0].ideal, &sq).unwrap());
+            for i in &ideals {
+                let red = k.reduced_basis(i);
+                assert_eq!(red.len(), 3);
+                assert!(red.iter().all(|b| k.ideal_contains(i, b)), "a reduced vector outside the ideal");
+                let rows: Vec<Vec<Integer>> = red.iter().map(|b| {
+                    assert!(b.is_integral());
+                    b.coords().to_vec()
+                }).collect();
+                let d = det3(&rows);
+                let n = i.norm();
+                assert_eq!(Rational::from(d.unsigned_abs_ref().clone()), n, "the reduced vectors do not span the ideal");
+                let first = t2(&k, &red[0]);
+                let least = i.basis(&k).iter().map(|v| t2(&k, v)).fold(f64::INFINITY, f64::min);
+                assert!(first <= 4.0 * least * (1.0 + 1e-9), "T2(b1) = {first} against {least}");
+            }
+        }
+    }
 }
