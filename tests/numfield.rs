@@ -439,3 +439,100 @@ fn discriminants_factored_by_the_caller_or_not_in_time() {
     let e = NumberField::with_limits(&big, &spent).unwrap_err();
     assert_eq!(*e.kind(), ErrorKind::FactorBudget, "{e}");
 }
+
+/// The narrow class number of the real quadratic discriminant `d` as the
+/// number of cycles of reduced indefinite forms under the reduction
+/// operator rho (Gauss; Cohen GTM 138, Definitions 5.6.2 and 5.6.4 and
+/// Proposition 5.6.6: the reduced forms properly equivalent to a form make
+/// up one cycle of rho). A form `(a, b, c)`, `b^2 - 4ac = d`, is reduced
+/// when `|sqrt d - 2|a|| < b < sqrt d`; `rho(a, b, c) = (c, r, (r^2 - d)/4c)`
+/// with `r = -b mod 2|c|` in `(sqrt d - 2|c|, sqrt d)`. Exact integer
+/// comparisons only.
+fn narrow_class_number_by_cycles(d: i64) -> usize {
+    let s = {
+        let mut s = (d as f64).sqrt() as i64;
+        while s * s > d {
+            s -= 1;
+        }
+        while (s + 1) * (s + 1) <= d {
+            s += 1;
+        }
+        s
+    };
+    let reduced = |a: i64, b: i64| -> bool {
+        let a2 = 2 * a.abs();
+        b > 0 && b * b < d && (a2 + b) * (a2 + b) > d && (a2 <= b || (a2 - b) * (a2 - b) < d)
+    };
+    let mut forms: Vec<(i64, i64, i64)> = Vec::new();
+    for b in 1..=s {
+        if (b * b - d) % 4 != 0 {
+            continue;
+        }
+        let ac = (b * b - d) / 4; // negative
+        for a in 1..=ac.abs() {
+            if ac % a != 0 {
+                continue;
+            }
+            for a in [a, -a] {
+                if reduced(a, b) {
+                    forms.push((a, b, ac / a));
+                }
+            }
+        }
+    }
+    let rho = |(_, b, c): (i64, i64, i64)| -> (i64, i64, i64) {
+        let m = 2 * c.abs();
+        let r = s - (s + b).rem_euclid(m);
+        (c, r, (r * r - d) / (4 * c))
+    };
+    let mut seen = vec![false; forms.len()];
+    let mut cycles = 0;
+    for i in 0..forms.len() {
+        if seen[i] {
+            continue;
+        }
+        cycles += 1;
+        let mut f = forms[i];
+        loop {
+            let j = forms.iter().position(|g| *g == f).expect("rho leaves the reduced forms");
+            if seen[j] {
+                break;
+            }
+            seen[j] = true;
+            f = rho(f);
+        }
+    }
+    cycles
+}
+
+/// Every fundamental `0 < d < 2000`: the class number from the class group
+/// against the cycles of reduced forms: `h+ = h` when the fundamental unit
+/// has norm -1, else `h+ = 2h` (the norm read off the parity of the
+/// continued fraction's period, `cf_regulator`).
+#[test]
+fn real_quadratic_class_numbers_by_cycles_of_reduced_forms() {
+    let opts = ClassGroupOptions::default();
+    let mut checked = 0;
+    for d in 5i64..2000 {
+        if !is_fundamental(d) {
+            continue;
+        }
+        let narrow = narrow_class_number_by_cycles(d);
+        let (_, sign) = cf_regulator(d);
+        let cg = match quadratic(d).class_group(&opts) {
+            Ok(cg) => cg,
+            Err(e) => {
+                assert_eq!(e.kind(), &twofold::ErrorKind::Budget, "d = {d}");
+                continue;
+            }
+        };
+        let h = usize::try_from(&cg.class_number).unwrap();
+        assert_eq!(narrow, if sign == -1 { h } else { 2 * h }, "d = {d}: h = {h}, N(unit) = {sign}, cycles {narrow}");
+        checked += 1;
+    }
+    // h+ of the smallest discriminants with a unit of norm +1 (from memory):
+    // d = 12 (2 + sqrt 3): h = 1, h+ = 2
+    assert_eq!(narrow_class_number_by_cycles(12), 2);
+    assert_eq!(narrow_class_number_by_cycles(5), 1);
+    assert!(checked >= 600, "{checked}");
+}
