@@ -378,3 +378,54 @@ fn reduced_ideal_bases_span_the_ideal_and_are_short() {
         }
     }
 }
+
+/// The proven embeddings (`proven_embeddings`: root discs of radius
+/// `n |f(z)/f'(z)|` checked exactly and pairwise disjoint, then interval
+/// arithmetic with outward rounding) hold the exact invariants: the norm
+/// `prod sigma_i(a)` and the trace `sum sigma_i(a)` (complex places counted
+/// twice) computed from the enclosures contain `N(a)` and `Tr(a)` computed
+/// exactly from the multiplication matrix; the f64 embeddings lie inside;
+/// the enclosures are narrow.
+#[test]
+fn proven_embeddings_hold_the_exact_norm_and_trace() {
+    use twofold::enclosure::Interval;
+    let near = |iv: Interval, x: &Rational| -> bool {
+        use malachite::base::num::conversion::traits::RoundingFrom;
+        let v = f64::rounding_from(x, malachite::base::rounding_modes::RoundingMode::Nearest).0;
+        assert!(v.is_finite());
+        iv.overlaps(&Interval::new(v.next_down(), v.next_up()))
+    };
+    let mut seed = 0x9e3779b97f4a7c15u64;
+    for f in [z(&[-5003, 301, 0, 1]), z(&[-16, -17, -1, 1]), z(&[-8, -2, -1, 1]), z(&[-2, 0, 0, 1]), z(&[5, 0, 1]), z(&[-7, 0, 1])] {
+        let k = NumberField::new(&f).unwrap();
+        let (r1, _) = k.signature();
+        for _ in 0..20 {
+            let coords: Vec<Integer> = (0..k.degree())
+                .map(|_| {
+                    seed = seed.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+                    Integer::from(((seed >> 35) % 2001) as i64 - 1000)
+                })
+                .collect();
+            let a = k.element(&coords).unwrap();
+            if a.is_zero() {
+                continue;
+            }
+            let e = k.proven_embeddings(&a).unwrap();
+            let approx = k.embeddings(&a);
+            let (mut tr, mut nm) = (Interval::point(0.0), Interval::point(1.0));
+            for (i, &(re, im)) in e.iter().enumerate() {
+                assert!(re.contains(approx[i].0) && im.contains(approx[i].1), "f64 embedding outside its enclosure");
+                assert!(re.width() <= 1e-9 * (1.0 + re.mag()) && im.width() <= 1e-9 * (1.0 + im.mag()));
+                if i < r1 {
+                    tr = tr + re;
+                    nm = nm * re;
+                } else {
+                    tr = tr + re + re;
+                    nm = nm * (re * re + im * im);
+                }
+            }
+            assert!(near(nm, &k.norm(&a)), "norm {} outside [{}, {}]", k.norm(&a), nm.lo(), nm.hi());
+            assert!(near(tr, &k.trace(&a)), "trace {} outside [{}, {}]", k.trace(&a), tr.lo(), tr.hi());
+        }
+    }
+}

@@ -111,6 +111,7 @@ pub(crate) mod linalg;
 pub mod poly;
 mod order;
 mod field;
+mod embed;
 mod ideal;
 mod classgroup;
 mod sunits;
