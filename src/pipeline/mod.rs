@@ -353,17 +353,27 @@ fn quartic_route(
     let degree = class.degree(0, best).unwrap_or(0);
     let other_torsion = TorsionGroup::compute(other, primes);
     let mut f = full_two_descent(other, &other_torsion, primes, options, work, enough, floor)?;
+    carry_back(&class, best, minimal, &mut f);
+    report.descent_curve = Some((other.clone(), degree));
+    Ok(f)
+}
+
+/// Replaces the points of a descent run on member `m` of `class` by their
+/// images on member 0, `minimal` (each checked on it), and its lower bound
+/// by their number: the images of independent points under an isogeny of
+/// odd degree stay independent, in E(Q) and in Sel^2 (the isogeny induces
+/// an isomorphism of E'(Q)/2E'(Q) onto E(Q)/2E(Q)). A point that does not
+/// map ends the list.
+fn carry_back(class: &crate::isogeny::OddIsogenyClass, m: usize, minimal: &Curve, f: &mut FullDescent) {
     let mut mapped = Vec::new();
     for p in &f.points {
-        match class.map_point(best, 0, p) {
+        match class.map_point(m, 0, p) {
             Some(q) if minimal.contains(&q) && !q.is_infinity() => mapped.push(q),
             _ => break,
         }
     }
     f.lower = mapped.len();
     f.points = mapped;
-    report.descent_curve = Some((other.clone(), degree));
-    Ok(f)
 }
 
 /// The share of the ladders' CPU cap (`RankOptions::search_time_limit`)
@@ -479,15 +489,7 @@ fn own_then_class(
                 ));
             }
         }
-        let mut mapped = Vec::new();
-        for p in &f.points {
-            match class.map_point(m, 0, p) {
-                Some(q) if minimal.contains(&q) && !q.is_infinity() => mapped.push(q),
-                _ => break,
-            }
-        }
-        f.lower = mapped.len();
-        f.points = mapped;
+        carry_back(&class, m, minimal, &mut f);
         if f.lower > best.lower {
             best = f;
             report.descent_curve = Some((other.clone(), class.degree(0, m).unwrap_or(0)));
