@@ -261,6 +261,12 @@ pub(crate) fn ln_abs(x: &Integer) -> f64 {
     }
 }
 
+/// The defining polynomial's coefficients as `i128` (`None` when one does
+/// not fit), for the line sieves.
+fn poly_i128(k: &NumberField) -> Option<Vec<i128>> {
+    k.poly.iter().map(|c| i128::try_from(c).ok()).collect()
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -828,12 +834,7 @@ impl<'a> RelationSearch<'a> {
             return Ok(false);
         };
         let p = key.0;
-        let Ok(coeffs) = k
-            .poly
-            .iter()
-            .map(i128::try_from)
-            .collect::<Result<Vec<i128>, _>>()
-        else {
+        let Some(coeffs) = poly_i128(k) else {
             return Ok(false);
         };
         let n = k.n;
@@ -1515,13 +1516,7 @@ impl RelationSearch<'_> {
         if self.k.n != 3 {
             return Ok(None);
         }
-        let Ok(coeffs) = self
-            .k
-            .poly
-            .iter()
-            .map(i128::try_from)
-            .collect::<Result<Vec<i128>, _>>()
-        else {
+        let Some(coeffs) = poly_i128(self.k) else {
             return Ok(None);
         };
         let Some(table) = self.line_table(self.gen_bound)? else {
