@@ -446,8 +446,9 @@ fn totally_real_cubic_fields_to_26569_by_class_number() {
     // below 2e4 (766 with h = 1, 29 with 2, 34 with 3, 3 with 4), two fields of
     // class number 1 more than that quote; `assert_distinct_fields_with_integral_bases`
     // shows the 832 to be distinct fields of discriminant below 2e4 without the
-    // library's sieve or maximal order, so 832 is a lower bound and the quote as
-    // recalled is not the count of all of them (not resolved further); no h > 4
+    // library's sieve or maximal order, so 832 is a lower bound; tests/cubic_forms.rs
+    // counts the same 832 (and the same class numbers) by binary cubic forms, a
+    // second enumeration, so the quote as recalled is wrong; no h > 4
     // below 2e4, in agreement with it. The first field with h = 4 is 8069, checked a second way
     // in `first_totally_real_cubic_field_with_class_number_four_is_8069`; every
     // field with h >= 4 found (8069, 16357, 19821, 20733 with h = 5, 21212 with
