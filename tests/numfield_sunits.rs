@@ -7,7 +7,9 @@
 use malachite::{Integer, Rational};
 use std::collections::BTreeSet;
 use twofold::arith::{factor, FactorLimits};
-use twofold::numfield::{ClassGroupOptions, Element, NumberField, PrimeIdeal, SUnitBasis, WideProduct};
+use twofold::numfield::{
+    ClassGroupOptions, Element, NumberField, PrimeIdeal, SUnitBasis, WideProduct,
+};
 use twofold::ErrorKind;
 
 fn z(v: &[i64]) -> Vec<Integer> {
@@ -22,7 +24,8 @@ fn opts() -> ClassGroupOptions {
 fn primes_of(q: &Rational, out: &mut BTreeSet<u64>) {
     let limits = FactorLimits::default();
     for n in [q.numerator_ref(), q.denominator_ref()] {
-        let f = factor(&Integer::from(n.clone()), &limits).expect("the norms of relation elements are small");
+        let f = factor(&Integer::from(n.clone()), &limits)
+            .expect("the norms of relation elements are small");
         for p in f.primes() {
             out.insert(u64::try_from(p).expect("a prime below 2^64"));
         }
@@ -75,18 +78,33 @@ fn check_basis(k: &NumberField, s: &[u64], su: &SUnitBasis) {
     assert_ne!(k.pow(&su.torsion_generator, w / 2).unwrap(), k.one());
     for u in &su.units {
         assert!(u.is_unit(k));
-        assert!(product_valuations(k, u).is_empty(), "a unit has valuation 0 everywhere");
+        assert!(
+            product_valuations(k, u).is_empty(),
+            "a unit has valuation 0 everywhere"
+        );
     }
     for (i, (g, row)) in su.generators.iter().zip(&su.valuations).enumerate() {
         let vals = product_valuations(k, g);
         for (q, v) in &vals {
             let j = su.ideals.iter().position(|p| same_ideal(p, q));
-            let j = j.unwrap_or_else(|| panic!("generator {i} has valuation {v} at a prime ideal above {} outside S'", q.p));
-            assert_eq!(*v, Integer::from(row[j]), "generator {i} at the ideal {j} of S'");
+            let j = j.unwrap_or_else(|| {
+                panic!(
+                    "generator {i} has valuation {v} at a prime ideal above {} outside S'",
+                    q.p
+                )
+            });
+            assert_eq!(
+                *v,
+                Integer::from(row[j]),
+                "generator {i} at the ideal {j} of S'"
+            );
         }
         for (j, &v) in row.iter().enumerate() {
             if v != 0 {
-                assert!(vals.iter().any(|(q, _)| same_ideal(q, &su.ideals[j])), "claimed valuation {v} not found");
+                assert!(
+                    vals.iter().any(|(q, _)| same_ideal(q, &su.ideals[j])),
+                    "claimed valuation {v} not found"
+                );
             }
             if j < i {
                 assert_eq!(v, 0, "the valuation matrix is upper triangular");
@@ -99,7 +117,10 @@ fn check_basis(k: &NumberField, s: &[u64], su: &SUnitBasis) {
     let index = f64::try_from(&Rational::from(su.valuation_index())).unwrap();
     let logs: f64 = su.ideals.iter().map(|p| (p.norm() as f64).ln()).product();
     let want = su.class_group.regulator * index * logs;
-    assert!((reg - want).abs() < 1e-6 * want, "S-regulator {reg} against {want}");
+    assert!(
+        (reg - want).abs() < 1e-6 * want,
+        "S-regulator {reg} against {want}"
+    );
 }
 
 /// Expands a product with small exponents.
@@ -113,7 +134,9 @@ fn f2_rank(rows: &[Vec<u8>]) -> usize {
     let mut rank = 0;
     let width = rows.first().map_or(0, |r| r.len());
     for c in 0..width {
-        let Some(p) = (rank..rows.len()).find(|&i| rows[i][c] == 1) else { continue };
+        let Some(p) = (rank..rows.len()).find(|&i| rows[i][c] == 1) else {
+            continue;
+        };
         rows.swap(rank, p);
         for i in 0..rows.len() {
             if i != rank && rows[i][c] == 1 {
@@ -141,8 +164,16 @@ fn square_class_defect(k: &NumberField, s: &[u64], su: &SUnitBasis) -> usize {
         rows.push(ks.coordinates(k, &expand(k, g), &limits).unwrap());
     }
     let (r1, r2) = k.signature();
-    assert_eq!(f2_rank(&rows), r1 + r2 + su.generators.len(), "the basis is independent modulo squares");
-    assert_eq!(ks.conditional_on_grh(), su.conditional_on_grh(), "both carry the label of the bound");
+    assert_eq!(
+        f2_rank(&rows),
+        r1 + r2 + su.generators.len(),
+        "the basis is independent modulo squares"
+    );
+    assert_eq!(
+        ks.conditional_on_grh(),
+        su.conditional_on_grh(),
+        "both carry the label of the bound"
+    );
     ks.dimension() - f2_rank(&rows)
 }
 
@@ -257,7 +288,10 @@ fn bad_primes_are_refused() {
 fn spent_deadline_gives_a_budget_error() {
     let k = NumberField::new(&z(&[1234577, 2345, 0, 1])).unwrap();
     let o = opts().with_deadline(std::time::Instant::now());
-    assert_eq!(k.s_unit_group(&[2, 3], &o).unwrap_err().kind(), &ErrorKind::Budget);
+    assert_eq!(
+        k.s_unit_group(&[2, 3], &o).unwrap_err().kind(),
+        &ErrorKind::Budget
+    );
 }
 
 /// A small deterministic generator (splitmix64) for the random fields.
@@ -310,8 +344,13 @@ fn laws_on_random_quadratic_and_cubic_fields() {
             assert_eq!(su.valuation_index(), 1);
         }
         // the index divides h (the order of a subgroup of Cl)
-        assert_eq!(Integer::from(&su.class_group.class_number % su.valuation_index()), 0);
-        if su.units.iter().chain(&su.generators).all(|g| g.exponent_bits() <= 16) {
+        assert_eq!(&su.class_group.class_number % su.valuation_index(), 0);
+        if su
+            .units
+            .iter()
+            .chain(&su.generators)
+            .all(|g| g.exponent_bits() <= 16)
+        {
             let defect = square_class_defect(k, s, &su);
             if su.class_group.class_number == 1 {
                 assert_eq!(defect, 0, "Cl_S trivial");
@@ -329,8 +368,16 @@ fn s_containing_every_prime_to_the_minkowski_bound_gives_index_h() {
     // Cl and Z^S' / L = Cl: the index equals h. Fields with h > 1 (class
     // numbers from memory: Q(sqrt -5) 2, Q(sqrt -14) 4, Q(sqrt -21) 4,
     // Q(sqrt 10) 2, Q(sqrt -23) 3) and random ones.
-    let mut fields: Vec<NumberField> = [z(&[5, 0, 1]), z(&[14, 0, 1]), z(&[21, 0, 1]), z(&[-10, 0, 1]), z(&[6, -1, 1])]
-        .iter().map(|f| NumberField::new(f).unwrap()).collect();
+    let mut fields: Vec<NumberField> = [
+        z(&[5, 0, 1]),
+        z(&[14, 0, 1]),
+        z(&[21, 0, 1]),
+        z(&[-10, 0, 1]),
+        z(&[6, -1, 1]),
+    ]
+    .iter()
+    .map(|f| NumberField::new(f).unwrap())
+    .collect();
     fields.extend(random_fields(0x5eed_0002, 6));
     let expect_h = [2, 4, 4, 2, 3];
     for (i, k) in fields.iter().enumerate() {
@@ -341,9 +388,62 @@ fn s_containing_every_prime_to_the_minkowski_bound_gives_index_h() {
         if let Some(&h) = expect_h.get(i) {
             assert_eq!(su.class_group.class_number, h);
         }
-        assert_eq!(su.valuation_index(), su.class_group.class_number, "field {i}: S' generates Cl");
-        if su.units.iter().chain(&su.generators).all(|g| g.exponent_bits() <= 16) {
+        assert_eq!(
+            su.valuation_index(),
+            su.class_group.class_number,
+            "field {i}: S' generates Cl"
+        );
+        if su
+            .units
+            .iter()
+            .chain(&su.generators)
+            .all(|g| g.exponent_bits() <= 16)
+        {
             assert_eq!(square_class_defect(k, &s, &su), 0, "Cl_S is trivial");
+        }
+    }
+}
+
+#[test]
+#[ignore = "slow sweep (about a minute): larger fields and large primes in S; prints times and sizes"]
+fn larger_fields_and_large_primes_sweep() {
+    let cases: Vec<(Vec<i64>, Vec<u64>)> = vec![
+        (vec![-2, 0, 0, 1], vec![101, 103, 1009]),
+        (vec![5, 0, 1], vec![10007, 2, 3]),
+        (vec![1, 0, 1], vec![1_000_000_007]),
+        (vec![1, 0, 1], vec![1_000_000_000_039]),
+        (vec![-2, 0, 0, 1], vec![1_000_000_007, 1_000_000_009]),
+        (vec![-2, 0, 0, 1], vec![4_611_686_018_427_388_039]),
+        (vec![1234577, 2345, 0, 1], vec![2, 3]),
+        (vec![123456791, 23456, 0, 1], vec![2, 3, 5]),
+        (vec![1234567891, 2345678, 0, 1], vec![2]),
+    ];
+    for (f, s) in cases {
+        let k = NumberField::new(&z(&f)).unwrap();
+        let t = std::time::Instant::now();
+        let r = k.s_unit_group(
+            &s,
+            &opts().with_deadline(std::time::Instant::now() + std::time::Duration::from_secs(40)),
+        );
+        let el = t.elapsed().as_secs_f64();
+        match r {
+            Ok(su) => {
+                let bits: Vec<u64> = su.generators.iter().map(|g| g.exponent_bits()).collect();
+                let ubits: Vec<u64> = su.units.iter().map(|g| g.exponent_bits()).collect();
+                let lens: Vec<usize> = su.generators.iter().map(|g| g.factors.len()).collect();
+                eprintln!("{f:?} d={} S={s:?}: {el:.2}s h={} idx={} vals={:?} gen bits {bits:?} factors {lens:?} unit bits {ubits:?} GRH={}", k.discriminant(), su.class_group.class_number, su.valuation_index(), su.valuations, su.conditional_on_grh());
+                let t2 = std::time::Instant::now();
+                check_basis(&k, &s, &su);
+                eprintln!("   checked in {:.2}s", t2.elapsed().as_secs_f64());
+                let t3 = std::time::Instant::now();
+                let cg = k.class_group(&opts()).unwrap();
+                eprintln!(
+                    "   class group alone (default route) {:.2}s, h = {}",
+                    t3.elapsed().as_secs_f64(),
+                    cg.class_number
+                );
+            }
+            Err(e) => eprintln!("{f:?} d={} S={s:?}: {el:.2}s error {e}", k.discriminant()),
         }
     }
 }

@@ -945,7 +945,7 @@ impl NumberField {
     /// relations with zero valuation outside S' (Cohen GTM 193 §7.4). They
     /// are returned as (valuations on S', in factor-base order; the
     /// element as a product of relation elements).
-    pub(crate) fn echelon_route(&self, opts: &ClassGroupOptions, extra_primes: &[u64], s_last: bool) -> Result<(ClassGroup, Vec<(Vec<Integer>, WideProduct)>), Error> {
+    pub(crate) fn echelon_route(&self, opts: &ClassGroupOptions, extra_primes: &[u64], s_last: bool) -> Result<(ClassGroup, SPart), Error> {
         let stop = || opts.cancel.as_ref().is_some_and(|c| c.load(Ordering::Relaxed)) || opts.deadline.is_some_and(|d| Instant::now() >= d);
         let budget = || Error::new(ErrorKind::Budget, "class group: budget exhausted");
         let (gen_bound, kind) = self.generation_bound(opts)?;
@@ -1034,7 +1034,7 @@ impl NumberField {
         let unit_list: Vec<CompactProduct> = unit_products.iter().map(WideProduct::to_compact).collect::<Option<Vec<_>>>().unwrap_or_default();
         let regulator = if r == 0 { 1.0 } else { units.det() };
         // the S' part: pivot rows at the last `ns` columns
-        let s_part: Vec<(Vec<Integer>, WideProduct)> = pivots[kfb - ns..].iter().flatten().map(|p| {
+        let s_part: SPart = pivots[kfb - ns..].iter().flatten().map(|p| {
             let elem = WideProduct::new(p.exps.iter().map(|(i, e)| (rel_elems[*i].clone(), e.clone())).collect());
             (p.v[kfb - ns..].to_vec(), elem)
         }).collect();
@@ -1063,6 +1063,10 @@ impl NumberField {
         Ok((cg, s_part))
     }
 }
+
+/// The S' part of the echelon: per prime ideal of S', the valuations on
+/// S' and the generator as a product of relation elements.
+pub(crate) type SPart = Vec<(Vec<Integer>, WideProduct)>;
 
 /// Whether pivot rows are size-reduced above the diagonal (Hermite form).
 /// Measured both ways: without it the valuations grow and so do the
