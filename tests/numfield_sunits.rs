@@ -447,3 +447,36 @@ fn larger_fields_and_large_primes_sweep() {
         }
     }
 }
+
+#[test]
+fn the_label_follows_the_bound() {
+    // t^3 + 301 t + 5003 (d = -7.8e8): Bach's bound (5,033) is below
+    // Minkowski's (7,925), so the default rests on GRH and the unconditional
+    // bound is taken on request (as for the class group, tests/numfield_cubic.rs
+    // `the_unconditional_bound_on_request`); the basis obeys the laws either way
+    let k = NumberField::new(&z(&[5003, 301, 0, 1])).unwrap();
+    let s = [2u64, 3];
+    let a = k.s_unit_group(&s, &opts()).unwrap();
+    assert!(a.conditional_on_grh());
+    check_basis(&k, &s, &a);
+    let b = k
+        .s_unit_group(&s, &opts().with_unconditional(true))
+        .unwrap();
+    assert!(!b.conditional_on_grh());
+    check_basis(&k, &s, &b);
+    assert_eq!(a.class_group.class_number, b.class_group.class_number);
+    assert_eq!(a.valuation_index(), b.valuation_index());
+    let (ra, rb) = (a.s_regulator(&k), b.s_regulator(&k));
+    assert!((ra - rb).abs() < 1e-6 * ra, "S-regulators {ra} and {rb}");
+}
+
+#[test]
+fn the_cancel_flag_is_honoured() {
+    let k = NumberField::new(&z(&[1234577, 2345, 0, 1])).unwrap();
+    let flag = std::sync::Arc::new(std::sync::atomic::AtomicBool::new(true));
+    let o = opts().with_cancel(flag);
+    assert_eq!(
+        k.s_unit_group(&[2], &o).unwrap_err().kind(),
+        &ErrorKind::Budget
+    );
+}
