@@ -936,12 +936,36 @@ impl NumberField {
     }
 
     fn class_group_by_echelon(&self, opts: &ClassGroupOptions, extra_primes: &[u64]) -> Result<ClassGroup, Error> {
+        self.echelon_route(opts, extra_primes, false).map(|(cg, _)| cg)
+    }
+
+    /// The echelon route; with `s_last` the columns of the prime ideals
+    /// above `extra_primes` (S') come last in the echelon, so that the
+    /// pivot rows at those columns are supported on S' and span the
+    /// relations with zero valuation outside S' (Cohen GTM 193 §7.4). They
+    /// are returned as (valuations on S', in factor-base order; the
+    /// element as a product of relation elements).
+    pub(crate) fn echelon_route(&self, opts: &ClassGroupOptions, extra_primes: &[u64], s_last: bool) -> Result<(ClassGroup, SPart), Error> {
         let stop = || opts.cancel.as_ref().is_some_and(|c| c.load(Ordering::Relaxed)) || opts.deadline.is_some_and(|d| Instant::now() >= d);
         let budget = || Error::new(ErrorKind::Budget, "class group: budget exhausted");
         let (gen_bound, kind) = self.generation_bound(opts)?;
         let b0 = base_bound(self).min(gen_bound).max(MIN_FACTOR_BASE_BOUND);
         let mut rels = RelationSearch::new(self, b0, gen_bound, extra_primes, &stop)?;
         let kfb = rels.fb.len();
+        // column of each factor-base ideal: with `s_last`, those above
+        // `extra_primes` last (in factor-base order)
+        let in_s = |q: &PrimeIdeal| s_last && extra_primes.contains(&q.p);
+        let mut perm = vec![0usize; kfb];
+        let mut next_col = 0usize;
+        for pass in [false, true] {
+            for (j, q) in rels.fb.iter().enumerate() {
+                if in_s(q) == pass {
+                    perm[j] = next_col;
+                    next_col += 1;
+                }
+            }
+        }
+        let ns = rels.fb.iter().filter(|q| in_s(q)).count();
         let r = self.r1 + self.r2 - 1;
         let (w, zeta) = self.roots_of_unity();
         let target = self.analytic_class_number_formula(EULER_PRODUCT_LIMIT)?;
@@ -974,7 +998,11 @@ impl NumberField {
                     by_vector.insert(v.clone(), history.len());
                     history.push((exps.clone(), logs.clone(), err));
                 }
-                let row = Row { v: v.into_iter().map(Integer::from).collect(), logs, exps, err };
+                let mut pv = vec![Integer::ZERO; kfb];
+                for (j, x) in v.into_iter().enumerate() {
+                    pv[perm[j]] = Integer::from(x);
+                }
+                let row = Row { v: pv, logs, exps, err };
                 if let Some(u) = insert_relation(&mut pivots, row) {
                     units.add(u, &mut src);
                 }
@@ -1005,8 +1033,19 @@ impl NumberField {
         let unit_products: Vec<WideProduct> = units.basis.iter().map(|u| WideProduct::new(u.exps.iter().map(|(i, e)| (rel_elems[*i].clone(), e.clone())).collect())).collect();
         let unit_list: Vec<CompactProduct> = unit_products.iter().map(WideProduct::to_compact).collect::<Option<Vec<_>>>().unwrap_or_default();
         let regulator = if r == 0 { 1.0 } else { units.det() };
-        let echelon = mat.clone();
-        Ok(ClassGroup {
+        // the S' part: pivot rows at the last `ns` columns
+        let s_part: SPart = pivots[kfb - ns..].iter().flatten().map(|p| {
+            let elem = WideProduct::new(p.exps.iter().map(|(i, e)| (rel_elems[*i].clone(), e.clone())).collect());
+            (p.v[kfb - ns..].to_vec(), elem)
+        }).collect();
+        // the echelon handed out in factor-base column order
+        let echelon: Vec<Vec<Integer>> = mat.iter().map(|row| {
+            if row.is_empty() {
+                return Vec::new();
+            }
+            (0..kfb).map(|j| row[perm[j]].clone()).collect()
+        }).collect();
+        let cg = ClassGroup {
             structure,
             class_number,
             regulator,
@@ -1020,9 +1059,14 @@ impl NumberField {
             bound_kind: kind,
             analytic_ratio: ratio,
             echelon,
-        })
+        };
+        Ok((cg, s_part))
     }
 }
+
+/// The S' part of the echelon: per prime ideal of S', the valuations on
+/// S' and the generator as a product of relation elements.
+pub(crate) type SPart = Vec<(Vec<Integer>, WideProduct)>;
 
 /// Whether pivot rows are size-reduced above the diagonal (Hermite form).
 /// Measured both ways: without it the valuations grow and so do the
