@@ -127,6 +127,37 @@ impl NumberField {
         Self::build(g, d, fac)
     }
 
+    /// As [`NumberField::with_limits`], using primes the caller already
+    /// knows (for the descent, those of the curve's discriminant): `disc(f)`
+    /// of the monic polynomial is divided by each prime of `known` that
+    /// divides it, and only a cofactor left over is factored, within
+    /// `limits` ([`ErrorKind::FactorBudget`] when that fails). A number in
+    /// `known` that divides `disc(f)` but is not prime gives
+    /// [`ErrorKind::InvalidValue`]; one that does not divide it is ignored.
+    ///
+    /// ```
+    /// use malachite::{Integer, Natural};
+    /// use twofold::arith::FactorLimits;
+    /// use twofold::numfield::NumberField;
+    /// // x^3 - 2: disc = -108 = -2^2 3^3, d_K = -108 (hand computation;
+    /// // Z[2^(1/3)] is maximal)
+    /// let f = [Integer::from(-2), Integer::from(0), Integer::from(0), Integer::from(1)];
+    /// let known = [Natural::from(2u32), Natural::from(3u32)];
+    /// let k = NumberField::with_known_primes(&f, &known, &FactorLimits::default()).unwrap();
+    /// assert_eq!(*k.discriminant(), Integer::from(-108));
+    /// assert_eq!(k.integral_basis(), NumberField::new(&f).unwrap().integral_basis());
+    /// // 6 divides the discriminant but is not prime
+    /// let bad = [Natural::from(6u32)];
+    /// let e = NumberField::with_known_primes(&f, &bad, &FactorLimits::default()).unwrap_err();
+    /// assert_eq!(e.kind(), &twofold::ErrorKind::InvalidValue);
+    /// ```
+    pub fn with_known_primes(f: &[Integer], known: &[Natural], limits: &FactorLimits) -> Result<NumberField, Error> {
+        let g = Self::monic(f)?;
+        let d = poly::discriminant(&g);
+        let fac = crate::arith::factor_with_known_primes(&d, known, limits)?;
+        Self::build(g, d, &fac)
+    }
+
     fn monic(f: &[Integer]) -> Result<Vec<Integer>, Error> {
         let mut f = f.to_vec();
         while f.last() == Some(&Integer::ZERO) {

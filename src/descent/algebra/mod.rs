@@ -306,7 +306,10 @@ pub fn points_on_coverings(
 }
 
 /// `S`: 2 and the primes of `primes` that divide `disc(f)`; every prime of
-/// `disc(f)` must be listed.
+/// `disc(f)` must be listed, and every listed number that divides it must
+/// be prime ([`ErrorKind::InvalidValue`] otherwise). The fields of the
+/// descent are built from these primes (`NumberField::with_known_primes`),
+/// so `disc(f)` is never factored twice.
 fn s_primes(cubic: &[Integer; 3], roots: &[Integer], primes: &[Natural]) -> Result<Vec<Natural>, Error> {
     let mut disc = Integer::ONE;
     if roots.len() == 3 {
@@ -334,6 +337,9 @@ fn s_primes(cubic: &[Integer; 3], roots: &[Integer], primes: &[Natural]) -> Resu
             divides = true;
         }
         if divides && *p != 2u32 {
+            if !crate::arith::is_probable_prime(p) {
+                return Err(Error::new(ErrorKind::InvalidValue, format!("the listed bad prime {p} is not prime")));
+            }
             out.push(p.clone());
         }
     }
