@@ -985,7 +985,11 @@ fn descent_fields_come_from_the_curves_primes() {
     }
     let big = Curve::from_coefficients([0i64, 0, 0, 1_234_567_890_121, 8_765_432_109_876_543_211]).unwrap();
     let [c0, c1, c2] = twofold::descent::algebra::monic_cubic(&big);
-    let e = NumberField::with_limits(&[c0, c1, c2, Integer::from(1)], &spent).unwrap_err();
+    let f_big = [c0, c1, c2, Integer::from(1)];
+    let e = NumberField::with_limits(&f_big, &spent).unwrap_err();
+    assert_eq!(*e.kind(), ErrorKind::FactorBudget, "{e}");
+    // with only 2 known, the cofactor must be factored: the spent budget says so
+    let e = NumberField::with_known_primes(&f_big, &[Natural::from(2u32)], &spent).unwrap_err();
     assert_eq!(*e.kind(), ErrorKind::FactorBudget, "{e}");
     // quadratic algebras (one rational point of order 2): f = (X - e)(X^2 + u X + w),
     // K = Q(sqrt D0) with D0 the squarefree part of u^2 - 4w
