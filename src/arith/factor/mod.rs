@@ -11,6 +11,7 @@
 
 use super::mont::{ModRing, Mont64, MontN, NatRing};
 use super::primality::{probable_prime_until, rem_u64};
+#[cfg(test)]
 use super::primality::is_probable_prime;
 use super::siqs::{SiqsSplitter, SIQS_MAX_BITS};
 use super::word::{gcd_u64, is_prime_u64, primes_up_to};
@@ -329,7 +330,8 @@ pub(crate) fn factor_with(
 
 /// Factor `n` using primes the caller already knows: `n` is divided by each
 /// of `known` that divides it (each such one must be prime: BPSW, a proof
-/// below 2^64, else [`ErrorKind::InvalidValue`]), and only the cofactor left
+/// below 2^64, else [`ErrorKind::InvalidValue`]; above 2048 bits the test
+/// honours `limits`), and only the cofactor left
 /// over is factored, within `limits` ([`ErrorKind::FactorBudget`] when that
 /// fails). Primes of `known` that do not divide `n` are ignored.
 pub(crate) fn factor_with_known_primes(n: &Integer, known: &[Natural], limits: &FactorLimits) -> Result<Factorization, Error> {
@@ -349,8 +351,13 @@ pub(crate) fn factor_with_known_primes(n: &Integer, known: &[Natural], limits: &
             e += 1;
         }
         if e > 0 {
-            if !is_probable_prime(p) {
-                return Err(Error::new(ErrorKind::InvalidValue, format!("the known factor {p} is not prime")));
+            // below 2048 bits the test is unconditional and fast; above, it
+            // honours the limits (`FactorBudget`)
+            let stop = || Budget { limits }.stop();
+            match probable_prime_until(p, &stop) {
+                Some(true) => {}
+                Some(false) => return Err(Error::new(ErrorKind::InvalidValue, format!("the known factor {p} is not prime"))),
+                None => return Err(budget_error("deadline passed or cancelled while testing a known prime")),
             }
             *found.entry(p.clone()).or_insert(0) += e;
         }
