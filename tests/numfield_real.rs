@@ -440,20 +440,15 @@ fn totally_real_cubic_fields_with_class_number_four_or_more_checked_by_units() {
 fn totally_real_cubic_fields_to_26569_by_class_number() {
     // Every totally real cubic field up to 26569 = 163^2 (the cyclic field of
     // conductor 163 with h = 4 tested above), by Hunter's theorem. D. Shanks
-    // (Math. Comp. 28, 1974, §1; re-read in a stored copy, fifteenth session):
-    // "Godwin and Samet tabulated the 830 totally real cubic fields of
-    // discriminant D < 2 * 10^4. Godwin computed their class numbers h and found
-    // that 764 of these fields (92%) have h = 1", and Borevich and Shafarevich,
-    // reproducing the table, remarked that none of these class numbers exceeds 4.
-    // Found here: 1131 fields, 832 below 2e4 (766 with h = 1, 29 with 2, 34 with
-    // 3, 3 with 4), two fields of class number 1 more than that table;
-    // `assert_distinct_fields_with_integral_bases` shows the 832 to be distinct
-    // fields of discriminant below 2e4 without the library's sieve or maximal
-    // order, so 832 is a lower bound. P. Llorente and J. Quer (Math. Comp. 50,
-    // 1988, §1; stored copy) state that the Godwin-Samet table (and Angell's to
-    // 1e5) "are not complete", citing Ennola and Turunen: the published
-    // explanation of the difference (which two fields it misses is not in the
-    // text read); no h > 4 below 2e4, in agreement with Borevich-Shafarevich. The first field with h = 4 is 8069, checked a second way
+    // (Math. Comp. 28, 1974, §1) quotes Godwin's class numbers of the 830 totally
+    // real cubic fields below 2e4 (764 with h = 1) and that none exceeds 4 (as
+    // recalled by an earlier session; not re-read). Found here: 1131 fields, 832
+    // below 2e4 (766 with h = 1, 29 with 2, 34 with 3, 3 with 4), two fields of
+    // class number 1 more than that quote; `assert_distinct_fields_with_integral_bases`
+    // shows the 832 to be distinct fields of discriminant below 2e4 without the
+    // library's sieve or maximal order, so 832 is a lower bound and the quote as
+    // recalled is not the count of all of them (not resolved further); no h > 4
+    // below 2e4, in agreement with it. The first field with h = 4 is 8069, checked a second way
     // in `first_totally_real_cubic_field_with_class_number_four_is_8069`; every
     // field with h >= 4 found (8069, 16357, 19821, 20733 with h = 5, 21212 with
     // h = 7, 21308, 26569) is checked by units and the analytic formula in
