@@ -393,55 +393,6 @@ pub(crate) struct Found {
     pub(crate) err: f64,
 }
 
-/// Test-only record of every relation the searches hand out: per search
-/// (one entry per [`RelationSearch::new`]), its columns and, for each
-/// relation, the element (the product its exponents name) and the
-/// valuation vector the search recorded. Read by the test that re-factors
-/// the relations of finished class-group runs.
-#[cfg(test)]
-pub(crate) mod relation_log {
-    use super::super::field::Element;
-    use super::super::ideal::PrimeIdeal;
-    use std::cell::RefCell;
-
-    /// One search: its columns and its relations `(element, valuations)`.
-    pub(crate) type Search = (Vec<PrimeIdeal>, Vec<(Element, Vec<i64>)>);
-
-    thread_local! {
-        static LOG: RefCell<Option<Vec<Search>>> = const { RefCell::new(None) };
-    }
-
-    /// Starts recording on this thread (dropping an earlier record).
-    pub(crate) fn start() {
-        LOG.with(|l| *l.borrow_mut() = Some(Vec::new()));
-    }
-
-    /// Stops recording and returns what was recorded.
-    pub(crate) fn take() -> Vec<Search> {
-        LOG.with(|l| l.borrow_mut().take().unwrap_or_default())
-    }
-
-    pub(super) fn recording() -> bool {
-        LOG.with(|l| l.borrow().is_some())
-    }
-
-    pub(super) fn new_search(columns: Vec<PrimeIdeal>) {
-        LOG.with(|l| {
-            if let Some(v) = l.borrow_mut().as_mut() {
-                v.push((columns, Vec::new()));
-            }
-        });
-    }
-
-    pub(super) fn relation(a: Element, v: Vec<i64>) {
-        LOG.with(|l| {
-            if let Some(s) = l.borrow_mut().as_mut().and_then(|v| v.last_mut()) {
-                s.1.push((a, v));
-            }
-        });
-    }
-}
-
 /// A prime ideal named by its rational prime and its place in
 /// [`NumberField::primes_above`].
 type Key = (u64, usize);
@@ -563,26 +514,7 @@ impl<'a> RelationSearch<'a> {
                 }
             }
         }
-        #[cfg(test)]
-        relation_log::new_search(s.fb.clone());
         Ok(s)
-    }
-
-    /// Test-only: records a relation handed out (see [`relation_log`]).
-    #[cfg(test)]
-    fn log_found(&self, f: &Found) {
-        if !relation_log::recording() {
-            return;
-        }
-        let mut a = self.k.one();
-        for &(i, x) in &f.exps {
-            let p = self
-                .k
-                .pow(&self.elems[i], x)
-                .expect("a relation element is non-zero");
-            a = self.k.mul(&a, &p);
-        }
-        relation_log::relation(a, f.v.clone());
     }
 
     fn push_column(&mut self, key: Key) {
@@ -637,15 +569,12 @@ impl<'a> RelationSearch<'a> {
             return Ok(None);
         }
         let (idx, logs, err) = self.store(a);
-        let found = Found {
+        Ok(Some(Found {
             exps: vec![(idx, 1)],
             v,
             logs,
             err,
-        };
-        #[cfg(test)]
-        self.log_found(&found);
-        Ok(Some(found))
+        }))
     }
 
     /// The rational primes below the columns, increasing.
@@ -1114,15 +1043,12 @@ impl<'a> RelationSearch<'a> {
             Goal::Collect => {
                 if extras.is_empty() {
                     let (idx, logs, err) = self.store(a);
-                    let found = Found {
+                    out.push(Found {
                         exps: vec![(idx, 1)],
                         v,
                         logs,
                         err,
-                    };
-                    #[cfg(test)]
-                    self.log_found(&found);
-                    out.push(found);
+                    });
                     return false;
                 }
                 if extras.len() != 1 || extras[0].1.abs() != 1 {
@@ -1145,15 +1071,12 @@ impl<'a> RelationSearch<'a> {
                         .zip(plogs)
                         .map(|(x, y)| x + c as f64 * y)
                         .collect();
-                    let found = Found {
+                    out.push(Found {
                         exps,
                         v: v2,
                         logs: logs2,
                         err: err + perr,
-                    };
-                    #[cfg(test)]
-                    self.log_found(&found);
-                    out.push(found);
+                    });
                 } else {
                     self.partial.insert(key, (vec![(idx, 1)], v, logs, err, e));
                 }
@@ -1925,22 +1848,27 @@ mod sieve_tests {
     }
 
     /// The law of issue 14 "every relation found factors over the factor
-    /// base", checked on finished class-group runs independently of the
-    /// search's own bookkeeping: each relation the runs hand out (recorded
-    /// by `relation_log`) is rebuilt as an element, its norm computed
-    /// exactly and trial-divided by the rational primes below the columns
-    /// (the cofactor of numerator and denominator must be 1), and the
-    /// valuation vector the search recorded compared with the exact
-    /// valuations (`NumberField::valuation`, from `P`'s anti-uniformiser) at
-    /// every column; the prime ideals above the same primes that are not
-    /// columns must have valuation 0, and `v_p(N) = sum f_P v_P`
-    /// (Cohen GTM 138, Proposition 4.8.6; the norm of an ideal is
-    /// multiplicative). Fields: imaginary and real quadratic, complex and
-    /// totally real cubic, `abs(d)` from 1e10 to 1e20, both linear-algebra
-    /// routes.
+    /// base", checked independently of the search's own bookkeeping. For
+    /// each field a class group is run to the end (its bounds and route
+    /// known), then its relation search is replayed with those bounds (the
+    /// search is deterministic: the same seed and calls give the same
+    /// relations; the run itself is not recorded, as the crate keeps no
+    /// hidden per-thread state): on the kernel route the free relations, the
+    /// line sieve's `kfb + 24` relations and targeted rounds at the columns
+    /// they missed, on the echelon route the first 60 rounds. Each relation
+    /// is rebuilt as an element from its exponents, its norm computed
+    /// exactly and trial-divided by the primes below the columns (the
+    /// cofactor of numerator and denominator must be 1), and the valuation
+    /// vector the search recorded compared with the exact valuations
+    /// (`NumberField::valuation`) at every column; the prime ideals above
+    /// those primes that are not columns must have valuation 0, and
+    /// `v_p(N) = sum f_P v_P` (the norm of ideals is multiplicative, Cohen
+    /// GTM 138, Proposition 4.8.6 / Theorem 4.8.5). Fields: imaginary and
+    /// real quadratic, complex and totally real cubic, `abs(d)` from 1e10
+    /// to 1e20.
     #[test]
     fn relations_of_class_group_runs_factor_over_the_factor_base() {
-        use super::super::classgroup::{ClassGroupOptions, Route};
+        use super::super::classgroup::{ClassGroupOptions, Route, KERNEL_ROUTE_DIGITS};
         use malachite::base::num::arithmetic::traits::DivisibleBy;
         use malachite::Natural;
         let cases: [(&[i64], Route); 8] = [
@@ -1958,93 +1886,131 @@ mod sieve_tests {
             let mut opts = ClassGroupOptions::default()
                 .with_deadline(std::time::Instant::now() + std::time::Duration::from_secs(120));
             opts.route = route;
-            relation_log::start();
-            let cg = k.class_group(&opts);
-            let log = relation_log::take();
-            let cg = cg.unwrap_or_else(|e| panic!("{f:?}: {e}"));
-            let mut checked = 0usize;
-            for (columns, rels) in &log {
-                // the rational primes below the columns and every prime ideal above them
-                let mut ps: Vec<u64> = columns.iter().map(|q| q.p).collect();
-                ps.sort_unstable();
-                ps.dedup();
-                let above: HashMap<u64, Vec<PrimeIdeal>> = ps
-                    .iter()
-                    .map(|&p| (p, k.primes_above(p).unwrap()))
+            let cg = k
+                .class_group(&opts)
+                .unwrap_or_else(|e| panic!("{f:?}: {e}"));
+            let kernel = match route {
+                Route::Kernel => true,
+                Route::Echelon => false,
+                Route::Auto => ln_abs(&k.disc) / std::f64::consts::LN_10 >= KERNEL_ROUTE_DIGITS,
+            };
+            // the replay
+            let stop = || false;
+            let mut rs =
+                RelationSearch::new(&k, cg.bound, cg.generation_bound, &[], &stop).unwrap();
+            let kfb = rs.fb.len();
+            let mut rels: Vec<Found> = Vec::new();
+            let mut found: Vec<Found> = Vec::new();
+            if kernel {
+                rs.primitive_only = true;
+                for p in rs.column_primes() {
+                    rels.extend(rs.free_relation(p).unwrap());
+                }
+                rs.sieve_collect(kfb + 24, &stop, &mut found).unwrap();
+                rels.append(&mut found);
+                let missed: Vec<usize> = (0..kfb)
+                    .filter(|&j| rels.iter().all(|r| r.v[j] == 0))
+                    .take(20)
                     .collect();
-                // each column is one of the prime ideals above its prime
-                for q in columns {
-                    assert!(
-                        above[&q.p].iter().any(|r| r.ideal == q.ideal),
-                        "{f:?}: column above {} not among the primes above it",
+                for j in missed {
+                    rs.targeted_round(j, 1, &stop, "test", &mut found).unwrap();
+                    rels.append(&mut found);
+                }
+            } else {
+                for round in 1..=60 {
+                    rs.round(round, usize::MAX, &stop, "test", &mut found)
+                        .unwrap();
+                    rels.append(&mut found);
+                }
+            }
+            let columns = &rs.fb;
+            // the rational primes below the columns and every prime ideal above them
+            let mut ps: Vec<u64> = columns.iter().map(|q| q.p).collect();
+            ps.sort_unstable();
+            ps.dedup();
+            let above: HashMap<u64, Vec<PrimeIdeal>> = ps
+                .iter()
+                .map(|&p| (p, k.primes_above(p).unwrap()))
+                .collect();
+            // each column is one of the prime ideals above its prime
+            for q in columns {
+                assert!(
+                    above[&q.p].iter().any(|r| r.ideal == q.ideal),
+                    "{f:?}: column above {} not among the primes above it",
+                    q.p
+                );
+            }
+            for rel in &rels {
+                let mut a = k.one();
+                for &(i, x) in &rel.exps {
+                    a = k.mul(&a, &k.pow(&rs.elems[i], x).unwrap());
+                }
+                let v = &rel.v;
+                assert_eq!(v.len(), columns.len(), "{f:?}");
+                let norm = k.norm(&a);
+                let (mut num, mut den) =
+                    (norm.numerator_ref().clone(), norm.denominator_ref().clone());
+                let mut vp_norm: HashMap<u64, i64> = HashMap::new();
+                for &p in &ps {
+                    let pn = Natural::from(p);
+                    let mut e = 0i64;
+                    while (&num).divisible_by(&pn) {
+                        num /= &pn;
+                        e += 1;
+                    }
+                    while (&den).divisible_by(&pn) {
+                        den /= &pn;
+                        e -= 1;
+                    }
+                    vp_norm.insert(p, e);
+                }
+                assert!(
+                    num == 1u32 && den == 1u32,
+                    "{f:?}: N(a) = {norm} has the cofactor {num}/{den} outside the factor base"
+                );
+                // exact valuations at the columns; zero at the other prime
+                // ideals above the same primes
+                let integral = a.is_integral();
+                let mut sum: HashMap<u64, i64> = HashMap::new();
+                for (j, q) in columns.iter().enumerate() {
+                    let exact = if integral && vp_norm[&q.p] == 0 {
+                        0
+                    } else {
+                        k.valuation(&a, q).unwrap()
+                    };
+                    assert_eq!(
+                        exact, v[j],
+                        "{f:?}: v_P(a) at a column above {} against the recorded valuation",
                         q.p
                     );
+                    *sum.entry(q.p).or_insert(0) += i64::from(q.f) * exact;
                 }
-                for (a, v) in rels {
-                    assert_eq!(v.len(), columns.len(), "{f:?}");
-                    let norm = k.norm(a);
-                    let (mut num, mut den) =
-                        (norm.numerator_ref().clone(), norm.denominator_ref().clone());
-                    let mut vp_norm: HashMap<u64, i64> = HashMap::new();
-                    for &p in &ps {
-                        let pn = Natural::from(p);
-                        let mut e = 0i64;
-                        while (&num).divisible_by(&pn) {
-                            num /= &pn;
-                            e += 1;
+                for &p in &ps {
+                    let mut s = sum[&p];
+                    for r in &above[&p] {
+                        if columns.iter().any(|q| q.ideal == r.ideal) {
+                            continue;
                         }
-                        while (&den).divisible_by(&pn) {
-                            den /= &pn;
-                            e -= 1;
-                        }
-                        vp_norm.insert(p, e);
-                    }
-                    assert!(
-                        num == 1u32 && den == 1u32,
-                        "{f:?}: N(a) = {norm} has the cofactor {num}/{den} outside the factor base"
-                    );
-                    // exact valuations at the columns; at every prime ideal
-                    // above a prime of a column: zero off the columns
-                    let integral = a.is_integral();
-                    let mut sum: HashMap<u64, i64> = HashMap::new();
-                    for (j, q) in columns.iter().enumerate() {
-                        let exact = if integral && vp_norm[&q.p] == 0 {
+                        let x = if integral && vp_norm[&p] == 0 {
                             0
                         } else {
-                            k.valuation(a, q).unwrap()
+                            k.valuation(&a, r).unwrap()
                         };
                         assert_eq!(
-                            exact, v[j],
-                            "{f:?}: v_P(a) at a column above {} against the recorded valuation",
-                            q.p
+                            x, 0,
+                            "{f:?}: a prime ideal above {p} outside the columns divides a relation"
                         );
-                        *sum.entry(q.p).or_insert(0) += i64::from(q.f) * exact;
+                        s += i64::from(r.f) * x;
                     }
-                    for &p in &ps {
-                        let mut s = sum[&p];
-                        for r in &above[&p] {
-                            if columns.iter().any(|q| q.ideal == r.ideal) {
-                                continue;
-                            }
-                            let x = if integral && vp_norm[&p] == 0 {
-                                0
-                            } else {
-                                k.valuation(a, r).unwrap()
-                            };
-                            assert_eq!(x, 0, "{f:?}: a prime ideal above {p} outside the columns divides a relation");
-                            s += i64::from(r.f) * x;
-                        }
-                        assert_eq!(s, vp_norm[&p], "{f:?}: v_{p}(N(a)) against sum f v_P");
-                    }
-                    checked += 1;
+                    assert_eq!(s, vp_norm[&p], "{f:?}: v_{p}(N(a)) against sum f v_P");
                 }
             }
             eprintln!(
-                "{f:?} ({route:?}): h = {}, {} searches, {checked} relations re-factored",
+                "{f:?} ({route:?}, kernel {kernel}): h = {}, {} relations re-factored",
                 cg.class_number,
-                log.len()
+                rels.len()
             );
-            assert!(checked >= 10, "{f:?}: only {checked} relations recorded");
+            assert!(rels.len() >= 10, "{f:?}: only {} relations", rels.len());
         }
     }
 
