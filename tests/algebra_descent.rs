@@ -947,3 +947,104 @@ fn sel2_even_torsion_sample() {
     }
     eprintln!("{} curves in {:.2?}", rows.len(), t.elapsed());
 }
+
+/// The fields of the descent are built from the curve's own factored
+/// discriminant (`NumberField::with_known_primes` on the bad primes and 2):
+/// the field equals the one built by factoring `disc(f)` afresh, for cubic
+/// and quadratic algebras; with all primes known no factoring is left (a
+/// spent deadline does not matter, while factoring the 40-digit curve's
+/// `disc(f)` afresh with that deadline is refused with `FactorBudget`); a
+/// wrong factorisation (a composite listed as a bad prime, a prime left
+/// out) is an `InvalidValue` error, never a wrong Selmer group. The field
+/// discriminants are checked against the polynomial discriminant by the
+/// index law `disc(f) = index^2 d_K` (Cohen GTM 138, Proposition 4.4.4) in
+/// `NumberField`; here both constructions must agree exactly.
+#[test]
+fn descent_fields_come_from_the_curves_primes() {
+    use malachite::{Integer, Rational};
+    use twofold::arith::{factor, FactorLimits};
+    use twofold::numfield::NumberField;
+    use twofold::ErrorKind;
+    let spent = FactorLimits::default().with_deadline(std::time::Instant::now());
+    let known = |e: &Curve| -> Vec<Natural> {
+        let data = CurveData::new(e, &Work::unlimited()).unwrap();
+        let mut s: Vec<Natural> = data.bad_primes().to_vec();
+        s.push(Natural::from(2u32));
+        s
+    };
+    // cubic algebras (no rational 2-torsion): the 40-digit curve of issue 15,
+    // the class-number-2 field of x^3 + 1234x + 56789, and y^2 + y = x^3 - x
+    for c in [[0i64, 0, 0, 1_234_567_890_121, 8_765_432_109_876_543_211], [0, 0, 0, 1234, 56789], [0, 0, 1, -1, 0]] {
+        let e = Curve::from_coefficients(c).unwrap();
+        assert!(two_torsion_roots(&e).is_empty(), "{c:?}");
+        let [c0, c1, c2] = twofold::descent::algebra::monic_cubic(&e);
+        let f = [c0, c1, c2, Integer::from(1)];
+        let from_curve = NumberField::with_known_primes(&f, &known(&e), &spent).unwrap_or_else(|err| panic!("{c:?}: {err}"));
+        let own = NumberField::new(&f).unwrap();
+        assert!(same_field(&from_curve, &own), "{c:?}");
+    }
+    let big = Curve::from_coefficients([0i64, 0, 0, 1_234_567_890_121, 8_765_432_109_876_543_211]).unwrap();
+    let [c0, c1, c2] = twofold::descent::algebra::monic_cubic(&big);
+    let f_big = [c0, c1, c2, Integer::from(1)];
+    let e = NumberField::with_limits(&f_big, &spent).unwrap_err();
+    assert_eq!(*e.kind(), ErrorKind::FactorBudget, "{e}");
+    // with only 2 known, the cofactor must be factored: the spent budget says so
+    let e = NumberField::with_known_primes(&f_big, &[Natural::from(2u32)], &spent).unwrap_err();
+    assert_eq!(*e.kind(), ErrorKind::FactorBudget, "{e}");
+    // quadratic algebras (one rational point of order 2): f = (X - e)(X^2 + u X + w),
+    // K = Q(sqrt D0) with D0 the squarefree part of u^2 - 4w
+    let mut quadratic = 0;
+    for c in [[0i64, 0, 0, 1, 0], [0, 0, 0, -2, 0], [0, 0, 0, 7, 0], [0, 1, 0, 0, 4]] {
+        let e = Curve::from_coefficients(c).unwrap();
+        let roots = two_torsion_roots(&e);
+        if roots.len() != 1 {
+            continue;
+        }
+        quadratic += 1;
+        let [c0, c1, c2] = twofold::descent::algebra::monic_cubic(&e);
+        let r = &roots[0];
+        assert_eq!(*r.denominator_ref(), 1u32, "{c:?}: X = 4x of a point of order 2 is integral");
+        let u = Rational::from(c2) + r;
+        let w = Rational::from(c1) + r * &u;
+        assert_eq!(-(r * &w), Rational::from(c0.clone()), "{c:?}");
+        let d = Integer::try_from(&u * &u - Rational::from(4) * &w).unwrap();
+        let d0 = factor(&d, &FactorLimits::default()).unwrap().squarefree_part();
+        let g = [-d0.clone(), Integer::from(0), Integer::from(1)];
+        let from_curve = NumberField::with_known_primes(&g, &known(&e), &spent).unwrap_or_else(|err| panic!("{c:?}: {err}"));
+        assert!(same_field(&from_curve, &NumberField::new(&g).unwrap()), "{c:?}");
+        // d_K is D0 or 4 D0 (the quadratic discriminant law)
+        let dk = from_curve.discriminant().clone();
+        assert!(dk == d0 || dk == Integer::from(4) * &d0, "{c:?}: d_K = {dk}, D0 = {d0}");
+    }
+    assert_eq!(quadratic, 4, "x(x^2 + 1), x(x^2 - 2), x(x^2 + 7), (x + 2)(x^2 - x + 2)");
+    // a wrong factorisation: the product of two bad primes listed as a prime
+    let e = Curve::from_coefficients([0i64, 0, 0, 1234, 56789]).unwrap();
+    let data = CurveData::new(&e, &Work::unlimited()).unwrap();
+    let t = TorsionGroup::compute(&e, data.bad_primes());
+    let odd: Vec<Natural> = data.bad_primes().iter().filter(|p| **p != 2u32).cloned().collect();
+    assert!(odd.len() >= 2, "x^3 + 1234x + 56789 has at least two odd bad primes");
+    let mut wrong = vec![&odd[0] * &odd[1]];
+    wrong.extend(data.bad_primes().iter().cloned());
+    let err = two_selmer_over_algebra(&e, &t, &wrong, &Work::unlimited()).unwrap_err();
+    assert_eq!(*err.kind(), ErrorKind::InvalidValue, "{err}");
+    let [c0, c1, c2] = twofold::descent::algebra::monic_cubic(&e);
+    let f = [c0, c1, c2, Integer::from(1)];
+    let err = NumberField::with_known_primes(&f, &wrong, &FactorLimits::default()).unwrap_err();
+    assert_eq!(*err.kind(), ErrorKind::InvalidValue, "{err}");
+    // a prime left out
+    let missing: Vec<Natural> = data.bad_primes().iter().filter(|p| **p != odd[0]).cloned().collect();
+    let err = two_selmer_over_algebra(&e, &t, &missing, &Work::unlimited()).unwrap_err();
+    assert_eq!(*err.kind(), ErrorKind::InvalidValue, "{err}");
+    // with a prime left out the field is still right, the cofactor factored afresh
+    let k = NumberField::with_known_primes(&f, &missing, &FactorLimits::default()).unwrap();
+    assert!(same_field(&k, &NumberField::new(&f).unwrap()));
+}
+
+/// The same polynomial, discriminants, ramified primes and integral basis.
+fn same_field(a: &twofold::numfield::NumberField, b: &twofold::numfield::NumberField) -> bool {
+    a.polynomial() == b.polynomial()
+        && a.polynomial_discriminant() == b.polynomial_discriminant()
+        && a.discriminant() == b.discriminant()
+        && a.ramified_primes() == b.ramified_primes()
+        && a.integral_basis() == b.integral_basis()
+}

@@ -19,6 +19,7 @@ pub(crate) use word::{gcd_u64, inv_mod, is_small_prime, mul_mod};
 pub use symbols::{jacobi_u64, kronecker_i64, jacobi, kronecker, valuation, sqrt_mod_prime, is_square};
 pub use primality::{is_probable_prime, is_probable_prime_within};
 pub use factor::{factor, factor_u64, FactorLimits, Factorization};
+pub(crate) use factor::factor_with_known_primes;
 pub use sqrt::sqrt_mod_prime_power;
 pub use hilbert::{hilbert_symbol, hilbert_symbol_integers, Place};
 

@@ -43,6 +43,15 @@ pub(crate) const EULER_PRODUCT_LIMIT: u64 = 100_000;
 
 /// The factor base always holds the prime ideals of norm up to this
 /// (more generators than the bound needs: relations come easier).
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::numfield::{ClassGroupOptions, NumberField, MIN_FACTOR_BASE_BOUND};
+/// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+/// // Q(i): Minkowski's bound 4/pi is below it, the factor base still reaches it
+/// let cg = NumberField::new(&z(&[1, 0, 1])).unwrap().class_group(&ClassGroupOptions::default()).unwrap();
+/// assert!(cg.bound >= MIN_FACTOR_BASE_BOUND && cg.factor_base.iter().all(|p| p.norm() <= cg.bound as u128));
+/// ```
 pub const MIN_FACTOR_BASE_BOUND: u64 = 50;
 
 /// Rounds of relation search before [`NumberField::class_group`] gives up
@@ -50,6 +59,16 @@ pub const MIN_FACTOR_BASE_BOUND: u64 = 50;
 pub const MAX_ROUNDS: usize = 3000;
 
 /// Which bound the factor base rests on.
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::numfield::{ClassGroupOptions, NumberField};
+/// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+/// use twofold::numfield::FactorBaseBound;
+/// // |d| = 23: Minkowski's bound 1.2 is below Bach's 12 (log 23)^2 = 118 (hand computation)
+/// let cg = NumberField::new(&z(&[-1, -1, 0, 1])).unwrap().class_group(&ClassGroupOptions::default()).unwrap();
+/// assert_eq!(cg.bound_kind, FactorBaseBound::Minkowski);
+/// ```
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub enum FactorBaseBound {
@@ -62,6 +81,16 @@ pub enum FactorBaseBound {
 }
 
 /// Options for [`NumberField::class_group`].
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::numfield::{ClassGroupOptions, NumberField};
+/// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+/// let opts = ClassGroupOptions::default().with_deadline(std::time::Instant::now());
+/// // a spent deadline: the class group stops with a budget error
+/// let e = NumberField::new(&z(&[56789, 1234, 0, 1])).unwrap().class_group(&opts).unwrap_err();
+/// assert_eq!(e.kind(), &twofold::ErrorKind::Budget);
+/// ```
 #[derive(Clone, Debug, Default)]
 #[non_exhaustive]
 pub struct ClassGroupOptions {
@@ -97,6 +126,18 @@ pub(crate) const KERNEL_ROUTE_DIGITS: f64 = 12.0;
 
 impl ClassGroupOptions {
     /// Uses (or not) the Minkowski bound even when it is large.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::{ClassGroupOptions, NumberField};
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// use twofold::numfield::FactorBaseBound;
+    /// // t^3 + 301t + 5003 (d about -7.8e8): Bach's bound is the smaller; on request Minkowski's
+    /// let k = NumberField::new(&z(&[5003, 301, 0, 1])).unwrap();
+    /// let cg = k.class_group(&ClassGroupOptions::default().with_unconditional(true)).unwrap();
+    /// assert_eq!(cg.bound_kind, FactorBaseBound::Minkowski);
+    /// assert!(cg.generation_bound as f64 >= k.minkowski_bound().floor());
+    /// ```
     pub fn with_unconditional(mut self, v: bool) -> Self {
         self.unconditional = v;
         self
@@ -106,6 +147,17 @@ impl ClassGroupOptions {
 
 /// A unit (or S-unit) as a product `prod base_i^exp_i` of field elements
 /// with integer exponents, never expanded unless asked.
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::numfield::{ClassGroupOptions, NumberField};
+/// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+/// use twofold::numfield::CompactProduct;
+/// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap();
+/// let cg = k.class_group(&ClassGroupOptions::default()).unwrap();
+/// let u: &CompactProduct = &cg.units[0]; // a fundamental unit, +-(2^(1/3) - 1)^(+-1) (R = 1.3473...)
+/// assert_eq!(k.norm(&u.expand(&k).unwrap()).numerator_ref(), &1u32);
+/// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[non_exhaustive]
 pub struct CompactProduct {
@@ -116,6 +168,21 @@ pub struct CompactProduct {
 impl CompactProduct {
     /// The product as an explicit element (its size can be huge: the
     /// height is the sum of `|exp| h(base)`).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::{ClassGroupOptions, NumberField};
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // Q(sqrt 2): the fundamental unit is +-(1 + sqrt 2)^(+-1), norm -1
+    /// let k = NumberField::new(&z(&[-2, 0, 1])).unwrap();
+    /// let cg = k.class_group(&ClassGroupOptions::default()).unwrap();
+    /// let u = cg.units[0].expand(&k).unwrap();
+    /// assert_eq!(k.norm(&u), malachite::Rational::from(-1));
+    /// let s = k.add(&k.one(), &k.generator());
+    /// let inv = k.inv(&s).unwrap();
+    /// let minus = |a: &twofold::numfield::Element| k.sub(&k.sub(a, a), a);
+    /// assert!([s.clone(), minus(&s), inv.clone(), minus(&inv)].contains(&u));
+    /// ```
     pub fn expand(&self, k: &NumberField) -> Result<Element, Error> {
         let mut r = k.one();
         for (b, e) in &self.factors {
@@ -124,6 +191,17 @@ impl CompactProduct {
         Ok(r)
     }
     /// The logarithmic embedding `sum exp_i log|sigma(base_i)|` (f64).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::{ClassGroupOptions, NumberField};
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // Q(sqrt 2): log(1 + sqrt 2) = asinh(1) at one place, minus it at the other
+    /// let k = NumberField::new(&z(&[-2, 0, 1])).unwrap();
+    /// let cg = k.class_group(&ClassGroupOptions::default()).unwrap();
+    /// let l = cg.units[0].log_embedding(&k);
+    /// assert!((l[0] + l[1]).abs() < 1e-12 && (l[0].abs() - 1f64.asinh()).abs() < 1e-12);
+    /// ```
     pub fn log_embedding(&self, k: &NumberField) -> Vec<f64> {
         let mut v = vec![0.0; k.r1 + k.r2];
         for (b, e) in &self.factors {
@@ -136,6 +214,16 @@ impl CompactProduct {
 }
 
 /// The class group and unit group of a number field.
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::numfield::{ClassGroupOptions, NumberField};
+/// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+/// // Q(sqrt -23): h = 3 (Gauss's class numbers; the forms x^2 + xy + 6y^2, 2x^2 +- xy + 3y^2)
+/// let cg = NumberField::new(&z(&[6, 1, 1])).unwrap().class_group(&ClassGroupOptions::default()).unwrap();
+/// assert_eq!((cg.class_number.clone(), cg.structure.clone()), (Integer::from(3), vec![Integer::from(3)]));
+/// assert_eq!((cg.regulator, cg.roots_of_unity, cg.units.len()), (1.0, 2, 0));
+/// ```
 #[derive(Clone, Debug)]
 #[non_exhaustive]
 pub struct ClassGroup {
@@ -781,6 +869,15 @@ pub(crate) fn lll_f64(vecs: &[Vec<f64>]) -> Vec<Vec<i64>> {
 
 impl NumberField {
     /// The Minkowski bound `sqrt|d| (4/pi)^r2 n!/n^n`.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // Q(i): sqrt 4 (4/pi) 2!/2^2 = 4/pi
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap();
+    /// assert!((k.minkowski_bound() - 4.0 / std::f64::consts::PI).abs() < 1e-12);
+    /// ```
     pub fn minkowski_bound(&self) -> f64 {
         let d = f64::rounding_from(&self.disc, RoundingMode::Nearest).0.abs();
         let n = self.n as i32;
@@ -789,12 +886,33 @@ impl NumberField {
     }
 
     /// Bach's bound `12 (log |d_K|)^2` (generates the class group under GRH).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-1, -1, 0, 1])).unwrap(); // d = -23
+    /// assert!((k.bach_bound() - 12.0 * 23f64.ln().powi(2)).abs() < 1e-9);
+    /// ```
     pub fn bach_bound(&self) -> f64 {
         let d = f64::rounding_from(&self.disc, RoundingMode::Nearest).0.abs();
         12.0 * d.ln().powi(2)
     }
 
     /// The number of roots of unity and a generator (degree 2 and 3 only).
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // Q(sqrt -3): the sixth roots of unity; Q(2^(1/3)): only +-1
+    /// let k = NumberField::new(&z(&[1, 1, 1])).unwrap(); // x^2 + x + 1
+    /// let (w, zeta) = k.roots_of_unity();
+    /// assert_eq!(w, 6);
+    /// assert_eq!(k.pow(&zeta, 6).unwrap(), k.one());
+    /// assert_ne!(k.pow(&zeta, 3).unwrap(), k.one());
+    /// assert_eq!(NumberField::new(&z(&[-2, 0, 0, 1])).unwrap().roots_of_unity().0, 2);
+    /// ```
     pub fn roots_of_unity(&self) -> (u32, Element) {
         let w: u32 = if self.r1 > 0 { 2 } else if self.disc == -4 { 4 } else if self.disc == -3 { 6 } else { 2 };
         if w == 2 {
@@ -815,6 +933,15 @@ impl NumberField {
 
     /// The Euler-product estimate of `h R = w sqrt|d| res / (2^r1 (2 pi)^r2)`
     /// over the primes up to `x`.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // Q(sqrt -5): h R = 2 (R = 1 for imaginary quadratic fields)
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap();
+    /// assert!((k.analytic_class_number_formula(100_000).unwrap() - 2.0).abs() < 0.1);
+    /// ```
     pub fn analytic_class_number_formula(&self, x: u64) -> Result<f64, Error> {
         let mut logres = 0.0f64;
         let fpoly: Vec<Integer> = self.poly.clone();
@@ -853,6 +980,16 @@ impl NumberField {
     }
 
     /// All prime ideals of norm at most `b`, sorted by norm.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // Q(i): (1 + i) of norm 2, 5 = (2 + i)(2 - i), 3 inert of norm 9
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap();
+    /// let norms: Vec<u128> = k.primes_up_to_norm(10).unwrap().iter().map(|p| p.norm()).collect();
+    /// assert_eq!(norms, vec![2, 5, 5, 9]);
+    /// ```
     pub fn primes_up_to_norm(&self, b: u64) -> Result<Vec<PrimeIdeal>, Error> {
         let mut out = Vec::new();
         for p in primes_up_to(b) {
@@ -867,6 +1004,18 @@ impl NumberField {
     }
 
     /// LLL-reduced Z-basis of an ideal for the quadratic form T2.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// // the ideal (5) has the basis 5, 5i; nothing shorter: each vector has norm 25
+    /// let five = k.principal_ideal(&k.rational(&Rational::from(5))).unwrap();
+    /// let b = k.reduced_basis(&five);
+    /// assert_eq!(b.len(), 2);
+    /// assert!(b.iter().all(|x| k.ideal_contains(&five, x) && k.norm(x) == Rational::from(25)));
+    /// ```
     pub fn reduced_basis(&self, i: &Ideal) -> Vec<Element> {
         let basis = i.basis(self);
         let vecs: Vec<Vec<f64>> = basis.iter().map(|e| self.minkowski(e)).collect();
@@ -907,6 +1056,17 @@ impl NumberField {
 
     /// As [`NumberField::class_group`], with the prime ideals above the given
     /// rational primes added to the factor base (for S-units).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::{ClassGroupOptions, NumberField};
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // Q(sqrt -5), h = 2, with the primes above 3 added to the factor base
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap();
+    /// let cg = k.class_group_with(&ClassGroupOptions::default(), &[3]).unwrap();
+    /// assert_eq!(cg.class_number, Integer::from(2));
+    /// assert!(cg.factor_base.iter().filter(|p| p.p == 3).count() == 2);
+    /// ```
     pub fn class_group_with(&self, opts: &ClassGroupOptions, extra_primes: &[u64]) -> Result<ClassGroup, Error> {
         let digits = super::relations::ln_abs(&self.disc) / std::f64::consts::LN_10;
         let kernel = match opts.route {

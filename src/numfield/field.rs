@@ -13,6 +13,17 @@ use malachite::{Integer, Natural, Rational};
 
 /// An element of a number field: integer coordinates on the field's
 /// integral basis over a positive common denominator, kept in lowest terms.
+///
+/// ```
+/// use malachite::{Integer, Rational};
+/// use twofold::numfield::NumberField;
+/// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+/// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i), integral basis 1, i
+/// let a = k.fraction(&z(&[1, 1]), &Integer::from(2)).unwrap(); // (1 + i)/2
+/// assert_eq!((a.coords(), a.den()), (&z(&[1, 1])[..], &Integer::from(2)));
+/// assert!(!a.is_integral() && !a.is_zero());
+/// assert_eq!(k.norm(&a), Rational::from_signeds(1, 2)); // (1 + 1)/4, by hand
+/// ```
 #[derive(Clone, Debug, PartialEq, Eq, Hash)]
 pub struct Element {
     coords: Vec<Integer>,
@@ -21,18 +32,56 @@ pub struct Element {
 
 impl Element {
     /// Coordinates on the integral basis (numerators).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i), integral basis 1, i
+    /// assert_eq!(k.element(&z(&[3, 4])).unwrap().coords(), &z(&[3, 4])[..]); // 3 + 4i
+    /// ```
     pub fn coords(&self) -> &[Integer] {
         &self.coords
     }
     /// The common denominator (positive).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// // (2 + 4i)/6 = (1 + 2i)/3: lowest terms
+    /// let a = k.fraction(&z(&[2, 4]), &Integer::from(6)).unwrap();
+    /// assert_eq!((a.coords(), a.den()), (&z(&[1, 2])[..], &Integer::from(3)));
+    /// ```
     pub fn den(&self) -> &Integer {
         &self.den
     }
     /// Whether the element lies in the maximal order.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-5, 0, 1])).unwrap(); // Q(sqrt 5)
+    /// let h = Rational::from_signeds(1, 2);
+    /// // (1 + sqrt 5)/2 is a root of x^2 - x - 1; sqrt(5)/2 has norm -5/4
+    /// assert!(k.from_power_basis(&[h.clone(), h.clone()]).unwrap().is_integral());
+    /// assert!(!k.from_power_basis(&[Rational::from(0), h]).unwrap().is_integral());
+    /// ```
     pub fn is_integral(&self) -> bool {
         self.den == 1
     }
     /// Whether the element is zero.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap();
+    /// let t = k.generator();
+    /// assert!(k.sub(&t, &t).is_zero() && !t.is_zero());
+    /// ```
     pub fn is_zero(&self) -> bool {
         self.coords.iter().all(|c| *c == 0)
     }
@@ -97,6 +146,18 @@ impl NumberField {
     /// factoring its discriminant without a time limit. Errors: degree not
     /// 2 or 3, `f` reducible ([`ErrorKind::InvalidValue`]), Round 2 at a
     /// prime above 2^64 ([`ErrorKind::TooLarge`]).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // x^2 + 1: disc(f) = -4 and Z[i] is maximal (hand computation)
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap();
+    /// assert_eq!(k.discriminant(), &Integer::from(-4));
+    /// // x^2 - 1 is reducible: a typed error, not a field
+    /// let e = NumberField::new(&z(&[-1, 0, 1])).unwrap_err();
+    /// assert_eq!(e.kind(), &twofold::ErrorKind::InvalidValue);
+    /// ```
     pub fn new(f: &[Integer]) -> Result<NumberField, Error> {
         Self::with_limits(f, &FactorLimits::default())
     }
@@ -104,6 +165,16 @@ impl NumberField {
     /// As [`NumberField::new`], factoring `disc(f)` within `limits`; a
     /// discriminant that cannot be factored in time gives
     /// [`ErrorKind::FactorBudget`].
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// use twofold::arith::FactorLimits;
+    /// // x^3 - x - 1: d = -23, the complex cubic field of smallest |d| (Cohen GTM 138, appendix B, from memory)
+    /// let k = NumberField::with_limits(&z(&[-1, -1, 0, 1]), &FactorLimits::default()).unwrap();
+    /// assert_eq!(k.discriminant(), &Integer::from(-23));
+    /// ```
     pub fn with_limits(f: &[Integer], limits: &FactorLimits) -> Result<NumberField, Error> {
         let g = Self::monic(f)?;
         let d = poly::discriminant(&g);
@@ -115,6 +186,20 @@ impl NumberField {
     /// the *monic* defining polynomial (`a^((n-1)(n-2)) disc(f)` for leading
     /// coefficient `a`) supplied by the caller; it is checked (product and
     /// primality up to BPSW).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// use twofold::arith::{factor, FactorLimits};
+    /// // x^2 - 5: disc(f) = 20 = 2^2 5, index 2, d_K = 5 (hand computation)
+    /// let fac = factor(&Integer::from(20), &FactorLimits::default()).unwrap();
+    /// let k = NumberField::with_factored_discriminant(&z(&[-5, 0, 1]), &fac).unwrap();
+    /// assert_eq!(k.discriminant(), &Integer::from(5));
+    /// // the factorisation of another number is refused
+    /// let wrong = factor(&Integer::from(21), &FactorLimits::default()).unwrap();
+    /// assert!(NumberField::with_factored_discriminant(&z(&[-5, 0, 1]), &wrong).is_err());
+    /// ```
     pub fn with_factored_discriminant(f: &[Integer], fac: &Factorization) -> Result<NumberField, Error> {
         let g = Self::monic(f)?;
         let d = poly::discriminant(&g);
@@ -125,6 +210,37 @@ impl NumberField {
             return Err(Error::new(ErrorKind::InvalidValue, "a factor given is not prime"));
         }
         Self::build(g, d, fac)
+    }
+
+    /// As [`NumberField::with_limits`], using primes the caller already
+    /// knows (for the descent, those of the curve's discriminant): `disc(f)`
+    /// of the monic polynomial is divided by each prime of `known` that
+    /// divides it, and only a cofactor left over is factored, within
+    /// `limits` ([`ErrorKind::FactorBudget`] when that fails). A number in
+    /// `known` that divides `disc(f)` but is not prime gives
+    /// [`ErrorKind::InvalidValue`]; one that does not divide it is ignored.
+    ///
+    /// ```
+    /// use malachite::{Integer, Natural};
+    /// use twofold::arith::FactorLimits;
+    /// use twofold::numfield::NumberField;
+    /// // x^3 - 2: disc = -108 = -2^2 3^3, d_K = -108 (hand computation;
+    /// // Z[2^(1/3)] is maximal)
+    /// let f = [Integer::from(-2), Integer::from(0), Integer::from(0), Integer::from(1)];
+    /// let known = [Natural::from(2u32), Natural::from(3u32)];
+    /// let k = NumberField::with_known_primes(&f, &known, &FactorLimits::default()).unwrap();
+    /// assert_eq!(*k.discriminant(), Integer::from(-108));
+    /// assert_eq!(k.integral_basis(), NumberField::new(&f).unwrap().integral_basis());
+    /// // 6 divides the discriminant but is not prime
+    /// let bad = [Natural::from(6u32)];
+    /// let e = NumberField::with_known_primes(&f, &bad, &FactorLimits::default()).unwrap_err();
+    /// assert_eq!(e.kind(), &twofold::ErrorKind::InvalidValue);
+    /// ```
+    pub fn with_known_primes(f: &[Integer], known: &[Natural], limits: &FactorLimits) -> Result<NumberField, Error> {
+        let g = Self::monic(f)?;
+        let d = poly::discriminant(&g);
+        let fac = crate::arith::factor_with_known_primes(&d, known, limits)?;
+        Self::build(g, d, &fac)
     }
 
     fn monic(f: &[Integer]) -> Result<Vec<Integer>, Error> {
@@ -176,30 +292,93 @@ impl NumberField {
     }
 
     /// The degree `n`.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// assert_eq!(NumberField::new(&z(&[-2, 0, 0, 1])).unwrap().degree(), 3);
+    /// assert_eq!(NumberField::new(&z(&[1, 0, 1])).unwrap().degree(), 2);
+    /// ```
     pub fn degree(&self) -> usize {
         self.n
     }
     /// The monic defining polynomial (constant term first).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // 2x^3 - 1 is stored monic: theta = 2x is a root of y^3 - 4 (hand computation)
+    /// let k = NumberField::new(&z(&[-1, 0, 0, 2])).unwrap();
+    /// assert_eq!(k.polynomial(), &z(&[-4, 0, 0, 1])[..]);
+    /// ```
     pub fn polynomial(&self) -> &[Integer] {
         &self.poly
     }
     /// The field discriminant `d_K`.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // x^2 + 3: disc(f) = -12, O = Z[(1 + sqrt -3)/2], d_K = -3 (hand computation)
+    /// let k = NumberField::new(&z(&[3, 0, 1])).unwrap();
+    /// assert_eq!(k.discriminant(), &Integer::from(-3));
+    /// ```
     pub fn discriminant(&self) -> &Integer {
         &self.disc
     }
     /// The discriminant of the defining polynomial, `d_K [O_K : Z[theta]]^2`.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // x^3 - 2: -27 * 2^2 = -108 (disc(x^3 + a x + b) = -4a^3 - 27b^2)
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap();
+    /// assert_eq!(k.polynomial_discriminant(), &Integer::from(-108));
+    /// ```
     pub fn polynomial_discriminant(&self) -> &Integer {
         &self.poly_disc
     }
     /// The primes dividing `d_K` (the ramified primes).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// use malachite::Natural;
+    /// // d_K = -108 for x^3 - 2: 2 and 3 ramify (hand computation)
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap();
+    /// assert_eq!(k.ramified_primes(), &[Natural::from(2u32), Natural::from(3u32)]);
+    /// ```
     pub fn ramified_primes(&self) -> &[Natural] {
         &self.disc_primes
     }
     /// The index `[O_K : Z[theta]]`.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // x^2 + 3: [O : Z[sqrt -3]] = 2; x^3 - 2: Z[2^(1/3)] is maximal
+    /// assert_eq!(NumberField::new(&z(&[3, 0, 1])).unwrap().index(), 2);
+    /// assert_eq!(NumberField::new(&z(&[-2, 0, 0, 1])).unwrap().index(), 1);
+    /// ```
     pub fn index(&self) -> Integer {
         self.basis.index()
     }
     /// `(r1, r2)`: the numbers of real embeddings and of pairs of complex ones.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // x^3 - 2: one real root; x^3 - 3x + 1 (d = 81): three
+    /// assert_eq!(NumberField::new(&z(&[-2, 0, 0, 1])).unwrap().signature(), (1, 1));
+    /// assert_eq!(NumberField::new(&z(&[1, -3, 0, 1])).unwrap().signature(), (3, 0));
+    /// ```
     pub fn signature(&self) -> (usize, usize) {
         (self.r1, self.r2)
     }
@@ -222,15 +401,44 @@ impl NumberField {
     /// part positive) and an a-posteriori error bound `max_i n |f(z_i)/f'(z_i)|`
     /// (a disc of that radius about `z_i` holds a root; f64 rounding of the
     /// evaluation not included).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 1])).unwrap(); // x^2 - 2
+    /// let (roots, err) = k.roots();
+    /// assert_eq!(roots.len(), 2);
+    /// assert!(roots.iter().all(|r| (r.0 * r.0 - 2.0).abs() < 1e-12 && r.1 == 0.0));
+    /// assert!(err < 1e-10);
+    /// ```
     pub fn roots(&self) -> (&[(f64, f64)], f64) {
         (&self.roots, self.root_error)
     }
 
     /// The element with the given integer coordinates on the integral basis.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// let a = k.element(&z(&[3, 4])).unwrap(); // 3 + 4i
+    /// assert_eq!(k.norm(&a), Rational::from(25));
+    /// ```
     pub fn element(&self, coords: &[Integer]) -> Result<Element, Error> {
         self.fraction(coords, &Integer::ONE)
     }
     /// The element `(sum coords_i w_i) / den`.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// let a = k.fraction(&z(&[1, 1]), &Integer::from(2)).unwrap(); // (1 + i)/2
+    /// assert_eq!(k.norm(&a), Rational::from_signeds(1, 2));
+    /// ```
     pub fn fraction(&self, coords: &[Integer], den: &Integer) -> Result<Element, Error> {
         if coords.len() != self.n || *den == 0 {
             return Err(Error::new(ErrorKind::InvalidValue, "wrong number of coordinates or zero denominator"));
@@ -238,12 +446,31 @@ impl NumberField {
         Ok(Element::new_reduced(coords.to_vec(), den.clone()))
     }
     /// The rational number `q` as an element.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap();
+    /// // N(q) = q^n for rational q
+    /// assert_eq!(k.norm(&k.rational(&Rational::from(3))), Rational::from(27));
+    /// ```
     pub fn rational(&self, q: &Rational) -> Element {
         let mut c = vec![Integer::ZERO; self.n];
         c[0] = Integer::from(q.numerator_ref().clone()) * if *q < 0 { Integer::from(-1) } else { Integer::ONE };
         Element::new_reduced(c, Integer::from(q.denominator_ref().clone()))
     }
     /// The element with coordinates `c` on the power basis `1, theta, ...`.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-5, 0, 1])).unwrap(); // Q(sqrt 5)
+    /// let h = Rational::from_signeds(1, 2);
+    /// let phi = k.from_power_basis(&[h.clone(), h]).unwrap(); // (1 + sqrt 5)/2
+    /// assert_eq!((k.trace(&phi), k.norm(&phi)), (Rational::from(1), Rational::from(-1)));
+    /// ```
     pub fn from_power_basis(&self, c: &[Rational]) -> Result<Element, Error> {
         if c.len() != self.n {
             return Err(Error::new(ErrorKind::InvalidValue, "wrong number of coordinates"));
@@ -265,6 +492,15 @@ impl NumberField {
         Ok(Element::new_reduced(x.iter().map(|q| Integer::try_from(q * &l2q).unwrap_or_default()).collect(), Integer::from(l2)))
     }
     /// Coordinates of `a` on the power basis.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-5, 0, 1])).unwrap(); // Q(sqrt 5)
+    /// let c = vec![Rational::from_signeds(1, 2), Rational::from_signeds(1, 2)];
+    /// assert_eq!(k.to_power_basis(&k.from_power_basis(&c).unwrap()), c);
+    /// ```
     pub fn to_power_basis(&self, a: &Element) -> Vec<Rational> {
         let mut v = vec![Integer::ZERO; self.n];
         for (i, c) in a.coords.iter().enumerate() {
@@ -276,28 +512,74 @@ impl NumberField {
         v.into_iter().map(|x| Rational::from_integers(x, d.clone())).collect()
     }
     /// The generator `theta` (a root of the monic defining polynomial).
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap();
+    /// let t = k.generator(); // 2^(1/3)
+    /// assert_eq!(k.pow(&t, 3).unwrap(), k.rational(&Rational::from(2)));
+    /// ```
     pub fn generator(&self) -> Element {
         let mut c = vec![Rational::ZERO; self.n];
         c[1] = Rational::ONE;
         self.from_power_basis(&c).unwrap_or_else(|_| self.one())
     }
     /// The unit element.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap();
+    /// let t = k.generator();
+    /// assert_eq!(k.mul(&k.one(), &t), t);
+    /// assert_eq!(k.norm(&k.one()), Rational::from(1));
+    /// ```
     pub fn one(&self) -> Element {
         self.rational(&Rational::ONE)
     }
 
     /// `a + b`.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// let (a, b) = (k.element(&z(&[1, 1])).unwrap(), k.element(&z(&[1, -1])).unwrap());
+    /// assert_eq!(k.add(&a, &b), k.rational(&Rational::from(2))); // (1 + i) + (1 - i)
+    /// ```
     pub fn add(&self, a: &Element, b: &Element) -> Element {
         let c = a.coords.iter().zip(&b.coords).map(|(x, y)| x * &b.den + y * &a.den).collect();
         Element::new_reduced(c, &a.den * &b.den)
     }
     /// `a - b`.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// let (a, b) = (k.element(&z(&[1, 1])).unwrap(), k.element(&z(&[1, -1])).unwrap());
+    /// assert_eq!(k.sub(&a, &b), k.element(&z(&[0, 2])).unwrap()); // 2i
+    /// ```
     pub fn sub(&self, a: &Element, b: &Element) -> Element {
         let c = a.coords.iter().zip(&b.coords).map(|(x, y)| x * &b.den - y * &a.den).collect();
         Element::new_reduced(c, &a.den * &b.den)
     }
     /// `a b`, by the multiplication table of the integral basis (`n^3`
     /// multiplications of integers).
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// let (a, b) = (k.element(&z(&[1, 1])).unwrap(), k.element(&z(&[1, -1])).unwrap());
+    /// assert_eq!(k.mul(&a, &b), k.rational(&Rational::from(2))); // (1 + i)(1 - i)
+    /// ```
     pub fn mul(&self, a: &Element, b: &Element) -> Element {
         let n = self.n;
         let mut r = vec![Integer::ZERO; n];
@@ -320,6 +602,16 @@ impl NumberField {
         Element::new_reduced(r, &a.den * &b.den)
     }
     /// `a^e` for `e >= 0`, or `a^e` with `e < 0` when `a != 0`.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// let a = k.element(&z(&[1, 1])).unwrap();
+    /// assert_eq!(k.pow(&a, 4).unwrap(), k.rational(&Rational::from(-4))); // (1 + i)^4 = (2i)^2
+    /// assert_eq!(k.pow(&a, -1).unwrap(), k.fraction(&z(&[1, -1]), &Integer::from(2)).unwrap());
+    /// ```
     pub fn pow(&self, a: &Element, e: i64) -> Result<Element, Error> {
         let mut base = if e < 0 { self.inv(a).ok_or_else(|| Error::new(ErrorKind::InvalidValue, "zero to a negative power"))? } else { a.clone() };
         let mut e = e.unsigned_abs();
@@ -353,6 +645,16 @@ impl NumberField {
         }).collect()
     }
     /// The inverse `1/a`, `None` for zero (a rational linear solve).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// let a = k.element(&z(&[2, 1])).unwrap();
+    /// assert_eq!(k.inv(&a), Some(k.fraction(&z(&[2, -1]), &Integer::from(5)).unwrap())); // (2 - i)/5
+    /// assert_eq!(k.inv(&k.sub(&a, &a)), None);
+    /// ```
     pub fn inv(&self, a: &Element) -> Option<Element> {
         if a.is_zero() {
             return None;
@@ -389,6 +691,15 @@ impl NumberField {
         det(&self.mult_matrix(a))
     }
     /// The trace `Tr_{K/Q}(a)`.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap(); // x^3 - 2
+    /// assert_eq!(k.trace(&k.generator()), Rational::from(0)); // minus the x^2 coefficient
+    /// assert_eq!(k.trace(&k.one()), Rational::from(3));
+    /// ```
     pub fn trace(&self, a: &Element) -> Rational {
         let t = a.coords.iter().zip(&self.traces).fold(Integer::ZERO, |s, (x, y)| s + x * y);
         Rational::from_integers(t, a.den.clone())
@@ -437,6 +748,18 @@ impl NumberField {
     /// r2 complex ones (one of each pair). Accuracy: that of the roots
     /// ([`NumberField::roots`]) times the derivative of `a` in `theta`, plus
     /// f64 rounding; these values are numerical, not proven.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i): no real place, one complex
+    /// let e = k.embeddings(&k.generator());
+    /// assert_eq!(e.len(), 1);
+    /// assert!(e[0].0.abs() < 1e-12 && (e[0].1.abs() - 1.0).abs() < 1e-12);
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap(); // the real place first
+    /// assert!((k.embeddings(&k.generator())[0].0 - 2f64.cbrt()).abs() < 1e-12);
+    /// ```
     pub fn embeddings(&self, a: &Element) -> Vec<(f64, f64)> {
         let c: Vec<f64> = self.to_power_basis(a).iter().map(rat_f64).collect();
         self.roots.iter().map(|&(re, im)| {
@@ -452,6 +775,17 @@ impl NumberField {
     }
     /// The logarithmic embedding `(log|sigma_i(a)|^{e_i})`, `e_i = 1` for
     /// real and 2 for complex places; it sums to `log |N(a)|`.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 1])).unwrap(); // Q(sqrt 2)
+    /// let u = k.add(&k.one(), &k.generator()); // 1 + sqrt 2, a unit: the logs sum to 0
+    /// let l = k.log_embedding(&u);
+    /// assert!((l[0] + l[1]).abs() < 1e-12);
+    /// assert!((l[0].abs() - 0.881_373_587_019_543).abs() < 1e-12); // asinh(1) = log(1 + sqrt 2)
+    /// ```
     pub fn log_embedding(&self, a: &Element) -> Vec<f64> {
         self.embeddings(a).iter().enumerate().map(|(i, &(re, im))| {
             let m = (re * re + im * im).ln() / 2.0;

@@ -23,6 +23,17 @@ use malachite::{Integer, Natural, Rational};
 /// A non-zero fractional ideal: the Z-span of the rows of `hnf` (integer
 /// coordinates on the integral basis, lower-triangular Hermite normal
 /// form) divided by the positive integer `den`, in lowest terms.
+///
+/// ```
+/// use malachite::{Integer, Rational};
+/// use twofold::numfield::NumberField;
+/// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+/// let k = NumberField::new(&z(&[5, 0, 1])).unwrap(); // Q(sqrt -5)
+/// // P = (2, 1 + sqrt -5): N(P) = 2, P^2 = (2), not principal (x^2 + 5y^2 = 2 has no solution)
+/// let p = k.ideal_from_generators(&[k.rational(&Rational::from(2)), k.element(&z(&[1, 1])).unwrap()]).unwrap();
+/// assert_eq!(p.norm(), Rational::from(2));
+/// assert_eq!(k.ideal_pow(&p, 2).unwrap(), k.principal_ideal(&k.rational(&Rational::from(2))).unwrap());
+/// ```
 #[derive(Clone, Debug, PartialEq, Eq, Hash)]
 pub struct Ideal {
     hnf: Vec<Vec<Integer>>,
@@ -31,18 +42,57 @@ pub struct Ideal {
 
 impl Ideal {
     /// The HNF rows of the numerator lattice.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i), basis 1, i
+    /// let two = k.principal_ideal(&k.rational(&Rational::from(2))).unwrap();
+    /// assert_eq!(two.hnf(), &[z(&[2, 0]), z(&[0, 2])][..]);
+    /// ```
     pub fn hnf(&self) -> &[Vec<Integer>] {
         &self.hnf
     }
     /// The denominator.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// let half = k.principal_ideal(&k.rational(&Rational::from_signeds(1, 2))).unwrap(); // (1/2)
+    /// assert_eq!(half.den(), &Integer::from(2));
+    /// assert_eq!(half.hnf(), &[z(&[1, 0]), z(&[0, 1])][..]);
+    /// ```
     pub fn den(&self) -> &Integer {
         &self.den
     }
     /// Whether the ideal is integral (contained in the maximal order).
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// assert!(k.unit_ideal().is_integral());
+    /// assert!(!k.principal_ideal(&k.rational(&Rational::from_signeds(1, 2))).unwrap().is_integral());
+    /// ```
     pub fn is_integral(&self) -> bool {
         self.den == 1
     }
     /// The norm `[O : I]` (a rational number for fractional ideals).
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// let p = k.principal_ideal(&k.element(&z(&[1, 1])).unwrap()).unwrap(); // (1 + i)
+    /// assert_eq!(p.norm(), Rational::from(2));
+    /// let half = k.principal_ideal(&k.rational(&Rational::from_signeds(1, 2))).unwrap();
+    /// assert_eq!(half.norm(), Rational::from_signeds(1, 4));
+    /// ```
     pub fn norm(&self) -> Rational {
         let n = self.hnf.len() as u64;
         let d = self.hnf.iter().enumerate().fold(Integer::ONE, |a, (i, r)| a * &r[i]);
@@ -54,10 +104,28 @@ impl Ideal {
     }
     /// The least positive rational in the ideal times... for integral
     /// ideals, the positive generator of `I ∩ Z` (the "minimum").
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap(); // Q(sqrt -5)
+    /// let p = &k.primes_above(3).unwrap()[0].ideal; // a prime of norm 3: P ∩ Z = 3Z
+    /// assert_eq!(p.minimum(), Rational::from(3));
+    /// ```
     pub fn minimum(&self) -> Rational {
         Rational::from_integers(self.hnf[0][0].clone(), self.den.clone())
     }
     /// The Z-basis as elements.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// let two = k.principal_ideal(&k.rational(&Rational::from(2))).unwrap();
+    /// assert_eq!(two.basis(&k), vec![k.rational(&Rational::from(2)), k.element(&z(&[0, 2])).unwrap()]);
+    /// ```
     pub fn basis(&self, k: &NumberField) -> Vec<Element> {
         self.hnf.iter().map(|r| k.fraction(r, &self.den).unwrap_or_else(|_| k.one())).collect()
     }
@@ -79,6 +147,17 @@ impl Ideal {
 /// A prime ideal `P` above `p`: ramification index `e`, residue degree `f`,
 /// the two-element form `P = pO + gen O`, and an element `anti` with
 /// `anti P ⊂ pO`, `anti ∉ pO` used for valuations.
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::numfield::NumberField;
+/// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+/// // 5 = (2 + i)(2 - i) splits in Q(i): two primes with e = f = 1
+/// let k = NumberField::new(&z(&[1, 0, 1])).unwrap();
+/// let ps = k.primes_above(5).unwrap();
+/// assert_eq!(ps.iter().map(|p| (p.p, p.e, p.f)).collect::<Vec<_>>(), vec![(5, 1, 1), (5, 1, 1)]);
+/// assert!(ps.iter().all(|p| k.ideal_contains(&p.ideal, &p.gen)));
+/// ```
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[non_exhaustive]
 pub struct PrimeIdeal {
@@ -97,6 +176,15 @@ pub struct PrimeIdeal {
 
 impl PrimeIdeal {
     /// `N(P) = p^f` (as u128; fields here have degree at most 3).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // 3 is inert in Q(i) (3 = 3 mod 4): one prime of norm 9
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap();
+    /// assert_eq!(k.primes_above(3).unwrap()[0].norm(), 9);
+    /// ```
     pub fn norm(&self) -> u128 {
         (self.p as u128).pow(self.f)
     }
@@ -116,6 +204,17 @@ impl NumberField {
     }
 
     /// The unit ideal `O`.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap();
+    /// let o = k.unit_ideal();
+    /// assert_eq!(o.norm(), Rational::from(1));
+    /// let p = &k.primes_above(2).unwrap()[0].ideal;
+    /// assert_eq!(&k.ideal_product(p, &o).unwrap(), p);
+    /// ```
     pub fn unit_ideal(&self) -> Ideal {
         let n = self.n;
         Ideal { hnf: (0..n).map(|i| (0..n).map(|j| Integer::from(u8::from(i == j))).collect()).collect(), den: Integer::ONE }
@@ -141,6 +240,16 @@ impl NumberField {
     }
 
     /// The ideal generated (as an O-module) by the given elements.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// // (2, 1 + i) = (1 + i), since 2 = -i (1 + i)^2
+    /// let i = k.ideal_from_generators(&[k.rational(&Rational::from(2)), k.element(&z(&[1, 1])).unwrap()]).unwrap();
+    /// assert_eq!(i, k.principal_ideal(&k.element(&z(&[1, 1])).unwrap()).unwrap());
+    /// ```
     pub fn ideal_from_generators(&self, gens: &[Element]) -> Result<Ideal, Error> {
         let mut acc: Option<Ideal> = None;
         for g in gens {
@@ -301,6 +410,17 @@ impl NumberField {
     }
 
     /// `I^e` for any integer `e` (square and multiply; negative powers via the inverse).
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap(); // Q(sqrt -5)
+    /// let p = &k.primes_above(2).unwrap()[0].ideal; // P^2 = (2)
+    /// assert_eq!(k.ideal_pow(p, 2).unwrap(), k.principal_ideal(&k.rational(&Rational::from(2))).unwrap());
+    /// assert_eq!(k.ideal_pow(p, -3).unwrap().norm(), Rational::from_signeds(1, 8));
+    /// assert_eq!(k.ideal_pow(p, 0).unwrap(), k.unit_ideal());
+    /// ```
     pub fn ideal_pow(&self, a: &Ideal, e: i64) -> Result<Ideal, Error> {
         let mut base = if e < 0 { self.ideal_inverse(a)? } else { a.clone() };
         let mut e = e.unsigned_abs();
@@ -318,6 +438,17 @@ impl NumberField {
     }
 
     /// Whether `a` lies in the ideal.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i)
+    /// let p = k.principal_ideal(&k.element(&z(&[1, 1])).unwrap()).unwrap(); // (1 + i)
+    /// assert!(k.ideal_contains(&p, &k.rational(&Rational::from(2))));
+    /// assert!(k.ideal_contains(&p, &k.element(&z(&[3, 5])).unwrap())); // 3 + 5i = (1 + i)(4 + i)
+    /// assert!(!k.ideal_contains(&p, &k.one()));
+    /// ```
     pub fn ideal_contains(&self, i: &Ideal, a: &Element) -> bool {
         // a = c / d in I = L / e  <=>  c e / d in L
         let v: Vec<Rational> = a.coords().iter().map(|c| Rational::from_integers(c * &i.den, a.den().clone())).collect();
@@ -454,6 +585,19 @@ impl NumberField {
 
     /// Kummer-Dedekind: `f = prod g_i^e_i mod p` gives `P_i = pO + g_i(theta)O`,
     /// valid when `p` does not divide the index (Cohen GTM 138, Thm 4.8.13).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // x^3 - 2 = (x - 3)(x^2 + 3x + 9) mod 5 (3^3 = 27 = 2 mod 5): f = 1 and 2
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap();
+    /// let mut f: Vec<u32> = k.primes_above_kummer(5).unwrap().iter().map(|p| p.f).collect();
+    /// f.sort();
+    /// assert_eq!(f, vec![1, 2]);
+    /// // x^2 + 3: 2 divides the index [O : Z[sqrt -3]] = 2, Kummer-Dedekind does not apply
+    /// assert!(NumberField::new(&z(&[3, 0, 1])).unwrap().primes_above_kummer(2).is_err());
+    /// ```
     pub fn primes_above_kummer(&self, p: u64) -> Result<Vec<PrimeIdeal>, Error> {
         if mod_word(&self.index(), p) == 0 {
             return Err(Error::new(ErrorKind::InvalidValue, "p divides the index: Kummer-Dedekind does not apply"));
@@ -482,6 +626,17 @@ impl NumberField {
     /// The decomposition for any `p`: primitive idempotents of `O/pO` from
     /// the split subalgebra `{x : x^p = x}`, then `P_i = rad_p + (1 - e_i)O`,
     /// `f_i` from the norm, `e_i = v_{P_i}(p)`.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// // Dedekind's field x^3 - x^2 - 2x - 8: 2 divides the index of every
+    /// // Z[alpha] yet splits completely (Cohen GTM 138, §6.1, from memory)
+    /// let k = NumberField::new(&z(&[-8, -2, -1, 1])).unwrap();
+    /// let ps = k.primes_above_general(2).unwrap();
+    /// assert_eq!(ps.iter().map(|p| (p.e, p.f)).collect::<Vec<_>>(), vec![(1, 1); 3]);
+    /// ```
     pub fn primes_above_general(&self, p: u64) -> Result<Vec<PrimeIdeal>, Error> {
         let n = self.n;
         let tp = table_mod_p(&self.table, p);
@@ -645,6 +800,16 @@ impl NumberField {
     }
 
     /// `v_P(I)`: the least valuation of a Z-basis element.
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[1, 0, 1])).unwrap(); // Q(i): (2) = (1 + i)^2
+    /// let p = &k.primes_above(2).unwrap()[0];
+    /// let eight = k.principal_ideal(&k.rational(&Rational::from(8))).unwrap();
+    /// assert_eq!(k.ideal_valuation(&eight, p).unwrap(), 6);
+    /// ```
     pub fn ideal_valuation(&self, i: &Ideal, pr: &PrimeIdeal) -> Result<i64, Error> {
         let mut best: Option<i64> = None;
         for r in &i.hnf {
@@ -667,6 +832,19 @@ impl NumberField {
 
     /// The factorisation of a fractional ideal into prime ideals (factoring
     /// its norm's numerator and denominator within `limits`).
+    ///
+    /// ```
+    /// use malachite::{Integer, Rational};
+    /// use twofold::numfield::NumberField;
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// use twofold::arith::FactorLimits;
+    /// // (6) = P2^2 P3 P3' in Q(sqrt -5) (2 ramifies, 3 splits: -5 = 1 mod 3)
+    /// let k = NumberField::new(&z(&[5, 0, 1])).unwrap();
+    /// let six = k.principal_ideal(&k.rational(&Rational::from(6))).unwrap();
+    /// let mut fac: Vec<(u64, i64)> = k.factor_ideal(&six, &FactorLimits::default()).unwrap().iter().map(|(p, e)| (p.p, *e)).collect();
+    /// fac.sort();
+    /// assert_eq!(fac, vec![(2, 2), (3, 1), (3, 1)]);
+    /// ```
     pub fn factor_ideal(&self, i: &Ideal, limits: &FactorLimits) -> Result<Vec<(PrimeIdeal, i64)>, Error> {
         let nrm = i.norm();
         let mut primes: Vec<Natural> = Vec::new();

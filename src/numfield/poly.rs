@@ -25,6 +25,15 @@ fn zero_free(f: &[Integer]) -> Vec<Integer> {
 }
 
 /// Degree of a polynomial (`None` for the zero polynomial).
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::numfield::poly;
+/// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+/// assert_eq!(poly::degree(&z(&[-2, 0, 0, 1])), Some(3));
+/// assert_eq!(poly::degree(&z(&[5, 0, 0])), Some(0)); // trailing zeros do not count
+/// assert_eq!(poly::degree(&z(&[0, 0])), None);
+/// ```
 pub fn degree(f: &[Integer]) -> Option<usize> {
     zero_free(f).len().checked_sub(1)
 }
@@ -46,6 +55,13 @@ pub fn eval(f: &[Integer], x: &Integer) -> Integer {
 }
 
 /// The derivative `f'`.
+///
+/// ```
+/// use malachite::Integer;
+/// use twofold::numfield::poly;
+/// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+/// assert_eq!(poly::derivative(&z(&[1, -3, 0, 1])), z(&[-3, 0, 3])); // (x^3 - 3x + 1)' = 3x^2 - 3
+/// ```
 pub fn derivative(f: &[Integer]) -> Vec<Integer> {
     f.iter().enumerate().skip(1).map(|(i, c)| c * Integer::from(i)).collect()
 }

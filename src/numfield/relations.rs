@@ -1847,6 +1847,173 @@ mod sieve_tests {
         NumberField::new(&f.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>()).unwrap()
     }
 
+    /// The law of issue 14 "every relation found factors over the factor
+    /// base", checked independently of the search's own bookkeeping. For
+    /// each field a class group is run to the end (its bounds and route
+    /// known), then its relation search is replayed with those bounds (the
+    /// search is deterministic: the same seed and calls give the same
+    /// relations; the run itself is not recorded, as the crate keeps no
+    /// hidden per-thread state): on the kernel route the free relations, the
+    /// line sieve's `kfb + 24` relations and targeted rounds at the columns
+    /// they missed, on the echelon route the first 60 rounds. Each relation
+    /// is rebuilt as an element from its exponents, its norm computed
+    /// exactly and trial-divided by the primes below the columns (the
+    /// cofactor of numerator and denominator must be 1), and the valuation
+    /// vector the search recorded compared with the exact valuations
+    /// (`NumberField::valuation`) at every column; the prime ideals above
+    /// those primes that are not columns must have valuation 0, and
+    /// `v_p(N) = sum f_P v_P` (the norm of ideals is multiplicative, Cohen
+    /// GTM 138, Proposition 4.8.6 / Theorem 4.8.5). Fields: imaginary and
+    /// real quadratic, complex and totally real cubic, `abs(d)` from 1e10
+    /// to 1e20.
+    #[test]
+    fn relations_of_class_group_runs_factor_over_the_factor_base() {
+        use super::super::classgroup::{ClassGroupOptions, Route, KERNEL_ROUTE_DIGITS};
+        use malachite::base::num::arithmetic::traits::DivisibleBy;
+        use malachite::Natural;
+        let cases: [(&[i64], Route); 8] = [
+            (&[2500000001, 0, 1], Route::Auto), // x^2 + 2500000001, d about -1e10
+            (&[-10000000019, 0, 1], Route::Auto), // x^2 - 10000000019, d about 4e10
+            (&[56789, 1234, 0, 1], Route::Echelon), // d = -94591067683
+            (&[56789, 1234, 0, 1], Route::Kernel),
+            (&[1, -3000, 0, 1], Route::Auto), // three real roots, d about 1.1e11
+            (&[1234567891, 2345678, 0, 1], Route::Auto), // d about -9.3e19
+            (&[9876541, 123457, 0, 1], Route::Echelon), // d about -1.0e16
+            (&[1, -3000000, 0, 1], Route::Auto), // three real roots, d about 1.1e20
+        ];
+        for (f, route) in cases {
+            let k = field(f);
+            let mut opts = ClassGroupOptions::default()
+                .with_deadline(std::time::Instant::now() + std::time::Duration::from_secs(120));
+            opts.route = route;
+            let cg = k
+                .class_group(&opts)
+                .unwrap_or_else(|e| panic!("{f:?}: {e}"));
+            let kernel = match route {
+                Route::Kernel => true,
+                Route::Echelon => false,
+                Route::Auto => ln_abs(&k.disc) / std::f64::consts::LN_10 >= KERNEL_ROUTE_DIGITS,
+            };
+            // the replay
+            let stop = || false;
+            let mut rs =
+                RelationSearch::new(&k, cg.bound, cg.generation_bound, &[], &stop).unwrap();
+            let kfb = rs.fb.len();
+            let mut rels: Vec<Found> = Vec::new();
+            let mut found: Vec<Found> = Vec::new();
+            if kernel {
+                rs.primitive_only = true;
+                for p in rs.column_primes() {
+                    rels.extend(rs.free_relation(p).unwrap());
+                }
+                rs.sieve_collect(kfb + 24, &stop, &mut found).unwrap();
+                rels.append(&mut found);
+                let missed: Vec<usize> = (0..kfb)
+                    .filter(|&j| rels.iter().all(|r| r.v[j] == 0))
+                    .take(20)
+                    .collect();
+                for j in missed {
+                    rs.targeted_round(j, 1, &stop, "test", &mut found).unwrap();
+                    rels.append(&mut found);
+                }
+            } else {
+                for round in 1..=60 {
+                    rs.round(round, usize::MAX, &stop, "test", &mut found)
+                        .unwrap();
+                    rels.append(&mut found);
+                }
+            }
+            let columns = &rs.fb;
+            // the rational primes below the columns and every prime ideal above them
+            let mut ps: Vec<u64> = columns.iter().map(|q| q.p).collect();
+            ps.sort_unstable();
+            ps.dedup();
+            let above: HashMap<u64, Vec<PrimeIdeal>> = ps
+                .iter()
+                .map(|&p| (p, k.primes_above(p).unwrap()))
+                .collect();
+            // each column is one of the prime ideals above its prime
+            for q in columns {
+                assert!(
+                    above[&q.p].iter().any(|r| r.ideal == q.ideal),
+                    "{f:?}: column above {} not among the primes above it",
+                    q.p
+                );
+            }
+            for rel in &rels {
+                let mut a = k.one();
+                for &(i, x) in &rel.exps {
+                    a = k.mul(&a, &k.pow(&rs.elems[i], x).unwrap());
+                }
+                let v = &rel.v;
+                assert_eq!(v.len(), columns.len(), "{f:?}");
+                let norm = k.norm(&a);
+                let (mut num, mut den) =
+                    (norm.numerator_ref().clone(), norm.denominator_ref().clone());
+                let mut vp_norm: HashMap<u64, i64> = HashMap::new();
+                for &p in &ps {
+                    let pn = Natural::from(p);
+                    let mut e = 0i64;
+                    while (&num).divisible_by(&pn) {
+                        num /= &pn;
+                        e += 1;
+                    }
+                    while (&den).divisible_by(&pn) {
+                        den /= &pn;
+                        e -= 1;
+                    }
+                    vp_norm.insert(p, e);
+                }
+                assert!(
+                    num == 1u32 && den == 1u32,
+                    "{f:?}: N(a) = {norm} has the cofactor {num}/{den} outside the factor base"
+                );
+                // exact valuations at the columns; zero at the other prime
+                // ideals above the same primes
+                let integral = a.is_integral();
+                let mut sum: HashMap<u64, i64> = HashMap::new();
+                for (j, q) in columns.iter().enumerate() {
+                    let exact = if integral && vp_norm[&q.p] == 0 {
+                        0
+                    } else {
+                        k.valuation(&a, q).unwrap()
+                    };
+                    assert_eq!(
+                        exact, v[j],
+                        "{f:?}: v_P(a) at a column above {} against the recorded valuation",
+                        q.p
+                    );
+                    *sum.entry(q.p).or_insert(0) += i64::from(q.f) * exact;
+                }
+                for &p in &ps {
+                    let mut s = sum[&p];
+                    for r in &above[&p] {
+                        if columns.iter().any(|q| q.ideal == r.ideal) {
+                            continue;
+                        }
+                        let x = if integral && vp_norm[&p] == 0 {
+                            0
+                        } else {
+                            k.valuation(&a, r).unwrap()
+                        };
+                        assert_eq!(
+                            x, 0,
+                            "{f:?}: a prime ideal above {p} outside the columns divides a relation"
+                        );
+                        s += i64::from(r.f) * x;
+                    }
+                    assert_eq!(s, vp_norm[&p], "{f:?}: v_{p}(N(a)) against sum f v_P");
+                }
+            }
+            eprintln!(
+                "{f:?} ({route:?}, kernel {kernel}): h = {}, {} relations re-factored",
+                cg.class_number,
+                rels.len()
+            );
+            assert!(rels.len() >= 10, "{f:?}: only {} relations", rels.len());
+        }
+    }
+
     #[test]
     fn line_valuations_agree_with_exact_valuations() {
         // two ways: valuations of a + b theta read off its norm against the

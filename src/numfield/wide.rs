@@ -39,17 +39,47 @@ pub struct WideProduct {
 
 impl WideProduct {
     /// The product of the given factors.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::{NumberField, WideProduct};
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap(); // Q(2^(1/3))
+    /// let u = k.element(&z(&[-1, 1, 0])).unwrap(); // 2^(1/3) - 1, norm 1 (hand computation)
+    /// let p = WideProduct::new(vec![(u.clone(), Integer::from(2)), (k.generator(), Integer::from(-3))]);
+    /// assert_eq!(p.exponent_bits(), 2);
+    /// ```
     pub fn new(factors: Vec<(Element, Integer)>) -> WideProduct {
         WideProduct { factors }
     }
 
     /// The same product with word-size exponents, when they all fit.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::{NumberField, WideProduct};
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap(); // Q(2^(1/3))
+    /// let u = k.element(&z(&[-1, 1, 0])).unwrap(); // 2^(1/3) - 1, norm 1 (hand computation)
+    /// let p = WideProduct::new(vec![(u.clone(), Integer::from(5))]);
+    /// assert_eq!(p.to_compact().unwrap().factors, vec![(u, 5)]);
+    /// ```
     pub fn to_compact(&self) -> Option<CompactProduct> {
         let factors = self.factors.iter().map(|(b, e)| Some((b.clone(), i64::try_from(e).ok()?))).collect::<Option<Vec<_>>>()?;
         Some(CompactProduct { factors })
     }
 
     /// The largest `|exp_i|` in bits.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::{NumberField, WideProduct};
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap(); // Q(2^(1/3))
+    /// let u = k.element(&z(&[-1, 1, 0])).unwrap(); // 2^(1/3) - 1, norm 1 (hand computation)
+    /// let p = WideProduct::new(vec![(u, Integer::from(-1000))]);
+    /// assert_eq!(p.exponent_bits(), 10); // 1000 < 2^10
+    /// ```
     pub fn exponent_bits(&self) -> u64 {
         use malachite::base::num::logic::traits::SignificantBits;
         self.factors.iter().map(|(_, e)| e.significant_bits()).max().unwrap_or(0)
@@ -58,6 +88,18 @@ impl WideProduct {
     /// The logarithmic embedding `sum exp_i Log(base_i)`, accurate to
     /// about `1e-15` relative to the largest term (the logs are taken at
     /// the precision the exponents need).
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::{NumberField, WideProduct};
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap(); // Q(2^(1/3))
+    /// let u = k.element(&z(&[-1, 1, 0])).unwrap(); // 2^(1/3) - 1, norm 1 (hand computation)
+    /// let p = WideProduct::new(vec![(u, Integer::from(3))]);
+    /// let l = p.log_embedding(&k); // real place, then the complex one (doubled): sum 0
+    /// assert!((l[0] - 3.0 * (2f64.cbrt() - 1.0).ln()).abs() < 1e-12);
+    /// assert!((l[0] + l[1]).abs() < 1e-12);
+    /// ```
     pub fn log_embedding(&self, k: &NumberField) -> Vec<f64> {
         let elems: Vec<Element> = self.factors.iter().map(|(b, _)| b.clone()).collect();
         let exps: Vec<(usize, Integer)> = self.factors.iter().enumerate().map(|(i, (_, e))| (i, e.clone())).collect();
@@ -72,6 +114,20 @@ impl WideProduct {
     /// Whether the norm of the product is `1` or `-1`, decided exactly:
     /// the factors' norms are split over a coprime base and the exponent
     /// of every base element must sum to zero.
+    ///
+    /// ```
+    /// use malachite::Integer;
+    /// use twofold::numfield::{NumberField, WideProduct};
+    /// let z = |v: &[i64]| v.iter().map(|&c| Integer::from(c)).collect::<Vec<_>>();
+    /// let k = NumberField::new(&z(&[-2, 0, 0, 1])).unwrap(); // Q(2^(1/3))
+    /// let u = k.element(&z(&[-1, 1, 0])).unwrap(); // 2^(1/3) - 1, norm 1 (hand computation)
+    /// assert!(WideProduct::new(vec![(u.clone(), Integer::from(7))]).is_unit(&k));
+    /// // 2^(1/3) has norm 2: not a unit, but its cube over 2 is
+    /// let t = k.generator();
+    /// assert!(!WideProduct::new(vec![(t.clone(), Integer::from(1))]).is_unit(&k));
+    /// let two = k.add(&k.one(), &k.one());
+    /// assert!(WideProduct::new(vec![(t, Integer::from(3)), (two, Integer::from(-1))]).is_unit(&k));
+    /// ```
     pub fn is_unit(&self, k: &NumberField) -> bool {
         let norms: Vec<(Natural, Natural)> = self.factors.iter().map(|(b, _)| {
             let n = k.norm(b);

@@ -16,7 +16,7 @@ use super::primality::is_probable_prime;
 use super::siqs::{SiqsSplitter, SIQS_MAX_BITS};
 use super::word::{gcd_u64, is_prime_u64, primes_up_to};
 use crate::{Error, ErrorKind};
-use malachite::base::num::arithmetic::traits::{CheckedRoot, Gcd, ModInverse, Pow, UnsignedAbs};
+use malachite::base::num::arithmetic::traits::{CheckedRoot, DivisibleBy, Gcd, ModInverse, Pow, UnsignedAbs};
 use malachite::base::num::basic::traits::One;
 use malachite::base::num::conversion::traits::SaturatingFrom;
 use malachite::base::num::logic::traits::SignificantBits;
@@ -325,6 +325,52 @@ pub(crate) fn factor_with(
     let factors: Vec<(Natural, u32)> = found.into_iter().collect();
     let f = Factorization { sign, factors };
     verify(&f, n, &stop)?;
+    Ok(f)
+}
+
+/// Factor `n` using primes the caller already knows: `n` is divided by each
+/// of `known` that divides it (each such one must be prime: BPSW, a proof
+/// below 2^64, else [`ErrorKind::InvalidValue`]; above 2048 bits the test
+/// honours `limits`), and only the cofactor left
+/// over is factored, within `limits` ([`ErrorKind::FactorBudget`] when that
+/// fails). Primes of `known` that do not divide `n` are ignored.
+pub(crate) fn factor_with_known_primes(n: &Integer, known: &[Natural], limits: &FactorLimits) -> Result<Factorization, Error> {
+    if *n == 0 {
+        return Err(Error::new(ErrorKind::InvalidValue, "zero has no prime factorisation"));
+    }
+    let sign = if *n < 0 { -1 } else { 1 };
+    let mut rest = n.unsigned_abs();
+    let mut found: BTreeMap<Natural, u32> = BTreeMap::new();
+    for p in known {
+        if *p < 2u32 {
+            return Err(Error::new(ErrorKind::InvalidValue, "a known prime below 2"));
+        }
+        let mut e = 0u32;
+        while (&rest).divisible_by(p) {
+            rest /= p;
+            e += 1;
+        }
+        if e > 0 {
+            // below 2048 bits the test is unconditional and fast; above, it
+            // honours the limits (`FactorBudget`)
+            let stop = || Budget { limits }.stop();
+            match probable_prime_until(p, &stop) {
+                Some(true) => {}
+                Some(false) => return Err(Error::new(ErrorKind::InvalidValue, format!("the known factor {p} is not prime"))),
+                None => return Err(budget_error("deadline passed or cancelled while testing a known prime")),
+            }
+            *found.entry(p.clone()).or_insert(0) += e;
+        }
+    }
+    if rest > 1u32 {
+        for (p, e) in factor(&Integer::from(rest), limits)?.factors {
+            *found.entry(p).or_insert(0) += e;
+        }
+    }
+    let f = Factorization { sign, factors: found.into_iter().collect() };
+    if f.product() != *n {
+        return Err(Error::internal("factor_with_known_primes", "the product of the factors is not the input"));
+    }
     Ok(f)
 }
 

@@ -373,3 +373,39 @@ proptest! {
         prop_assert_eq!(got, factor_u64(n).unwrap());
     }
 }
+
+/// Two ways: the factorisation from known primes (some of the true primes,
+/// in any order, with strangers that do not divide) equals the plain one;
+/// a composite known factor that divides `n` is refused with
+/// `InvalidValue`; a spent deadline stops only a cofactor that needs work.
+#[test]
+fn known_primes_agree_with_plain_factoring() {
+    let mut state = 0x1234_5678_9abc_def0u64;
+    let mut next = || {
+        state = state.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+        state >> 33
+    };
+    for _ in 0..200 {
+        let n = Integer::from(next() + 2) * Integer::from(next() + 2) * Integer::from(next() % 1000 + 1);
+        let n = if next() % 2 == 0 { -n } else { n };
+        let plain = factor(&n, &lim()).unwrap();
+        let mut known: Vec<Natural> = plain.primes().filter(|_| next() % 2 == 0).cloned().collect();
+        known.push(Natural::from(1_000_003u32)); // may or may not divide
+        known.reverse();
+        let f = factor_with_known_primes(&n, &known, &lim()).unwrap();
+        assert_eq!(f, plain, "{n}");
+    }
+    // 2^2 3^3 5 7: 15 divides and is composite
+    let n = Integer::from(3780);
+    let e = factor_with_known_primes(&n, &[Natural::from(15u32)], &lim()).unwrap_err();
+    assert_eq!(*e.kind(), ErrorKind::InvalidValue);
+    // every prime known: no work left, a spent deadline does not matter
+    let spent = FactorLimits::default().with_deadline(Instant::now());
+    let known: Vec<Natural> = [2u32, 3, 5, 7].iter().map(|&p| Natural::from(p)).collect();
+    assert_eq!(factor_with_known_primes(&n, &known, &spent).unwrap().product(), n);
+    // (2^61 - 1)(2^31 - 1) with only 2^31 - 1 known: the Mersenne cofactor 2^61 - 1 is left
+    let m = Integer::from((1u64 << 61) - 1) * Integer::from((1u64 << 31) - 1);
+    let f = factor_with_known_primes(&m, &[Natural::from((1u32 << 31) - 1)], &lim()).unwrap();
+    assert_eq!(f.exponent(&Natural::from((1u64 << 61) - 1)), 1);
+    assert!(factor_with_known_primes(&Integer::from(0), &known, &lim()).is_err());
+}

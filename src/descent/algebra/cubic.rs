@@ -202,7 +202,10 @@ pub(super) fn cubic_field(cubic: [Integer; 3], s: Vec<Natural>, work: &Work) -> 
         .collect::<Result<_, _>>()?;
     let limits = FactorLimits::within(work);
     let poly = [cubic[0].clone(), cubic[1].clone(), cubic[2].clone(), Integer::ONE];
-    let k = NumberField::with_limits(&poly, &limits)?;
+    // disc(f) is 2^12 disc(E) times squares, so its primes are those of S
+    // (the curve's factored discriminant, `s_primes`): only a cofactor
+    // missed by S would be factored here
+    let k = NumberField::with_known_primes(&poly, &s, &limits)?;
     let ks = k.square_classes(&s_words, &grh_options(&k, work))?;
     let grh = ks.conditional_on_grh();
     let n = ks.dimension();

@@ -230,7 +230,7 @@ pub(crate) fn two_selmer_with_context(
         }
     }
     let torsion_points: Vec<Point> = torsion.points().iter().filter(|p| matches!(p, Point::Affine(..))).cloned().collect();
-    let s = s_primes(&cubic, &roots, primes)?;
+    let s = s_primes(&cubic, &roots, primes, work)?;
     let rational_roots: Vec<Rational> = roots.iter().cloned().map(Rational::from).collect();
     let (d, factors, explicit) = match roots.len() {
         3 => {
@@ -306,8 +306,12 @@ pub fn points_on_coverings(
 }
 
 /// `S`: 2 and the primes of `primes` that divide `disc(f)`; every prime of
-/// `disc(f)` must be listed.
-fn s_primes(cubic: &[Integer; 3], roots: &[Integer], primes: &[Natural]) -> Result<Vec<Natural>, Error> {
+/// `disc(f)` must be listed, and every listed number that divides it must
+/// be prime ([`ErrorKind::InvalidValue`] otherwise; the test honours
+/// `work` above 2048 bits). The fields of the
+/// descent are built from these primes (`NumberField::with_known_primes`),
+/// so `disc(f)` is never factored twice.
+fn s_primes(cubic: &[Integer; 3], roots: &[Integer], primes: &[Natural], work: &Work) -> Result<Vec<Natural>, Error> {
     let mut disc = Integer::ONE;
     if roots.len() == 3 {
         for (i, j) in [(0, 1), (0, 2), (1, 2)] {
@@ -334,6 +338,9 @@ fn s_primes(cubic: &[Integer; 3], roots: &[Integer], primes: &[Natural]) -> Resu
             divides = true;
         }
         if divides && *p != 2u32 {
+            if !crate::arith::is_probable_prime_within(p, &crate::arith::FactorLimits::within(work))? {
+                return Err(Error::new(ErrorKind::InvalidValue, format!("the listed bad prime {p} is not prime")));
+            }
             out.push(p.clone());
         }
     }

@@ -329,7 +329,8 @@ pub(super) fn rational_times_quadratic(cubic: [Integer; 3], e: Integer, s: Vec<N
         Some(m) => Integer::from(m),
         _ => return Err(Error::new(ErrorKind::InvalidValue, "a prime of disc(q) is missing from S")),
     };
-    let k = NumberField::with_limits(&[-d0.clone(), Integer::ZERO, Integer::ONE], &limits)?;
+    // disc(x^2 - D0) = 4 D0: its primes are 2 and those of S already
+    let k = NumberField::with_known_primes(&[-d0.clone(), Integer::ZERO, Integer::ONE], &s, &limits)?;
     let ks = k.square_classes(&s_words, &grh_options(&k, work))?;
     let grh = ks.bound_kind == FactorBaseBound::BachGrh;
     let n = ks.dimension();
