@@ -25,10 +25,10 @@
 //!   spread is at most `sqrt(2P)/a`, so `|b| <= 1.5 a + 3 sqrt(2 sqrt D)`.
 //!
 //! The count 832 below 2e4 equals the Hunter enumeration's
-//! (`numfield_real.rs`), and differs from the 830 recalled from memory as
-//! Godwin's count quoted by Shanks (Math. Comp. 28, 1974): two independent
-//! enumerations agree, so the recalled figure is wrong (or counts something
-//! else).
+//! (`numfield_real.rs`), two more than the 830 of the Godwin-Samet table
+//! quoted by Shanks (Math. Comp. 28, 1974, §1), a table Llorente and Quer
+//! (Math. Comp. 50, 1988, §1) call incomplete: two independent enumerations
+//! agree on the complete count.
 
 use malachite::Integer;
 use std::collections::BTreeSet;

@@ -440,15 +440,16 @@ fn totally_real_cubic_fields_with_class_number_four_or_more_checked_by_units() {
 fn totally_real_cubic_fields_to_26569_by_class_number() {
     // Every totally real cubic field up to 26569 = 163^2 (the cyclic field of
     // conductor 163 with h = 4 tested above), by Hunter's theorem. D. Shanks
-    // (Math. Comp. 28, 1974, §1) quotes Godwin's class numbers of the 830 totally
-    // real cubic fields below 2e4 (764 with h = 1) and that none exceeds 4 (as
-    // recalled by an earlier session; not re-read). Found here: 1131 fields, 832
+    // (Math. Comp. 28, 1974, §1) quotes the Godwin-Samet table of the 830 totally
+    // real cubic fields below 2e4 (764 with h = 1) and that none exceeds 4 (re-read
+    // in the fifteenth session). Found here: 1131 fields, 832
     // below 2e4 (766 with h = 1, 29 with 2, 34 with 3, 3 with 4), two fields of
     // class number 1 more than that quote; `assert_distinct_fields_with_integral_bases`
     // shows the 832 to be distinct fields of discriminant below 2e4 without the
     // library's sieve or maximal order, so 832 is a lower bound; tests/cubic_forms.rs
     // counts the same 832 (and the same class numbers) by binary cubic forms, a
-    // second enumeration, so the quote as recalled is wrong; no h > 4
+    // second enumeration: the Godwin-Samet table is incomplete, as Llorente and
+    // Quer (Math. Comp. 50, 1988, §1) say of it; no h > 4
     // below 2e4, in agreement with it. The first field with h = 4 is 8069, checked a second way
     // in `first_totally_real_cubic_field_with_class_number_four_is_8069`; every
     // field with h >= 4 found (8069, 16357, 19821, 20733 with h = 5, 21212 with
