@@ -93,12 +93,12 @@ fn small_matrices() -> Vec<(i64, i64, i64, i64)> {
 }
 
 /// The least form (lexicographic, either sign) among the reduced forms of
-/// the class of a reduced `f`.
-fn canonical(f: Form, mats: &[(i64, i64, i64, i64)]) -> Form {
+/// the class of a reduced `f`, for the reduction test `is_reduced`.
+fn canonical_by(f: Form, mats: &[(i64, i64, i64, i64)], is_reduced: fn(Form) -> bool) -> Form {
     let mut best: Option<Form> = None;
     for &g in mats {
         let h = act(f, g);
-        if !reduced(h) {
+        if h.0 == 0 || !is_reduced(h) {
             continue;
         }
         for s in [1, -1] {
@@ -201,7 +201,7 @@ fn fields_by_forms(x: i64) -> BTreeSet<(i64, Form)> {
                         continue;
                     }
                     if primes_with_square_dividing(dd).into_iter().all(|p| maximal_at(f, p)) {
-                        seen.insert((dd, canonical(f, &mats)));
+                        seen.insert((dd, canonical_by(f, &mats, reduced)));
                     }
                 }
             }
@@ -261,23 +261,6 @@ fn reduced_negative(f: Form) -> bool {
     b.abs() <= a + 1e-9 && a <= c + 1e-9
 }
 
-fn canonical_negative(f: Form, mats: &[(i64, i64, i64, i64)]) -> Form {
-    let mut best: Option<Form> = None;
-    for &g in mats {
-        let h = act(f, g);
-        if h.0 == 0 || !reduced_negative(h) {
-            continue;
-        }
-        for s in [1, -1] {
-            let k = (s * h.0, s * h.1, s * h.2, s * h.3);
-            if best.is_none_or(|b| k < b) {
-                best = Some(k);
-            }
-        }
-    }
-    best.expect("f itself is reduced")
-}
-
 /// One canonical maximal irreducible form per complex cubic field of
 /// discriminant `-x <= D < 0`, with `D`. Bounds derived here for a form whose
 /// complex root `s` has `(x - s y)(x - conj(s) y)` reduced (`abs(Re s) <= 1/2`,
@@ -310,7 +293,7 @@ fn complex_fields_by_forms(x: i64) -> BTreeSet<(i64, Form)> {
                     if !primes_with_square_dividing(-dd).into_iter().all(|p| maximal_at(f, p)) || !reduced_negative(f) {
                         continue;
                     }
-                    seen.insert((dd, canonical_negative(f, &mats)));
+                    seen.insert((dd, canonical_by(f, &mats, reduced_negative)));
                 }
             }
         }

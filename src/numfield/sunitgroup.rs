@@ -223,7 +223,7 @@ impl NumberField {
 }
 
 #[cfg(test)]
-mod tests {
+pub(super) mod tests {
     use super::*;
     use crate::arith::FactorLimits;
     use crate::numfield::linalg::{hnf, smith_invariants};
@@ -235,7 +235,7 @@ mod tests {
 
     /// Smith invariants of `Z^FB / (L + Z^S')` = `Cl_S`, from an independent
     /// class-group run (`class_group_with`, columns in factor-base order).
-    fn cl_s_invariants(k: &NumberField, s: &[u64]) -> (Integer, Vec<Integer>) {
+    pub(in crate::numfield) fn cl_s_invariants(k: &NumberField, s: &[u64]) -> (Integer, Vec<Integer>) {
         let cg = k
             .class_group_with(&ClassGroupOptions::default(), s)
             .unwrap();

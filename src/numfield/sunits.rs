@@ -521,7 +521,6 @@ impl NumberField {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::numfield::linalg::smith_invariants;
     use malachite::Integer;
     use malachite::base::num::arithmetic::traits::Mod;
 
@@ -541,20 +540,9 @@ mod tests {
             for s in [vec![], vec![2u64], vec![3], vec![2, 3], vec![5, 7]] {
                 // two routes: K(S,2) from relations mod 2, and the class group route
                 let ks = k.square_classes(&s, &ClassGroupOptions::default()).unwrap();
-                let cg = k.class_group_with(&ClassGroupOptions::default(), &s).unwrap();
-                assert_eq!(cg.class_number, h, "{f:?}");
                 // independent: Cl_S = Z^FB / (relations + S columns), its 2-rank by Smith form
-                let kfb = cg.factor_base.len();
-                let mut m: Vec<Vec<Integer>> = cg.echelon.clone();
-                for (j, q) in cg.factor_base.iter().enumerate() {
-                    if s.contains(&q.p) {
-                        let mut e = vec![Integer::from(0); kfb];
-                        e[j] = Integer::from(1);
-                        m.push(e);
-                    }
-                }
-                let h = crate::numfield::linalg::hnf(&m, kfb, None).unwrap();
-                let inv = smith_invariants(&h);
+                let (hk, inv) = crate::numfield::sunitgroup::tests::cl_s_invariants(&k, &s);
+                assert_eq!(hk, h, "{f:?}");
                 let two_rank = inv.iter().filter(|d| (*d).mod_op(Integer::from(2)) == 0).count();
                 let r = k.signature().0 + k.signature().1 - 1;
                 assert_eq!(ks.dimension(), r + 1 + ks.prime_ideals + two_rank, "{f:?} S={s:?}");
