@@ -1,5 +1,7 @@
 //! Search for rational points of small height: on quartics `y^2 = g(x, z)`
-//! (the 2-coverings met in a descent) and on Weierstrass curves.
+//! (the 2-coverings met in a descent), on Weierstrass curves, and on plane
+//! cubics (the coverings of a 3-descent; [`search_plane_cubic`], by lattice
+//! reduction, see its module).
 //!
 //! Both searches run a bit-parallel sieve: for a set of small moduli (the
 //! primes 11 to 61 and the prime powers 64, 27, 25, 49) a table gives, for
@@ -18,12 +20,14 @@
 //! the independent check in tests and benchmarks.
 
 mod curve;
+mod plane;
 mod quartic;
 mod sieve;
 #[cfg(test)]
 mod tests;
 
 pub use curve::{search_curve, search_curve_naive};
+pub use plane::{search_plane_cubic, search_plane_cubic_naive, PlanePoint, PLANE_MAX_HEIGHT};
 pub use quartic::{search_quartic, search_quartic_naive};
 pub(crate) use quartic::search_quartic_above;
 
@@ -134,7 +138,9 @@ pub struct SearchOutcome<P> {
     /// Every pair of height at most this was searched.
     pub height_reached: u64,
     /// The number of pairs `(x, z)` (or `(m, k)`) covered, counting those the
-    /// sieve discarded; the same for the sieve and the naive search.
+    /// sieve discarded; the same for the sieve and the naive search. For
+    /// plane cubics: the lattice points (or, in the plain search, the
+    /// triples) tested.
     pub candidates_tested: u64,
 }
 
