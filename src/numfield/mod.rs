@@ -129,3 +129,4 @@ pub use classgroup::{ClassGroup, ClassGroupOptions, CompactProduct, FactorBaseBo
 pub use sunits::SquareClasses;
 pub use sunitgroup::SUnitBasis;
 pub use wide::WideProduct;
+pub(crate) use precise::refined_roots as precise_roots;

@@ -153,7 +153,7 @@ pub(crate) fn ln_cached(x: &Float, prec: u64, ln2: &mut Option<(u64, Float)>) ->
 
 /// The roots of the field's polynomial (in the order of
 /// [`NumberField::roots`]) to `prec` bits, by Newton's method.
-fn refined_roots(k: &NumberField, prec: u64) -> Vec<Cx> {
+pub(crate) fn refined_roots(k: &NumberField, prec: u64) -> Vec<Cx> {
     let f: Vec<Float> = k.polynomial().iter().map(|c| fz(c, prec)).collect();
     let steps = (prec as f64 / 30.0).log2().ceil().max(1.0) as usize + 3;
     k.roots().0.iter().map(|&(re, im)| {
