@@ -43,6 +43,7 @@ use crate::numfield::{ClassGroupOptions, Element, NumberField};
 use crate::search::PlanePoint;
 use malachite::base::num::arithmetic::traits::{CheckedRoot, Gcd, Lcm, Mod};
 use malachite::base::num::basic::traits::{One, Zero};
+use malachite::base::num::logic::traits::SignificantBits;
 use malachite::{Float, Integer, Natural, Rational};
 
 /// The monomials of a ternary cubic in the order of its coefficients
@@ -338,6 +339,178 @@ impl SecondDescent {
         let (u, v) = (&wd * u, &wd * v);
         Some(if self.swapped { [v, u, wn] } else { [u, v, wn] })
     }
+}
+
+/// Points `(u, v, w)` of the binary covering `cov` found through the second
+/// descent: `C` is GL2-reduced, descended over its cubic field with `S` =
+/// `s_primes` and the primes of the reduced leading coefficient and of `m`
+/// (by trial division below `2^20`; refused if they do not factor so),
+/// each locally soluble plane cubic searched to `height`, and each point
+/// mapped back and checked on `cov`. Points with `w = 0` are dropped.
+pub(crate) fn binary_covering_points(cov: &BinaryCubicCovering, s_primes: &[u64], height: u64, work: &Work) -> Result<Vec<[Integer; 3]>, Error> {
+    let (reduced, t) = reduce_binary_cubic(&cov.c)?;
+    let mut s: Vec<u64> = s_primes.to_vec();
+    s.push(3);
+    for n in [&reduced[0], &cov.m] {
+        s.extend(small_prime_factors(n).ok_or_else(|| bad(ErrorKind::TooLarge, format!("{n} has a prime factor above 2^20")))?);
+    }
+    s.sort_unstable();
+    s.dedup();
+    let red = BinaryCubicCovering { c: reduced, m: cov.m.clone() };
+    let sd = second_descent(&red, &s, work)?;
+    let mut out = Vec::new();
+    for pc in &sd.coverings {
+        let limits = crate::search::SearchLimits::within(work, height);
+        let found = crate::search::search_plane_cubic(&pc.form, &limits)?;
+        for p in &found.points {
+            let Some([x, y, w]) = sd.binary_point(pc, p) else {
+                return Err(Error::internal("descent::cubic_second", "a point of a plane covering does not map to the binary covering"));
+            };
+            if w == 0 {
+                continue;
+            }
+            let u = &t[0][0] * &x + &t[0][1] * &y;
+            let v = &t[1][0] * &x + &t[1][1] * &y;
+            let c = &cov.c;
+            let lhs = &c[0] * &u * &u * &u + &c[1] * &u * &u * &v + &c[2] * &u * &v * &v + &c[3] * &v * &v * &v;
+            if lhs != &cov.m * &w * &w * &w {
+                return Err(Error::internal("descent::cubic_second", "a mapped point is not on the binary covering"));
+            }
+            out.push([u, v, w]);
+        }
+    }
+    Ok(out)
+}
+
+/// The prime factors of `n` if all are below `2^20`.
+fn small_prime_factors(n: &Integer) -> Option<Vec<u64>> {
+    let mut rest = n.unsigned_abs_ref().clone();
+    let mut out = Vec::new();
+    let mut p = 2u64;
+    while rest > 1u32 && p < 1 << 20 {
+        let pn = Natural::from(p);
+        if (&rest).mod_op(&pn) == 0u32 {
+            out.push(p);
+            while (&rest).mod_op(&pn) == 0u32 {
+                rest /= &pn;
+            }
+        }
+        p += 1;
+    }
+    (rest <= 1u32).then_some(out)
+}
+
+/// `C(T (x, y))` for a binary cubic `C` and a 2x2 matrix `T` (rows).
+pub(crate) fn substitute_binary(c: &[Integer; 4], t: &[[Integer; 2]; 2]) -> [Integer; 4] {
+    // (u, v) = (t00 x + t01 y, t10 x + t11 y); C = c0 u^3 + c1 u^2 v + c2 u v^2 + c3 v^3
+    let lin = |a: &Integer, b: &Integer| -> [Integer; 2] { [a.clone(), b.clone()] };
+    let u = lin(&t[0][0], &t[0][1]);
+    let v = lin(&t[1][0], &t[1][1]);
+    // product of linear forms as coefficient vectors in x^k y^(n-k), highest x first
+    let mul = |p: &[Integer], q: &[Integer; 2]| -> Vec<Integer> {
+        let mut out = vec![Integer::ZERO; p.len() + 1];
+        for (i, a) in p.iter().enumerate() {
+            out[i] += a * &q[0];
+            out[i + 1] += a * &q[1];
+        }
+        out
+    };
+    let one = [Integer::ONE];
+    let terms = [(3, 0), (2, 1), (1, 2), (0, 3)];
+    let mut out: [Integer; 4] = Default::default();
+    for (k, &(a, b)) in terms.iter().enumerate() {
+        let mut poly: Vec<Integer> = one.to_vec();
+        for _ in 0..a {
+            poly = mul(&poly, &u);
+        }
+        for _ in 0..b {
+            poly = mul(&poly, &v);
+        }
+        for (i, coef) in poly.iter().enumerate() {
+            out[i] += &c[k] * coef;
+        }
+    }
+    out
+}
+
+/// A GL2(Z)-reduced binary cubic equivalent to `c`, and the unimodular
+/// `T` (rows) with `reduced = C o T`: Gauss reduction for Julia's quadratic
+/// covariant `sum_i |C'(theta_i)|^(-2) |x - theta_i y|^2` over the roots
+/// `theta_i` of `C(t, 1)` (G. Julia, 1917; for cubics Cremona, *Reduction of
+/// binary cubic and quartic forms*, LMS JCM 2 (1999)), computed at a
+/// precision that covers the coefficients' size.
+pub(crate) fn reduce_binary_cubic(c: &[Integer; 4]) -> Result<([Integer; 4], [[Integer; 2]; 2]), Error> {
+    let mut t: [[Integer; 2]; 2] = [[z(1), z(0)], [z(0), z(1)]];
+    let mut cur = c.clone();
+    if cur[0] == 0 {
+        // x <-> y (a root at infinity otherwise)
+        t = [[z(0), z(1)], [z(1), z(0)]];
+        cur = substitute_binary(c, &t);
+        if cur[0] == 0 {
+            return Err(bad(ErrorKind::InvalidValue, "the binary cubic has the factor x y: reducible"));
+        }
+    }
+    let bits = cur.iter().map(|v| v.unsigned_abs_ref().significant_bits()).max().unwrap_or(1);
+    let prec = 128 + 4 * bits;
+    let a = crate::heights::real::fz(&cur[0], prec);
+    let coef = |i: usize| crate::heights::real::fz(&cur[i], prec) / a.clone();
+    let roots = crate::heights::real::cubic_roots(&coef(1), &coef(2), &coef(3), prec)?;
+    // weights |C'(theta)|^-2 with C' the derivative of C(t, 1)
+    let d = [crate::heights::real::fz(&(Integer::from(3) * &cur[0]), prec), crate::heights::real::fz(&(Integer::from(2) * &cur[1]), prec), crate::heights::real::fz(&cur[2], prec)];
+    let mut w: Vec<Float> = Vec::with_capacity(3);
+    for r in &roots {
+        let v = r.mul(r).mul(&Cx::real(d[0].clone())).add(&r.mul(&Cx::real(d[1].clone()))).add(&Cx::real(d[2].clone()));
+        let n2 = v.norm2();
+        if n2 == Float::ZERO {
+            return Err(bad(ErrorKind::InvalidValue, "the binary cubic has a repeated root"));
+        }
+        w.push(fi(1, prec) / n2);
+    }
+    // Q(x, y) = sum w_i |x - theta_i y|^2 = A x^2 + B x y + C y^2 (B the full cross term)
+    let mut qa = Float::ZERO;
+    let mut qb = Float::ZERO;
+    let mut qc = Float::ZERO;
+    for (r, wi) in roots.iter().zip(&w) {
+        qa = qa + wi.clone();
+        qb = qb - fi(2, prec) * wi.clone() * r.re.clone();
+        qc = qc + wi.clone() * r.norm2();
+    }
+    let q = |x: &Integer, y: &Integer| -> Float {
+        let (xf, yf) = (crate::heights::real::fz(x, prec), crate::heights::real::fz(y, prec));
+        qa.clone() * xf.clone() * xf.clone() + qb.clone() * xf * yf.clone() + qc.clone() * yf.clone() * yf
+    };
+    let bil = |p: &[Integer; 2], r: &[Integer; 2]| -> Float {
+        // B(p, r) = (Q(p + r) - Q(p) - Q(r)) / 2
+        let s0 = &p[0] + &r[0];
+        let s1 = &p[1] + &r[1];
+        (q(&s0, &s1) - q(&p[0], &p[1]) - q(&r[0], &r[1])) / fi(2, prec)
+    };
+    // columns of T as vectors: b1 = (t00, t10), b2 = (t01, t11) in the
+    // coordinates of `cur`; reduce starting from the identity
+    let mut b1 = [z(1), z(0)];
+    let mut b2 = [z(0), z(1)];
+    for _ in 0..10_000 {
+        let q1 = q(&b1[0], &b1[1]);
+        let mu = bil(&b1, &b2) / q1.clone();
+        let m = {
+            use malachite::base::num::conversion::traits::RoundingFrom;
+            use malachite::base::rounding_modes::RoundingMode;
+            Integer::rounding_from(&mu, RoundingMode::Nearest).0
+        };
+        if m != 0 {
+            b2 = [&b2[0] - &m * &b1[0], &b2[1] - &m * &b1[1]];
+        }
+        if q(&b2[0], &b2[1]) < q1 {
+            std::mem::swap(&mut b1, &mut b2);
+        } else {
+            break;
+        }
+    }
+    let red_t: [[Integer; 2]; 2] = [[b1[0].clone(), b2[0].clone()], [b1[1].clone(), b2[1].clone()]];
+    let reduced = substitute_binary(&cur, &red_t);
+    // total: original (u, v) = t (cur coords) = t red_t (reduced coords)
+    let total: [[Integer; 2]; 2] = [0, 1].map(|i| [0, 1].map(|j| &t[i][0] * &red_t[0][j] + &t[i][1] * &red_t[1][j]));
+    Ok((reduced, total))
 }
 
 /// The ternary cubic `F_beta` (primitive integer coefficients) and the
@@ -659,7 +832,7 @@ fn singular_sublattices(f: &[Integer; 10], p: u64) -> Vec<([[Integer; 3]; 3], i6
     };
     let mut sing: Vec<[i64; 3]> = Vec::new();
     let pi = p as i64;
-    let mut consider = |q: [i64; 3], sing: &mut Vec<[i64; 3]>| {
+    let consider = |q: [i64; 3], sing: &mut Vec<[i64; 3]>| {
         if sing.len() < 8 && grad_zero(q.map(|v| v as u128)) {
             sing.push(q);
         }

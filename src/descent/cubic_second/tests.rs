@@ -108,3 +108,21 @@ fn the_generator_of_y2_x3_9279_from_the_library_descent() {
     assert!(points.contains(&Rational::from_integers(Integer::from(234815800832699168650175209u128), Integer::from(54324205395515756480160000u128))), "{points:?}");
 }
 
+
+#[test]
+fn binary_reduction_then_second_descent_finds_the_9279_generator() {
+    // the unreduced covering of 27 eps: 9 (B u^3 + 9 A u^2 v + 3 k B u v^2 + 3 k A v^3) = w^3
+    let (a0, b0) = (Integer::from(651737448664200i64), Integer::from(20297537082877i64));
+    let k = Integer::from(9279);
+    let nine = Integer::from(9);
+    let c = [&nine * &b0, &nine * Integer::from(9) * &a0, &nine * Integer::from(3) * &k * &b0, &nine * Integer::from(3) * &k * &a0];
+    let cov = BinaryCubicCovering { c: c.clone(), m: Integer::ONE };
+    let (reduced, t) = reduce_binary_cubic(&c).unwrap();
+    assert_eq!(substitute_binary(&c, &t), reduced);
+    // the reduced form is small (the prototype's was 9 (-27, 0, 45, 68))
+    assert!(reduced.iter().all(|v| v.unsigned_abs_ref() < &Natural::from(10_000u32)), "{reduced:?}");
+    let pts = binary_covering_points(&cov, &[2, 3, 1031], 4096, &Work::unlimited()).unwrap();
+    let (a, b) = (Integer::from(27) * &a0, Integer::from(9) * &b0);
+    let xs: Vec<Rational> = pts.iter().map(|uvw| point_on_e(&k, &a, &b, &nine, uvw).0).collect();
+    assert!(xs.contains(&Rational::from_integers(Integer::from(234815800832699168650175209u128), Integer::from(54324205395515756480160000u128))), "{xs:?}");
+}
