@@ -653,7 +653,8 @@ fn search(
                 None => (minimal, &s.bad_ap),
             };
             if coeffs.len() < m + 1 {
-                coeffs = traces::dirichlet_coefficients_fast(curve_for_coeffs, bad, m + m / 8, &|| budget.exhausted())
+                // extended in place: the points are counted only at the new primes
+                traces::extend_dirichlet_coefficients(&mut coeffs, curve_for_coeffs, bad, m, &|| budget.exhausted())
                     .ok_or_else(|| err(ErrorKind::Budget, "time budget spent on the coefficients"))?;
             }
             let pl = PeriodLattice::compute(minimal, bits + 32)?;

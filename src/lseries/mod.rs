@@ -48,7 +48,7 @@
 mod coeffs;
 mod gfun;
 
-pub(crate) use coeffs::{coefficients_from, coefficients_with};
+pub(crate) use coeffs::{coefficients_from, coefficients_with, extend_coefficients_with};
 
 use crate::arith::{factor_u64, primes_up_to};
 use crate::budget::Work;
