@@ -73,29 +73,26 @@ impl<const K: usize> Word<K> {
         let top = a.unsigned_abs();
         if n < 1 << 32 {
             // two 32-bit digits per limb; each quotient of `rem 2^32 / n`
-            // (below 2^32, as `rem < n`) estimated with the f64 reciprocal
-            // of `n` (relative error below 2^-50, so off by at most one)
-            // and corrected by the exact remainder: no integer division
+            // (below 2^32, as `rem < n`) estimated from below with the
+            // word reciprocal `v = floor((2^64 - 1) / n) > 2^64/n - 2`
+            // (off by at most two) and corrected by the exact remainder:
+            // one division per call, none per digit
             let mut rem = top % n;
             mag[k - 1] = top / n;
-            let inv = 1.0 / n as f64;
-            let ni = n as i64;
+            let v = u64::MAX / n;
             for i in (0..k - 1).rev() {
                 let mut limb = 0u64;
                 for _ in 0..2 {
                     let num = rem << 32;
-                    let mut q = (num as f64 * inv) as u64;
-                    // num - q n lies in (-n, 2n): exact in i64 by wrapping
-                    let mut r = num.wrapping_sub(q.wrapping_mul(n)) as i64;
-                    if r < 0 {
-                        q -= 1;
-                        r += ni;
-                    } else if r >= ni {
+                    let mut q = ((u128::from(num) * u128::from(v)) >> 64) as u64;
+                    // q n <= num and num - q n < 3n
+                    let mut r = num - q * n;
+                    while r >= n {
                         q += 1;
-                        r -= ni;
+                        r -= n;
                     }
                     limb = (limb << 32) | q;
-                    rem = r as u64;
+                    rem = r;
                 }
                 mag[i] = limb;
             }
@@ -263,7 +260,7 @@ mod tests {
         check::<17>();
     }
 
-    /// The quotient digits of [`Word::ratio`] (f64 reciprocal, corrected)
+    /// The quotient digits of [`Word::ratio`] (word reciprocal, corrected)
     /// equal the exact `floor(|a| 2^(64 (K-1)) / n)` from malachite (an
     /// independent second computation), for `n` from 1 to just below
     /// 2^32 and `|a|` up to 2^20, both signs.
