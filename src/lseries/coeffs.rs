@@ -1,6 +1,7 @@
 //! The Dirichlet coefficients `a_n` of `L(E, s)` by a sieve.
 
 use crate::arith::primes_up_to;
+#[cfg(test)]
 use crate::curve::PointCounter;
 
 /// `a_0 = 0, a_1 = 1, ..., a_m` from the traces at the good primes (counted
@@ -8,7 +9,10 @@ use crate::curve::PointCounter;
 /// `{-1, 0, 1}` from the reduction type): `a_{p^k}` by
 /// `a_{p^k} = a_p a_{p^{k-1}} - p a_{p^{k-2}}` at good `p` and `a_p^k` at
 /// bad `p`, and `a_{mn} = a_m a_n` for coprime `m, n`. One table of
-/// smallest prime factors; no allocation per `n`.
+/// smallest prime factors; no allocation per `n`. (The library counts with
+/// [`crate::lproof::TraceOracle`]; this exact count is the tests' second
+/// computation.)
+#[cfg(test)]
 pub(crate) fn coefficients_from(counter: &mut PointCounter, bad: &[(u64, i64)], m: usize) -> Vec<i64> {
     // invariant: the closure always returns Some, so coefficients_with never stops early
     coefficients_with(&mut |p| Some(counter.trace(p)), bad, m).expect("the exact counter never stops")
