@@ -130,9 +130,6 @@ pub struct HeegnerOptions {
     /// back (`ĥ(φ P) = deg φ · ĥ(P)`): the series' length grows with the
     /// height to be recognised.
     pub use_isogeny_class: bool,
-    /// Whether the direct series pairs each class with its conjugate (one
-    /// series for both, see [`paired_evaluations`]); off only to compare.
-    pub(crate) pair_conjugates: bool,
 }
 
 impl Default for HeegnerOptions {
@@ -148,7 +145,6 @@ impl Default for HeegnerOptions {
             max_divisor: 24,
             use_twist: true,
             use_isogeny_class: true,
-            pair_conjugates: true,
         }
     }
 }
@@ -604,7 +600,7 @@ fn search(
     let mut plans: Vec<(HeegnerData, Series)> = Vec::new();
     for h in discs {
         let series = match tw {
-            None => Series::Direct(if opts.pair_conjugates { paired_evaluations(&h.forms, s.n) } else { nearer_to_infinity(&h.forms, s.n).into_iter().map(analytic::Evaluation::whole).collect() }),
+            None => Series::Direct(paired_evaluations(&h.forms, s.n)),
             Some(t) => match twist::twisted_forms(&h.forms, t.d, t.base_conductor) {
                 Some(points) => Series::Twisted { points, disc: h.discriminant * t.d * t.d, n0: t.base_conductor },
                 None => continue,

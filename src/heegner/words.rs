@@ -115,10 +115,10 @@ impl<const K: usize> Word<K> {
 pub(crate) fn add<const K: usize>(x: &Word<K>, y: &Word<K>) -> Word<K> {
     let mut out = [0u64; K];
     let mut carry = false;
-    for i in 0..K {
-        let (s, c1) = x.limbs[i].overflowing_add(y.limbs[i]);
+    for (o, (a, b)) in out.iter_mut().zip(x.limbs.iter().zip(&y.limbs)) {
+        let (s, c1) = a.overflowing_add(*b);
         let (s, c2) = s.overflowing_add(u64::from(carry));
-        out[i] = s;
+        *o = s;
         carry = c1 | c2;
     }
     Word { limbs: out }
@@ -129,10 +129,10 @@ pub(crate) fn add<const K: usize>(x: &Word<K>, y: &Word<K>) -> Word<K> {
 pub(crate) fn sub<const K: usize>(x: &Word<K>, y: &Word<K>) -> Word<K> {
     let mut out = [0u64; K];
     let mut borrow = false;
-    for i in 0..K {
-        let (s, c1) = x.limbs[i].overflowing_sub(y.limbs[i]);
+    for (o, (a, b)) in out.iter_mut().zip(x.limbs.iter().zip(&y.limbs)) {
+        let (s, c1) = a.overflowing_sub(*b);
         let (s, c2) = s.overflowing_sub(u64::from(borrow));
-        out[i] = s;
+        *o = s;
         borrow = c1 | c2;
     }
     Word { limbs: out }
@@ -142,9 +142,10 @@ pub(crate) fn sub<const K: usize>(x: &Word<K>, y: &Word<K>) -> Word<K> {
 /// below the exact product).
 ///
 /// With `X`, `Y` the limbs read as unsigned and `s_x`, `s_y` the signs,
-/// `x = X - s_x 2^(64k)`, so `x y / 2^(64(k-1)) = X Y / 2^(64(k-1))
-/// - s_x Y 2^64 - s_y X 2^64` modulo `2^(64k)`: the top of the unsigned
-/// product, less the operands shifted by one limb under sign masks.
+/// `x = X - s_x 2^(64k)`, so that modulo `2^(64k)`
+/// `x y / 2^(64(k-1)) = X Y / 2^(64(k-1)) - s_x Y 2^64 - s_y X 2^64`:
+/// the top of the unsigned product, less the operands shifted by one limb
+/// under sign masks.
 #[inline]
 pub(crate) fn mul<const K: usize>(x: &Word<K>, y: &Word<K>) -> Word<K> {
     // product of the limbs without the columns below k - 2 (their carries
