@@ -36,5 +36,27 @@ fn bench(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, bench);
+/// The coefficients `a_n` of the Heegner series (traces by baby-step
+/// giant-step, then the multiplicative fill) at 10^6 and 10^7 terms, for
+/// [0,-1,0,-333332,-72965628] (conductor 131736, of curves-wider.tsv: its
+/// Heegner point at D = -743 needs 9.9 million terms). `HEEGNER_BENCH_SMALL=1`
+/// leaves out 10^7.
+fn coefficients(c: &mut Criterion) {
+    let mut g = c.benchmark_group("heegner_coefficients");
+    g.sample_size(10);
+    let e = Curve::from_coefficients([0, -1, 0, -333332, -72965628]).unwrap();
+    let n = Natural::from(131736u32);
+    let small = std::env::var_os("HEEGNER_BENCH_SMALL").is_some();
+    for m in [1_000_000usize, 10_000_000] {
+        if small && m > 1_000_000 {
+            continue;
+        }
+        g.bench_function(format!("a_n to {m}, conductor 131736"), |b| {
+            b.iter(|| twofold::lseries::dirichlet_coefficients(black_box(&e), &n, m).unwrap())
+        });
+    }
+    g.finish();
+}
+
+criterion_group!(benches, bench, coefficients);
 criterion_main!(benches);

@@ -506,17 +506,64 @@ fn nearer_to_infinity(forms: &[forms::QuadraticForm], n: u64) -> Vec<forms::Quad
         .collect()
 }
 
+/// The evaluation points of the Heegner sum with each class paired with its
+/// conjugate: for the Heegner form `f = [A, B, C]` (`N | A`,
+/// `B = beta mod 2N`) the point `σ` of `[C N, B, A / N]` is `W_N(-conj τ)`
+/// (`τ` the root of `f`), so `z(σ) = z(-conj τ) = conj z(τ)` (the
+/// Atkin-Lehner sign is `+1` with the constant 0, see [`nearer_to_infinity`],
+/// and the `a_n` are real). That form is again a Heegner form for `beta`,
+/// and Heegner forms for one `beta` are equivalent under `Γ0(N)` exactly
+/// when they are under SL2(Z) (Gross, Kohnen and Zagier, Heegner points
+/// and derivatives of L-series II, Math. Ann. 278 (1987), §I.1), so the
+/// class listed for its reduced form has the value `conj z(τ)` modulo the
+/// periods. The two values of a pair sum to `2 Re z(τ)`: one series per
+/// pair, at whichever of the two points (each moved by
+/// [`nearer_to_infinity`]) has the smaller first coefficient; a class
+/// paired with itself is summed whole. Falls back to every form whole when
+/// the pairing is not an involution of the list (never seen; overflow).
+fn paired_evaluations(forms: &[forms::QuadraticForm], n: u64) -> Vec<analytic::Evaluation> {
+    let moved = nearer_to_infinity(forms, n);
+    let whole = || moved.iter().map(|&f| analytic::Evaluation::whole(f)).collect();
+    let n128 = i128::from(n);
+    let reduced: Vec<forms::QuadraticForm> = forms.iter().map(|f| f.reduced()).collect();
+    let mut partner = Vec::with_capacity(forms.len());
+    for f in forms {
+        let Some(a) = f.c.checked_mul(n128) else { return whole() };
+        if f.a % n128 != 0 {
+            return whole();
+        }
+        let g = forms::QuadraticForm { a, b: f.b, c: f.a / n128 }.reduced();
+        match reduced.iter().position(|r| *r == g) {
+            Some(j) => partner.push(j),
+            None => return whole(),
+        }
+    }
+    if (0..forms.len()).any(|i| partner[partner[i]] != i) {
+        return whole();
+    }
+    let mut out = Vec::with_capacity(forms.len());
+    for (i, &j) in partner.iter().enumerate() {
+        if j == i {
+            out.push(analytic::Evaluation::whole(moved[i]));
+        } else if i < j {
+            let form = if moved[j].a < moved[i].a { moved[j] } else { moved[i] };
+            out.push(analytic::Evaluation { form, twice_real: true });
+        }
+    }
+    out
+}
+
 /// The series, in one of two forms: the Heegner points of level `N` with
 /// the coefficients of `E`, or the twisted sum with those of the base.
 enum Series {
-    Direct(Vec<forms::QuadraticForm>),
+    Direct(Vec<analytic::Evaluation>),
     Twisted { points: twist::TwistPoints, disc: i64, n0: u64 },
 }
 
 impl Series {
     fn terms(&self, h: &HeegnerData, bits: u64) -> usize {
         let (forms, disc): (Vec<&forms::QuadraticForm>, i64) = match self {
-            Series::Direct(f) => (f.iter().collect(), h.discriminant),
+            Series::Direct(f) => (f.iter().map(|e| &e.form).collect(), h.discriminant),
             Series::Twisted { points, disc, .. } => (points.all().collect(), *disc),
         };
         let fixed_point = match self {
@@ -529,7 +576,7 @@ impl Series {
 
     fn total_terms(&self, h: &HeegnerData, bits: u64) -> usize {
         let (forms, disc): (Vec<&forms::QuadraticForm>, i64) = match self {
-            Series::Direct(f) => (f.iter().collect(), h.discriminant),
+            Series::Direct(f) => (f.iter().map(|e| &e.form).collect(), h.discriminant),
             Series::Twisted { points, disc, .. } => (points.all().collect(), *disc),
         };
         forms.iter().map(|f| analytic::terms_needed(f.a as f64, (-disc) as f64, bits)).sum()
@@ -553,7 +600,7 @@ fn search(
     let mut plans: Vec<(HeegnerData, Series)> = Vec::new();
     for h in discs {
         let series = match tw {
-            None => Series::Direct(nearer_to_infinity(&h.forms, s.n)),
+            None => Series::Direct(paired_evaluations(&h.forms, s.n)),
             Some(t) => match twist::twisted_forms(&h.forms, t.d, t.base_conductor) {
                 Some(points) => Series::Twisted { points, disc: h.discriminant * t.d * t.d, n0: t.base_conductor },
                 None => continue,
@@ -589,7 +636,7 @@ fn search(
             let bits = ((target_height / std::f64::consts::LN_2) * 2.6 + 24.0).ceil() as u64;
             let bits = bits.min(opts.max_precision.max(64));
             let bits = match series {
-                Series::Direct(f) => bits.max(analytic::double_double_capacity(f, h.discriminant)),
+                Series::Direct(f) => bits.max(analytic::double_double_capacity(&f.iter().map(|e| e.form).collect::<Vec<_>>(), h.discriminant)),
                 Series::Twisted { .. } => bits,
             };
             let m = series.terms(h, bits);
@@ -602,13 +649,14 @@ fn search(
                 None => (minimal, &s.bad_ap),
             };
             if coeffs.len() < m + 1 {
-                coeffs = traces::dirichlet_coefficients_fast(curve_for_coeffs, bad, m + m / 8, &|| budget.exhausted())
+                // extended in place: the points are counted only at the new primes
+                traces::extend_dirichlet_coefficients(&mut coeffs, curve_for_coeffs, bad, m, &|| budget.exhausted())
                     .ok_or_else(|| err(ErrorKind::Budget, "time budget spent on the coefficients"))?;
             }
             let pl = PeriodLattice::compute(minimal, bits + 32)?;
             let lat = Lattice::new(&pl, bits + 32);
             let z = match series {
-                Series::Direct(f) => analytic::modular_sum(&coeffs, f, h.discriminant, bits, budget)?,
+                Series::Direct(f) => analytic::modular_sum_at(&coeffs, f, h.discriminant, bits, budget)?,
                 Series::Twisted { points, disc, .. } => {
                     // invariant: Series::Twisted is only built when a twist `tw` was found
                     let t = tw.expect("twisted series without a twist");

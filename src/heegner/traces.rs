@@ -19,9 +19,19 @@ pub(crate) fn dirichlet_coefficients_fast(
     m: usize,
     stop: &dyn Fn() -> bool,
 ) -> Option<Vec<i64>> {
+    let mut a = Vec::new();
+    extend_dirichlet_coefficients(&mut a, curve, bad, m, stop)?;
+    Some(a)
+}
+
+/// Extends the coefficients `a` of [`dirichlet_coefficients_fast`] (or an
+/// empty vector) to `a_0, ..., a_m`, counting points only at the new primes;
+/// `None` (and `a` unchanged) when `stop` answers `true`.
+pub(crate) fn extend_dirichlet_coefficients(a: &mut Vec<i64>, curve: &Curve, bad: &[(u64, i64)], m: usize, stop: &dyn Fn() -> bool) -> Option<()> {
     let mut oracle = TraceOracle::new(curve);
     let mut asked = 0u32;
-    crate::lseries::coefficients_with(
+    crate::lseries::extend_coefficients_with(
+        a,
         &mut |p| {
             asked = asked.wrapping_add(1);
             if asked % 1024 == 0 && stop() {
