@@ -116,6 +116,7 @@ mod ideal;
 mod classgroup;
 mod sunits;
 mod sunitgroup;
+mod cubeclasses;
 mod relations;
 mod modular;
 mod sparse;
@@ -129,3 +130,4 @@ pub use classgroup::{ClassGroup, ClassGroupOptions, CompactProduct, FactorBaseBo
 pub use sunits::SquareClasses;
 pub use sunitgroup::SUnitBasis;
 pub use wide::WideProduct;
+pub(crate) use cubeclasses::CubeClasses;
