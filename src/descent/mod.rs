@@ -5,3 +5,4 @@ pub(crate) mod f2;
 pub mod full;
 pub mod isogeny;
 pub mod algebra;
+pub(crate) mod cube_isogeny;

@@ -509,7 +509,6 @@ impl NumberField {
             .map(|g| outside.iter().map(|&j| g.val[j]).collect())
             .collect();
         let ker = left_kernel_f3(&a, outside.len());
-        let ns = s_cols.len();
         let mut basis = Vec::with_capacity(ker.len());
         let mut table = Vec::with_capacity(ker.len());
         for coef in &ker {

@@ -130,4 +130,4 @@ pub use classgroup::{ClassGroup, ClassGroupOptions, CompactProduct, FactorBaseBo
 pub use sunits::SquareClasses;
 pub use sunitgroup::SUnitBasis;
 pub use wide::WideProduct;
-pub(crate) use cubeclasses::CubeClasses;
+pub(crate) use cubeclasses::{left_kernel_f3, solve_f3, CubeClasses};
