@@ -481,8 +481,7 @@ impl CubeSide {
 }
 
 /// A smaller representative of the class of `x`: integral coordinates, the
-/// largest rational cube dividing both removed (within `limits`; else the
-/// integral form as it is).
+/// cubes of the primes below 1000 dividing both removed.
 fn small_representative(x: &QuadElt, limits: &FactorLimits) -> QuadElt {
     // x = (A + B sqrt d)/D ~ (A + B sqrt d) D^2 modulo cubes
     let signed = |r: &Rational| -> Integer {
@@ -499,16 +498,26 @@ fn small_representative(x: &QuadElt, limits: &FactorLimits) -> QuadElt {
     let d2 = &dd * &dd;
     let mut a = signed(&x.a) * &db * &d2;
     let mut b = signed(&x.b) * &da * &d2;
-    let g = Integer::from((&a).unsigned_abs().gcd((&b).unsigned_abs()));
+    // the cubes of primes below 1000 dividing both (trial division only: a
+    // factorisation of the content could cost more than the whole descent)
+    let _ = limits;
+    let mut g = Integer::from((&a).unsigned_abs().gcd((&b).unsigned_abs()));
     if g > 1u32 {
-        if let Ok(fac) = factor(&g, limits) {
-            let mut cube = Integer::ONE;
-            for (p, e) in fac.factors() {
-                cube *= Integer::from(p.clone()).pow(u64::from(*e / 3 * 3));
+        let mut cube = Integer::ONE;
+        for p in crate::arith::primes_up_to(1000) {
+            let pi = Integer::from(p);
+            let mut e = 0u64;
+            while g != 0u32 && (&g).divisible_by(&pi) {
+                g /= &pi;
+                e += 1;
             }
-            a /= &cube;
-            b /= &cube;
+            cube *= pi.pow(e / 3 * 3);
+            if g == 1u32 {
+                break;
+            }
         }
+        a /= &cube;
+        b /= &cube;
     }
     QuadElt {
         a: Rational::from(a),
