@@ -736,9 +736,11 @@ impl ModOpRef for Integer {
 /// classes `t0 + p^m Z_p`, with `e = v(g(t0))`, `d = v(g'(t0))`:
 /// - `g(t0) = 0` or `e > 2 d`: `g` has a root in the class (Hensel), a
 ///   point with `z = 0`;
-/// - `m >= e + s` (`s = 2` at 3, else 1): every value on the class is
-///   `g(t0)` times an element of `1 + p^s Z_p`, a cube, so the class is
-///   decided by the cube test of `g(t0)/c`;
+/// - the non-constant part of `h(x) = g(t0 + p^m x)` has valuation at
+///   least `e + s` (`s = 2` at 3, else 1; always so once `m >= e + s`):
+///   every value on the class is `g(t0)` times an element of
+///   `1 + p^s Z_p`, a cube, so the class is decided by the cube test of
+///   `g(t0)/c`;
 /// - else its `p` subclasses are searched.
 ///
 /// Depth bound: `Res(g, g') = A g + B g'` with `A, B` in `Z[t]`, so
@@ -870,7 +872,18 @@ fn chart_soluble_by(
                 return Ok(true);
             }
         }
-        if u64::from(m) >= e + u64::from(s) {
+        // every value on the class is g(t0) (1 + p^s Z_p) once the
+        // non-constant part of h(x) = g(t0 + p^m x) has valuation at least
+        // e + s (always once m >= e + s)
+        let step = (&pi).pow(u64::from(m));
+        let h = taylor_shift(&g, &t0, &step);
+        let nu = h[1..]
+            .iter()
+            .filter(|c| **c != 0u32)
+            .map(|c| split_valuation(c, &pi).0)
+            .min()
+            .unwrap_or(u64::MAX);
+        if nu >= e + u64::from(s) {
             if is_padic_cube(e as i64 - vc, &(u * &cinv), p) {
                 return Ok(true);
             }
@@ -882,7 +895,6 @@ fn chart_soluble_by(
                 "a residue class left open beyond the depth bound",
             ));
         }
-        let step = (&pi).pow(u64::from(m));
         for j in 0..p {
             stack.push((&t0 + Integer::from(j) * &step, m + 1));
         }
