@@ -323,7 +323,7 @@ fn agrees_with_the_library_for_small_k() {
 }
 
 #[test]
-#[ignore = "about a minute: |k| <= 300 against the library's rank"]
+#[ignore = "about 20 s: |k| <= 300 against the library's rank"]
 fn agrees_with_the_library_for_k_up_to_300() {
     compare_with_the_pipeline(-300..=300);
 }
