@@ -15,7 +15,7 @@ mod sqrt;
 mod hilbert;
 
 pub use word::{is_prime_u64, primes_up_to};
-pub(crate) use word::{gcd_u64, inv_mod, is_small_prime, mul_mod};
+pub(crate) use word::{gcd_u64, inv_mod, is_small_prime, mul_mod, pow_mod};
 pub use symbols::{jacobi_u64, kronecker_i64, jacobi, kronecker, valuation, sqrt_mod_prime, is_square};
 pub use primality::{is_probable_prime, is_probable_prime_within};
 pub use factor::{factor, factor_u64, FactorLimits, Factorization};

@@ -6,3 +6,4 @@ pub mod full;
 pub mod isogeny;
 pub mod algebra;
 pub(crate) mod cubic_second;
+pub(crate) mod cube_isogeny;
