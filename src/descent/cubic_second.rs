@@ -382,6 +382,61 @@ pub(crate) fn binary_covering_points(cov: &BinaryCubicCovering, s_primes: &[u64]
     Ok(out)
 }
 
+/// Points of `E_k: y^2 = x^3 + k` from the second descent of the coverings
+/// of the non-zero Selmer elements of both sides of `cd` (one of each pair
+/// of inverse classes), searched to `height`, mapped to `E_k` (through
+/// `phi^` from `E_{-27k}`) and each checked on `E_k`. A covering whose
+/// binary cubic is reducible or whose cubic field has 3 dividing its
+/// S-class number is skipped (`skipped` counts them).
+pub(crate) fn points_by_second_descent(cd: &crate::descent::cube_isogeny::CubeDescent, height: u64, work: &Work) -> Result<(Vec<crate::Point>, usize), Error> {
+    use crate::descent::cube_isogeny::{phi_hat, side_curve};
+    let e = side_curve(&cd.k)?;
+    let limits = FactorLimits::within(work);
+    let mut out = Vec::new();
+    let mut skipped = 0;
+    for (dual, side) in [(false, &cd.own), (true, &cd.dual)] {
+        let d = side.selmer.len();
+        let n = side.candidates.len();
+        for code in 1..3usize.pow(d as u32) {
+            let coeffs: Vec<u8> = (0..d).map(|i| ((code / 3usize.pow(i as u32)) % 3) as u8).collect();
+            if coeffs.iter().find(|&&c| c != 0) == Some(&2) {
+                continue;
+            }
+            let mut w = vec![0u8; n];
+            for (c, row) in coeffs.iter().zip(&side.selmer) {
+                for (x, y) in w.iter_mut().zip(row) {
+                    *x = (*x + c * y) % 3;
+                }
+            }
+            if work.exhausted() {
+                return Err(bad(ErrorKind::Budget, "the second 3-descent ran out of its budget"));
+            }
+            let cov = side.covering(&w, &limits)?;
+            let bc = BinaryCubicCovering { c: cov.form.clone(), m: cov.c.clone() };
+            let pts = match binary_covering_points(&bc, &side.s_primes, height, work) {
+                Ok(p) => p,
+                Err(err) if err.kind() == &ErrorKind::InvalidValue => {
+                    skipped += 1;
+                    continue;
+                }
+                Err(err) => return Err(err),
+            };
+            for [u, v, z] in pts {
+                let Some(p) = cov.map(&Rational::from(u), &Rational::from(v), &Rational::from(z)) else { continue };
+                let p = if dual { phi_hat(&cd.k, &p) } else { p };
+                if p.is_infinity() {
+                    continue;
+                }
+                if !e.contains(&p) {
+                    return Err(Error::internal("descent::cubic_second", "a point of the second 3-descent is not on the curve"));
+                }
+                out.push(p);
+            }
+        }
+    }
+    Ok((out, skipped))
+}
+
 /// The prime factors of `n` if all are below `2^20`.
 fn small_prime_factors(n: &Integer) -> Option<Vec<u64>> {
     let mut rest = n.unsigned_abs_ref().clone();

@@ -172,3 +172,14 @@ fn second_descent_on_mordell_curves_with_small_points() {
     }
     assert_eq!(with_points, 5);
 }
+
+#[test]
+fn first_and_second_descent_together_give_the_9279_generator() {
+    // the library's own first descent (both sides of the 3-isogeny), then the
+    // second descent of every Selmer covering
+    let k = Integer::from(9279);
+    let cd = crate::descent::cube_isogeny::cube_isogeny_descent(&k, &Work::unlimited()).unwrap();
+    let (pts, _) = points_by_second_descent(&cd, 4096, &Work::unlimited()).unwrap();
+    let x = Rational::from_integers(Integer::from(234815800832699168650175209u128), Integer::from(54324205395515756480160000u128));
+    assert!(pts.iter().any(|p| p.x() == Some(&x)), "{pts:?}");
+}
