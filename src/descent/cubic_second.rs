@@ -91,9 +91,14 @@ pub(crate) struct SecondDescent {
     covering: BinaryCubicCovering,
     swapped: bool,
     pub(crate) coverings: Vec<PlaneCovering>,
+    // the counts below are read by the tests (the prototype's figures) and
+    // kept for a report of the descent
+    #[allow(dead_code)]
     pub(crate) candidates: usize,
+    #[allow(dead_code)]
     pub(crate) dimension: usize,
     /// Candidates whose local solubility was left undecided (kept).
+    #[allow(dead_code)]
     pub(crate) undecided: usize,
 }
 
@@ -103,21 +108,6 @@ fn bad(kind: ErrorKind, msg: impl Into<String>) -> Error {
 
 fn z(v: i64) -> Integer {
     Integer::from(v)
-}
-
-/// `F(p)` for a ternary cubic with coefficients in any ring given by `eval`.
-fn eval_form(c: &[Integer; 10], p: &[Integer; 3]) -> Integer {
-    let mut s = Integer::ZERO;
-    for (k, e) in MONOMIALS.iter().enumerate() {
-        let mut t = c[k].clone();
-        for i in 0..3 {
-            for _ in 0..e[i] {
-                t *= &p[i];
-            }
-        }
-        s += t;
-    }
-    s
 }
 
 fn eval_form_q(c: &[Rational; 10], p: &[Integer; 3]) -> Rational {
