@@ -275,6 +275,7 @@ pub(crate) fn second_descent(cov: &BinaryCubicCovering, s_primes: &[u64], work: 
                 beta = field.mul(&beta, &field.pow(g, e[i] as i64)?);
             }
         }
+        let beta = without_rational_cubes(&field, &beta)?;
         let (form, p0, p1) = ternary_cubic(&field, &beta);
         let mut soluble = Some(true);
         for &p in &s {
@@ -293,7 +294,8 @@ pub(crate) fn second_descent(cov: &BinaryCubicCovering, s_primes: &[u64], work: 
         if soluble.is_none() {
             undecided += 1;
         }
-        let start = minimise(&form, &minimisation_primes(&field, &beta, &s));
+        let mp = minimisation_primes(&field, &beta, &s);
+        let start = minimise(&form, &mp);
         let basis = reduction_basis(&field, &beta, &start)?;
         let reduced = primitive(substitute(&form, &basis));
         coverings.push(PlaneCovering { form: reduced, basis, p0, p1 });
@@ -335,9 +337,10 @@ impl SecondDescent {
 /// descent: `C` is GL2-reduced, descended over its cubic field with `S` =
 /// `s_primes` and the primes of the reduced leading coefficient and of `m`
 /// (by trial division below `2^20`; refused if they do not factor so),
-/// each locally soluble plane cubic searched to `height`, and each point
+/// each locally soluble plane cubic searched to the first of `heights`
+/// that gives a point (in turn), and each point
 /// mapped back and checked on `cov`. Points with `w = 0` are dropped.
-pub(crate) fn binary_covering_points(cov: &BinaryCubicCovering, s_primes: &[u64], height: u64, work: &Work) -> Result<Vec<[Integer; 3]>, Error> {
+pub(crate) fn binary_covering_points(cov: &BinaryCubicCovering, s_primes: &[u64], heights: &[u64], work: &Work) -> Result<Vec<[Integer; 3]>, Error> {
     let (reduced, t) = reduce_binary_cubic(&cov.c)?;
     let mut s: Vec<u64> = s_primes.to_vec();
     s.push(3);
@@ -349,7 +352,8 @@ pub(crate) fn binary_covering_points(cov: &BinaryCubicCovering, s_primes: &[u64]
     let red = BinaryCubicCovering { c: reduced, m: cov.m.clone() };
     let sd = second_descent(&red, &s, work)?;
     let mut out = Vec::new();
-    for pc in &sd.coverings {
+    for &height in heights {
+      for pc in &sd.coverings {
         let limits = crate::search::SearchLimits::within(work, height);
         let found = crate::search::search_plane_cubic(&pc.form, &limits)?;
         for p in &found.points {
@@ -368,17 +372,21 @@ pub(crate) fn binary_covering_points(cov: &BinaryCubicCovering, s_primes: &[u64]
             }
             out.push([u, v, w]);
         }
+      }
+      if !out.is_empty() {
+          break;
+      }
     }
     Ok(out)
 }
 
 /// Points of `E_k: y^2 = x^3 + k` from the second descent of the coverings
 /// of the non-zero Selmer elements of both sides of `cd` (one of each pair
-/// of inverse classes), searched to `height`, mapped to `E_k` (through
+/// of inverse classes), searched at `heights` in turn, mapped to `E_k` (through
 /// `phi^` from `E_{-27k}`) and each checked on `E_k`. A covering whose
 /// binary cubic is reducible or whose cubic field has 3 dividing its
 /// S-class number is skipped (`skipped` counts them).
-pub(crate) fn points_by_second_descent(cd: &crate::descent::cube_isogeny::CubeDescent, height: u64, work: &Work) -> Result<(Vec<crate::Point>, usize), Error> {
+pub(crate) fn points_by_second_descent(cd: &crate::descent::cube_isogeny::CubeDescent, heights: &[u64], work: &Work) -> Result<(Vec<crate::Point>, usize), Error> {
     use crate::descent::cube_isogeny::{phi_hat, side_curve};
     let e = side_curve(&cd.k)?;
     let limits = FactorLimits::within(work);
@@ -403,7 +411,7 @@ pub(crate) fn points_by_second_descent(cd: &crate::descent::cube_isogeny::CubeDe
             }
             let cov = side.covering(&w, &limits)?;
             let bc = BinaryCubicCovering { c: cov.form.clone(), m: cov.c.clone() };
-            let pts = match binary_covering_points(&bc, &side.s_primes, height, work) {
+            let pts = match binary_covering_points(&bc, &side.s_primes, heights, work) {
                 Ok(p) => p,
                 Err(err) if err.kind() == &ErrorKind::InvalidValue => {
                     skipped += 1;
@@ -774,6 +782,34 @@ fn reduction_basis(field: &NumberField, beta: &Element, start: &[[Integer; 3]; 3
     Ok([0, 1, 2].map(|i| [0, 1, 2].map(|j| b[j][i].clone())))
 }
 
+/// `beta / p^(3t)` for each prime `p` of its norm (below `2^16`), `t` the
+/// largest with `3 e(P|p) t <= v_P(beta)` at every prime `P` above `p`
+/// (the same class modulo cubes, a smaller representative).
+fn without_rational_cubes(field: &NumberField, beta: &Element) -> Result<Element, Error> {
+    let n = field.norm(beta);
+    let mut primes = Vec::new();
+    for part in [n.numerator_ref().clone(), n.denominator_ref().clone()] {
+        primes.extend(small_prime_factors(&Integer::from(part)).unwrap_or_default());
+    }
+    primes.sort_unstable();
+    primes.dedup();
+    let mut beta = beta.clone();
+    for p in primes {
+        let mut t: Option<i64> = None;
+        for pr in field.primes_above(p)? {
+            let v = field.valuation(&beta, &pr)?;
+            let e = i64::from(pr.e);
+            let q = v.div_euclid(3 * e);
+            t = Some(t.map_or(q, |t0| t0.min(q)));
+        }
+        if let Some(t) = t.filter(|&t| t != 0) {
+            let scale = malachite::base::num::arithmetic::traits::Pow::pow(Rational::from(p), -3 * t);
+            beta = field.mul(&beta, &field.rational(&scale));
+        }
+    }
+    Ok(beta)
+}
+
 /// The primes of `S` and the small primes outside `S` dividing the norm of
 /// `beta` (its generators, reduced modulo cubes, carry cubes of ideals
 /// outside `S`, which make the plane cubic non-minimal there).
@@ -823,7 +859,7 @@ pub(crate) fn minimise(form: &[Integer; 10], primes: &[u64]) -> [[Integer; 3]; 3
     let mul = |a: &[[Integer; 3]; 3], b: &[[Integer; 3]; 3]| -> [[Integer; 3]; 3] {
         [0, 1, 2].map(|i| [0, 1, 2].map(|j| (0..3).map(|k| &a[i][k] * &b[k][j]).sum()))
     };
-    for _round in 0..64 {
+    for _round in 0..1000 {
         let mut improved = false;
         'primes: for &p in primes {
             let subs = if p <= MINIMISE_MAX_PRIME { sublattices(p) } else { singular_sublattices(&cur, p) };

@@ -1185,13 +1185,9 @@ fn three_descent_point(report: &mut RankReport, data: &CurveData, work: &Work) -
     let share = work.share(0.5);
     let outcome = (|| -> Result<Option<(Point, u64)>, Error> {
         let cd = crate::descent::cube_isogeny::cube_isogeny_descent(&c[4], &share)?;
-        for h in THREE_DESCENT_HEIGHTS {
-            let (pts, _) = crate::descent::cubic_second::points_by_second_descent(&cd, h, &share)?;
-            if let Some(p) = pts.into_iter().min_by_key(|p| p.x().map(|x| x.denominator_ref().clone())) {
-                return Ok(Some((p, h)));
-            }
-        }
-        Ok(None)
+        let (pts, _) = crate::descent::cubic_second::points_by_second_descent(&cd, &THREE_DESCENT_HEIGHTS, &share)?;
+        let h = THREE_DESCENT_HEIGHTS[THREE_DESCENT_HEIGHTS.len() - 1];
+        Ok(pts.into_iter().min_by_key(|p| p.x().map(|x| x.denominator_ref().clone())).map(|p| (p, h)))
     })();
     match outcome {
         Ok(Some((p, h))) => adopt_point(
@@ -1199,7 +1195,7 @@ fn three_descent_point(report: &mut RankReport, data: &CurveData, work: &Work) -
             data,
             &p,
             "the 3-isogeny descent",
-            &format!("a point of infinite order (not in the torsion subgroup), found on a plane-cubic covering from a second descent through the 3-isogeny (search height {h}) and verified exactly"),
+            &format!("a point of infinite order (not in the torsion subgroup), found on a plane-cubic covering from a second descent through the 3-isogeny (search heights up to {h}) and verified exactly"),
         ),
         Ok(None) => Ok(()),
         Err(e) if *e.kind() == crate::error::ErrorKind::Internal => Err(e),
