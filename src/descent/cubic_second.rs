@@ -859,10 +859,12 @@ pub(crate) fn minimise(form: &[Integer; 10], primes: &[u64]) -> [[Integer; 3]; 3
     let mul = |a: &[[Integer; 3]; 3], b: &[[Integer; 3]; 3]| -> [[Integer; 3]; 3] {
         [0, 1, 2].map(|i| [0, 1, 2].map(|j| (0..3).map(|k| &a[i][k] * &b[k][j]).sum()))
     };
-    for _round in 0..1000 {
-        let mut improved = false;
-        'primes: for &p in primes {
+    // a move at p has a determinant prime to every other prime, so the
+    // primes are done one after the other
+    for &p in primes {
+        for _step in 0..1000 {
             let subs = if p <= MINIMISE_MAX_PRIME { sublattices(p) } else { singular_sublattices(&cur, p) };
+            let mut improved = false;
             for (sub, need) in subs {
                 let f2 = substitute(&cur, &sub);
                 let g = f2.iter().fold(Natural::ZERO, |g, v| g.gcd(v.unsigned_abs_ref().clone()));
@@ -873,12 +875,12 @@ pub(crate) fn minimise(form: &[Integer; 10], primes: &[u64]) -> [[Integer; 3]; 3
                     cur = primitive(f2);
                     basis = mul(&basis, &sub);
                     improved = true;
-                    break 'primes;
+                    break;
                 }
             }
-        }
-        if !improved {
-            break;
+            if !improved {
+                break;
+            }
         }
     }
     basis
@@ -889,17 +891,20 @@ pub(crate) fn minimise(form: &[Integer; 10], primes: &[u64]) -> [[Integer; 3]; 3
 /// vanish there), and the index-`p` ones of the lines through two of them.
 fn singular_sublattices(f: &[Integer; 10], p: u64) -> Vec<([[Integer; 3]; 3], i64)> {
     let pz = Integer::from(p);
-    let c: Vec<u128> = f.iter().map(|v| u64::try_from(&v.mod_op(&pz)).unwrap_or(0) as u128).collect();
-    let pm = p as u128;
-    let grad_zero = |q: [u128; 3]| -> bool {
+    if p >= 1 << 32 {
+        return Vec::new();
+    }
+    let c: Vec<u64> = f.iter().map(|v| u64::try_from(&v.mod_op(&pz)).unwrap_or(0)).collect();
+    let pm = p;
+    let grad_zero = |q: [u64; 3]| -> bool {
         // dF/dx_i at q modulo p, from the monomials
         (0..3).all(|i| {
-            let mut s = 0u128;
+            let mut s = 0u64;
             for (k, e) in MONOMIALS.iter().enumerate() {
                 if e[i] == 0 || c[k] == 0 {
                     continue;
                 }
-                let mut t = c[k] * e[i] as u128 % pm;
+                let mut t = c[k] * e[i] as u64 % pm;
                 for j in 0..3 {
                     let ej = if j == i { e[j] - 1 } else { e[j] };
                     for _ in 0..ej {
@@ -914,7 +919,7 @@ fn singular_sublattices(f: &[Integer; 10], p: u64) -> Vec<([[Integer; 3]; 3], i6
     let mut sing: Vec<[i64; 3]> = Vec::new();
     let pi = p as i64;
     let consider = |q: [i64; 3], sing: &mut Vec<[i64; 3]>| {
-        if sing.len() < 8 && grad_zero(q.map(|v| v as u128)) {
+        if sing.len() < 8 && grad_zero(q.map(|v| v as u64)) {
             sing.push(q);
         }
     };
