@@ -188,6 +188,9 @@ pub(crate) struct CubeSide {
     pub(crate) reps: Vec<QuadElt>,
     /// Basis of the Selmer group: coefficient vectors over `candidates`.
     pub(crate) selmer: Vec<Vec<u8>>,
+    /// For a real quadratic field, a unit (`pell_unit`) whose cubes balance
+    /// the representatives.
+    unit: Option<QuadElt>,
 }
 
 /// The result of the descent on both sides.
@@ -280,6 +283,7 @@ impl CubeSide {
                 candidates,
                 reps,
                 selmer: Vec::new(),
+                unit: None,
             });
         }
         let field = NumberField::new(&[-d.clone(), Integer::ZERO, Integer::ONE])?;
@@ -311,6 +315,11 @@ impl CubeSide {
             basis_elts.push(q);
         }
         let candidates = crate::numfield::left_kernel_f3(&rows, s_primes.len());
+        let unit = if d > 0u32 {
+            pell_unit(&d, 100_000)
+        } else {
+            None
+        };
         let mut reps = Vec::with_capacity(candidates.len());
         for c in &candidates {
             let mut x = QuadElt {
@@ -322,7 +331,11 @@ impl CubeSide {
                     x = x.mul(e, &d);
                 }
             }
-            reps.push(small_representative(&x, &limits));
+            let x = small_representative(&x, &limits);
+            reps.push(match &unit {
+                Some(eta) => balance(&x, &d, eta),
+                None => x,
+            });
         }
         Ok(CubeSide {
             m: m.clone(),
@@ -336,6 +349,7 @@ impl CubeSide {
             candidates,
             reps,
             selmer: Vec::new(),
+            unit,
         })
     }
 
@@ -415,7 +429,11 @@ impl CubeSide {
                 x = x.mul(e, &d);
             }
         }
-        small_representative(&x, limits)
+        let x = small_representative(&x, limits);
+        match (&self.unit, &self.algebra) {
+            (Some(eta), SideAlgebra::Field { d, .. }) => balance(&x, d, eta),
+            _ => x,
+        }
     }
 
     /// The covering of the class with coordinates `w`.
@@ -480,9 +498,103 @@ impl CubeSide {
     }
 }
 
+/// `ln |x|` of a non-zero integer of any size.
+fn ln_abs_big(x: &Integer) -> f64 {
+    use malachite::base::num::arithmetic::traits::ShrRound;
+    use malachite::base::rounding_modes::RoundingMode;
+    let n = x.unsigned_abs_ref();
+    let bits = n.significant_bits();
+    let shift = bits.saturating_sub(64);
+    let top = u64::try_from(&n.shr_round(shift, RoundingMode::Floor).0).unwrap_or(u64::MAX);
+    (top as f64).ln() + shift as f64 * std::f64::consts::LN_2
+}
+
+/// A unit `x + y sqrt d` of `Z[sqrt d]`, `d > 1` square-free, `x, y > 0`:
+/// the least solution of `x^2 - d y^2 = +-1` by the continued fraction of
+/// `sqrt d` (a power of the fundamental unit of the maximal order, with
+/// exponent 1 or 3). `None` past `max_steps` partial quotients.
+fn pell_unit(d: &Integer, max_steps: usize) -> Option<QuadElt> {
+    use malachite::base::num::arithmetic::traits::FloorSqrt;
+    let a0 = Integer::from(d.unsigned_abs_ref().floor_sqrt());
+    let (mut m, mut q, mut a) = (Integer::ZERO, Integer::ONE, a0.clone());
+    let (mut p_prev, mut p) = (Integer::ONE, a0.clone());
+    let (mut q_prev, mut qq) = (Integer::ZERO, Integer::ONE);
+    for _ in 0..max_steps {
+        let nm = &p * &p - d * &qq * &qq;
+        if nm == 1u32 || nm == -1i32 {
+            return Some(QuadElt {
+                a: Rational::from(p),
+                b: Rational::from(qq),
+            });
+        }
+        m = &q * &a - &m;
+        q = (d - &m * &m) / &q;
+        a = (&a0 + &m) / &q;
+        let np = &a * &p + &p_prev;
+        let nq = &a * &qq + &q_prev;
+        p_prev = std::mem::replace(&mut p, np);
+        q_prev = std::mem::replace(&mut qq, nq);
+    }
+    None
+}
+
+/// `x` times the cube of a power of the unit `eta` (class unchanged) with
+/// its two real embeddings balanced: `|sigma_1| ~ |sigma_2|` up to a factor
+/// `eta^3` (integral `x`).
+fn balance(x: &QuadElt, d: &Integer, eta: &QuadElt) -> QuadElt {
+    let Ok(a) = Integer::try_from(&x.a) else {
+        return x.clone();
+    };
+    let Ok(b) = Integer::try_from(&x.b) else {
+        return x.clone();
+    };
+    let nm = &a * &a - d * &b * &b;
+    if b == 0u32 || nm == 0u32 {
+        return x.clone();
+    }
+    // the embedding without cancellation, |a| + |b| sqrt d, the other
+    // through the norm
+    let (la, lb) = (ln_abs_big(&a), ln_abs_big(&b) + 0.5 * ln_abs_big(d));
+    let l_big = if a == 0u32 {
+        lb
+    } else {
+        la.max(lb) + (-(la - lb).abs()).exp().ln_1p()
+    };
+    let l_small = ln_abs_big(&nm) - l_big;
+    // ln|sigma_1| - ln|sigma_2|, sigma_1 = a + b sqrt d
+    let same_sign = (a >= 0) == (b >= 0);
+    let diff = if same_sign {
+        l_big - l_small
+    } else {
+        l_small - l_big
+    };
+    let r = ln_abs_big(&(Integer::try_from(&eta.a).unwrap_or(Integer::ONE) * Integer::from(2)));
+    if !(r > 0.0) || !diff.is_finite() {
+        return x.clone();
+    }
+    // eta^(3j) moves ln|sigma_1| - ln|sigma_2| by 6 j ln(eta)
+    let j = (-diff / (6.0 * r)).round();
+    if j == 0.0 || !j.is_finite() || j.abs() > 1e6 {
+        return x.clone();
+    }
+    let base = if j > 0.0 {
+        eta.clone()
+    } else {
+        // eta^-1 = +-conj(eta): the sign is a cube
+        QuadElt {
+            a: eta.a.clone(),
+            b: -eta.b.clone(),
+        }
+    };
+    let mut out = x.clone();
+    for _ in 0..(3 * j.abs() as u64) {
+        out = out.mul(&base, d);
+    }
+    out
+}
+
 /// A smaller representative of the class of `x`: integral coordinates, the
-/// largest rational cube dividing both removed (within `limits`; else the
-/// integral form as it is).
+/// cubes of the primes below 1000 dividing both removed.
 fn small_representative(x: &QuadElt, limits: &FactorLimits) -> QuadElt {
     // x = (A + B sqrt d)/D ~ (A + B sqrt d) D^2 modulo cubes
     let signed = |r: &Rational| -> Integer {
@@ -499,16 +611,26 @@ fn small_representative(x: &QuadElt, limits: &FactorLimits) -> QuadElt {
     let d2 = &dd * &dd;
     let mut a = signed(&x.a) * &db * &d2;
     let mut b = signed(&x.b) * &da * &d2;
-    let g = Integer::from((&a).unsigned_abs().gcd((&b).unsigned_abs()));
+    // the cubes of primes below 1000 dividing both (trial division only: a
+    // factorisation of the content could cost more than the whole descent)
+    let _ = limits;
+    let mut g = Integer::from((&a).unsigned_abs().gcd((&b).unsigned_abs()));
     if g > 1u32 {
-        if let Ok(fac) = factor(&g, limits) {
-            let mut cube = Integer::ONE;
-            for (p, e) in fac.factors() {
-                cube *= Integer::from(p.clone()).pow(u64::from(*e / 3 * 3));
+        let mut cube = Integer::ONE;
+        for p in crate::arith::primes_up_to(1000) {
+            let pi = Integer::from(p);
+            let mut e = 0u64;
+            while g != 0u32 && (&g).divisible_by(&pi) {
+                g /= &pi;
+                e += 1;
             }
-            a /= &cube;
-            b /= &cube;
+            cube *= pi.pow(e / 3 * 3);
+            if g == 1u32 {
+                break;
+            }
         }
+        a /= &cube;
+        b /= &cube;
     }
     QuadElt {
         a: Rational::from(a),
@@ -614,9 +736,11 @@ impl ModOpRef for Integer {
 /// classes `t0 + p^m Z_p`, with `e = v(g(t0))`, `d = v(g'(t0))`:
 /// - `g(t0) = 0` or `e > 2 d`: `g` has a root in the class (Hensel), a
 ///   point with `z = 0`;
-/// - `m >= e + s` (`s = 2` at 3, else 1): every value on the class is
-///   `g(t0)` times an element of `1 + p^s Z_p`, a cube, so the class is
-///   decided by the cube test of `g(t0)/c`;
+/// - the non-constant part of `h(x) = g(t0 + p^m x)` has valuation at
+///   least `e + s` (`s = 2` at 3, else 1; always so once `m >= e + s`):
+///   every value on the class is `g(t0)` times an element of
+///   `1 + p^s Z_p`, a cube, so the class is decided by the cube test of
+///   `g(t0)/c`;
 /// - else its `p` subclasses are searched.
 ///
 /// Depth bound: `Res(g, g') = A g + B g'` with `A, B` in `Z[t]`, so
@@ -748,7 +872,18 @@ fn chart_soluble_by(
                 return Ok(true);
             }
         }
-        if u64::from(m) >= e + u64::from(s) {
+        // every value on the class is g(t0) (1 + p^s Z_p) once the
+        // non-constant part of h(x) = g(t0 + p^m x) has valuation at least
+        // e + s (always once m >= e + s)
+        let step = (&pi).pow(u64::from(m));
+        let h = taylor_shift(&g, &t0, &step);
+        let nu = h[1..]
+            .iter()
+            .filter(|c| **c != 0u32)
+            .map(|c| split_valuation(c, &pi).0)
+            .min()
+            .unwrap_or(u64::MAX);
+        if nu >= e + u64::from(s) {
             if is_padic_cube(e as i64 - vc, &(u * &cinv), p) {
                 return Ok(true);
             }
@@ -760,7 +895,6 @@ fn chart_soluble_by(
                 "a residue class left open beyond the depth bound",
             ));
         }
-        let step = (&pi).pow(u64::from(m));
         for j in 0..p {
             stack.push((&t0 + Integer::from(j) * &step, m + 1));
         }

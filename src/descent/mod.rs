@@ -1,5 +1,6 @@
-//! The descents: through a rational 2-isogeny and (later) through quartic
-//! 2-coverings, with the F2 bookkeeping of Selmer groups.
+//! The descents: through a rational 2-isogeny, through quartic 2-coverings
+//! and (first stage, `cube_isogeny`) through the 3-isogeny of y^2 = x^3 + k,
+//! with the F2 bookkeeping of Selmer groups.
 
 pub(crate) mod f2;
 pub mod full;

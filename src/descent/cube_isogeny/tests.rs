@@ -571,3 +571,42 @@ fn descent_alone_probe() {
         d.rank_bound
     );
 }
+
+#[test]
+fn pell_units_and_balancing() {
+    let q = |a: i64, b: i64| QuadElt {
+        a: Rational::from(a),
+        b: Rational::from(b),
+    };
+    // least solutions of x^2 - d y^2 = +-1 (checked by hand: 1 - 2 = -1, 4 - 5 = -1)
+    assert_eq!(pell_unit(&int(2), 100), Some(q(1, 1)));
+    assert_eq!(pell_unit(&int(5), 100), Some(q(2, 1)));
+    // Q(sqrt 1031): the lead's fundamental unit (Z[sqrt 1031] is the maximal order)
+    assert_eq!(
+        pell_unit(&int(1031), 10_000),
+        Some(q(651737448664200, 20297537082877))
+    );
+    // (2 + sqrt 2)(1 + sqrt 2)^7 balanced: same norm, the unit part removed up to a cube
+    let eta = q(1, 1);
+    let mut x = q(2, 1);
+    for _ in 0..7 {
+        x = x.mul(&eta, &int(2));
+    }
+    let y = balance(&x, &int(2), &eta);
+    // the norm up to sign (eta^3 has norm -1, a cube)
+    let (ny, nx) = (y.norm(&int(2)), x.norm(&int(2)));
+    assert!(ny == nx || ny == -nx.clone());
+    assert!(y.b.clone() * y.b.clone() < Rational::from(100), "{y:?}");
+    // x / y is a cube in Q(sqrt 2)
+    let conj = QuadElt {
+        a: y.a.clone(),
+        b: -y.b.clone(),
+    };
+    let t = x.mul(&conj, &int(2));
+    let n = y.norm(&int(2));
+    let ratio = QuadElt {
+        a: t.a / &n,
+        b: t.b / &n,
+    };
+    assert!(cube_root_in_field(&ratio, &int(2)).is_some());
+}
