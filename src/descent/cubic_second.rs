@@ -91,9 +91,14 @@ pub(crate) struct SecondDescent {
     covering: BinaryCubicCovering,
     swapped: bool,
     pub(crate) coverings: Vec<PlaneCovering>,
+    // the counts below are read by the tests (the prototype's figures) and
+    // kept for a report of the descent
+    #[allow(dead_code)]
     pub(crate) candidates: usize,
+    #[allow(dead_code)]
     pub(crate) dimension: usize,
     /// Candidates whose local solubility was left undecided (kept).
+    #[allow(dead_code)]
     pub(crate) undecided: usize,
 }
 
@@ -103,21 +108,6 @@ fn bad(kind: ErrorKind, msg: impl Into<String>) -> Error {
 
 fn z(v: i64) -> Integer {
     Integer::from(v)
-}
-
-/// `F(p)` for a ternary cubic with coefficients in any ring given by `eval`.
-fn eval_form(c: &[Integer; 10], p: &[Integer; 3]) -> Integer {
-    let mut s = Integer::ZERO;
-    for (k, e) in MONOMIALS.iter().enumerate() {
-        let mut t = c[k].clone();
-        for i in 0..3 {
-            for _ in 0..e[i] {
-                t *= &p[i];
-            }
-        }
-        s += t;
-    }
-    s
 }
 
 fn eval_form_q(c: &[Rational; 10], p: &[Integer; 3]) -> Rational {
@@ -285,6 +275,7 @@ pub(crate) fn second_descent(cov: &BinaryCubicCovering, s_primes: &[u64], work: 
                 beta = field.mul(&beta, &field.pow(g, e[i] as i64)?);
             }
         }
+        let beta = without_rational_cubes(&field, &beta)?;
         let (form, p0, p1) = ternary_cubic(&field, &beta);
         let mut soluble = Some(true);
         for &p in &s {
@@ -303,7 +294,8 @@ pub(crate) fn second_descent(cov: &BinaryCubicCovering, s_primes: &[u64], work: 
         if soluble.is_none() {
             undecided += 1;
         }
-        let start = minimise(&form, &minimisation_primes(&field, &beta, &s));
+        let mp = minimisation_primes(&field, &beta, &s);
+        let start = minimise(&form, &mp);
         let basis = reduction_basis(&field, &beta, &start)?;
         let reduced = primitive(substitute(&form, &basis));
         coverings.push(PlaneCovering { form: reduced, basis, p0, p1 });
@@ -345,9 +337,10 @@ impl SecondDescent {
 /// descent: `C` is GL2-reduced, descended over its cubic field with `S` =
 /// `s_primes` and the primes of the reduced leading coefficient and of `m`
 /// (by trial division below `2^20`; refused if they do not factor so),
-/// each locally soluble plane cubic searched to `height`, and each point
+/// each locally soluble plane cubic searched to the first of `heights`
+/// that gives a point (in turn), and each point
 /// mapped back and checked on `cov`. Points with `w = 0` are dropped.
-pub(crate) fn binary_covering_points(cov: &BinaryCubicCovering, s_primes: &[u64], height: u64, work: &Work) -> Result<Vec<[Integer; 3]>, Error> {
+pub(crate) fn binary_covering_points(cov: &BinaryCubicCovering, s_primes: &[u64], heights: &[u64], work: &Work) -> Result<Vec<[Integer; 3]>, Error> {
     let (reduced, t) = reduce_binary_cubic(&cov.c)?;
     let mut s: Vec<u64> = s_primes.to_vec();
     s.push(3);
@@ -359,7 +352,8 @@ pub(crate) fn binary_covering_points(cov: &BinaryCubicCovering, s_primes: &[u64]
     let red = BinaryCubicCovering { c: reduced, m: cov.m.clone() };
     let sd = second_descent(&red, &s, work)?;
     let mut out = Vec::new();
-    for pc in &sd.coverings {
+    for &height in heights {
+      for pc in &sd.coverings {
         let limits = crate::search::SearchLimits::within(work, height);
         let found = crate::search::search_plane_cubic(&pc.form, &limits)?;
         for p in &found.points {
@@ -378,8 +372,67 @@ pub(crate) fn binary_covering_points(cov: &BinaryCubicCovering, s_primes: &[u64]
             }
             out.push([u, v, w]);
         }
+      }
+      if !out.is_empty() {
+          break;
+      }
     }
     Ok(out)
+}
+
+/// Points of `E_k: y^2 = x^3 + k` from the second descent of the coverings
+/// of the non-zero Selmer elements of both sides of `cd` (one of each pair
+/// of inverse classes), searched at `heights` in turn, mapped to `E_k` (through
+/// `phi^` from `E_{-27k}`) and each checked on `E_k`. A covering whose
+/// binary cubic is reducible or whose cubic field has 3 dividing its
+/// S-class number is skipped (`skipped` counts them).
+pub(crate) fn points_by_second_descent(cd: &crate::descent::cube_isogeny::CubeDescent, heights: &[u64], work: &Work) -> Result<(Vec<crate::Point>, usize), Error> {
+    use crate::descent::cube_isogeny::{phi_hat, side_curve};
+    let e = side_curve(&cd.k)?;
+    let limits = FactorLimits::within(work);
+    let mut out = Vec::new();
+    let mut skipped = 0;
+    for (dual, side) in [(false, &cd.own), (true, &cd.dual)] {
+        let d = side.selmer.len();
+        let n = side.candidates.len();
+        for code in 1..3usize.pow(d as u32) {
+            let coeffs: Vec<u8> = (0..d).map(|i| ((code / 3usize.pow(i as u32)) % 3) as u8).collect();
+            if coeffs.iter().find(|&&c| c != 0) == Some(&2) {
+                continue;
+            }
+            let mut w = vec![0u8; n];
+            for (c, row) in coeffs.iter().zip(&side.selmer) {
+                for (x, y) in w.iter_mut().zip(row) {
+                    *x = (*x + c * y) % 3;
+                }
+            }
+            if work.exhausted() {
+                return Err(bad(ErrorKind::Budget, "the second 3-descent ran out of its budget"));
+            }
+            let cov = side.covering(&w, &limits)?;
+            let bc = BinaryCubicCovering { c: cov.form.clone(), m: cov.c.clone() };
+            let pts = match binary_covering_points(&bc, &side.s_primes, heights, work) {
+                Ok(p) => p,
+                Err(err) if err.kind() == &ErrorKind::InvalidValue => {
+                    skipped += 1;
+                    continue;
+                }
+                Err(err) => return Err(err),
+            };
+            for [u, v, z] in pts {
+                let Some(p) = cov.map(&Rational::from(u), &Rational::from(v), &Rational::from(z)) else { continue };
+                let p = if dual { phi_hat(&cd.k, &p) } else { p };
+                if p.is_infinity() {
+                    continue;
+                }
+                if !e.contains(&p) {
+                    return Err(Error::internal("descent::cubic_second", "a point of the second 3-descent is not on the curve"));
+                }
+                out.push(p);
+            }
+        }
+    }
+    Ok((out, skipped))
 }
 
 /// The prime factors of `n` if all are below `2^20`.
@@ -729,6 +782,34 @@ fn reduction_basis(field: &NumberField, beta: &Element, start: &[[Integer; 3]; 3
     Ok([0, 1, 2].map(|i| [0, 1, 2].map(|j| b[j][i].clone())))
 }
 
+/// `beta / p^(3t)` for each prime `p` of its norm (below `2^16`), `t` the
+/// largest with `3 e(P|p) t <= v_P(beta)` at every prime `P` above `p`
+/// (the same class modulo cubes, a smaller representative).
+fn without_rational_cubes(field: &NumberField, beta: &Element) -> Result<Element, Error> {
+    let n = field.norm(beta);
+    let mut primes = Vec::new();
+    for part in [n.numerator_ref().clone(), n.denominator_ref().clone()] {
+        primes.extend(small_prime_factors(&Integer::from(part)).unwrap_or_default());
+    }
+    primes.sort_unstable();
+    primes.dedup();
+    let mut beta = beta.clone();
+    for p in primes {
+        let mut t: Option<i64> = None;
+        for pr in field.primes_above(p)? {
+            let v = field.valuation(&beta, &pr)?;
+            let e = i64::from(pr.e);
+            let q = v.div_euclid(3 * e);
+            t = Some(t.map_or(q, |t0| t0.min(q)));
+        }
+        if let Some(t) = t.filter(|&t| t != 0) {
+            let scale = malachite::base::num::arithmetic::traits::Pow::pow(Rational::from(p), -3 * t);
+            beta = field.mul(&beta, &field.rational(&scale));
+        }
+    }
+    Ok(beta)
+}
+
 /// The primes of `S` and the small primes outside `S` dividing the norm of
 /// `beta` (its generators, reduced modulo cubes, carry cubes of ideals
 /// outside `S`, which make the plane cubic non-minimal there).
@@ -778,10 +859,12 @@ pub(crate) fn minimise(form: &[Integer; 10], primes: &[u64]) -> [[Integer; 3]; 3
     let mul = |a: &[[Integer; 3]; 3], b: &[[Integer; 3]; 3]| -> [[Integer; 3]; 3] {
         [0, 1, 2].map(|i| [0, 1, 2].map(|j| (0..3).map(|k| &a[i][k] * &b[k][j]).sum()))
     };
-    for _round in 0..64 {
-        let mut improved = false;
-        'primes: for &p in primes {
+    // a move at p has a determinant prime to every other prime, so the
+    // primes are done one after the other
+    for &p in primes {
+        for _step in 0..1000 {
             let subs = if p <= MINIMISE_MAX_PRIME { sublattices(p) } else { singular_sublattices(&cur, p) };
+            let mut improved = false;
             for (sub, need) in subs {
                 let f2 = substitute(&cur, &sub);
                 let g = f2.iter().fold(Natural::ZERO, |g, v| g.gcd(v.unsigned_abs_ref().clone()));
@@ -792,12 +875,12 @@ pub(crate) fn minimise(form: &[Integer; 10], primes: &[u64]) -> [[Integer; 3]; 3
                     cur = primitive(f2);
                     basis = mul(&basis, &sub);
                     improved = true;
-                    break 'primes;
+                    break;
                 }
             }
-        }
-        if !improved {
-            break;
+            if !improved {
+                break;
+            }
         }
     }
     basis
@@ -808,17 +891,20 @@ pub(crate) fn minimise(form: &[Integer; 10], primes: &[u64]) -> [[Integer; 3]; 3
 /// vanish there), and the index-`p` ones of the lines through two of them.
 fn singular_sublattices(f: &[Integer; 10], p: u64) -> Vec<([[Integer; 3]; 3], i64)> {
     let pz = Integer::from(p);
-    let c: Vec<u128> = f.iter().map(|v| u64::try_from(&v.mod_op(&pz)).unwrap_or(0) as u128).collect();
-    let pm = p as u128;
-    let grad_zero = |q: [u128; 3]| -> bool {
+    if p >= 1 << 32 {
+        return Vec::new();
+    }
+    let c: Vec<u64> = f.iter().map(|v| u64::try_from(&v.mod_op(&pz)).unwrap_or(0)).collect();
+    let pm = p;
+    let grad_zero = |q: [u64; 3]| -> bool {
         // dF/dx_i at q modulo p, from the monomials
         (0..3).all(|i| {
-            let mut s = 0u128;
+            let mut s = 0u64;
             for (k, e) in MONOMIALS.iter().enumerate() {
                 if e[i] == 0 || c[k] == 0 {
                     continue;
                 }
-                let mut t = c[k] * e[i] as u128 % pm;
+                let mut t = c[k] * e[i] as u64 % pm;
                 for j in 0..3 {
                     let ej = if j == i { e[j] - 1 } else { e[j] };
                     for _ in 0..ej {
@@ -833,7 +919,7 @@ fn singular_sublattices(f: &[Integer; 10], p: u64) -> Vec<([[Integer; 3]; 3], i6
     let mut sing: Vec<[i64; 3]> = Vec::new();
     let pi = p as i64;
     let consider = |q: [i64; 3], sing: &mut Vec<[i64; 3]>| {
-        if sing.len() < 8 && grad_zero(q.map(|v| v as u128)) {
+        if sing.len() < 8 && grad_zero(q.map(|v| v as u64)) {
             sing.push(q);
         }
     };

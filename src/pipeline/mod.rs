@@ -115,6 +115,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
             None if !early => heegner_point(&mut report, data, options, work)?,
             None => {}
         }
+        three_descent_point(&mut report, data, work)?;
         if report.points.is_empty() && !work.exhausted() {
             // a Heegner step stopped by its share of the budget marked the
             // report as cut short: the mark survives the second descent run
@@ -127,6 +128,7 @@ pub fn analyse_data(data: &CurveData, options: &RankOptions, work: &Work) -> Res
     } else {
         descents(&mut report, data, &torsion, options, work, enough, &mut unfinished, &mut algebra_once)?;
         heegner_point(&mut report, data, options, work)?;
+        three_descent_point(&mut report, data, work)?;
     }
     for p in &report.points {
         if !data.input().contains(p) {
@@ -1159,43 +1161,97 @@ fn heegner_search(report: &mut RankReport, data: &CurveData, options: &RankOptio
     }
 }
 
-/// Enters the Heegner route's generator into the report, checked on both
-/// models and against the descents' upper bound, unless the descents have
-/// already found a point.
-fn adopt_heegner_point(report: &mut RankReport, data: &CurveData, found: &crate::heegner::HeegnerResult) -> Result<(), Error> {
+/// The heights to which [`three_descent_point`] searches the plane cubics
+/// of the second 3-descent, in turn while no point is found.
+const THREE_DESCENT_HEIGHTS: [u64; 3] = [256, 4096, 65536];
+
+/// For `y^2 = x^3 + k` (the minimal model) still without a point while the
+/// descents allow one: the first descent by 3-isogeny
+/// (`descent::cube_isogeny`) and the second descent of each Selmer covering
+/// over its cubic field (`descent::cubic_second`), whose plane cubics are
+/// searched at the heights [`THREE_DESCENT_HEIGHTS`] within half of the
+/// time left; a point found joins the report like the Heegner route's.
+/// A route stopped by its budget marks the report cut short; any other
+/// failure except an inconsistency leaves the report as it was.
+fn three_descent_point(report: &mut RankReport, data: &CurveData, work: &Work) -> Result<(), Error> {
+    let c = data.minimal().coefficients();
+    let short = c[0] == 0 && c[1] == 0 && c[2] == 0 && c[3] == 0;
+    let upper_allows = report.descent_bounds.1.is_none_or(|u| u >= 1);
+    let rank_zero = report.rank() == Some(0) || report.analytic.as_ref().and_then(|a| a.rank) == Some(0);
+    if !short || !report.points.is_empty() || !upper_allows || rank_zero || work.exhausted() {
+        return Ok(());
+    }
+    work.report(Stage::Search, "points by a second descent through the 3-isogeny");
+    let share = work.share(0.5);
+    let outcome = (|| -> Result<Option<(Point, u64)>, Error> {
+        let cd = crate::descent::cube_isogeny::cube_isogeny_descent(&c[4], &share)?;
+        let (pts, _) = crate::descent::cubic_second::points_by_second_descent(&cd, &THREE_DESCENT_HEIGHTS, &share)?;
+        let h = THREE_DESCENT_HEIGHTS[THREE_DESCENT_HEIGHTS.len() - 1];
+        Ok(pts.into_iter().min_by_key(|p| p.x().map(|x| x.denominator_ref().clone())).map(|p| (p, h)))
+    })();
+    match outcome {
+        Ok(Some((p, h))) => adopt_point(
+            report,
+            data,
+            &p,
+            "the 3-isogeny descent",
+            &format!("a point of infinite order (not in the torsion subgroup), found on a plane-cubic covering from a second descent through the 3-isogeny (search heights up to {h}) and verified exactly"),
+        ),
+        Ok(None) => Ok(()),
+        Err(e) if *e.kind() == crate::error::ErrorKind::Internal => Err(e),
+        Err(e) => {
+            if matches!(e.kind(), crate::error::ErrorKind::Budget | crate::error::ErrorKind::FactorBudget) || work.exhausted() {
+                report.budget_exhausted = true;
+            }
+            Ok(())
+        }
+    }
+}
+
+/// Enters a point of infinite order on the minimal model into the report
+/// (checked on both models, against the torsion and the descents' upper
+/// bound), with the independence statement `text`.
+fn adopt_point(report: &mut RankReport, data: &CurveData, g: &Point, route: &str, text: &str) -> Result<(), Error> {
     if !report.points.is_empty() {
         return Ok(());
     }
-    let g = &found.generator;
     if !data.minimal().contains(g) {
-        return Err(Error::internal("the Heegner route", "the generator is not on the minimal model"));
+        return Err(Error::internal(route, "the point is not on the minimal model"));
     }
     let on_input = data.to_input(g);
     if !data.input().contains(&on_input) {
-        return Err(Error::internal("the Heegner route", "the generator is not on the input model"));
+        return Err(Error::internal(route, "the point is not on the input model"));
     }
     if g.is_infinity() || report.torsion_points.contains(&on_input) {
-        return Err(Error::internal("the Heegner route", "the generator is a torsion point"));
+        return Err(Error::internal(route, "the point is a torsion point"));
     }
     report.points = vec![on_input];
-    let on = match &found.isogenous_curve {
-        Some((c, d)) => format!(" on the {d}-isogenous curve {c}, carried back along the isogeny,"),
-        None => String::new(),
-    };
-    report.independence = format!(
-        "a point of infinite order (not in the torsion subgroup), found by the Heegner point method \
-         (discriminant {}, {} bits){on} and verified exactly",
-        found.discriminant, found.precision
-    );
+    report.independence = text.to_string();
     let (lo, up) = report.descent_bounds;
     if up.is_some_and(|u| u < 1) {
-        return Err(Error::internal("the Heegner route", "a point of infinite order against a descent upper bound 0"));
+        return Err(Error::internal(route, "a point of infinite order against a descent upper bound 0"));
     }
     report.descent_bounds = (Some(lo.unwrap_or(0).max(1)), up);
     if report.descent_bounds.0 == up && !report.rank_proven_by.contains(&crate::report::ProofRoute::Descent) {
         report.rank_proven_by.insert(0, crate::report::ProofRoute::Descent);
     }
     Ok(())
+}
+
+/// Enters the Heegner route's generator into the report, checked on both
+/// models and against the descents' upper bound, unless the descents have
+/// already found a point.
+fn adopt_heegner_point(report: &mut RankReport, data: &CurveData, found: &crate::heegner::HeegnerResult) -> Result<(), Error> {
+    let on = match &found.isogenous_curve {
+        Some((c, d)) => format!(" on the {d}-isogenous curve {c}, carried back along the isogeny,"),
+        None => String::new(),
+    };
+    let text = format!(
+        "a point of infinite order (not in the torsion subgroup), found by the Heegner point method \
+         (discriminant {}, {} bits){on} and verified exactly",
+        found.discriminant, found.precision
+    );
+    adopt_point(report, data, &found.generator, "the Heegner route", &text)
 }
 
 #[cfg(test)]

@@ -121,7 +121,7 @@ fn binary_reduction_then_second_descent_finds_the_9279_generator() {
     assert_eq!(substitute_binary(&c, &t), reduced);
     // the reduced form is small (the prototype's was 9 (-27, 0, 45, 68))
     assert!(reduced.iter().all(|v| v.unsigned_abs_ref() < &Natural::from(10_000u32)), "{reduced:?}");
-    let pts = binary_covering_points(&cov, &[2, 3, 1031], 4096, &Work::unlimited()).unwrap();
+    let pts = binary_covering_points(&cov, &[2, 3, 1031], &[4096], &Work::unlimited()).unwrap();
     let (a, b) = (Integer::from(27) * &a0, Integer::from(9) * &b0);
     let xs: Vec<Rational> = pts.iter().map(|uvw| point_on_e(&k, &a, &b, &nine, uvw).0).collect();
     assert!(xs.contains(&Rational::from_integers(Integer::from(234815800832699168650175209u128), Integer::from(54324205395515756480160000u128))), "{xs:?}");
@@ -152,7 +152,7 @@ fn second_descent_on_mordell_curves_with_small_points() {
         };
         let kz = Integer::from(k);
         let cov = covering_of(&kz, &Integer::from(y), &Integer::ONE);
-        let res = binary_covering_points(&cov, &primes, 256, &Work::unlimited());
+        let res = binary_covering_points(&cov, &primes, &[256], &Work::unlimited());
         match res {
             Ok(pts) => {
                 for uvw in &pts {
@@ -171,4 +171,27 @@ fn second_descent_on_mordell_curves_with_small_points() {
         }
     }
     assert_eq!(with_points, 5);
+}
+
+#[test]
+fn first_and_second_descent_together_give_the_9279_generator() {
+    // the library's own first descent (both sides of the 3-isogeny), then the
+    // second descent of every Selmer covering
+    let k = Integer::from(9279);
+    let cd = crate::descent::cube_isogeny::cube_isogeny_descent(&k, &Work::unlimited()).unwrap();
+    let (pts, _) = points_by_second_descent(&cd, &[4096], &Work::unlimited()).unwrap();
+    let x = Rational::from_integers(Integer::from(234815800832699168650175209u128), Integer::from(54324205395515756480160000u128));
+    assert!(pts.iter().any(|p| p.x() == Some(&x)), "{pts:?}");
+}
+
+#[test]
+#[ignore]
+fn probe_k_from_env() {
+    let k: i64 = std::env::var("PROBE_K").unwrap().parse().unwrap();
+    let k = Integer::from(k);
+    let t = std::time::Instant::now();
+    let cd = crate::descent::cube_isogeny::cube_isogeny_descent(&k, &Work::unlimited()).unwrap();
+    eprintln!("first descent {:?}: own sel {} dual sel {} cands {} {}", t.elapsed(), cd.own.selmer.len(), cd.dual.selmer.len(), cd.own.candidates.len(), cd.dual.candidates.len());
+    let r = points_by_second_descent(&cd, &[256, 4096, 65536], &Work::unlimited());
+    eprintln!("{:?} {:?}", t.elapsed(), r.as_ref().map(|(p, s)| (p.len(), *s, p.first().cloned())).map_err(|e| e.to_string()));
 }
