@@ -30,9 +30,11 @@
 //! cover; the tests compare it with [`search_plane_cubic_naive`], which
 //! tries every triple. It is not a proof that no point was missed, and no
 //! part of the library uses it as one: only the points found are used,
-//! each checked exactly. Singular cubics are accepted, but arcs through a
-//! singular point (gradient near zero) are skipped and the search is then
-//! not reported complete.
+//! each checked exactly. Singular cubics are accepted, but a singular point
+//! of the curve (a node, a cusp, an isolated real point) lies on no arc and
+//! may be missed without the search knowing it; arcs that meet a region of
+//! near-zero gradient are skipped and the search is then not reported
+//! complete. The coverings of a descent are smooth.
 
 use super::{SearchLimits, SearchOutcome};
 use crate::error::{Error, ErrorKind};
@@ -412,9 +414,13 @@ impl Shell<'_> {
                 let u = -1.0 + (i as f64 + 0.5) * step;
                 let mut roots = std::mem::take(&mut self.roots);
                 real_roots(pass.in_b(u), &mut roots);
-                for &v0 in &roots {
+                for (i, &v0) in roots.iter().enumerate() {
                     if v0.abs() <= 1.0 + 1e-6 {
-                        self.arcs_from(&pass, u, v0, 0.5 * step);
+                        // half the distance to the nearest other root: Newton's
+                        // method may not leave it (two close branches, as near
+                        // a node, must not merge into one)
+                        let iso = roots.iter().enumerate().filter(|&(j, _)| j != i).map(|(_, &r)| 0.5 * (r - v0).abs()).fold(f64::INFINITY, f64::min);
+                        self.arcs_from(&pass, u, v0, 0.5 * step, iso);
                     }
                 }
                 self.roots = roots;
@@ -427,8 +433,14 @@ impl Shell<'_> {
 
     /// The arcs around `(u, v0)` of half width `w`, cut until their boxes
     /// are small, and their lattice points.
-    fn arcs_from(&mut self, pass: &Pass, u: f64, v0: f64, w: f64) {
-        let Some(v) = pass.on_curve(u, v0) else { return };
+    fn arcs_from(&mut self, pass: &Pass, u: f64, v0: f64, w: f64, iso: f64) {
+        let v = match pass.on_curve(u, v0) {
+            Some(v) if (v - v0).abs() < iso => v,
+            _ => {
+                self.degenerate = true;
+                v0
+            }
+        };
         let (_, fa, fb) = pass.value_and_slope(u, v);
         if fb == 0.0 || (fa / fb).abs() > 1.25 {
             return;
@@ -437,7 +449,15 @@ impl Shell<'_> {
         self.stack.push((u, v, w));
         while let Some((uc, vc, w)) = self.stack.pop() {
             let Some(arc) = self.arc(pass, uc, vc, w) else {
-                self.degenerate = true;
+                // Newton's method left the branch or met a vanishing
+                // gradient: shorter arcs, down to a floor
+                if w * self.h < 1e-3 {
+                    self.degenerate = true;
+                } else {
+                    let q = 0.5 * w;
+                    self.stack.push((uc - q, vc, q));
+                    self.stack.push((uc + q, vc, q));
+                }
                 continue;
             };
             let h3 = self.h * self.h * self.h;
@@ -478,8 +498,11 @@ impl Shell<'_> {
     /// The arc at `(u, v)` of half width `w`: slope, and the distance bound
     /// from the deviation at `±w/2` and `±w` (doubled) plus the rounding of
     /// the box coordinates.
-    fn arc(&self, pass: &Pass, u: f64, v: f64, w: f64) -> Option<Arc> {
-        let v = pass.on_curve(u, v)?;
+    fn arc(&self, pass: &Pass, u: f64, v0: f64, w: f64) -> Option<Arc> {
+        let v = pass.on_curve(u, v0)?;
+        if (v - v0).abs() > 2.0 * w + 1e-12 {
+            return None;
+        }
         let (_, fa, fb) = pass.value_and_slope(u, v);
         let grad = fa.abs() + fb.abs();
         if !(grad > 1e-9) || fb == 0.0 {
@@ -487,15 +510,30 @@ impl Shell<'_> {
         }
         let s = -fa / fb;
         let mut dev = 0.0f64;
-        for t in [-w, -0.5 * w, 0.5 * w, w] {
+        let mut devs = [0.0f64; 4];
+        for (k, t) in [-w, -0.5 * w, 0.5 * w, w].into_iter().enumerate() {
             let vt = pass.on_curve(u + t, v + s * t)?;
             let e = (vt - v - s * t).abs();
-            if !(e.is_finite()) || e > 0.5 {
+            if !(e.is_finite()) || e > 0.5 * w * (1.0 + s.abs()) + 1e-12 {
                 return None;
             }
+            devs[k] = e;
             dev = dev.max(e);
         }
-        let d = 2.0 * dev + 4e-15 * (2.0 + s.abs());
+        // a curved arc deviates about four times more at w than at w/2; a
+        // far smaller ratio means a Newton run jumped to another branch
+        // (or an inflection, which is harmless): the arc is cut then
+        for (half, full) in [(devs[1], devs[0]), (devs[2], devs[3])] {
+            if full > 1e-13 && half > 0.0 && full < 1.5 * half {
+                return None;
+            }
+        }
+        // a floor on the thickness: on a (nearly) straight arc the box would
+        // be so thin that the reduced basis in f64 loses the lattice points
+        // (a line component of a reducible cubic was missed so); with
+        // `d >= 0.01 / H^2` its volume stays below 1/10 and the scales within
+        // a factor 100 H^2
+        let d = (2.0 * dev + 4e-15 * (2.0 + s.abs())).max(0.01 / (self.h * self.h));
         Some(Arc { u, v, s, w, d })
     }
 }
