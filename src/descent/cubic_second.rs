@@ -40,26 +40,11 @@ use crate::budget::Work;
 use crate::error::{Error, ErrorKind};
 use crate::heights::real::{fi, fq, ln, to_f64, Cx};
 use crate::numfield::{ClassGroupOptions, Element, NumberField};
-use crate::search::PlanePoint;
+use crate::search::{PlanePoint, MONOMIALS};
 use malachite::base::num::arithmetic::traits::{CheckedRoot, Gcd, Lcm, Mod};
 use malachite::base::num::basic::traits::{One, Zero};
 use malachite::base::num::logic::traits::SignificantBits;
 use malachite::{Float, Integer, Natural, Rational};
-
-/// The monomials of a ternary cubic in the order of its coefficients
-/// (as in [`crate::search::search_plane_cubic`]).
-const MONOMIALS: [[usize; 3]; 10] = [
-    [3, 0, 0],
-    [2, 1, 0],
-    [2, 0, 1],
-    [1, 2, 0],
-    [1, 1, 1],
-    [1, 0, 2],
-    [0, 3, 0],
-    [0, 2, 1],
-    [0, 1, 2],
-    [0, 0, 3],
-];
 
 /// Most `F_3`-dimensions of `L(S, 3)` enumerated (`3^12` candidates).
 const MAX_DIMENSION: usize = 12;

@@ -28,6 +28,7 @@ mod tests;
 
 pub use curve::{search_curve, search_curve_naive};
 pub use plane::{search_plane_cubic, search_plane_cubic_naive, PlanePoint, PLANE_MAX_HEIGHT};
+pub(crate) use plane::MONOMIALS;
 pub use quartic::{search_quartic, search_quartic_naive};
 pub(crate) use quartic::search_quartic_above;
 

@@ -54,7 +54,7 @@ pub const PLANE_MAX_HEIGHT: u64 = 1 << 24;
 
 /// The monomials of a ternary cubic in the order of its ten coefficients:
 /// `x^3, x^2 y, x^2 z, x y^2, x y z, x z^2, y^3, y^2 z, y z^2, z^3`.
-const MONOMIALS: [[usize; 3]; 10] = [
+pub(crate) const MONOMIALS: [[usize; 3]; 10] = [
     [3, 0, 0],
     [2, 1, 0],
     [2, 0, 1],
