@@ -1094,25 +1094,15 @@ pub(crate) fn soluble_at(f: &[Integer; 10], p: u64) -> Option<bool> {
         [[z(0), pz.clone(), z(0)], [z(0), z(0), pz.clone()], [z(1), z(0), z(0)]],
     ];
     let mut budget: u64 = 40_000_000;
-    let mut undecided = false;
-    for m in &charts {
+    any_branch(charts.iter().map(|m| {
         let g = substitute(f, m);
         // g(1, a, b) as a polynomial in (a, b): coefficients by the exponents of the last two
         let mut poly = [[Integer::ZERO, Integer::ZERO, Integer::ZERO, Integer::ZERO], Default::default(), Default::default(), Default::default()];
         for (k, e) in MONOMIALS.iter().enumerate() {
             poly[e[1]][e[2]] += g[k].clone();
         }
-        match zero_mod_tree(poly, p, 0, &mut budget) {
-            Some(true) => return Some(true),
-            Some(false) => {}
-            None => undecided = true,
-        }
-    }
-    if undecided {
-        None
-    } else {
-        Some(false)
-    }
+        zero_mod_tree(poly, p, 0, &mut budget)
+    }))
 }
 
 /// `g[i][j]` multiplies `a^i b^j` (`i + j <= 3`): does `g` have a zero in
@@ -1182,8 +1172,7 @@ fn zero_mod_tree(g: [[Integer; 4]; 4], p: u64, depth: u32, budget: &mut u64) -> 
             }
         }
     }
-    let mut undecided = false;
-    for (a, b) in singular {
+    any_branch(singular.into_iter().map(|(a, b)| {
         // h(a', b') = g(a + p a', b + p b')
         let mut h: [[Integer; 4]; 4] = Default::default();
         for i in 0..4 {
@@ -1200,7 +1189,16 @@ fn zero_mod_tree(g: [[Integer; 4]; 4], p: u64, depth: u32, budget: &mut u64) -> 
                 }
             }
         }
-        match zero_mod_tree(h, p, depth + 1, budget) {
+        zero_mod_tree(h, p, depth + 1, budget)
+    }))
+}
+
+/// `Some(true)` at the first branch that has a point (the rest are not
+/// run), else `None` if a branch was left undecided, else `Some(false)`.
+fn any_branch(branches: impl Iterator<Item = Option<bool>>) -> Option<bool> {
+    let mut undecided = false;
+    for b in branches {
+        match b {
             Some(true) => return Some(true),
             Some(false) => {}
             None => undecided = true,
